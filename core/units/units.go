@@ -1,0 +1,611 @@
+// Package units parses physical quantities with unit suffixes and converts them
+// to pairwell's default units, and provides CODATA 2018 physical constants.
+//
+// The default units are: energy eV, length Å, inverse length 1/Å, force
+// constant eV/Å², dispersion coefficient (C6) eV·Å⁶, mass u (dalton), time fs
+// and temperature K. Wavenumbers are in cm⁻¹.
+//
+// A unit is a product or quotient of unit names, for example "eV/Å^2",
+// "kcal/mol/A2", "hartree·bohr⁶", "eVA6", "cm-1" or "1/nm". Factors are combined
+// left to right, and "/" divides by the single factor that follows it, so
+// "kcal/mol/Å²" is kcal·mol⁻¹·Å⁻² and "kcal/mol·Å⁶" is kcal·mol⁻¹·Å⁶.
+// Multiplication is written "·", "⋅", "*", "." or by juxtaposition (with or
+// without a space). Exponents are a single digit, optionally signed, written
+// "^2", "^-1", "2", "-1" or as superscripts "²", "⁻¹". Unit names are case
+// sensitive ("meV" is not "MeV"). "mol" stands for N_A particles, so molar
+// energies such as kcal/mol are converted to energies per particle.
+//
+// Two spectroscopic equivalences are applied when an energy is requested:
+// a temperature T is read as the energy k_B·T, and a wavenumber ν̃ (any
+// inverse length, e.g. cm⁻¹) as the photon energy h·c·ν̃.
+package units
+
+import (
+	"errors"
+	"fmt"
+	"math"
+	"sort"
+	"strconv"
+	"strings"
+	"unicode/utf8"
+)
+
+// Dimension is the physical dimension of a quantity.
+type Dimension int
+
+// Dimensions known to Parse. The comment gives the default unit.
+const (
+	Dimensionless Dimension = iota // no unit
+	Energy                         // eV
+	Length                         // Å
+	InverseLength                  // 1/Å
+	ForceConstant                  // eV/Å²
+	Dispersion                     // eV·Å⁶ (C6-type coefficient)
+	Mass                           // u
+	Time                           // fs
+	Temperature                    // K
+
+	numDimensions
+)
+
+var dimensionNames = [numDimensions]string{
+	Dimensionless: "dimensionless",
+	Energy:        "energy",
+	Length:        "length",
+	InverseLength: "inverse length",
+	ForceConstant: "force constant",
+	Dispersion:    "dispersion coefficient",
+	Mass:          "mass",
+	Time:          "time",
+	Temperature:   "temperature",
+}
+
+var defaultUnits = [numDimensions]string{
+	Dimensionless: "",
+	Energy:        "eV",
+	Length:        "Å",
+	InverseLength: "1/Å",
+	ForceConstant: "eV/Å²",
+	Dispersion:    "eV·Å⁶",
+	Mass:          "u",
+	Time:          "fs",
+	Temperature:   "K",
+}
+
+func (d Dimension) valid() bool { return d >= 0 && d < numDimensions }
+
+// String returns the lower-case name of d, e.g. "energy" or "inverse length".
+func (d Dimension) String() string {
+	if !d.valid() {
+		return "Dimension(" + strconv.Itoa(int(d)) + ")"
+	}
+	return dimensionNames[d]
+}
+
+// DefaultUnit returns the unit in which Parse returns values of dimension d:
+// "eV", "Å", "1/Å", "eV/Å²", "eV·Å⁶", "u", "fs", "K", or "" for Dimensionless
+// and for an invalid dimension.
+func (d Dimension) DefaultUnit() string {
+	if !d.valid() {
+		return ""
+	}
+	return defaultUnits[d]
+}
+
+// Sentinel errors returned (wrapped) by Parse and Factor. Use errors.Is to
+// test for them.
+var (
+	// ErrMalformedNumber reports an empty or syntactically invalid number.
+	ErrMalformedNumber = errors.New("malformed number")
+	// ErrNotFinite reports a NaN or infinite value, including values that
+	// overflow float64 when read or when converted.
+	ErrNotFinite = errors.New("value is not finite")
+	// ErrUnknownUnit reports a unit that cannot be read.
+	ErrUnknownUnit = errors.New("unknown unit")
+	// ErrWrongDimension reports a valid unit of a different dimension than the
+	// one requested.
+	ErrWrongDimension = errors.New("wrong dimension")
+	// ErrInvalidDimension reports a Dimension value outside the defined constants.
+	ErrInvalidDimension = errors.New("invalid dimension")
+)
+
+// ParseError records a failed Parse or Factor call. Err wraps one of the
+// sentinel errors of this package.
+type ParseError struct {
+	Input string    // the string that was parsed
+	Dim   Dimension // the requested dimension
+	Err   error     // the reason; wraps a sentinel error
+}
+
+func (e *ParseError) Error() string {
+	return fmt.Sprintf("units: cannot read %q as %s: %v", e.Input, e.Dim, e.Err)
+}
+
+func (e *ParseError) Unwrap() error { return e.Err }
+
+// Parse reads a number with an optional unit suffix, such as "4.4", "4.4eV",
+// "120K", "3.4 A", "0.34nm", "1.2e-3 hartree" or "500N/m", and returns its value
+// in the default unit of d (see Dimension.DefaultUnit). A bare number is taken
+// to be in the default unit. Leading and trailing white space is ignored, as is
+// white space between the number and the unit.
+//
+// The number is a decimal floating-point literal with an optional sign and
+// exponent ("1.5", "-2", ".5", "3e-4"). Values of dimension Dimensionless
+// take no unit. For Energy, a temperature unit (K) gives k_B·T and an inverse
+// length (e.g. cm⁻¹) gives h·c·ν̃.
+//
+// The returned error is a *ParseError wrapping ErrMalformedNumber,
+// ErrNotFinite, ErrUnknownUnit, ErrWrongDimension or ErrInvalidDimension.
+func Parse(s string, d Dimension) (float64, error) {
+	fail := func(err error) (float64, error) {
+		return 0, &ParseError{Input: s, Dim: d, Err: err}
+	}
+	if !d.valid() {
+		return fail(ErrInvalidDimension)
+	}
+	num, unit, err := splitNumber(strings.TrimSpace(s))
+	if err != nil {
+		return fail(err)
+	}
+	v, err := strconv.ParseFloat(num, 64)
+	if err != nil {
+		// splitNumber guarantees the syntax, so this is a range error.
+		if math.IsInf(v, 0) {
+			return fail(fmt.Errorf("%w: %q overflows float64", ErrNotFinite, num))
+		}
+		return fail(fmt.Errorf("%w: %q: %v", ErrMalformedNumber, num, err))
+	}
+	if unit == "" {
+		return v, nil
+	}
+	f, err := factor(unit, d)
+	if err != nil {
+		return fail(err)
+	}
+	r := v * f
+	if math.IsNaN(r) || math.IsInf(r, 0) {
+		return fail(fmt.Errorf("%w: %s %s is out of range in %s", ErrNotFinite, num, unit, d.DefaultUnit()))
+	}
+	return r, nil
+}
+
+// Factor returns the value of one unit, given by its spelling such as "kcal/mol"
+// or "N/m", in the default unit of d. An empty unit has factor 1.
+// Errors are as for Parse.
+func Factor(unit string, d Dimension) (float64, error) {
+	if !d.valid() {
+		return 0, &ParseError{Input: unit, Dim: d, Err: ErrInvalidDimension}
+	}
+	u := strings.TrimSpace(unit)
+	if u == "" {
+		return 1, nil
+	}
+	f, err := factor(u, d)
+	if err != nil {
+		return 0, &ParseError{Input: unit, Dim: d, Err: err}
+	}
+	return f, nil
+}
+
+// Units returns the canonical unit spellings accepted for d, for help text and
+// error messages. Products, quotients and the other spellings described in the
+// package documentation are accepted as well. The returned slice is a fresh copy.
+func Units(d Dimension) []string {
+	if !d.valid() {
+		return nil
+	}
+	return append([]string(nil), unitLists[d]...)
+}
+
+// Format formats v, a value in the default unit of d, as the shortest decimal
+// representation followed by the unit, e.g. "4.4 eV". The result is accepted by
+// Parse.
+func Format(v float64, d Dimension) string {
+	s := strconv.FormatFloat(v, 'g', -1, 64)
+	if u := d.DefaultUnit(); u != "" {
+		return s + " " + u
+	}
+	return s
+}
+
+// unitLists holds the spellings returned by Units. Read only.
+var unitLists = [numDimensions][]string{
+	Dimensionless: {},
+	Energy: {"eV", "meV", "keV", "MeV", "hartree", "Eh", "Ha", "Ry",
+		"kcal/mol", "kJ/mol", "J/mol", "cm-1", "cm^-1", "cm⁻¹", "1/cm", "K"},
+	Length: {"Å", "A", "angstrom", "nm", "pm", "bohr", "a0"},
+	InverseLength: {"1/Å", "1/A", "1/angstrom", "Å-1", "Å^-1", "Å⁻¹", "A-1", "A^-1",
+		"1/nm", "nm-1", "1/pm", "1/bohr", "bohr-1", "1/cm", "cm-1"},
+	ForceConstant: {"eV/Å²", "eV/Å^2", "eV/A^2", "eV/A2", "N/m", "kcal/mol/Å²",
+		"kcal/mol/A^2", "kJ/mol/Å²", "kJ/mol/A^2", "mdyn/Å", "mdyn/A",
+		"hartree/bohr²", "hartree/bohr^2", "Eh/a0^2"},
+	Dispersion: {"eV·Å⁶", "eV·Å^6", "eV*A^6", "eV.A^6", "eVA6", "kcal/mol·Å⁶",
+		"kcal/mol*A^6", "kJ/mol·Å⁶", "kJ/mol*A^6", "hartree·bohr⁶",
+		"hartree*bohr^6", "Eh*a0^6"},
+	Mass:        {"u", "Da", "amu", "g/mol", "kg", "me"},
+	Time:        {"fs", "as", "ps", "ns", "s"},
+	Temperature: {"K"},
+}
+
+// splitNumber splits s into a leading decimal number and the unit that follows,
+// with surrounding white space removed from the unit.
+func splitNumber(s string) (num, unit string, err error) {
+	if s == "" {
+		return "", "", fmt.Errorf("%w: empty input", ErrMalformedNumber)
+	}
+	// Accept a typographic minus sign.
+	if rest, ok := strings.CutPrefix(s, "−"); ok {
+		s = "-" + rest
+	}
+	i := 0
+	if s[i] == '+' || s[i] == '-' {
+		i++
+	}
+	digits := 0
+	for i < len(s) && isDigit(s[i]) {
+		i++
+		digits++
+	}
+	if i < len(s) && s[i] == '.' {
+		i++
+		for i < len(s) && isDigit(s[i]) {
+			i++
+			digits++
+		}
+	}
+	if digits == 0 {
+		lower := strings.ToLower(strings.TrimLeft(s, "+-"))
+		if strings.HasPrefix(lower, "nan") || strings.HasPrefix(lower, "inf") {
+			return "", "", fmt.Errorf("%w: NaN and Inf are not allowed", ErrNotFinite)
+		}
+		return "", "", fmt.Errorf("%w: want a decimal number such as 1.5, -2 or 3e-4, optionally followed by a unit", ErrMalformedNumber)
+	}
+	if i < len(s) && (s[i] == 'e' || s[i] == 'E') {
+		j := i + 1
+		if j < len(s) && (s[j] == '+' || s[j] == '-') {
+			j++
+		}
+		k := j
+		for k < len(s) && isDigit(s[k]) {
+			k++
+		}
+		if k > j {
+			i = k
+		}
+	}
+	num = s[:i]
+	unit = strings.TrimSpace(s[i:])
+	if unit != "" {
+		c := unit[0]
+		badStart := c == '.' || c == ',' || c == '+' || c == '-' || (isDigit(c) && !strings.HasPrefix(unit, "1/"))
+		if badStart {
+			return "", "", fmt.Errorf("%w: unexpected %q after %q", ErrMalformedNumber, unit, num)
+		}
+	}
+	return num, unit, nil
+}
+
+func isDigit(c byte) bool { return '0' <= c && c <= '9' }
+
+// dims is a vector of exponents of the base dimensions.
+type dims [numBase]int
+
+const (
+	baseEnergy = iota
+	baseLength
+	baseMass
+	baseTime
+	baseTemperature
+	numBase
+)
+
+var baseNames = [numBase]string{"energy", "length", "mass", "time", "temperature"}
+
+// dimensionDims gives the base-dimension exponents of each Dimension.
+var dimensionDims = [numDimensions]dims{
+	Dimensionless: {},
+	Energy:        {baseEnergy: 1},
+	Length:        {baseLength: 1},
+	InverseLength: {baseLength: -1},
+	ForceConstant: {baseEnergy: 1, baseLength: -2},
+	Dispersion:    {baseEnergy: 1, baseLength: 6},
+	Mass:          {baseMass: 1},
+	Time:          {baseTime: 1},
+	Temperature:   {baseTemperature: 1},
+}
+
+// describe names the dimension of v, using a Dimension name where one matches.
+func (v dims) describe() string {
+	for d, dd := range dimensionDims {
+		if dd == v {
+			return Dimension(d).String()
+		}
+	}
+	var parts []string
+	for i, n := range v {
+		switch n {
+		case 0:
+		case 1:
+			parts = append(parts, baseNames[i])
+		default:
+			parts = append(parts, baseNames[i]+"^"+strconv.Itoa(n))
+		}
+	}
+	return strings.Join(parts, "·")
+}
+
+// atom is a named unit: its value in default units and its dimension.
+type atom struct {
+	factor float64
+	dim    dims
+}
+
+var (
+	energy1      = dims{baseEnergy: 1}
+	length1      = dims{baseLength: 1}
+	mass1        = dims{baseMass: 1}
+	time1        = dims{baseTime: 1}
+	temperature1 = dims{baseTemperature: 1}
+	force1       = dims{baseEnergy: 1, baseLength: -1}
+)
+
+// atoms maps each unit name to its definition. Read only.
+var atoms = map[string]atom{
+	// Energy, in eV.
+	"eV":       {1, energy1},
+	"meV":      {1e-3, energy1},
+	"keV":      {1e3, energy1},
+	"MeV":      {1e6, energy1},
+	"hartree":  {HartreeEV, energy1},
+	"Hartree":  {HartreeEV, energy1},
+	"Eh":       {HartreeEV, energy1},
+	"E_h":      {HartreeEV, energy1},
+	"Ha":       {HartreeEV, energy1},
+	"Ry":       {RydbergEV, energy1},
+	"J":        {1 / ElectronVolt, energy1},
+	"kJ":       {1e3 / ElectronVolt, energy1},
+	"cal":      {4.184 / ElectronVolt, energy1},
+	"kcal":     {4184 / ElectronVolt, energy1},
+	"Kcal":     {4184 / ElectronVolt, energy1}, // common spelling of kcal
+	"mol":      {Avogadro, dims{}},             // a count of N_A particles
+	"K":        {1, temperature1},
+	"\u00c5":   {1, length1}, // Å, LATIN CAPITAL LETTER A WITH RING ABOVE
+	"\u212b":   {1, length1}, // Å, ANGSTROM SIGN
+	"A\u030a":  {1, length1}, // A + COMBINING RING ABOVE
+	"A":        {1, length1},
+	"angstrom": {1, length1},
+	"Angstrom": {1, length1},
+	"nm":       {10, length1},
+	"pm":       {1e-2, length1},
+	"cm":       {1e8, length1},
+	"m":        {1e10, length1},
+	"bohr":     {BohrAngstrom, length1},
+	"Bohr":     {BohrAngstrom, length1},
+	"a0":       {BohrAngstrom, length1},
+	"a₀":       {BohrAngstrom, length1},
+	"N":        {1 / ElectronVolt / 1e10, force1}, // 1 J/m in eV/Å
+	"dyn":      {1e-5 / ElectronVolt / 1e10, force1},
+	"mdyn":     {1e-8 / ElectronVolt / 1e10, force1},
+	"u":        {1, mass1},
+	"Da":       {1, mass1},
+	"amu":      {1, mass1},
+	"g/mol":    {1, mass1}, // molar mass, numerically equal to the mass in u
+	"kg":       {1 / Dalton, mass1},
+	"g":        {1e-3 / Dalton, mass1},
+	"me":       {ElectronMassU, mass1},
+	"fs":       {1, time1},
+	"as":       {1e-3, time1},
+	"ps":       {1e3, time1},
+	"ns":       {1e6, time1},
+	"us":       {1e9, time1},
+	"\u00b5s":  {1e9, time1}, // µs, MICRO SIGN
+	"\u03bcs":  {1e9, time1}, // μs, GREEK SMALL LETTER MU
+	"ms":       {1e12, time1},
+	"s":        {1e15, time1},
+}
+
+// atomNames lists the keys of atoms, longest first, for longest-match scanning.
+var atomNames = func() []string {
+	names := make([]string, 0, len(atoms))
+	for n := range atoms {
+		names = append(names, n)
+	}
+	sort.Slice(names, func(i, j int) bool {
+		if len(names[i]) != len(names[j]) {
+			return len(names[i]) > len(names[j])
+		}
+		return names[i] < names[j]
+	})
+	return names
+}()
+
+// factor returns the value of one unit u (non-empty, trimmed) in the default
+// unit of d, which must be valid.
+func factor(u string, d Dimension) (float64, error) {
+	f, v, err := parseUnit(u)
+	if err != nil {
+		return 0, fmt.Errorf("%w %q: %v; %s", ErrUnknownUnit, u, err, allowed(d))
+	}
+	want := dimensionDims[d]
+	switch {
+	case d == Dimensionless && v == want:
+		return 0, fmt.Errorf("%w %q: dimensionless values take no unit", ErrUnknownUnit, u)
+	case v == want:
+		// Exact match.
+	case d == Energy && v == dimensionDims[Temperature]:
+		f *= BoltzmannEV // E = k_B·T
+	case d == Energy && v == dimensionDims[InverseLength]:
+		f *= hcEVAngstrom // E = h·c·ν̃
+	default:
+		return 0, fmt.Errorf("%w: unit %q has dimension %s, want %s; %s", ErrWrongDimension, u, v.describe(), d, allowed(d))
+	}
+	if f == 0 || math.IsNaN(f) || math.IsInf(f, 0) {
+		return 0, fmt.Errorf("%w: unit %q is out of range", ErrNotFinite, u)
+	}
+	return f, nil
+}
+
+// allowed describes the units accepted for d.
+func allowed(d Dimension) string {
+	if d == Dimensionless {
+		return "dimensionless values take no unit"
+	}
+	return d.String() + " units: " + strings.Join(unitLists[d], ", ")
+}
+
+// parseUnit evaluates a unit expression: a sequence of unit names, each with an
+// optional exponent, joined by "/", a multiplication sign or juxtaposition.
+// A leading "1" is allowed before "/".
+func parseUnit(u string) (f float64, v dims, err error) {
+	f = 1
+	pos := 0
+	div := false       // the next factor divides
+	expectAtom := true // an operator was just read, or at start
+	first := true      // nothing read yet
+	for {
+		for pos < len(u) && (u[pos] == ' ' || u[pos] == '\t') {
+			pos++
+		}
+		if pos == len(u) {
+			if expectAtom {
+				return 0, dims{}, errors.New("expression ends with an operator")
+			}
+			return f, v, nil
+		}
+		rest := u[pos:]
+		if !expectAtom {
+			if op, n := operator(rest); n > 0 {
+				pos += n
+				div = op == '/'
+				expectAtom = true
+				continue
+			}
+			// Juxtaposition multiplies.
+			expectAtom = true
+		}
+		if first && strings.HasPrefix(rest, "1") {
+			after := strings.TrimLeft(rest[1:], " \t")
+			if strings.HasPrefix(after, "/") {
+				pos++
+				first, expectAtom = false, false
+				continue
+			}
+		}
+		name := ""
+		for _, n := range atomNames {
+			if strings.HasPrefix(rest, n) {
+				name = n
+				break
+			}
+		}
+		if name == "" {
+			r, _ := utf8.DecodeRuneInString(rest)
+			if op, n := operator(rest); n > 0 {
+				return 0, dims{}, fmt.Errorf("unexpected %q", string(op))
+			}
+			return 0, dims{}, fmt.Errorf("no unit named %q", leadingWord(rest, r))
+		}
+		pos += len(name)
+		exp, n, err := exponent(u[pos:])
+		if err != nil {
+			return 0, dims{}, fmt.Errorf("after %q: %v", name, err)
+		}
+		pos += n
+		if div {
+			exp = -exp
+		}
+		a := atoms[name]
+		f *= math.Pow(a.factor, float64(exp))
+		for i := range v {
+			v[i] += exp * a.dim[i]
+		}
+		div, first, expectAtom = false, false, false
+	}
+}
+
+// leadingWord returns the run of letters at the start of s (at least its first
+// rune r) for error messages.
+func leadingWord(s string, r rune) string {
+	end := 0
+	for i, c := range s {
+		if !(c >= 'a' && c <= 'z' || c >= 'A' && c <= 'Z' || c == '_') {
+			if i == 0 {
+				return string(r)
+			}
+			break
+		}
+		end = i + utf8.RuneLen(c)
+	}
+	if end == 0 {
+		return string(r)
+	}
+	return s[:end]
+}
+
+// operator reports whether s starts with "/" or a multiplication sign, and
+// returns it ('/' or '*') with its length in bytes.
+func operator(s string) (op rune, n int) {
+	switch {
+	case strings.HasPrefix(s, "/"):
+		return '/', 1
+	case strings.HasPrefix(s, "*"), strings.HasPrefix(s, "."):
+		return '*', 1
+	case strings.HasPrefix(s, "·"), strings.HasPrefix(s, "⋅"), strings.HasPrefix(s, "×"):
+		_, n := utf8.DecodeRuneInString(s)
+		return '*', n
+	}
+	return 0, 0
+}
+
+var superscripts = map[rune]int{
+	'⁰': 0, '¹': 1, '²': 2, '³': 3, '⁴': 4, '⁵': 5, '⁶': 6, '⁷': 7, '⁸': 8, '⁹': 9,
+}
+
+// exponent reads an optional exponent at the start of s: "^n", "^-n", "n",
+// "-n", or superscripts such as "²" and "⁻¹". n is a single non-zero digit.
+// It returns the exponent (1 if absent) and the number of bytes read.
+func exponent(s string) (exp, n int, err error) {
+	pos := 0
+	caret := strings.HasPrefix(s, "^")
+	if caret {
+		pos++
+	}
+	sign := 1
+	signed := false
+	if r, size := utf8.DecodeRuneInString(s[pos:]); size > 0 {
+		switch r {
+		case '-', '−', '⁻':
+			sign, signed = -1, true
+			pos += size
+		case '+', '⁺':
+			signed = true
+			pos += size
+		}
+	}
+	digits := 0
+	val := 0
+	for pos < len(s) {
+		r, size := utf8.DecodeRuneInString(s[pos:])
+		d, ok := superscripts[r]
+		if r >= '0' && r <= '9' {
+			d, ok = int(r-'0'), true
+		}
+		if !ok {
+			break
+		}
+		val = d
+		digits++
+		pos += size
+	}
+	switch {
+	case digits == 0 && (caret || signed):
+		return 0, 0, errors.New("exponent without digits")
+	case digits == 0:
+		return 1, 0, nil
+	case digits > 1:
+		return 0, 0, errors.New("exponent must be a single digit")
+	case val == 0:
+		return 0, 0, errors.New("exponent must not be zero")
+	}
+	return sign * val, pos, nil
+}
