@@ -1,0 +1,178 @@
+package core
+
+import (
+	"fmt"
+	"math"
+
+	"github.com/pairwell/pairwell/core/units"
+)
+
+// Constraint restricts the values a parameter may take.
+type Constraint int
+
+const (
+	// Finite admits every finite value.
+	Finite Constraint = iota
+	// Positive admits finite values > 0.
+	Positive
+	// NonNegative admits finite values ≥ 0.
+	NonNegative
+)
+
+// String returns the constraint as text, e.g. "> 0".
+func (c Constraint) String() string {
+	switch c {
+	case Positive:
+		return "> 0"
+	case NonNegative:
+		return "≥ 0"
+	default:
+		return "finite"
+	}
+}
+
+// Check returns an error wrapping ErrParam unless v satisfies c.
+func (c Constraint) Check(name string, v float64) error {
+	ok := !math.IsNaN(v) && !math.IsInf(v, 0)
+	switch c {
+	case Positive:
+		ok = ok && v > 0
+	case NonNegative:
+		ok = ok && v >= 0
+	}
+	if !ok {
+		return fmt.Errorf("%w: %s = %g, must be %s", ErrParam, name, v, c)
+	}
+	return nil
+}
+
+// Param describes one parameter of a form.
+type Param struct {
+	// Name as written in a spec, e.g. "De".
+	Name string
+	// Dimension of the value; its default unit is the one the model
+	// expects, see units.Dimension.DefaultUnit.
+	Dimension units.Dimension
+	// Constraint on the value in the default unit.
+	Constraint Constraint
+	// Meaning is a one-line description.
+	Meaning string
+}
+
+// ModelInfo is the metadata of a form.
+type ModelInfo struct {
+	// Key is the canonical name used in specs, e.g. "morse".
+	Key string
+	// Aliases are other names accepted in specs, e.g. "lj".
+	Aliases []string
+	// Name is the form's usual name, e.g. "Lennard-Jones 12-6".
+	Name string
+	// Formula is V(r) as text, with the parameter names.
+	Formula string
+	// Params lists the parameters in the order Model.New expects them.
+	Params []Param
+	// Domain describes, in words, where the form is usable.
+	Domain string
+	// Reference is the literature reference of the form.
+	Reference string
+	// Notes holds conventions a user must know (e.g. the ½ in ½k(r−r0)²).
+	Notes string
+	// MaxOrder is the highest analytic derivative order.
+	MaxOrder int
+	// Origin is "built-in" for forms compiled into pairwell, or the path
+	// of the plugin executable that serves the form.
+	Origin string
+	// Version is the plugin's own version; empty for built-ins.
+	Version string
+}
+
+// Model is a functional form: metadata plus a constructor of potentials.
+// Implementations must be safe for concurrent use.
+type Model interface {
+	Info() ModelInfo
+	// New builds the potential for a parameter set given in the default
+	// units of Info().Params, in that order. Invalid sets (wrong count,
+	// a constraint broken, a set with no usable well where the form
+	// requires one) give an error wrapping ErrParam or ErrNoMinimum.
+	New(params []float64) (Potential, error)
+}
+
+// CheckParams checks the count and the constraints of a parameter set
+// against info. It is a helper for implementations of Model.New.
+func CheckParams(info ModelInfo, params []float64) error {
+	if len(params) != len(info.Params) {
+		return fmt.Errorf("%s: %w: got %d values, want %d", info.Key, ErrParam, len(params), len(info.Params))
+	}
+	for i, p := range info.Params {
+		if err := p.Constraint.Check(p.Name, params[i]); err != nil {
+			return fmt.Errorf("%s: %w", info.Key, err)
+		}
+	}
+	return nil
+}
+
+// Guesser is implemented by potentials that know where their minimum lies,
+// typically from a closed form. Well analysis uses the guess to start its
+// bracket and still verifies it.
+type Guesser interface {
+	// EquilibriumGuess returns an estimate of the minimum position in Å.
+	EquilibriumGuess() float64
+}
+
+// Quantity names what an Identity constrains.
+type Quantity int
+
+const (
+	// EquilibriumR is the position of the minimum, in Å.
+	EquilibriumR Quantity = iota
+	// MinimumEnergy is V at the minimum, in eV.
+	MinimumEnergy
+	// DerivativeAtMinimum is V⁽ⁿ⁾(re) in eV/Åⁿ, n given by Identity.Order.
+	DerivativeAtMinimum
+	// ValueAt is V(r) at r = Identity.R, in eV.
+	ValueAt
+)
+
+// Identity is a published closed-form value that a potential satisfies,
+// used by conformance checks.
+type Identity struct {
+	Name     string   // e.g. "r_min = 2^(1/6) σ"
+	Quantity Quantity // what is constrained
+	Order    int      // derivative order for DerivativeAtMinimum
+	R        float64  // separation for ValueAt, Å
+	Value    float64  // expected value in eV, Å units
+	Source   string   // literature reference of the identity
+}
+
+// Identifier is implemented by potentials that declare reference
+// identities.
+type Identifier interface {
+	Identities() []Identity
+}
+
+// Target is a well to match: the quantities a user wants several forms to
+// share so that their shapes can be compared. A zero field is unspecified.
+type Target struct {
+	Re    float64 // equilibrium distance, Å
+	Depth float64 // well depth V(∞) − V(re), eV
+	K     float64 // force constant V″(re), eV/Å²
+}
+
+// Matcher is implemented by models that can derive a parameter set from a
+// target well.
+type Matcher interface {
+	// Match returns parameters, in the order and default units of
+	// Info().Params, whose well has the target's specified quantities as
+	// far as the form allows. Notes say which quantities the form could
+	// not honour and why. A target the form cannot reach at all is an
+	// error wrapping ErrParam.
+	Match(t Target) (params []float64, notes []string, err error)
+}
+
+// Turnover is implemented by potentials whose domain ends at an inner
+// barrier (Domain.Barrier is true), such as Buckingham's spurious maximum.
+type Turnover interface {
+	// Barrier returns the position of the inner maximum in Å and V there
+	// in eV.
+	Barrier() (r, v float64)
+}

@@ -1,0 +1,73 @@
+package core
+
+import (
+	"fmt"
+	"sort"
+	"strings"
+)
+
+// Registry is a set of models addressable by key or alias. The zero value
+// is an empty registry ready to use. A Registry is not safe for concurrent
+// mutation; lookups may run concurrently once it is filled.
+type Registry struct {
+	models []Model
+	byName map[string]Model
+}
+
+// NewRegistry returns a registry holding the given models.
+func NewRegistry(models ...Model) (*Registry, error) {
+	r := &Registry{}
+	for _, m := range models {
+		if err := r.Add(m); err != nil {
+			return nil, err
+		}
+	}
+	return r, nil
+}
+
+// Add adds a model. Keys and aliases are case-insensitive and must be
+// unique across the registry.
+func (r *Registry) Add(m Model) error {
+	info := m.Info()
+	names := append([]string{info.Key}, info.Aliases...)
+	if r.byName == nil {
+		r.byName = make(map[string]Model)
+	}
+	for _, n := range names {
+		k := strings.ToLower(n)
+		if k == "" {
+			return fmt.Errorf("model %q: empty key or alias", info.Key)
+		}
+		if prev, ok := r.byName[k]; ok {
+			return fmt.Errorf("model %q (%s): name %q already used by %q (%s)", info.Key, info.Origin, n, prev.Info().Key, prev.Info().Origin)
+		}
+	}
+	for _, n := range names {
+		r.byName[strings.ToLower(n)] = m
+	}
+	r.models = append(r.models, m)
+	return nil
+}
+
+// Lookup returns the model with the given key or alias.
+func (r *Registry) Lookup(name string) (Model, error) {
+	if m, ok := r.byName[strings.ToLower(strings.TrimSpace(name))]; ok {
+		return m, nil
+	}
+	return nil, fmt.Errorf("unknown model %q; known: %s", name, strings.Join(r.Keys(), ", "))
+}
+
+// Models returns the models in the order they were added.
+func (r *Registry) Models() []Model {
+	return append([]Model(nil), r.models...)
+}
+
+// Keys returns the sorted canonical keys.
+func (r *Registry) Keys() []string {
+	keys := make([]string, len(r.models))
+	for i, m := range r.models {
+		keys[i] = m.Info().Key
+	}
+	sort.Strings(keys)
+	return keys
+}

@@ -1,0 +1,152 @@
+// Package report assembles pairwell's results into the structures the
+// command line prints. Field names and JSON keys are a contract for scripts:
+// values are always in eV, Å, u, fs and cm⁻¹, whatever the input units.
+package report
+
+import (
+	"bytes"
+	"encoding/json"
+	"fmt"
+	"math"
+
+	"github.com/pairwell/pairwell/core"
+)
+
+// Number is a float64 that encodes NaN and ±Inf as JSON null.
+type Number float64
+
+// MarshalJSON implements json.Marshaler.
+func (n Number) MarshalJSON() ([]byte, error) {
+	f := float64(n)
+	if math.IsNaN(f) || math.IsInf(f, 0) {
+		return []byte("null"), nil
+	}
+	return json.Marshal(f)
+}
+
+// Params is a parameter set in the model's order and default units; it
+// encodes as a JSON object keeping that order.
+type Params struct {
+	Names  []string
+	Units  []string
+	Values []float64
+}
+
+// NewParams returns the parameters of an instance.
+func NewParams(inst core.Instance) Params {
+	info := inst.Model.Info()
+	p := Params{Values: append([]float64(nil), inst.Params...)}
+	for _, q := range info.Params {
+		p.Names = append(p.Names, q.Name)
+		p.Units = append(p.Units, q.Dimension.DefaultUnit())
+	}
+	return p
+}
+
+// MarshalJSON implements json.Marshaler.
+func (p Params) MarshalJSON() ([]byte, error) {
+	var b bytes.Buffer
+	b.WriteByte('{')
+	for i, n := range p.Names {
+		if i > 0 {
+			b.WriteByte(',')
+		}
+		k, _ := json.Marshal(n)
+		v, err := json.Marshal(Number(p.Values[i]))
+		if err != nil {
+			return nil, err
+		}
+		b.Write(k)
+		b.WriteByte(':')
+		b.Write(v)
+	}
+	b.WriteByte('}')
+	return b.Bytes(), nil
+}
+
+// String formats the parameters as NAME=VALUE UNIT, ...
+func (p Params) String() string {
+	var b bytes.Buffer
+	for i, n := range p.Names {
+		if i > 0 {
+			b.WriteString(", ")
+		}
+		fmt.Fprintf(&b, "%s=%.10g %s", n, p.Values[i], p.Units[i])
+	}
+	return b.String()
+}
+
+// Barrier is an inner maximum bounding the usable domain.
+type Barrier struct {
+	R      float64 `json:"r_angstrom"`
+	Energy float64 `json:"energy_ev"`
+}
+
+// Inspect is the description of one parametrised form: its well, Taylor
+// coefficients and, given a reduced mass, its harmonic vibration.
+type Inspect struct {
+	Name             string    `json:"name,omitempty"`
+	Model            string    `json:"model"`
+	Origin           string    `json:"origin"`
+	Params           Params    `json:"params"`
+	Re               float64   `json:"equilibrium_r_angstrom"`
+	Energy           float64   `json:"equilibrium_energy_ev"`
+	Depth            Number    `json:"well_depth_ev"`
+	K                float64   `json:"force_constant_ev_per_angstrom2"`
+	Taylor           []float64 `json:"taylor_coefficients"`
+	Inflection       Number    `json:"inflection_r_angstrom"`
+	MaxForce         Number    `json:"max_restoring_force_ev_per_angstrom"`
+	Barrier          *Barrier  `json:"barrier,omitempty"`
+	Pair             string    `json:"pair,omitempty"`
+	Mu               *float64  `json:"reduced_mass_u,omitempty"`
+	Wavenumber       *float64  `json:"harmonic_wavenumber_per_cm,omitempty"`
+	FrequencyTHz     *float64  `json:"harmonic_frequency_thz,omitempty"`
+	HarmonicPeriodFs *float64  `json:"harmonic_period_fs,omitempty"`
+	AngularFrequency *float64  `json:"harmonic_angular_frequency_rad_per_fs,omitempty"`
+}
+
+// Mass is an optional reduced mass and the pair it came from.
+type Mass struct {
+	Pair string  // e.g. "1H-35Cl"; empty when given directly
+	Mu   float64 // u; 0 means no mass
+}
+
+// NewInspect analyses inst. order is the highest Taylor coefficient (0
+// means 4); a zero m.Mu leaves out the harmonic vibration.
+func NewInspect(name string, inst core.Instance, order int, m Mass) (Inspect, error) {
+	info := inst.Model.Info()
+	w, err := core.AnalyzeWell(inst.Potential, core.WellSettings{Order: order})
+	if err != nil {
+		return Inspect{}, fmt.Errorf("%s: %w", info.Key, err)
+	}
+	r := Inspect{
+		Name:       name,
+		Model:      info.Key,
+		Origin:     info.Origin,
+		Params:     NewParams(inst),
+		Re:         w.Re,
+		Energy:     w.Energy,
+		Depth:      Number(w.Depth),
+		K:          w.K,
+		Taylor:     w.Taylor,
+		Inflection: Number(w.Inflection),
+		MaxForce:   Number(w.MaxForce),
+	}
+	if t, ok := inst.Potential.(core.Turnover); ok && inst.Potential.Domain().Barrier {
+		br, bv := t.Barrier()
+		r.Barrier = &Barrier{R: br, Energy: bv}
+	}
+	if m.Mu != 0 {
+		h, err := core.NewHarmonic(w.K, m.Mu)
+		if err != nil {
+			return Inspect{}, fmt.Errorf("%s: %w", info.Key, err)
+		}
+		r.Pair = m.Pair
+		r.Mu = &h.Mu
+		r.Wavenumber = &h.Wavenumber
+		r.FrequencyTHz = &h.FrequencyTHz
+		r.HarmonicPeriodFs = &h.PeriodFs
+		r.AngularFrequency = &h.Omega
+	}
+	return r, nil
+}
