@@ -158,6 +158,10 @@ func Parse(s string, d Dimension) (float64, error) {
 	if unit == "" {
 		return v, nil
 	}
+	if strings.HasPrefix(unit, "/") {
+		// "1.9/Å" reads as 1.9 per Å.
+		unit = "1" + unit
+	}
 	f, err := factor(unit, d)
 	if err != nil {
 		return fail(err)

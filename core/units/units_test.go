@@ -260,7 +260,9 @@ func TestParseNumbers(t *testing.T) {
 		{"120K", Energy, 120 * refBoltzmannEV},
 		{"500N/m", ForceConstant, 500 * refNPerMEV},
 		{"2 1/Å", InverseLength, 2},
-		{"1e-400", Energy, 0}, // underflows to zero
+		{"1.9/Å", InverseLength, 1.9},            // "VALUE/UNIT" reads as VALUE per UNIT
+		{"3 /bohr", InverseLength, 3 / refBohrA}, // CODATA 2018
+		{"1e-400", Energy, 0},                    // underflows to zero
 		{"7", Dimensionless, 7},
 		{"2 kcal / mol / Å^2", ForceConstant, 2 * refKcalMolEV},
 	}
@@ -300,7 +302,7 @@ func TestParseErrors(t *testing.T) {
 		{"3 ev", Energy, ErrUnknownUnit, nil}, // case sensitive
 		{"3 eV/", ForceConstant, ErrUnknownUnit, []string{"operator"}},
 		{"3 eV//Å", ForceConstant, ErrUnknownUnit, nil},
-		{"3 /Å", InverseLength, ErrUnknownUnit, []string{"unexpected"}},
+		{"3 //Å", InverseLength, ErrUnknownUnit, []string{"unexpected"}},
 		{"3 Å^", Length, ErrUnknownUnit, []string{"exponent"}},
 		{"3 Å^12", Length, ErrUnknownUnit, []string{"single digit"}},
 		{"3 Å^0", Length, ErrUnknownUnit, []string{"zero"}},
