@@ -1,0 +1,36 @@
+// Command pairwell finds and characterises the well of interatomic pair
+// potentials: equilibrium distance, depth, Taylor coefficients, force
+// constant and harmonic frequency, anharmonic motion, and the range over
+// which the harmonic picture holds. Run "pairwell --help" for the commands.
+//
+// Exit codes: 0 success, 1 a computation or plugin failed, 2 bad input.
+package main
+
+import (
+	"fmt"
+	"io"
+	"os"
+	"strings"
+)
+
+func main() {
+	os.Exit(run(os.Args[1:], os.Stdin, os.Stdout, os.Stderr))
+}
+
+// run executes the command line args and returns the exit code.
+func run(args []string, stdin io.Reader, stdout, stderr io.Writer) int {
+	env := newEnv(stdout, stderr)
+	defer env.close()
+	root := newRootCmd(env)
+	root.SetArgs(args)
+	root.SetIn(stdin)
+	root.SetOut(stdout)
+	root.SetErr(stderr)
+	err := root.Execute()
+	if err == nil {
+		return 0
+	}
+	msg := strings.Join(strings.Fields(strings.ReplaceAll(err.Error(), "\n", " ")), " ")
+	fmt.Fprintf(stderr, "pairwell: %s\n", msg)
+	return exitCode(err)
+}

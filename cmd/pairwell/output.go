@@ -1,0 +1,155 @@
+package main
+
+import (
+	"encoding/csv"
+	"encoding/json"
+	"fmt"
+	"io"
+	"math"
+	"strings"
+	"text/tabwriter"
+)
+
+// column is a column of a table: a title and the unit of its values.
+type column struct {
+	Title, Unit string
+}
+
+func (c column) header() string {
+	if c.Unit == "" {
+		return c.Title
+	}
+	return c.Title + " [" + c.Unit + "]"
+}
+
+// table is tabular output: the same data renders as an aligned table or
+// as CSV.
+type table struct {
+	cols []column
+	rows [][]string
+}
+
+func (t *table) add(cells ...string) { t.rows = append(t.rows, cells) }
+
+// writeTable writes t aligned, with units in the headers.
+func writeTable(w io.Writer, t *table) error {
+	tw := tabwriter.NewWriter(w, 0, 0, 2, ' ', 0)
+	heads := make([]string, len(t.cols))
+	for i, c := range t.cols {
+		heads[i] = c.header()
+	}
+	fmt.Fprintln(tw, strings.Join(heads, "\t"))
+	for _, r := range t.rows {
+		fmt.Fprintln(tw, strings.Join(r, "\t"))
+	}
+	return tw.Flush()
+}
+
+// writeCSV writes t as CSV with units in the header cells; ∞ becomes Inf
+// and a missing value (—) an empty cell.
+func writeCSV(w io.Writer, t *table) error {
+	cw := csv.NewWriter(w)
+	heads := make([]string, len(t.cols))
+	for i, c := range t.cols {
+		heads[i] = c.header()
+	}
+	if err := cw.Write(heads); err != nil {
+		return err
+	}
+	for _, r := range t.rows {
+		cells := make([]string, len(r))
+		for i, c := range r {
+			switch c {
+			case "∞":
+				c = "Inf"
+			case "-∞":
+				c = "-Inf"
+			case "—":
+				c = ""
+			}
+			cells[i] = c
+		}
+		if err := cw.Write(cells); err != nil {
+			return err
+		}
+	}
+	cw.Flush()
+	return cw.Error()
+}
+
+// writeJSON writes v indented, with a trailing newline.
+func writeJSON(w io.Writer, v any) error {
+	enc := json.NewEncoder(w)
+	enc.SetIndent("", "  ")
+	return enc.Encode(v)
+}
+
+// emit writes v in the chosen format: JSON marshals v itself; table and CSV
+// render t.
+func (e *env) emit(v any, t *table) error {
+	var err error
+	switch e.format {
+	case "json":
+		err = writeJSON(e.stdout, v)
+	case "csv":
+		err = writeCSV(e.stdout, t)
+	default:
+		err = writeTable(e.stdout, t)
+	}
+	if err != nil {
+		return failErr(fmt.Errorf("writing output: %w", err))
+	}
+	return nil
+}
+
+// num formats a value for tables: 10 significant digits, "—" for NaN,
+// "∞" for +Inf.
+func num(v float64) string {
+	switch {
+	case math.IsNaN(v):
+		return "—"
+	case math.IsInf(v, 1):
+		return "∞"
+	case math.IsInf(v, -1):
+		return "-∞"
+	}
+	return fmt.Sprintf("%.10g", v)
+}
+
+// superscript writes n with Unicode superscript digits.
+func superscript(n int) string {
+	const digits = "⁰¹²³⁴⁵⁶⁷⁸⁹"
+	sup := []rune(digits)
+	s := fmt.Sprint(n)
+	out := make([]rune, 0, len(s))
+	for _, c := range s {
+		if c == '-' {
+			out = append(out, '⁻')
+			continue
+		}
+		out = append(out, sup[c-'0'])
+	}
+	return string(out)
+}
+
+// energyPerLength returns the unit eV/Åⁿ of an n-th derivative.
+func energyPerLength(n int) string {
+	switch n {
+	case 0:
+		return "eV"
+	case 1:
+		return "eV/Å"
+	}
+	return "eV/Å" + superscript(n)
+}
+
+// subscript writes n with Unicode subscript digits.
+func subscript(n int) string {
+	sub := []rune("₀₁₂₃₄₅₆₇₈₉")
+	s := fmt.Sprint(n)
+	out := make([]rune, 0, len(s))
+	for _, c := range s {
+		out = append(out, sub[c-'0'])
+	}
+	return string(out)
+}

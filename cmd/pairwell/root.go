@@ -1,0 +1,70 @@
+package main
+
+import (
+	"fmt"
+	"io"
+
+	"github.com/spf13/cobra"
+
+	"github.com/pairwell/pairwell/core"
+	"github.com/pairwell/pairwell/models"
+)
+
+// env is the state one invocation of pairwell shares between its commands.
+type env struct {
+	stdout, stderr io.Writer
+	format         string
+	registry       *core.Registry
+	closers        []func()
+}
+
+func newEnv(stdout, stderr io.Writer) *env {
+	return &env{stdout: stdout, stderr: stderr, registry: models.NewRegistry()}
+}
+
+// close releases what the invocation started (plugin processes).
+func (e *env) close() {
+	for i := len(e.closers) - 1; i >= 0; i-- {
+		e.closers[i]()
+	}
+	e.closers = nil
+}
+
+func newRootCmd(e *env) *cobra.Command {
+	root := &cobra.Command{
+		Use:   "pairwell",
+		Short: "Find, characterise and compare the wells of interatomic pair potentials",
+		Long: `pairwell finds the well of a pair potential V(r) — equilibrium distance, depth,
+Taylor coefficients c_n = V⁽ⁿ⁾(re)/n!, force constant and, for a given atom pair,
+the harmonic frequency — and says how far the harmonic picture holds.
+
+A potential is named by a spec KEY:NAME=VALUE[UNIT],...  for example
+  morse:De=4.4,a=1.9,re=1.27        lj:epsilon=120K,sigma=3.4
+A bare number is in the parameter's default unit ("pairwell models" lists them).
+
+Units: energy eV, length Å, mass u, time fs, wavenumber cm⁻¹ (CODATA 2018).
+Exit codes: 0 success, 1 a computation or plugin failed, 2 bad input.
+
+pairwell evaluates classical model potentials. A model is not a validated force
+field: do not base production or safety decisions on its numbers alone.`,
+		SilenceUsage:  true,
+		SilenceErrors: true,
+		PersistentPreRunE: func(cmd *cobra.Command, args []string) error {
+			switch e.format {
+			case "table", "json", "csv":
+				return nil
+			}
+			return usageErr(fmt.Errorf("--format %q: allowed: table, json, csv", e.format))
+		},
+	}
+	root.PersistentFlags().StringVar(&e.format, "format", "table", "output format: table, json or csv")
+	root.SetFlagErrorFunc(func(cmd *cobra.Command, err error) error {
+		return usageErr(fmt.Errorf("%s: %w (see %s --help)", cmd.Name(), err, cmd.CommandPath()))
+	})
+	root.AddCommand(
+		newModelsCmd(e),
+		newInspectCmd(e),
+		newDemoCmd(e),
+	)
+	return root
+}
