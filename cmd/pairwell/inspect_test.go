@@ -1,17 +1,17 @@
 package main
 
 import (
-	"fmt"
-
 	"bytes"
 	"encoding/json"
-	"github.com/pairwell/pairwell/core/atoms"
-	"github.com/pairwell/pairwell/models"
+	"fmt"
 	"strings"
 	"testing"
 
 	"github.com/stretchr/testify/assert"
 	"github.com/stretchr/testify/require"
+
+	"github.com/pairwell/pairwell/core/atoms"
+	"github.com/pairwell/pairwell/models"
 )
 
 // runCLI runs pairwell in-process and returns exit code, stdout and stderr.
