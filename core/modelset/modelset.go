@@ -1,0 +1,245 @@
+// Package modelset reads model-set files: TOML documents naming several
+// parametrised forms, each optionally with an atom pair, for comparisons,
+// conformance checks and regression baselines.
+//
+// The format, version 1:
+//
+//	# Optional title, shown in reports.
+//	title = "HCl candidates (invented example)"
+//
+//	# Optional defaults for every entry.
+//	[defaults]
+//	pair = "1H-35Cl"     # or: mu = "0.9796 u"
+//
+//	[[entry]]
+//	name  = "morse-fit"  # unique; letters, digits, - _ . only
+//	model = "morse"      # key or alias, built-in or plugin
+//	[entry.params]       # NAME = VALUE: a number in the default unit,
+//	De = "4.6 eV"        # or a string with a unit suffix
+//	a  = 1.87
+//	re = "127 pm"
+//
+//	[[entry]]
+//	name = "lj-guess"
+//	spec = "lj:epsilon=0.5,sigma=1.1"   # a spec string instead of model+params
+//	mu   = 0.98                          # overrides the default mass
+//
+// Unknown keys are errors, so that a typo cannot silently drop a value.
+package modelset
+
+import (
+	"errors"
+	"fmt"
+	"os"
+	"regexp"
+	"sort"
+	"strconv"
+	"strings"
+
+	"github.com/BurntSushi/toml"
+
+	"github.com/pairwell/pairwell/core"
+	"github.com/pairwell/pairwell/core/atoms"
+	"github.com/pairwell/pairwell/core/units"
+)
+
+// ErrFormat means a model-set file is malformed.
+var ErrFormat = errors.New("invalid model set")
+
+// Set is a parsed model-set file.
+type Set struct {
+	Title   string
+	Entries []Entry
+}
+
+// Entry is one named, parametrised form.
+type Entry struct {
+	Name string
+	Spec core.Spec
+	// Pair and Mu give the reduced mass as written (at most one is
+	// non-empty after defaults are applied).
+	Pair, Mu string
+}
+
+// Built is an entry whose potential has been built.
+type Built struct {
+	Name     string
+	Instance core.Instance
+	Pair     string  // normalised pair, e.g. "1H-35Cl"; empty when none
+	Mu       float64 // reduced mass in u; 0 when the entry has none
+}
+
+type fileEntry struct {
+	Name   string         `toml:"name"`
+	Model  string         `toml:"model"`
+	Spec   string         `toml:"spec"`
+	Params map[string]any `toml:"params"`
+	Pair   string         `toml:"pair"`
+	Mu     any            `toml:"mu"`
+}
+
+type file struct {
+	Title    string `toml:"title"`
+	Defaults struct {
+		Pair string `toml:"pair"`
+		Mu   any    `toml:"mu"`
+	} `toml:"defaults"`
+	Entry []fileEntry `toml:"entry"`
+}
+
+var validName = regexp.MustCompile(`^[A-Za-z0-9][A-Za-z0-9._-]*$`)
+
+// Load reads and parses the model-set file at path.
+func Load(path string) (*Set, error) {
+	data, err := os.ReadFile(path)
+	if err != nil {
+		return nil, fmt.Errorf("model set: %w", err)
+	}
+	return Parse(data, path)
+}
+
+// Parse parses a model-set document; source names it in errors.
+func Parse(data []byte, source string) (*Set, error) {
+	var f file
+	md, err := toml.Decode(string(data), &f)
+	if err != nil {
+		return nil, fmt.Errorf("%w %s: %s", ErrFormat, source, oneLine(err.Error()))
+	}
+	if und := md.Undecoded(); len(und) > 0 {
+		var keys []string
+		for _, k := range und {
+			if len(k) >= 3 && k[0] == "entry" && k[1] == "params" {
+				continue // parameter names are checked against the model later
+			}
+			keys = append(keys, k.String())
+		}
+		if len(keys) > 0 {
+			return nil, fmt.Errorf("%w %s: unknown key %s (allowed: title, defaults.pair, defaults.mu, entry.name, entry.model, entry.params, entry.spec, entry.pair, entry.mu)", ErrFormat, source, strings.Join(keys, ", "))
+		}
+	}
+	if len(f.Entry) == 0 {
+		return nil, fmt.Errorf("%w %s: no [[entry]] tables", ErrFormat, source)
+	}
+	defMu, err := massText(f.Defaults.Mu)
+	if err != nil {
+		return nil, fmt.Errorf("%w %s: defaults.mu: %v", ErrFormat, source, err)
+	}
+	if f.Defaults.Pair != "" && defMu != "" {
+		return nil, fmt.Errorf("%w %s: defaults: give pair or mu, not both", ErrFormat, source)
+	}
+	s := &Set{Title: f.Title}
+	seen := map[string]bool{}
+	for i, fe := range f.Entry {
+		where := fmt.Sprintf("%s: entry %d", source, i+1)
+		if fe.Name != "" {
+			where = fmt.Sprintf("%s: entry %q", source, fe.Name)
+		}
+		if !validName.MatchString(fe.Name) {
+			return nil, fmt.Errorf("%w %s: name %q must be non-empty letters, digits, '.', '_' or '-'", ErrFormat, where, fe.Name)
+		}
+		if seen[fe.Name] {
+			return nil, fmt.Errorf("%w %s: name used twice", ErrFormat, where)
+		}
+		seen[fe.Name] = true
+		e := Entry{Name: fe.Name}
+		switch {
+		case fe.Spec != "" && (fe.Model != "" || fe.Params != nil):
+			return nil, fmt.Errorf("%w %s: give spec, or model with params, not both", ErrFormat, where)
+		case fe.Spec != "":
+			if e.Spec, err = core.ParseSpec(fe.Spec); err != nil {
+				return nil, fmt.Errorf("%w %s: %v", ErrFormat, where, err)
+			}
+		case fe.Model != "":
+			e.Spec = core.Spec{Model: fe.Model}
+			names := make([]string, 0, len(fe.Params))
+			for n := range fe.Params {
+				names = append(names, n)
+			}
+			sort.Strings(names)
+			for _, n := range names {
+				v, err := valueText(fe.Params[n])
+				if err != nil {
+					return nil, fmt.Errorf("%w %s: params.%s: %v", ErrFormat, where, n, err)
+				}
+				e.Spec.Params = append(e.Spec.Params, core.Assignment{Name: n, Value: v})
+			}
+		default:
+			return nil, fmt.Errorf("%w %s: needs model (with params) or spec", ErrFormat, where)
+		}
+		mu, err := massText(fe.Mu)
+		if err != nil {
+			return nil, fmt.Errorf("%w %s: mu: %v", ErrFormat, where, err)
+		}
+		if fe.Pair != "" && mu != "" {
+			return nil, fmt.Errorf("%w %s: give pair or mu, not both", ErrFormat, where)
+		}
+		e.Pair, e.Mu = fe.Pair, mu
+		if e.Pair == "" && e.Mu == "" {
+			e.Pair, e.Mu = f.Defaults.Pair, defMu
+		}
+		s.Entries = append(s.Entries, e)
+	}
+	return s, nil
+}
+
+// Build builds every entry's potential with the models of reg and resolves
+// its reduced mass. Errors name the entry.
+func (s *Set) Build(reg *core.Registry) ([]Built, error) {
+	out := make([]Built, 0, len(s.Entries))
+	for _, e := range s.Entries {
+		m, err := reg.Lookup(e.Spec.Model)
+		if err != nil {
+			return nil, fmt.Errorf("entry %q: %w: %v", e.Name, core.ErrSpec, err)
+		}
+		inst, err := core.BuildSpec(m, e.Spec)
+		if err != nil {
+			return nil, fmt.Errorf("entry %q: %w", e.Name, err)
+		}
+		b := Built{Name: e.Name, Instance: inst}
+		switch {
+		case e.Pair != "":
+			p, err := atoms.ParsePair(e.Pair)
+			if err != nil {
+				return nil, fmt.Errorf("entry %q: pair: %w", e.Name, err)
+			}
+			b.Pair, b.Mu = p.String(), p.Mu
+		case e.Mu != "":
+			mu, err := units.Parse(e.Mu, units.Mass)
+			if err != nil {
+				return nil, fmt.Errorf("entry %q: mu: %w", e.Name, err)
+			}
+			if err := core.Positive.Check("mu", mu); err != nil {
+				return nil, fmt.Errorf("entry %q: %w", e.Name, err)
+			}
+			b.Mu = mu
+		}
+		out = append(out, b)
+	}
+	return out, nil
+}
+
+// valueText turns a TOML parameter value into spec text.
+func valueText(v any) (string, error) {
+	switch x := v.(type) {
+	case int64:
+		return strconv.FormatInt(x, 10), nil
+	case float64:
+		return strconv.FormatFloat(x, 'g', -1, 64), nil
+	case string:
+		if strings.ContainsAny(x, ",=") {
+			return "", fmt.Errorf("%q: a value may not contain ',' or '='", x)
+		}
+		return x, nil
+	}
+	return "", fmt.Errorf("%v: want a number or a string such as \"4.6 eV\"", v)
+}
+
+// massText turns an optional TOML mass into text for units.Parse.
+func massText(v any) (string, error) {
+	if v == nil {
+		return "", nil
+	}
+	return valueText(v)
+}
+
+func oneLine(s string) string { return strings.Join(strings.Fields(s), " ") }
