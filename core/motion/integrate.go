@@ -27,6 +27,7 @@ type integrator struct {
 
 	s      Settings
 	t0     float64 // harmonic period, fs
+	maxE   float64 // energy above V(re) at which the motion is unbound, eV
 	scaleX float64 // s_x of the DP error norm, Å
 	scaleV float64 // s_v of the DP error norm, Å/fs
 }
@@ -42,6 +43,7 @@ func newIntegrator(o *Oscillator, s Settings, amplitude float64) *integrator {
 		t0:     o.harmonic.PeriodFs,
 		scaleX: amplitude,
 		scaleV: o.harmonic.Omega * amplitude,
+		maxE:   o.maxEnergy,
 	}
 }
 
@@ -226,7 +228,7 @@ func (in *integrator) run(st Start) (Result, error) {
 	)
 	for len(tps) < need {
 		if t > s.MaxTime {
-			return Result{}, fmt.Errorf("motion: %w: %d of %d outer turning points found within %g fs (%g harmonic periods); the period is too long or the motion unbound",
+			return Result{}, fmt.Errorf("motion: %w: %d of %d outer turning points found within %.6g fs (%.6g harmonic periods); the period is too long for the time limit",
 				core.ErrNoConvergence, len(tps), need, s.MaxTime, s.MaxTime/in.t0)
 		}
 		next, errNorm, err := in.step(cur, h)
@@ -288,8 +290,13 @@ func (in *integrator) run(st Start) (Result, error) {
 		}
 		cur = next
 		last = next
-		if d := math.Abs(in.energy(next) - e0); d > maxDrift {
+		en := in.energy(next)
+		if d := math.Abs(en - e0); d > maxDrift {
 			maxDrift = d
+		}
+		if en >= in.maxE {
+			return Result{}, fmt.Errorf("motion: %w: at t = %.6g fs the %s energy has drifted from %.6g eV to %.6g eV, beyond the bound-motion limit %.6g eV: the step (%.6g fs, %.4g per harmonic period) is too large",
+				core.ErrNoConvergence, t, s.Method, e0, en, in.maxE, hUsed, in.t0/hUsed)
 		}
 		if s.Record > 0 && res.Steps%s.Record == 0 {
 			record(t, next)

@@ -303,11 +303,20 @@ func New(p core.Potential, mu float64) (*Oscillator, error) {
 	if p == nil {
 		return nil, fmt.Errorf("motion: %w: nil potential", core.ErrParam)
 	}
-	if err := core.Positive.Check("reduced mass", mu); err != nil {
-		return nil, fmt.Errorf("motion: %w", err)
-	}
 	w, err := core.AnalyzeWell(p, core.WellSettings{Order: 2})
 	if err != nil {
+		return nil, fmt.Errorf("motion: %w", err)
+	}
+	return NewFromWell(p, w, mu)
+}
+
+// NewFromWell is New with the well of p already analysed (by
+// core.AnalyzeWell, any order ≥ 2), for callers that need it anyway.
+func NewFromWell(p core.Potential, w core.Well, mu float64) (*Oscillator, error) {
+	if p == nil {
+		return nil, fmt.Errorf("motion: %w: nil potential", core.ErrParam)
+	}
+	if err := core.Positive.Check("reduced mass", mu); err != nil {
 		return nil, fmt.Errorf("motion: %w", err)
 	}
 	h, err := core.NewHarmonic(w.K, mu)
@@ -321,9 +330,9 @@ func New(p core.Potential, mu float64) (*Oscillator, error) {
 			rb, vb = t.Barrier()
 		} else {
 			rb = math.Nextafter(d.Min, math.Inf(1))
-			vb, err = core.Value(p, rb)
-			if err != nil {
-				vb = math.Inf(1) // unknown: the domain check still applies
+			vb = math.Inf(1) // unknown: the domain check still applies
+			if v, err := core.Value(p, rb); err == nil {
+				vb = v
 			}
 		}
 		if eb := vb - w.Energy; eb < o.maxEnergy {
@@ -333,7 +342,7 @@ func New(p core.Potential, mu float64) (*Oscillator, error) {
 	return o, nil
 }
 
-// Well returns the analysed well (Taylor coefficients up to order 2).
+// Well returns the analysed well.
 func (o *Oscillator) Well() core.Well { return o.well }
 
 // Harmonic returns the harmonic vibration ω0 = √(k/μ).
@@ -354,11 +363,11 @@ func (o *Oscillator) checkEnergy(e float64, what string) error {
 		return nil
 	}
 	if o.barrier {
-		return fmt.Errorf("%s gives an oscillation energy of %g eV, at or above the inner barrier (%g eV above V(re) at r = %g Å): the pair crosses it and collapses, there is no oscillation: %w",
-			what, e, o.maxEnergy, o.rBarrier, core.ErrDomain)
+		return fmt.Errorf("%w: %s gives an oscillation energy of %.6g eV, at or above the inner barrier (%.6g eV above V(re), at r = %.6g Å): the pair crosses it and collapses, there is no oscillation",
+			core.ErrDomain, what, e, o.maxEnergy, o.rBarrier)
 	}
-	return fmt.Errorf("%s gives an oscillation energy of %g eV, at or above the well depth %g eV: the pair dissociates, there is no oscillation: %w",
-		what, e, o.maxEnergy, core.ErrDomain)
+	return fmt.Errorf("%w: %s gives an oscillation energy of %.6g eV, at or above the well depth %.6g eV: the pair dissociates, there is no oscillation",
+		core.ErrDomain, what, e, o.maxEnergy)
 }
 
 // FromDisplacement returns the start at rest at r0 = re + x0 (Å; positive
@@ -496,7 +505,8 @@ func (s Settings) withDefaults(t0 float64) (Settings, error) {
 // Errors wrap core.ErrParam (bad settings or start), core.ErrDomain (the
 // trajectory leaves the domain, which a fixed step too large for the well
 // can cause) or core.ErrNoConvergence (no turning points within
-// Settings.MaxTime, or the adaptive step underflows).
+// Settings.MaxTime, the numerical energy drifting up to the depth or the
+// barrier, or the adaptive step underflowing).
 func (o *Oscillator) Run(st Start, s Settings) (Result, error) {
 	t0 := o.harmonic.PeriodFs
 	s, err := s.withDefaults(t0)
