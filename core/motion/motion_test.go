@@ -464,9 +464,14 @@ func TestErrors(t *testing.T) {
 			_, err := o.Run(st, motion.Settings{MaxTime: 5})
 			return err
 		}, core.ErrNoConvergence, "turning points"},
-		{"step too large for the barrier", func() error {
+		{"energy driven over the barrier", func() error {
 			st, _ := bb.FromEnergy(0.9 * bb.MaxEnergy())
 			_, err := bb.Run(st, motion.Settings{Method: motion.Heun, StepsPerPeriod: 3})
+			return err
+		}, core.ErrNoConvergence, "too large"},
+		{"step over the barrier", func() error {
+			st, _ := bb.FromEnergy(0.9 * bb.MaxEnergy())
+			_, err := bb.Run(st, motion.Settings{Method: motion.Verlet, StepsPerPeriod: 2})
 			return err
 		}, core.ErrDomain, "left the domain"},
 	} {
