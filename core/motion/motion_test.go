@@ -12,6 +12,7 @@ import (
 
 	"github.com/pairwell/pairwell/core"
 	"github.com/pairwell/pairwell/core/motion"
+	"github.com/pairwell/pairwell/core/period"
 	"github.com/pairwell/pairwell/core/units"
 	"github.com/pairwell/pairwell/models"
 )
@@ -260,9 +261,10 @@ func TestVerletBoundedEnergy(t *testing.T) {
 }
 
 // TestDormandPrinceVsQuadrature checks the measured period of the adaptive
-// integrator at tight tolerance against the quadrature reference quadPeriod
-// (Gauss–Legendre after the substitution r = m + h·sin θ) to 1e-8 on the
-// Lennard-Jones and Buckingham wells.
+// integrator at tight tolerance against two quadratures of the exact
+// period, period.Exact and the test's own quadPeriod (gonum Gauss–Legendre
+// after the substitution r = m + h·sin θ), to 1e-8 on the Lennard-Jones and
+// Buckingham wells.
 func TestDormandPrinceVsQuadrature(t *testing.T) {
 	for _, s := range systems(t) {
 		if s.name == "morse" || s.name == "morse-bond" {
@@ -276,8 +278,12 @@ func TestDormandPrinceVsQuadrature(t *testing.T) {
 				require.NoError(t, err)
 				r, err := o.Run(st, motion.Settings{RTol: 1e-12, ATol: 1e-12, Periods: 3})
 				require.NoError(t, err)
+				ex, err := period.Exact(s.p, o.Well(), s.mu, st.Energy, period.Settings{})
+				require.NoError(t, err)
+				assert.InDelta(t, 0, r.Period/ex.Period-1, 1e-8, "measured %.15g fs, period.Exact %.15g fs", r.Period, ex.Period)
 				ref := quadPeriod(t, s.p, s.mu, st.Energy, 600)
-				assert.InDelta(t, 0, r.Period/ref-1, 1e-8, "measured %.15g fs, quadrature %.15g fs", r.Period, ref)
+				assert.InDelta(t, 0, ref/ex.Period-1, 1e-11, "the two quadratures agree")
+				assert.InDelta(t, 0, r.Period/ref-1, 1e-8, "measured %.15g fs, quadPeriod %.15g fs", r.Period, ref)
 			})
 		}
 	}
