@@ -316,8 +316,13 @@ func (in *integrator) run(st Start) (Result, error) {
 		res.PeriodSpread = math.Sqrt(ss / float64(n-1))
 	}
 	res.Duration = t
-	res.TimeStep = t / float64(res.Steps)
-	res.StepsPerPeriod = in.t0 / res.TimeStep
+	if adaptive {
+		res.TimeStep = t / float64(res.Steps)
+		res.StepsPerPeriod = in.t0 / res.TimeStep
+	} else {
+		res.TimeStep = res.MinStep
+		res.StepsPerPeriod = float64(s.StepsPerPeriod)
+	}
 	res.ForceEvals = in.evals
 	res.EnergyDrift = maxDrift / e0
 	res.FinalEnergyError = (in.energy(last) - e0) / e0
