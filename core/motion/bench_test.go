@@ -5,6 +5,7 @@ import (
 	"testing"
 
 	"github.com/pairwell/pairwell/core/motion"
+	"github.com/pairwell/pairwell/core/period"
 )
 
 // heun1e8Steps is the step count per harmonic period at which one Heun
@@ -34,6 +35,28 @@ func BenchmarkHeunPeriod1e8(b *testing.B) {
 		b.Fatalf("relative error %g > 1e-8", rel)
 	}
 	b.ReportMetric(float64(r.ForceEvals), "evals/op")
+}
+
+// BenchmarkExactSameCase is the exact period by quadrature (period.Exact at
+// tolerance 1e-10) for the case of BenchmarkHeunPeriod1e8; the ratio of the
+// two is the cost of measuring a period by trajectory over computing it.
+func BenchmarkExactSameCase(b *testing.B) {
+	o := morse(b)
+	e := 0.1 * morseDe
+	in, err := period.NewIntegrator(period.Settings{Tolerance: 1e-10})
+	if err != nil {
+		b.Fatal(err)
+	}
+	var r period.Result
+	for b.Loop() {
+		r, err = in.Exact(morsePot(b), o.Well(), morseMu, e)
+		if err != nil {
+			b.Fatal(err)
+		}
+	}
+	if rel := math.Abs(r.Period/morsePeriod(e) - 1); rel > 1e-10 {
+		b.Fatalf("relative error %g > 1e-10", rel)
+	}
 }
 
 // BenchmarkDefault runs each method at its defaults (10 periods) on Morse

@@ -33,11 +33,16 @@ type system struct {
 	mu   float64
 }
 
-func morse(t testing.TB) *motion.Oscillator {
+func morsePot(t testing.TB) core.Potential {
 	t.Helper()
 	p, err := models.NewMorse(morseDe, morseA, morseRe)
 	require.NoError(t, err)
-	o, err := motion.New(p, morseMu)
+	return p
+}
+
+func morse(t testing.TB) *motion.Oscillator {
+	t.Helper()
+	o, err := motion.New(morsePot(t), morseMu)
 	require.NoError(t, err)
 	return o
 }
