@@ -1,0 +1,236 @@
+package wire
+
+import (
+	"context"
+	"errors"
+	"fmt"
+	"os"
+	"runtime/debug"
+	"strings"
+	"sync"
+
+	"github.com/pairwell/pairwell/core"
+	pb "github.com/pairwell/pairwell/plugins/proto"
+)
+
+// Server is the plugin side of the protocol: it serves a fixed set of
+// core.Models, keeping the potentials it opened under handles. It is safe
+// for concurrent use, as gRPC requires.
+//
+// A panic in a model's code is recovered and reported as a failure of the
+// call, so one bad parameter set does not take the plugin down.
+type Server struct {
+	pb.UnimplementedFormsServer
+
+	version string
+	infos   []*pb.ModelInfo
+	byKey   map[string]core.Model
+
+	mu   sync.RWMutex
+	next uint64
+	pots map[uint64]core.Potential
+}
+
+// NewServer returns a server for models, after checking that their
+// metadata fits the protocol and that keys and aliases are distinct.
+func NewServer(version string, models []core.Model) (*Server, error) {
+	if len(models) == 0 {
+		return nil, errors.New("no models to serve")
+	}
+	s := &Server{version: version, byKey: make(map[string]core.Model), pots: make(map[uint64]core.Potential)}
+	names := make(map[string]string)
+	for _, m := range models {
+		if m == nil {
+			return nil, errors.New("nil model")
+		}
+		info := m.Info()
+		_, matcher := m.(core.Matcher)
+		pi, err := InfoToProto(info, matcher)
+		if err != nil {
+			return nil, err
+		}
+		for _, n := range append([]string{info.Key}, info.Aliases...) {
+			k := strings.ToLower(n)
+			if k == "" {
+				return nil, fmt.Errorf("model %q: empty alias", info.Key)
+			}
+			if prev, ok := names[k]; ok {
+				return nil, fmt.Errorf("model %q: name %q already used by model %q", info.Key, n, prev)
+			}
+			names[k] = info.Key
+		}
+		s.infos = append(s.infos, pi)
+		s.byKey[info.Key] = m
+	}
+	return s, nil
+}
+
+// recovered turns a panic in model code into a failure. The stack goes to
+// the plugin's standard error, which the host keeps for its messages.
+func recovered(call string, p any) *pb.Failure {
+	fmt.Fprintf(os.Stderr, "panic in %s: %v\n%s", call, p, debug.Stack())
+	return &pb.Failure{Kind: pb.ErrorKind_ERROR_KIND_OTHER, Message: fmt.Sprintf("plugin panicked in %s: %v", call, p)}
+}
+
+// Describe returns the metadata of every model.
+func (s *Server) Describe(context.Context, *pb.DescribeRequest) (*pb.DescribeResponse, error) {
+	return &pb.DescribeResponse{PluginVersion: s.version, Models: s.infos}, nil
+}
+
+func (s *Server) model(key string) (core.Model, *pb.Failure) {
+	m, ok := s.byKey[key]
+	if !ok {
+		return nil, &pb.Failure{Kind: pb.ErrorKind_ERROR_KIND_OTHER, Message: fmt.Sprintf("plugin serves no model %q", key)}
+	}
+	return m, nil
+}
+
+// Open builds the potential of a parameter set and keeps it under a handle.
+func (s *Server) Open(_ context.Context, req *pb.OpenRequest) (resp *pb.OpenResponse, err error) {
+	defer func() {
+		if p := recover(); p != nil {
+			resp = &pb.OpenResponse{Failure: recovered("Open", p)}
+		}
+	}()
+	m, f := s.model(req.GetModel())
+	if f != nil {
+		return &pb.OpenResponse{Failure: f}, nil
+	}
+	pot, err := m.New(req.GetParams())
+	if err != nil {
+		return &pb.OpenResponse{Failure: FailureFromError(err)}, nil
+	}
+	if pot == nil {
+		return &pb.OpenResponse{Failure: &pb.Failure{Message: fmt.Sprintf("%s: New returned no potential and no error", req.GetModel())}}, nil
+	}
+	resp = &pb.OpenResponse{Domain: DomainToProto(pot.Domain())}
+	if g, ok := pot.(core.Guesser); ok {
+		v := g.EquilibriumGuess()
+		resp.EquilibriumGuess = &v
+	}
+	if id, ok := pot.(core.Identifier); ok {
+		for _, x := range id.Identities() {
+			px, err := IdentityToProto(x)
+			if err != nil {
+				return &pb.OpenResponse{Failure: FailureFromError(fmt.Errorf("%s: %w", req.GetModel(), err))}, nil
+			}
+			resp.Identities = append(resp.Identities, px)
+		}
+	}
+	if t, ok := pot.(core.Turnover); ok && pot.Domain().Barrier {
+		r, v := t.Barrier()
+		resp.Barrier = &pb.Barrier{R: r, V: v}
+	}
+	s.mu.Lock()
+	s.next++
+	resp.Handle = s.next
+	s.pots[resp.Handle] = pot
+	s.mu.Unlock()
+	return resp, nil
+}
+
+// Potential returns the potential under handle h.
+func (s *Server) Potential(h uint64) (core.Potential, bool) {
+	s.mu.RLock()
+	p, ok := s.pots[h]
+	s.mu.RUnlock()
+	return p, ok
+}
+
+// Evaluate evaluates the potential under a handle.
+func (s *Server) Evaluate(_ context.Context, req *pb.EvaluateRequest) (resp *pb.EvaluateResponse, err error) {
+	defer func() {
+		if p := recover(); p != nil {
+			resp = &pb.EvaluateResponse{Failure: recovered("Evaluate", p)}
+		}
+	}()
+	pot, ok := s.Potential(req.GetHandle())
+	if !ok {
+		return &pb.EvaluateResponse{Failure: &pb.Failure{Message: fmt.Sprintf("unknown handle %d", req.GetHandle())}}, nil
+	}
+	n := int(req.GetOrder())
+	if n < 0 {
+		return &pb.EvaluateResponse{Failure: FailureFromError(core.CheckOrder(n, pot.MaxOrder()))}, nil
+	}
+	r := req.GetR()
+	if !req.GetAllOrders() {
+		values := make([]float64, len(r))
+		if err := pot.Batch(n, r, values); err != nil {
+			return &pb.EvaluateResponse{PointFailure: pointFailure(err), Failure: nonPointFailure(err)}, nil
+		}
+		return &pb.EvaluateResponse{Values: values}, nil
+	}
+	if n > pot.MaxOrder() {
+		return &pb.EvaluateResponse{Failure: FailureFromError(core.CheckOrder(n, pot.MaxOrder()))}, nil
+	}
+	values := make([]float64, len(r)*(n+1))
+	for i, x := range r {
+		if err := pot.Derivatives(x, values[i*(n+1):(i+1)*(n+1)]); err != nil {
+			return &pb.EvaluateResponse{PointFailure: &pb.PointFailure{Index: int64(i), Failure: FailureFromError(err)}}, nil
+		}
+	}
+	return &pb.EvaluateResponse{Values: values}, nil
+}
+
+// pointFailure returns the point failure of a Batch error, nil if err is
+// not a *core.PointError.
+func pointFailure(err error) *pb.PointFailure {
+	var pe *core.PointError
+	if !errors.As(err, &pe) {
+		return nil
+	}
+	inner := pe.Err
+	if inner == nil {
+		inner = err
+	}
+	return &pb.PointFailure{Index: int64(pe.Index), Failure: FailureFromError(inner)}
+}
+
+// nonPointFailure returns the failure of a Batch error that is not a
+// *core.PointError, nil otherwise.
+func nonPointFailure(err error) *pb.Failure {
+	var pe *core.PointError
+	if errors.As(err, &pe) {
+		return nil
+	}
+	return FailureFromError(err)
+}
+
+// Close forgets a handle.
+func (s *Server) Close(_ context.Context, req *pb.CloseRequest) (*pb.CloseResponse, error) {
+	s.mu.Lock()
+	delete(s.pots, req.GetHandle())
+	s.mu.Unlock()
+	return &pb.CloseResponse{}, nil
+}
+
+// Match derives a parameter set from a target well.
+func (s *Server) Match(_ context.Context, req *pb.MatchRequest) (resp *pb.MatchResponse, err error) {
+	defer func() {
+		if p := recover(); p != nil {
+			resp = &pb.MatchResponse{Failure: recovered("Match", p)}
+		}
+	}()
+	m, f := s.model(req.GetModel())
+	if f != nil {
+		return &pb.MatchResponse{Failure: f}, nil
+	}
+	mm, ok := m.(core.Matcher)
+	if !ok {
+		return &pb.MatchResponse{Failure: &pb.Failure{Message: fmt.Sprintf("%s: the model does not match target wells", req.GetModel())}}, nil
+	}
+	params, notes, err := mm.Match(core.Target{Re: req.GetRe(), Depth: req.GetDepth(), K: req.GetK()})
+	if err != nil {
+		return &pb.MatchResponse{Failure: FailureFromError(err)}, nil
+	}
+	return &pb.MatchResponse{Params: params, Notes: notes}, nil
+}
+
+// Keys returns the keys of the served models, in the order given.
+func (s *Server) Keys() []string {
+	keys := make([]string, len(s.infos))
+	for i, m := range s.infos {
+		keys[i] = m.GetKey()
+	}
+	return keys
+}

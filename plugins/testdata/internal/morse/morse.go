@@ -1,0 +1,175 @@
+// Package morse is a Morse form written independently of the built-in one,
+// with optional deliberate faults, for the plugin tests. Never use it
+// outside tests.
+package morse
+
+import (
+	"fmt"
+	"math"
+	"os"
+	"time"
+
+	"github.com/pairwell/pairwell/core"
+	"github.com/pairwell/pairwell/core/units"
+)
+
+// Fault is a deliberate defect.
+type Fault int
+
+// Faults.
+const (
+	None      Fault = iota
+	Crash           // the process exits with status 3 in an evaluation
+	Hang            // an evaluation never returns
+	NaN             // V⁽ⁿ⁾ is NaN for n ≥ 2
+	BadLength       // (served by testdata/faulty) one value too few
+	Third           // V‴ is 1.1 times the true value
+	ForceSign       // V′ has the wrong sign
+	Panic           // an evaluation panics
+)
+
+const (
+	reference = "P. M. Morse, Phys. Rev. 34, 57 (1929)"
+	maxOrder  = 60
+)
+
+// Model is the Morse form V = De[(1 − e^{−a(r−re)})² − 1] under Key, with
+// Fault.
+type Model struct {
+	Key   string
+	Fault Fault
+}
+
+// Info returns the metadata.
+func (m Model) Info() core.ModelInfo {
+	return core.ModelInfo{
+		Key:     m.Key,
+		Name:    "Morse (test plugin)",
+		Formula: "V = De[(1 − exp(−a(r − re)))² − 1]",
+		Params: []core.Param{
+			{Name: "De", Dimension: units.Energy, Constraint: core.Positive, Meaning: "well depth"},
+			{Name: "a", Dimension: units.InverseLength, Constraint: core.Positive, Meaning: "range parameter"},
+			{Name: "re", Dimension: units.Length, Constraint: core.Positive, Meaning: "equilibrium distance"},
+		},
+		Domain:    "every r > 0",
+		Reference: reference,
+		MaxOrder:  maxOrder,
+	}
+}
+
+// New builds the potential.
+func (m Model) New(params []float64) (core.Potential, error) {
+	if err := core.CheckParams(m.Info(), params); err != nil {
+		return nil, err
+	}
+	return &Potential{key: m.Key, fault: m.Fault, de: params[0], a: params[1], re: params[2]}, nil
+}
+
+// Match gives (Depth, √(K/(2Depth)), Re).
+func (m Model) Match(t core.Target) ([]float64, []string, error) {
+	if !(t.Re > 0 && t.Depth > 0 && t.K > 0) {
+		return nil, nil, fmt.Errorf("%s: %w: needs re, Depth, K > 0", m.Key, core.ErrParam)
+	}
+	return []float64{t.Depth, math.Sqrt(t.K / (2 * t.Depth)), t.Re}, nil, nil
+}
+
+// Potential is the Morse potential with its fault.
+type Potential struct {
+	key       string
+	fault     Fault
+	de, a, re float64
+}
+
+// Fault returns the potential's fault.
+func (p *Potential) Fault() Fault { return p.fault }
+
+// Domain is (0, ∞), limit 0.
+func (p *Potential) Domain() core.Domain { return core.Domain{Max: math.Inf(1)} }
+
+// MaxOrder returns 60.
+func (p *Potential) MaxOrder() int { return maxOrder }
+
+// EquilibriumGuess returns re.
+func (p *Potential) EquilibriumGuess() float64 { return p.re }
+
+// Identities are the true Morse ones, whatever the fault.
+func (p *Potential) Identities() []core.Identity {
+	de, a := p.de, p.a
+	return []core.Identity{
+		{Name: "r_min = re", Quantity: core.EquilibriumR, Value: p.re, Source: reference},
+		{Name: "V(re) = −De", Quantity: core.MinimumEnergy, Value: -de, Source: reference},
+		{Name: "V″(re) = 2De·a²", Quantity: core.DerivativeAtMinimum, Order: 2, Value: 2 * de * a * a, Source: reference},
+		{Name: "V‴(re) = −6De·a³", Quantity: core.DerivativeAtMinimum, Order: 3, Value: -6 * de * a * a * a, Source: reference},
+	}
+}
+
+// value returns V⁽ⁿ⁾(r) = De·y·[(−2a)ⁿ·y − 2(−a)ⁿ], y = e^{−a(r−re)},
+// with (−a)ⁿ from pn and (−2a)ⁿ = 2ⁿ(−a)ⁿ.
+func (p *Potential) value(n int, pn, r float64) (float64, error) {
+	if !(r > 0 && r <= math.MaxFloat64) {
+		return 0, fmt.Errorf("%s: %w", p.key, core.CheckR(p.Domain(), r))
+	}
+	switch p.fault {
+	case Crash:
+		f := os.NewFile(2, "stderr") // the real standard error, not go-plugin's redirect
+		fmt.Fprintln(f, "crash test plugin: exiting in the middle of a call")
+		os.Exit(3)
+	case Hang:
+		time.Sleep(time.Hour)
+	case Panic:
+		panic("panic test plugin")
+	}
+	y := math.Exp(-p.a * (r - p.re))
+	v := float64(p.de*y) * (float64(math.Ldexp(pn, n)*y) - 2*pn)
+	switch {
+	case p.fault == NaN && n >= 2:
+		v = math.NaN()
+	case p.fault == Third && n == 3:
+		v *= 1.1
+	case p.fault == ForceSign && n == 1:
+		v = -v
+	}
+	if v-v != 0 && !math.IsNaN(v) {
+		return 0, fmt.Errorf("%s: r = %g Å: %w: V⁽%d⁾ overflows", p.key, r, core.ErrDomain, n)
+	}
+	return v, nil
+}
+
+// Derivatives stores V⁽ᵏ⁾(r) in dst[k].
+func (p *Potential) Derivatives(r float64, dst []float64) error {
+	if len(dst) > maxOrder+1 {
+		return fmt.Errorf("%s: %w", p.key, core.CheckOrder(len(dst)-1, maxOrder))
+	}
+	pn := 1.0
+	for k := range dst {
+		v, err := p.value(k, pn, r)
+		if err != nil {
+			return err
+		}
+		dst[k] = v
+		pn *= -p.a
+	}
+	return nil
+}
+
+// Batch stores V⁽ⁿ⁾(r[i]) in dst[i].
+func (p *Potential) Batch(n int, r, dst []float64) error {
+	if len(r) != len(dst) {
+		return fmt.Errorf("%s: %w", p.key, core.ErrLength)
+	}
+	if err := core.CheckOrder(n, maxOrder); err != nil {
+		return fmt.Errorf("%s: %w", p.key, err)
+	}
+	pn := 1.0
+	for k := 0; k < n; k++ {
+		pn *= -p.a
+	}
+	for i, x := range r {
+		v, err := p.value(n, pn, x)
+		if err != nil {
+			return &core.PointError{Index: i, R: x, Err: err}
+		}
+		dst[i] = v
+	}
+	return nil
+}
