@@ -114,10 +114,16 @@ type Mass struct {
 // NewInspect analyses inst. order is the highest Taylor coefficient (0
 // means 4); a zero m.Mu leaves out the harmonic vibration.
 func NewInspect(name string, inst core.Instance, order int, m Mass) (Inspect, error) {
+	r, _, err := newInspect(name, inst, order, m)
+	return r, err
+}
+
+// newInspect is NewInspect that also returns the well it analysed.
+func newInspect(name string, inst core.Instance, order int, m Mass) (Inspect, core.Well, error) {
 	info := inst.Model.Info()
 	w, err := core.AnalyzeWell(inst.Potential, core.WellSettings{Order: order})
 	if err != nil {
-		return Inspect{}, fmt.Errorf("%s: %w", info.Key, err)
+		return Inspect{}, core.Well{}, fmt.Errorf("%s: %w", info.Key, err)
 	}
 	r := Inspect{
 		Name:       name,
@@ -139,7 +145,7 @@ func NewInspect(name string, inst core.Instance, order int, m Mass) (Inspect, er
 	if m.Mu != 0 {
 		h, err := core.NewHarmonic(w.K, m.Mu)
 		if err != nil {
-			return Inspect{}, fmt.Errorf("%s: %w", info.Key, err)
+			return Inspect{}, core.Well{}, fmt.Errorf("%s: %w", info.Key, err)
 		}
 		r.Pair = m.Pair
 		r.Mu = &h.Mu
@@ -148,5 +154,5 @@ func NewInspect(name string, inst core.Instance, order int, m Mass) (Inspect, er
 		r.HarmonicPeriodFs = &h.PeriodFs
 		r.AngularFrequency = &h.Omega
 	}
-	return r, nil
+	return r, w, nil
 }

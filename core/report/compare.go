@@ -1,0 +1,197 @@
+package report
+
+import (
+	"encoding/json"
+	"errors"
+	"fmt"
+	"runtime"
+	"sync"
+	"sync/atomic"
+
+	"github.com/pairwell/pairwell/core"
+	"github.com/pairwell/pairwell/core/validity"
+)
+
+// Defaults of CompareSettings.
+const (
+	// DefaultValidityOrder is the truncation order n of the Taylor
+	// potential V_n whose validity is reported: 2, the harmonic picture.
+	DefaultValidityOrder = 2
+	// DefaultValidityTolerance is the relative tolerance of the validity
+	// criteria, 1 %.
+	DefaultValidityTolerance = 0.01
+)
+
+// CompareInput is one form to compare: a named instance with its reduced
+// mass, or the reason it could not be built (a target the form cannot
+// match), which becomes the row's error.
+type CompareInput struct {
+	Name     string
+	Instance core.Instance // unused when Err is set
+	Mass     Mass
+	// Notes are remarks about how the instance was obtained, e.g. which
+	// target quantities a matched form could not honour.
+	Notes []string
+	// Model is the model key, reported when Err is set (an Instance
+	// supplies it otherwise).
+	Model string
+	// Err, when set, is why there is no instance.
+	Err error
+}
+
+// CompareRow is the result of one form. When the form could be analysed it
+// is its Inspect object with a validity object; otherwise Err says why and
+// only the name, model, notes and error are reported. It encodes as one
+// JSON object: the keys of Inspect, then "validity", "notes" and "error".
+type CompareRow struct {
+	Name  string
+	Model string
+	// Inspect is nil when the form could not be built or its well not
+	// analysed.
+	Inspect *Inspect
+	// Validity is nil when it could not be computed; Err then says why.
+	// It encodes as the validity command's JSON object.
+	Validity *validity.Result
+	Notes    []string
+	Err      error
+}
+
+// compareJSON is the encoding of CompareRow. The outer name and model
+// shadow those of the embedded Inspect, which a nil pointer leaves out.
+type compareJSON struct {
+	Name  string `json:"name"`
+	Model string `json:"model"`
+	*Inspect
+	Validity *validity.Result `json:"validity,omitempty"`
+	Notes    []string         `json:"notes,omitempty"`
+	Error    string           `json:"error,omitempty"`
+}
+
+// MarshalJSON implements json.Marshaler.
+func (r CompareRow) MarshalJSON() ([]byte, error) {
+	j := compareJSON{Name: r.Name, Model: r.Model, Inspect: r.Inspect, Validity: r.Validity, Notes: r.Notes}
+	if r.Err != nil {
+		j.Error = r.Err.Error()
+	}
+	return json.Marshal(j)
+}
+
+// CompareSettings controls Compare. The zero value gives the defaults.
+type CompareSettings struct {
+	// TaylorOrder is the highest Taylor coefficient reported (0 means 4,
+	// and at least 4 is used so that the validity analysis has c₃, c₄).
+	TaylorOrder int
+	// Order is the truncation order n of V_n, 2 to 4; 0 means
+	// DefaultValidityOrder.
+	Order int
+	// Tolerance is the relative tolerance of the validity criteria in
+	// (0, 1); 0 means DefaultValidityTolerance. The criteria do not
+	// depend on the reduced mass; a zero Mass.Mu only leaves out the
+	// harmonic vibration.
+	Tolerance float64
+	// Workers is the number of goroutines; 0 means runtime.GOMAXPROCS(0).
+	Workers int
+	// Progress, if not nil, is called after each row is done, from the
+	// worker goroutines: it must be safe for concurrent use.
+	Progress func()
+}
+
+func (s CompareSettings) resolved() (CompareSettings, error) {
+	if s.TaylorOrder < 4 {
+		s.TaylorOrder = 4
+	}
+	if s.Order == 0 {
+		s.Order = DefaultValidityOrder
+	}
+	if s.Tolerance == 0 {
+		s.Tolerance = DefaultValidityTolerance
+	}
+	if s.Workers <= 0 {
+		s.Workers = runtime.GOMAXPROCS(0)
+	}
+	if s.Order < 2 || s.Order > 4 {
+		return s, fmt.Errorf("compare: %w: validity order %d, must be 2, 3 or 4", core.ErrParam, s.Order)
+	}
+	if !(s.Tolerance > 0 && s.Tolerance < 1) {
+		return s, fmt.Errorf("compare: %w: tolerance %g, must be in (0, 1)", core.ErrParam, s.Tolerance)
+	}
+	return s, nil
+}
+
+// Compare analyses every input — its well, Taylor coefficients, harmonic
+// vibration and the validity ranges of its truncated Taylor potential —
+// and returns one row per input, in input order whatever the scheduling.
+// The inputs are shared among s.Workers goroutines; potentials must be safe
+// for concurrent use, as core.Potential requires. A form that fails gets
+// its error in its row; the others are unaffected. The error is non-nil
+// only for invalid settings.
+func Compare(inputs []CompareInput, s CompareSettings) ([]CompareRow, error) {
+	s, err := s.resolved()
+	if err != nil {
+		return nil, err
+	}
+	rows := make([]CompareRow, len(inputs))
+	workers := min(s.Workers, len(inputs))
+	var (
+		next atomic.Int64
+		wg   sync.WaitGroup
+	)
+	for range workers {
+		wg.Add(1)
+		go func() {
+			defer wg.Done()
+			for {
+				i := int(next.Add(1)) - 1
+				if i >= len(inputs) {
+					return
+				}
+				rows[i] = compareOne(inputs[i], s)
+				if s.Progress != nil {
+					s.Progress()
+				}
+			}
+		}()
+	}
+	wg.Wait()
+	return rows, nil
+}
+
+// compareOne analyses one input.
+func compareOne(in CompareInput, s CompareSettings) CompareRow {
+	row := CompareRow{Name: in.Name, Model: in.Model, Notes: in.Notes, Err: in.Err}
+	if in.Err != nil {
+		return row
+	}
+	if in.Instance.Model == nil || in.Instance.Potential == nil {
+		row.Err = errors.New("no potential")
+		return row
+	}
+	row.Model = in.Instance.Model.Info().Key
+	r, w, err := newInspect(in.Name, in.Instance, s.TaylorOrder, in.Mass)
+	if err != nil {
+		row.Err = err
+		return row
+	}
+	row.Inspect = &r
+	v, err := validity.Analyze(in.Instance.Potential, w, s.Order, validity.Settings{Tolerance: s.Tolerance})
+	if err != nil {
+		row.Err = fmt.Errorf("%s: validity: %w", row.Model, err)
+		return row
+	}
+	row.Validity = &v
+	return row
+}
+
+// Failed reports whether every row has an error, and returns the first.
+func Failed(rows []CompareRow) (bool, error) {
+	var first error
+	for _, r := range rows {
+		if r.Err == nil {
+			return false, nil
+		}
+		if first == nil {
+			first = fmt.Errorf("%s: %w", r.Name, r.Err)
+		}
+	}
+	return first != nil, first
+}
