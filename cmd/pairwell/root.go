@@ -65,6 +65,7 @@ field: do not base production or safety decisions on its numbers alone.`,
 		newModelsCmd(e),
 		newInspectCmd(e),
 		newDemoCmd(e),
+		newCompareCmd(e),
 		newMotionCmd(e),
 	)
 	return root

@@ -1,0 +1,385 @@
+package main
+
+import (
+	"fmt"
+	"io"
+	"math"
+	"strings"
+
+	"github.com/spf13/cobra"
+
+	"github.com/pairwell/pairwell/core"
+	"github.com/pairwell/pairwell/core/modelset"
+	"github.com/pairwell/pairwell/core/report"
+	"github.com/pairwell/pairwell/core/units"
+)
+
+// progressThreshold is the number of rows from which compare draws a
+// progress bar (on a terminal only); smaller comparisons finish at once.
+const progressThreshold = 16
+
+func newCompareCmd(e *env) *cobra.Command {
+	var (
+		mass      massFlags
+		setPath   string
+		match     string
+		order     int
+		tolerance float64
+	)
+	cmd := &cobra.Command{
+		Use:   "compare [SPEC...] [--set FILE.toml] [--match re=R,De=D,k=K] (--pair A-B | --mu M)",
+		Short: "Compare forms side by side: well, frequency and the range of the harmonic picture",
+		Long: `compare analyses several parametrised forms and lays them side by side, one row
+per form: re, depth, force constant k, the Taylor coefficients c3 and c4, the
+harmonic wavenumber and period, and how far the truncated Taylor potential V_n
+(--order, default 2: the harmonic picture) holds, by two criteria at relative
+tolerance --tolerance (default 0.01):
+  potential: the largest compression and stretch s from re such that
+             |V_n − V| ≤ tol·|V − V(re)| for every displacement up to s;
+  period:    the largest oscillation energy E such that |T_n(E)/T(E) − 1| ≤ tol
+             for every energy up to E, also as a fraction of the depth, as a
+             temperature E/k_B and as the turning points' distances from re.
+
+The forms come from SPEC arguments, from a model-set file (--set), and from
+--match, which derives every built-in form's parameters from one target well
+(any subset of re, De, k, with units, e.g. re=127pm,De=4.6eV,k=500N/m):
+  morse         exactly (needs re, De, k)
+  lennard-jones from re and De (k then follows, 72·De/re², and the mismatch is
+                noted), or from re and k when De is not given
+  buckingham    solving for (A, rho, C) (needs re, De, k) when a solution exists
+  harmonic      from re and k (it has no depth)
+A form that cannot be matched or analysed gets an error in its row; the others
+are still reported. Rows are in the order: --set entries, SPECs, matched forms.
+
+Reduced mass: an entry of the model set uses its own pair or mu, else the
+file's [defaults]; --pair/--mu apply to SPECs, matched forms and set entries
+without a mass. Every row needs one.
+
+Rows are computed in parallel on all cores (GOMAXPROCS); the output order is
+fixed. JSON is an array with, per row, the inspect object and "name",
+"validity" {order, tolerance, potential {compression_angstrom,
+stretch_angstrom}, period {energy_ev, depth_fraction, temperature_k,
+compression_angstrom, stretch_angstrom}}, "notes" and "error" when present.
+Values are in eV, Å, u, fs, cm⁻¹ and K; an unbounded range is null (∞ in the
+table).`,
+		Example: `  pairwell compare morse:De=4.6,a=1.87,re=1.27 lj:epsilon=4.6,sigma=1.13 --pair H-Cl
+  pairwell compare --match re=127pm,De=4.6eV,k=500N/m --pair 1H-35Cl
+  pairwell compare --set candidates.toml --tolerance 0.001 --format json`,
+		RunE: func(cmd *cobra.Command, args []string) error {
+			m, err := mass.resolve(false)
+			if err != nil {
+				return err
+			}
+			if order < 2 || order > 4 {
+				return usageErr(fmt.Errorf("--order %d: must be 2, 3 or 4", order))
+			}
+			if !(tolerance > 0 && tolerance < 1) {
+				return usageErr(fmt.Errorf("--tolerance %g: must be in (0, 1), e.g. 0.01 for 1 %%", tolerance))
+			}
+			if len(args) == 0 && setPath == "" && match == "" {
+				return usageErr(fmt.Errorf("compare needs SPEC arguments, --set FILE.toml or --match re=R,De=D,k=K (see %s --help)", cmd.CommandPath()))
+			}
+			inputs, err := e.compareInputs(args, setPath, match, m)
+			if err != nil {
+				return err
+			}
+			rows, err := e.compare(inputs, report.CompareSettings{Order: order, Tolerance: tolerance})
+			if err != nil {
+				return err
+			}
+			return e.emitCompare(rows)
+		},
+	}
+	mass.register(cmd)
+	f := cmd.Flags()
+	f.StringVar(&setPath, "set", "", "model-set file (TOML) naming the forms to compare")
+	f.StringVar(&match, "match", "", "match every built-in form to a target well: re=R,De=D,k=K (any subset, units allowed)")
+	f.IntVar(&order, "order", report.DefaultValidityOrder, "truncation order n of the Taylor potential V_n whose validity is reported (2, 3 or 4)")
+	f.Float64Var(&tolerance, "tolerance", report.DefaultValidityTolerance, "relative tolerance of the validity criteria")
+	return cmd
+}
+
+// compareInputs collects the forms to compare: the entries of the model set
+// at setPath, then the specs, then the built-in forms matched to the target
+// match. m is the reduced mass from the command line, used by every input
+// without its own. Inputs that cannot be built are usage errors; a target
+// a form cannot match is that form's row error.
+func (e *env) compareInputs(specs []string, setPath, match string, m report.Mass) ([]report.CompareInput, error) {
+	var inputs []report.CompareInput
+	if setPath != "" {
+		set, err := modelset.Load(setPath)
+		if err != nil {
+			return nil, usageErr(fmt.Errorf("--set: %w", err))
+		}
+		built, err := set.Build(e.registry)
+		if err != nil {
+			return nil, usageErr(fmt.Errorf("--set %s: %w", setPath, err))
+		}
+		for _, b := range built {
+			in := report.CompareInput{Name: b.Name, Instance: b.Instance, Mass: report.Mass{Pair: b.Pair, Mu: b.Mu}}
+			if b.Mu == 0 {
+				in.Mass = m
+			}
+			inputs = append(inputs, in)
+		}
+	}
+	for _, s := range specs {
+		inst, err := e.build(s)
+		if err != nil {
+			return nil, err
+		}
+		inputs = append(inputs, report.CompareInput{Name: inst.Model.Info().Key, Instance: inst, Mass: m})
+	}
+	if match != "" {
+		t, err := parseTarget(match)
+		if err != nil {
+			return nil, usageErr(fmt.Errorf("--match: %w", err))
+		}
+		for _, in := range matchAll(e.registry, t) {
+			in.Name = "matched-" + in.Model
+			in.Mass = m
+			inputs = append(inputs, in)
+		}
+	}
+	uniqueNames(inputs)
+	for _, in := range inputs {
+		if in.Mass.Mu == 0 {
+			return nil, usageErr(fmt.Errorf("%s: a reduced mass is needed: give --pair A-B (e.g. H-Cl) or --mu M (in u), or pair/mu in the model set", in.Name))
+		}
+	}
+	return inputs, nil
+}
+
+// matchAll matches every model of reg that implements core.Matcher to the
+// target t, in registry order. A model that cannot reach t gets an input
+// carrying the error.
+func matchAll(reg *core.Registry, t core.Target) []report.CompareInput {
+	var out []report.CompareInput
+	for _, model := range reg.Models() {
+		matcher, ok := model.(core.Matcher)
+		if !ok {
+			continue
+		}
+		key := model.Info().Key
+		in := report.CompareInput{Model: key}
+		params, notes, err := matcher.Match(t)
+		in.Notes = notes
+		if err == nil {
+			var pot core.Potential
+			if pot, err = model.New(params); err == nil {
+				in.Instance = core.Instance{Model: model, Params: params, Potential: pot}
+			}
+		}
+		if err != nil {
+			in.Err = fmt.Errorf("cannot match: %w", err)
+		}
+		out = append(out, in)
+	}
+	return out
+}
+
+// parseTarget parses re=R,De=D,k=K (any non-empty subset, each at most
+// once; names case-insensitive, "depth" for De) with optional units.
+func parseTarget(s string) (core.Target, error) {
+	var t core.Target
+	seen := map[string]bool{}
+	for _, part := range strings.Split(s, ",") {
+		name, value, ok := strings.Cut(part, "=")
+		name, value = strings.TrimSpace(name), strings.TrimSpace(value)
+		if !ok || name == "" || value == "" {
+			return core.Target{}, fmt.Errorf("%q is not NAME=VALUE; expected re=R,De=D,k=K, e.g. re=1.27,De=4.6eV,k=500N/m", strings.TrimSpace(part))
+		}
+		var (
+			dst *float64
+			dim units.Dimension
+			key string
+		)
+		switch strings.ToLower(name) {
+		case "re":
+			dst, dim, key = &t.Re, units.Length, "re"
+		case "de", "depth":
+			dst, dim, key = &t.Depth, units.Energy, "De"
+		case "k":
+			dst, dim, key = &t.K, units.ForceConstant, "k"
+		default:
+			return core.Target{}, fmt.Errorf("unknown quantity %q; allowed: re (length), De (energy), k (force constant)", name)
+		}
+		if seen[key] {
+			return core.Target{}, fmt.Errorf("%s given twice", key)
+		}
+		seen[key] = true
+		v, err := units.Parse(value, dim)
+		if err != nil {
+			return core.Target{}, fmt.Errorf("%s: %w", key, err)
+		}
+		if err := core.Positive.Check(key, v); err != nil {
+			return core.Target{}, err
+		}
+		*dst = v
+	}
+	return t, nil
+}
+
+// uniqueNames makes the names of inputs unique by appending -2, -3, … to
+// repeats, keeping the first occurrence as it is.
+func uniqueNames(inputs []report.CompareInput) {
+	used := map[string]bool{}
+	for i := range inputs {
+		name := inputs[i].Name
+		for n := 2; used[name]; n++ {
+			name = fmt.Sprintf("%s-%d", inputs[i].Name, n)
+		}
+		used[name] = true
+		inputs[i].Name = name
+	}
+}
+
+// compare runs report.Compare on all cores with a progress bar for long
+// comparisons. It returns an error only when every row failed (nothing to
+// show), classified as computeErr does.
+func (e *env) compare(inputs []report.CompareInput, s report.CompareSettings) ([]report.CompareRow, error) {
+	if len(inputs) >= progressThreshold {
+		step, done := e.progress(len(inputs), "compare")
+		defer done()
+		s.Progress = step
+	}
+	rows, err := report.Compare(inputs, s)
+	if err != nil {
+		return nil, usageErr(err)
+	}
+	if all, first := report.Failed(rows); all {
+		return nil, computeErr(fmt.Errorf("no form could be compared: %w", first))
+	}
+	return rows, nil
+}
+
+// emitCompare writes the rows: JSON as the rows themselves, a table (with
+// notes and errors as numbered footnotes) or CSV (with them in a column).
+func (e *env) emitCompare(rows []report.CompareRow) error {
+	if e.format == "json" {
+		return e.emit(rows, nil)
+	}
+	t, notes := compareTable(rows, e.format == "csv")
+	if err := e.emit(rows, t); err != nil {
+		return err
+	}
+	if e.format == "table" {
+		if err := writeCompareLegend(e.stdout, rows, notes); err != nil {
+			return failErr(fmt.Errorf("writing output: %w", err))
+		}
+	}
+	return nil
+}
+
+// writeCompareLegend explains the validity columns of the compare table and
+// writes its footnotes.
+func writeCompareLegend(w io.Writer, rows []report.CompareRow, notes []string) error {
+	for _, r := range rows {
+		if v := r.Validity; v != nil {
+			if _, err := fmt.Fprintf(w, "Validity of the Taylor potential V_%d at %g %%: V_n ±x, largest compression/stretch where "+
+				"|V_n − V| ≤ tol·(V − V(re)); T_n E, largest oscillation energy where the period in V_n is within tol of the exact one.\n",
+				v.Order, 100*v.Tolerance); err != nil {
+				return err
+			}
+			break
+		}
+	}
+	return writeFootnotes(w, notes)
+}
+
+// compareColumns are the columns of the compare table.
+var compareColumns = []column{
+	{Title: "name"},
+	{Title: "re", Unit: "Å"},
+	{Title: "depth", Unit: "eV"},
+	{Title: "k", Unit: "eV/Å²"},
+	{Title: "c3", Unit: "eV/Å³"},
+	{Title: "c4", Unit: "eV/Å⁴"},
+	{Title: "wavenumber", Unit: "cm⁻¹"},
+	{Title: "period", Unit: "fs"},
+	{Title: "V_n −x", Unit: "Å"},
+	{Title: "V_n +x", Unit: "Å"},
+	{Title: "T_n E", Unit: "eV"},
+	{Title: "E/depth"},
+	{Title: "E/k_B", Unit: "K"},
+	{Title: "notes"},
+}
+
+// compareTable lays the rows out, one per form. Table cells have 6
+// significant digits; full reports full precision (for CSV) and puts the
+// note text in the notes column instead of a footnote number.
+func compareTable(rows []report.CompareRow, full bool) (*table, []string) {
+	f := short
+	if full {
+		f = num
+	}
+	t := &table{cols: compareColumns}
+	var foot []string
+	for _, r := range rows {
+		cells := []string{r.Name}
+		if in := r.Inspect; in != nil {
+			cells = append(cells, f(in.Re), f(float64(in.Depth)), f(in.K), f(taylor(in.Taylor, 3)), f(taylor(in.Taylor, 4)))
+			if in.Wavenumber != nil {
+				cells = append(cells, f(*in.Wavenumber), f(*in.HarmonicPeriodFs))
+			} else {
+				cells = append(cells, "—", "—")
+			}
+		} else {
+			cells = append(cells, "—", "—", "—", "—", "—", "—", "—")
+		}
+		if v := r.Validity; v != nil {
+			cells = append(cells,
+				f(float64(v.Potential.Compression)), f(float64(v.Potential.Stretch)),
+				f(float64(v.Period.Energy)), f(float64(v.Period.DepthFraction)), f(float64(v.Period.Temperature)))
+		} else {
+			cells = append(cells, "—", "—", "—", "—", "—")
+		}
+		var text []string
+		text = append(text, r.Notes...)
+		if r.Err != nil {
+			text = append(text, "error: "+r.Err.Error())
+		}
+		switch {
+		case len(text) == 0:
+			cells = append(cells, "")
+		case full:
+			cells = append(cells, strings.Join(text, "; "))
+		default:
+			var refs []string
+			for _, s := range text {
+				foot = append(foot, r.Name+": "+s)
+				refs = append(refs, fmt.Sprintf("[%d]", len(foot)))
+			}
+			cells = append(cells, strings.Join(refs, " "))
+		}
+		t.add(cells...)
+	}
+	return t, foot
+}
+
+// writeFootnotes writes numbered notes below a table.
+func writeFootnotes(w io.Writer, notes []string) error {
+	for i, n := range notes {
+		if _, err := fmt.Fprintf(w, "[%d] %s\n", i+1, n); err != nil {
+			return err
+		}
+	}
+	return nil
+}
+
+// taylor returns c[n], or NaN when the slice is too short.
+func taylor(c []float64, n int) float64 {
+	if n < len(c) {
+		return c[n]
+	}
+	return math.NaN()
+}
+
+// short formats a table value to 6 significant digits, with num's
+// conventions for NaN and ±Inf.
+func short(v float64) string {
+	if s := num(v); s == "—" || strings.HasSuffix(s, "∞") {
+		return s
+	}
+	return fmt.Sprintf("%.6g", v)
+}
