@@ -1,75 +1,390 @@
 package main
 
 import (
+	"errors"
 	"fmt"
+	"io"
+	"math"
+	"strings"
 
 	"github.com/spf13/cobra"
 
 	"github.com/pairwell/pairwell/core"
+	"github.com/pairwell/pairwell/core/period"
 	"github.com/pairwell/pairwell/core/report"
+	"github.com/pairwell/pairwell/core/units"
 )
 
+// The demo is a sequence of sections, each computed by a demoX function
+// into a plain struct (the JSON section) and rendered by a writeDemoX
+// function. A new section, such as a picture written to a directory, is
+// one more pair of functions called from runDemo.
+
 // demoBond is the invented bond of the demo: no real molecule has these
-// numbers; they are round values of the size of a light covalent bond.
+// numbers; they are round values of the size of a light covalent bond
+// (re = 1.20 Å, De = 4.00 eV, k = 30 eV/Å² ≈ 481 N/m, μ = 7 u).
 var demoBond = struct {
 	target core.Target
 	mu     float64
 }{core.Target{Re: 1.20, Depth: 4.00, K: 30.0}, 7.0}
 
+// demoAmplitudes are the stretches (Å) of the period-vs-amplitude table,
+// from the harmonic regime (E ≈ 1 % of the depth) to near dissociation.
+var demoAmplitudes = []float64{0.05, 0.1, 0.2, 0.3, 0.5, 0.8, 1.2, 2.0}
+
+// demoPeriodModel is the form of the period-vs-amplitude table.
+const demoPeriodModel = "morse"
+
+// demoCaution is printed with every demo.
+const demoCaution = "pairwell evaluates classical model potentials: a model is not a validated force field; do not base production or safety decisions on its numbers alone."
+
+// demoReport is the output of the demo; its JSON is one object with the
+// sections as keys.
+type demoReport struct {
+	Scenario       demoScenario        `json:"scenario"`
+	Compare        []report.CompareRow `json:"compare"`
+	Period         demoPeriod          `json:"period"`
+	Interpretation string              `json:"interpretation"`
+	Caution        string              `json:"caution"`
+}
+
+// demoScenario describes the invented bond.
+type demoScenario struct {
+	Invented    bool    `json:"invented"`
+	Description string  `json:"description"`
+	Re          float64 `json:"equilibrium_r_angstrom"`
+	Depth       float64 `json:"well_depth_ev"`
+	K           float64 `json:"force_constant_ev_per_angstrom2"`
+	Mu          float64 `json:"reduced_mass_u"`
+	Order       int     `json:"validity_order"`
+	Tolerance   float64 `json:"validity_tolerance"`
+}
+
+// demoPeriod is the period-vs-amplitude table of one form.
+type demoPeriod struct {
+	Name string          `json:"name"`
+	Rows []demoPeriodRow `json:"rows"`
+}
+
+// demoPeriodRow is one amplitude; keys as in the period command.
+type demoPeriodRow struct {
+	Amplitude     float64       `json:"amplitude_angstrom"`
+	Energy        float64       `json:"energy_ev"`
+	DepthFraction float64       `json:"depth_fraction"`
+	Exact         report.Number `json:"exact_period_fs"`
+	Harmonic      float64       `json:"harmonic_period_fs"`
+	Perturbative  report.Number `json:"perturbative_period_fs"`
+	Error         string        `json:"error,omitempty"`
+}
+
 func newDemoCmd(e *env) *cobra.Command {
 	return &cobra.Command{
 		Use:   "demo",
-		Short: "Run the main job on built-in demo data (an invented bond)",
-		Long: `demo matches every built-in form to one invented bond (re = 1.20 Å,
-De = 4.00 eV, k = 30.0 eV/Å², μ = 7.00 u — made-up numbers, not a real molecule)
-and inspects each: equilibrium, depth, Taylor coefficients, force constant and
-harmonic frequency.`,
+		Short: "Tell the whole story on built-in data: one invented bond, four forms, their harmonic ranges",
+		Long: fmt.Sprintf(`demo runs pairwell end to end on an INVENTED bond (re = %g Å, De = %g eV,
+k = %g eV/Å², μ = %g u — made-up numbers, not a real molecule):
+
+ 1. every built-in form is matched to the bond (compare --match) and the forms
+    are laid side by side: well, harmonic frequency, and how far the harmonic
+    picture holds (potential and period criteria at 1 %%);
+ 2. for Morse, the exact period, the harmonic one and the second-order
+    perturbative one at a handful of amplitudes;
+ 3. a paragraph saying in plain words what the numbers mean, computed from
+    them.
+
+--format json emits one object with the keys scenario, compare, period,
+interpretation and caution.`, demoBond.target.Re, demoBond.target.Depth, demoBond.target.K, demoBond.mu),
 		Args: exactArgs(0, "no arguments"),
 		RunE: func(cmd *cobra.Command, args []string) error {
-			var all []report.Inspect
-			m := report.Mass{Mu: demoBond.mu}
-			if e.format == "table" {
-				t := demoBond.target
-				fmt.Fprintf(e.stdout, "pairwell demo — an INVENTED bond, not a real molecule: re = %g Å, De = %g eV, k = %g eV/Å², μ = %g u.\n", t.Re, t.Depth, t.K, demoBond.mu)
-				fmt.Fprintln(e.stdout, "Each built-in form is matched to it and inspected. Classical model potentials, not a validated force field.")
+			if e.format == "csv" {
+				return usageErr(errors.New("demo prints several tables: use --format table or json"))
 			}
-			for _, model := range e.registry.Models() {
-				matcher, ok := model.(core.Matcher)
-				if !ok {
-					continue
-				}
-				info := model.Info()
-				params, notes, err := matcher.Match(demoBond.target)
-				if err != nil {
-					return computeErr(fmt.Errorf("matching %s to the demo bond: %w", info.Key, err))
-				}
-				pot, err := model.New(params)
-				if err != nil {
-					return computeErr(fmt.Errorf("demo %s: %w", info.Key, err))
-				}
-				r, err := report.NewInspect(info.Key, core.Instance{Model: model, Params: params, Potential: pot}, 4, m)
-				if err != nil {
-					return computeErr(err)
-				}
-				all = append(all, r)
-				if e.format == "table" {
-					fmt.Fprintf(e.stdout, "\n== %s (%s)\n", info.Name, r.Params)
-					for _, n := range notes {
-						fmt.Fprintf(e.stdout, "note: %s\n", n)
-					}
-					if err := writeTable(e.stdout, inspectTable(r)); err != nil {
-						return failErr(err)
-					}
-				}
+			r, err := runDemo(e)
+			if err != nil {
+				return err
 			}
-			if e.format == "table" {
-				return nil
+			if e.format == "json" {
+				return e.emit(r, nil)
 			}
-			t := &table{cols: []column{{Title: "model"}, {Title: "re", Unit: "Å"}, {Title: "depth", Unit: "eV"}, {Title: "k", Unit: "eV/Å²"}, {Title: "wavenumber", Unit: "cm⁻¹"}}}
-			for _, r := range all {
-				t.add(r.Model, num(r.Re), num(float64(r.Depth)), num(r.K), num(*r.Wavenumber))
+			if err := writeDemo(e.stdout, r); err != nil {
+				return failErr(fmt.Errorf("writing output: %w", err))
 			}
-			return e.emit(all, t)
+			return nil
 		},
 	}
+}
+
+// runDemo computes every section.
+func runDemo(e *env) (demoReport, error) {
+	r := demoReport{Scenario: demoScenarioSection(), Caution: demoCaution}
+	rows, err := demoCompareSection(e)
+	if err != nil {
+		return r, err
+	}
+	r.Compare = rows
+	var src *report.CompareRow
+	for i := range rows {
+		if rows[i].Model == demoPeriodModel {
+			src = &rows[i]
+		}
+	}
+	if src == nil || src.Err != nil {
+		return r, failErr(fmt.Errorf("demo: %s could not be matched to the demo bond", demoPeriodModel))
+	}
+	r.Period, err = demoPeriodSection(e, src.Name)
+	if err != nil {
+		return r, err
+	}
+	r.Interpretation = demoInterpretation(r)
+	return r, nil
+}
+
+// demoScenarioSection describes the invented bond.
+func demoScenarioSection() demoScenario {
+	t := demoBond.target
+	return demoScenario{
+		Invented: true,
+		Description: "An INVENTED bond, not a real molecule: round numbers of the size of a light covalent bond, " +
+			"used to show what pairwell computes.",
+		Re: t.Re, Depth: t.Depth, K: t.K, Mu: demoBond.mu,
+		Order: report.DefaultValidityOrder, Tolerance: report.DefaultValidityTolerance,
+	}
+}
+
+// demoInputs matches every built-in form to the demo bond.
+func demoInputs(reg *core.Registry) []report.CompareInput {
+	inputs := matchAll(reg, demoBond.target)
+	for i := range inputs {
+		inputs[i].Name = inputs[i].Model
+		inputs[i].Mass = report.Mass{Mu: demoBond.mu}
+	}
+	return inputs
+}
+
+// demoCompareSection compares the matched forms.
+func demoCompareSection(e *env) ([]report.CompareRow, error) {
+	return e.compare(demoInputs(e.registry), report.CompareSettings{})
+}
+
+// demoPeriodSection tabulates the exact, harmonic and perturbative periods
+// of the matched form named name at demoAmplitudes.
+func demoPeriodSection(e *env, name string) (demoPeriod, error) {
+	var in *report.CompareInput
+	inputs := demoInputs(e.registry)
+	for i := range inputs {
+		if inputs[i].Name == name {
+			in = &inputs[i]
+		}
+	}
+	if in == nil || in.Err != nil {
+		return demoPeriod{}, failErr(fmt.Errorf("demo: no matched %s", name))
+	}
+	p := in.Instance.Potential
+	w, err := core.AnalyzeWell(p, core.WellSettings{Order: 4})
+	if err != nil {
+		return demoPeriod{}, computeErr(err)
+	}
+	t0, err := period.Harmonic(w, demoBond.mu)
+	if err != nil {
+		return demoPeriod{}, computeErr(err)
+	}
+	out := demoPeriod{Name: name}
+	energies := make([]float64, len(demoAmplitudes))
+	for i, x := range demoAmplitudes {
+		v, err := core.Value(p, w.Re+x)
+		if err != nil {
+			return demoPeriod{}, computeErr(err)
+		}
+		energies[i] = v - w.Energy
+	}
+	exact, errs := period.Sweep(p, w, demoBond.mu, energies, period.Settings{}, nil)
+	for i, x := range demoAmplitudes {
+		row := demoPeriodRow{
+			Amplitude: x, Energy: energies[i], DepthFraction: energies[i] / w.Depth,
+			Exact: report.Number(math.NaN()), Harmonic: t0, Perturbative: report.Number(math.NaN()),
+		}
+		if errs[i] != nil {
+			row.Error = errs[i].Error()
+		} else {
+			row.Exact = report.Number(exact[i].Period)
+		}
+		if tp, err := period.Perturbative(w, demoBond.mu, energies[i]); err == nil {
+			row.Perturbative = report.Number(tp)
+		} else if row.Error == "" {
+			row.Error = err.Error()
+		}
+		out.Rows = append(out.Rows, row)
+	}
+	return out, nil
+}
+
+// demoInterpretation says in words what the numbers of r mean. Every
+// number in it comes from r.
+func demoInterpretation(r demoReport) string {
+	rows := map[string]*report.CompareRow{}
+	for i := range r.Compare {
+		if r.Compare[i].Err == nil && r.Compare[i].Inspect != nil && r.Compare[i].Validity != nil {
+			rows[r.Compare[i].Model] = &r.Compare[i]
+		}
+	}
+	tol := 100 * r.Scenario.Tolerance
+	var s []string
+	if m := rows["morse"]; m != nil {
+		v := m.Validity
+		s = append(s, fmt.Sprintf("For Morse, the harmonic period is within %g %% of the true one up to an oscillation energy E = %.3g eV "+
+			"(%.3g %% of the depth, k_B·T at T = %.0f K), i.e. for vibrations from %.3g Å inside to %.3g Å outside re;",
+			tol, v.Period.Energy, 100*v.Period.DepthFraction, v.Period.Temperature, v.Period.Compression, v.Period.Stretch))
+		pot := fmt.Sprintf("the harmonic potential itself is within %g %% of the Morse potential only from −%.2g Å to +%.2g Å.",
+			tol, v.Potential.Compression, v.Potential.Stretch)
+		if v.Potential.Stretch < v.Period.Stretch && v.Potential.Compression < v.Period.Compression {
+			pot = strings.TrimSuffix(pot, ".") + ": the period is far more forgiving, because the cubic term, which spoils the potential " +
+				"at first order, changes the period only at second order (its effects on the two sides of a swing largely cancel)."
+		}
+		s = append(s, pot)
+		room := 300 * units.BoltzmannEV
+		s = append(s, fmt.Sprintf("At room temperature the mean energy of a classical vibration, k_B·300 K = %.3g eV, is %.2g %% of that limit.",
+			room, 100*room/v.Period.Energy))
+	}
+	if lj, m := rows["lennard-jones"], rows["morse"]; lj != nil && m != nil {
+		ratio := lj.Inspect.K / r.Scenario.K
+		s = append(s, fmt.Sprintf("Lennard-Jones matched to re and De is %.2g× stiffer than the target (k = %.4g instead of %.4g eV/Å²), "+
+			"so its harmonic wavenumber is %.3g× higher (%.0f cm⁻¹ against %.0f cm⁻¹):"+
+			" its two parameters cannot give this bond its depth and its curvature at once.",
+			ratio, lj.Inspect.K, r.Scenario.K, *lj.Inspect.Wavenumber / *m.Inspect.Wavenumber, *lj.Inspect.Wavenumber, *m.Inspect.Wavenumber))
+	}
+	if b, m := rows["buckingham"], rows["morse"]; b != nil && m != nil {
+		s = append(s, fmt.Sprintf("Buckingham matches re, De and k exactly, so it has the same harmonic frequency as Morse, "+
+			"yet its harmonic period range ends at %.3g eV instead of %.3g eV (c3 = %.4g against %.4g eV/Å³): "+
+			"the same curvature does not mean the same anharmonicity.",
+			b.Validity.Period.Energy, m.Validity.Period.Energy, taylor(b.Inspect.Taylor, 3), taylor(m.Inspect.Taylor, 3)))
+		if br := b.Inspect.Barrier; br != nil {
+			s = append(s, fmt.Sprintf("Its spurious inner maximum lies at r = %.3g Å, only %.3g eV above the minimum: "+
+				"a vibration with more energy than that collapses the pair, so for this bond the form is close to turning over.",
+				br.R, br.Energy-b.Inspect.Energy))
+		}
+	}
+	if h := rows["harmonic"]; h != nil && math.IsInf(h.Validity.Period.Energy, 1) {
+		s = append(s, "The harmonic form is its own Taylor expansion, so its ranges are unbounded; it never dissociates and cannot describe a bond breaking.")
+	}
+	s = append(s, periodSentence(r.Period, tol))
+	return strings.Join(strings.Fields(strings.Join(s, " ")), " ")
+}
+
+// periodSentence summarises the period table: how far the harmonic period
+// is off at the largest amplitude where the perturbative one is still
+// within tol percent.
+func periodSentence(p demoPeriod, tol float64) string {
+	best := -1
+	for i, row := range p.Rows {
+		if row.Error != "" {
+			continue
+		}
+		if math.Abs(float64(row.Perturbative)/float64(row.Exact)-1) <= tol/100 {
+			best = i
+		}
+	}
+	if best < 0 {
+		return ""
+	}
+	row := p.Rows[best]
+	last := p.Rows[len(p.Rows)-1]
+	s := fmt.Sprintf("In the period table, second-order perturbation theory is within %g %% of the exact %s period up to a stretch of %g Å "+
+		"(E = %.3g eV, %.0f %% of the depth), where the exact period is already %.3g %% longer than the harmonic one.",
+		tol, p.Name, row.Amplitude, row.Energy, 100*row.DepthFraction, 100*(float64(row.Exact)/row.Harmonic-1))
+	if last.Error == "" {
+		s += fmt.Sprintf(" Near dissociation (%g Å, %.0f %% of the depth) the period is %.3g× the harmonic one and neither approximation holds.",
+			last.Amplitude, 100*last.DepthFraction, float64(last.Exact)/last.Harmonic)
+	}
+	return s
+}
+
+// writeDemo renders every section as text.
+func writeDemo(w io.Writer, r demoReport) error {
+	for _, f := range []func(io.Writer, demoReport) error{
+		writeDemoScenario, writeDemoCompare, writeDemoPeriod, writeDemoInterpretation,
+	} {
+		if err := f(w, r); err != nil {
+			return err
+		}
+	}
+	return nil
+}
+
+func writeDemoScenario(w io.Writer, r demoReport) error {
+	s := r.Scenario
+	_, err := fmt.Fprintf(w, `pairwell demo — an INVENTED bond, not a real molecule:
+  re = %g Å, De = %g eV, k = %g eV/Å², reduced mass μ = %g u.
+Every built-in form is matched to it (pairwell compare --match re=%g,De=%g,k=%g --mu %g).
+Validity: the Taylor potential of order %d within a tolerance of %g %%.
+`, s.Re, s.Depth, s.K, s.Mu, s.Re, s.Depth, s.K, s.Mu, s.Order, 100*s.Tolerance)
+	return err
+}
+
+func writeDemoCompare(w io.Writer, r demoReport) error {
+	fmt.Fprintln(w, "\n== Four forms, one bond")
+	pt := &table{cols: []column{{Title: "name"}, {Title: "matched parameters"}}}
+	for _, row := range r.Compare {
+		ps := "—"
+		if row.Inspect != nil {
+			ps = row.Inspect.Params.String()
+		}
+		pt.add(row.Name, ps)
+	}
+	if err := writeTable(w, pt); err != nil {
+		return err
+	}
+	fmt.Fprintln(w)
+	t, notes := compareTable(r.Compare, false)
+	if err := writeTable(w, t); err != nil {
+		return err
+	}
+	return writeCompareLegend(w, r.Compare, notes)
+}
+
+func writeDemoPeriod(w io.Writer, r demoReport) error {
+	fmt.Fprintf(w, "\n== Period against amplitude (%s, stretched from rest by the amplitude)\n", r.Period.Name)
+	t := &table{cols: []column{
+		{Title: "amplitude", Unit: "Å"}, {Title: "energy", Unit: "eV"}, {Title: "E/depth"},
+		{Title: "exact", Unit: "fs"}, {Title: "harmonic", Unit: "fs"}, {Title: "perturbative", Unit: "fs"},
+		{Title: "exact/harmonic − 1", Unit: "%"}, {Title: "perturbative/exact − 1", Unit: "%"}, {Title: "notes"},
+	}}
+	for _, row := range r.Period.Rows {
+		ex, pe := float64(row.Exact), float64(row.Perturbative)
+		t.add(short(row.Amplitude), short(row.Energy), short(row.DepthFraction),
+			short(ex), short(row.Harmonic), short(pe),
+			percent(ex/row.Harmonic-1), percent(pe/ex-1), row.Error)
+	}
+	return writeTable(w, t)
+}
+
+func writeDemoInterpretation(w io.Writer, r demoReport) error {
+	_, err := fmt.Fprintf(w, "\n== What the numbers say\n%s\n\n%s\n", wrap(r.Interpretation, 88), wrap(r.Caution, 88))
+	return err
+}
+
+// percent formats a ratio as a percentage with 3 significant digits.
+func percent(v float64) string {
+	if math.IsNaN(v) {
+		return "—"
+	}
+	return fmt.Sprintf("%+.3g", 100*v)
+}
+
+// wrap breaks text into lines of at most width runes at spaces.
+func wrap(text string, width int) string {
+	var b strings.Builder
+	n := 0
+	for _, word := range strings.Fields(text) {
+		l := len([]rune(word))
+		if n > 0 && n+1+l > width {
+			b.WriteByte('\n')
+			n = 0
+		} else if n > 0 {
+			b.WriteByte(' ')
+			n++
+		}
+		b.WriteString(word)
+		n += l
+	}
+	return b.String()
 }

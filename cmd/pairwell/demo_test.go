@@ -1,0 +1,98 @@
+package main
+
+import (
+	"encoding/json"
+	"math"
+	"strings"
+	"testing"
+	"time"
+
+	"github.com/stretchr/testify/assert"
+	"github.com/stretchr/testify/require"
+)
+
+func TestDemoTable(t *testing.T) {
+	start := time.Now()
+	code, out, errOut := runCLI(t, "demo")
+	elapsed := time.Since(start)
+	require.Equal(t, 0, code, errOut)
+	assert.Empty(t, errOut)
+	assert.Contains(t, out, "INVENTED bond, not a real molecule")
+	assert.Contains(t, out, "not a validated force field", "the caution line")
+	for _, s := range []string{"== Four forms, one bond", "== Period against amplitude", "== What the numbers say",
+		"morse", "lennard-jones", "buckingham", "harmonic", "6.7× stiffer"} {
+		assert.Contains(t, out, s)
+	}
+	// The demo is the README's first command: it must be quick. The
+	// generous bound allows for the race detector and loaded machines.
+	assert.Less(t, elapsed, 5*time.Second)
+}
+
+func TestDemoJSON(t *testing.T) {
+	code, out, errOut := runCLI(t, "demo", "--format", "json")
+	require.Equal(t, 0, code, errOut)
+	var r struct {
+		Scenario struct {
+			Invented bool    `json:"invented"`
+			Depth    float64 `json:"well_depth_ev"`
+		} `json:"scenario"`
+		Compare []map[string]any `json:"compare"`
+		Period  struct {
+			Name string `json:"name"`
+			Rows []struct {
+				Amplitude    float64  `json:"amplitude_angstrom"`
+				Energy       float64  `json:"energy_ev"`
+				Fraction     float64  `json:"depth_fraction"`
+				Exact        float64  `json:"exact_period_fs"`
+				Harmonic     float64  `json:"harmonic_period_fs"`
+				Perturbative *float64 `json:"perturbative_period_fs"`
+			} `json:"rows"`
+		} `json:"period"`
+		Interpretation string `json:"interpretation"`
+		Caution        string `json:"caution"`
+	}
+	require.NoError(t, json.Unmarshal([]byte(out), &r))
+	assert.True(t, r.Scenario.Invented)
+	require.Len(t, r.Compare, 4)
+	for _, row := range r.Compare {
+		requireValidityKeys(t, row)
+	}
+	assert.Equal(t, "morse", r.Period.Name)
+	require.NotEmpty(t, r.Period.Rows)
+	for _, row := range r.Period.Rows {
+		// Morse: T(E) = T0/√(1 − E/De) (closed form, standard result;
+		// from memory); near the top of the well T is ill-conditioned,
+		// hence the looser tolerance there.
+		assert.InEpsilon(t, row.Harmonic/math.Sqrt(1-row.Fraction), row.Exact, 1e-9, "amplitude %g", row.Amplitude)
+		// Morse: E = De(1 − e^{−a·x})² at stretch x, a = √(k/(2De)).
+		a := math.Sqrt(30 / 8.0)
+		assert.InEpsilon(t, 4*math.Pow(1-math.Exp(-a*row.Amplitude), 2), row.Energy, 1e-12)
+		// Perturbative: ω ≈ ω0(1 − E/(2De)) on Morse (the first-order term
+		// of the closed form).
+		require.NotNil(t, row.Perturbative)
+		assert.InEpsilon(t, row.Harmonic/(1-row.Fraction/2), *row.Perturbative, 1e-9)
+	}
+	for _, s := range []string{"1 %", "Lennard-Jones", "stiffer", "Buckingham"} {
+		assert.Contains(t, r.Interpretation, s)
+	}
+	assert.Contains(t, r.Caution, "not a validated force field")
+}
+
+func TestDemoBadInput(t *testing.T) {
+	for _, args := range [][]string{{"demo", "extra"}, {"demo", "--format", "csv"}} {
+		code, out, errOut := runCLI(t, args...)
+		assert.Equal(t, 2, code, args)
+		assert.Empty(t, out, args)
+		assert.Equal(t, 1, strings.Count(errOut, "\n"), errOut)
+	}
+}
+
+// BenchmarkDemo is the whole demo, in process, as a table.
+func BenchmarkDemo(b *testing.B) {
+	for b.Loop() {
+		var out, errOut strings.Builder
+		if code := run([]string{"demo"}, strings.NewReader(""), &out, &errOut); code != 0 {
+			b.Fatal(errOut.String())
+		}
+	}
+}
