@@ -67,6 +67,8 @@ field: do not base production or safety decisions on its numbers alone.`,
 		newDemoCmd(e),
 		newCompareCmd(e),
 		newMotionCmd(e),
+		newPeriodCmd(e),
+		newValidityCmd(e),
 	)
 	return root
 }

@@ -469,8 +469,8 @@ func integrate(p core.Potential, w core.Well, E float64, lo, hi *endExpansion, l
 			round += lv.w[k] * f * vs / den
 		}
 		if !(f < math.Inf(1)) {
-			return 0, 0, fmt.Errorf("period: %w: E − V(r) + V(re) ≤ 0 at r = %g Å between the turning points %g Å and %g Å at E = %g eV: "+
-				"the motion is not confined to a single well", core.ErrDomain, r, inner, outer, E)
+			return 0, 0, unbound("E − V(r) + V(re) ≤ 0 at r = %g Å between the turning points %g Å and %g Å at E = %g eV: "+
+				"the motion is not confined to a single well", r, inner, outer, E)
 		}
 		sum += lv.w[k] * f
 	}

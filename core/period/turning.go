@@ -58,8 +58,7 @@ func checkEnergy(p core.Potential, w core.Well, E float64) error {
 		return fmt.Errorf("period: %w: oscillation energy E = %g eV, must be finite and ≥ 0", core.ErrParam, E)
 	}
 	if w.Bounded() && E >= w.Depth {
-		return fmt.Errorf("period: %w: E = %.6g eV is at or above the well depth %.6g eV: the motion is unbound (the pair dissociates)",
-			core.ErrDomain, E, w.Depth)
+		return unbound("E = %.6g eV is at or above the well depth %.6g eV: the pair dissociates, there is no oscillation", E, w.Depth)
 	}
 	d := p.Domain()
 	if d.Barrier {
@@ -75,8 +74,8 @@ func checkEnergy(p core.Potential, w core.Well, E float64) error {
 			vb = v
 		}
 		if hb := vb - w.Energy; E >= hb {
-			return fmt.Errorf("period: %w: E = %.6g eV is at or above the inner barrier (%.6g eV above the minimum, at r = %.6g Å): "+
-				"the pair collapses through the spurious inner maximum of the form", core.ErrDomain, E, hb, rb)
+			return unbound("E = %.6g eV is at or above the inner barrier (%.6g eV above the minimum, at r = %.6g Å): "+
+				"the pair collapses through the spurious inner maximum of the form, there is no oscillation", E, hb, rb)
 		}
 	}
 	return nil
@@ -109,14 +108,14 @@ func turningPoint(p core.Potential, w core.Well, E, s0 float64, dir float64) (fl
 			r = 0.5 * (lo + edge)
 			halvings++
 			if r == lo || !d.Contains(r) || halvings > 60 {
-				return 0, fmt.Errorf("period: %w: no %s turning point at E = %.6g eV: V − V(re) stays below E up to the edge of the domain (%g Å, %g Å)",
-					core.ErrDomain, side, E, d.Min, d.Max)
+				return 0, unbound("no %s turning point at E = %.6g eV: V − V(re) stays below E up to the edge of the domain (%g Å, %g Å)",
+					side, E, d.Min, d.Max)
 			}
 		}
 		u, du, err := f(r)
 		if err != nil {
 			if errors.Is(err, core.ErrDomain) {
-				return 0, fmt.Errorf("period: %w: no %s turning point at E = %.6g eV: %v", core.ErrDomain, side, E, err)
+				return 0, unbound("no %s turning point at E = %.6g eV: %v", side, E, err)
 			}
 			return 0, fmt.Errorf("period: %s turning point: %w", side, err)
 		}
@@ -135,8 +134,8 @@ func turningPoint(p core.Potential, w core.Well, E, s0 float64, dir float64) (fl
 				return 0, fmt.Errorf("period: %s turning point: %w", side, err)
 			}
 			if !(hm > E) {
-				return 0, fmt.Errorf("period: %w: on the %s side V turns over at r = %.6g Å, %.6g eV above the minimum, below E = %.6g eV: "+
-					"the pair escapes over that maximum", core.ErrDomain, side, rm, hm, E)
+				return 0, unbound("on the %s side V turns over at r = %.6g Å, %.6g eV above the minimum, below E = %.6g eV: "+
+					"the pair escapes over that maximum, there is no oscillation", side, rm, hm, E)
 			}
 			x, err := core.Root(f, lo, rm)
 			if err != nil {
@@ -171,4 +170,16 @@ func maximum(p core.Potential, w core.Well, a, b float64) (r, h float64, err err
 		return 0, 0, err
 	}
 	return r, v - w.Energy, nil
+}
+
+// unboundError is an oscillation energy without bound motion. It wraps
+// core.ErrDomain while reading as its own message.
+type unboundError struct{ msg string }
+
+func (e *unboundError) Error() string { return e.msg }
+func (e *unboundError) Unwrap() error { return core.ErrDomain }
+
+// unbound returns an *unboundError with a formatted message.
+func unbound(format string, args ...any) error {
+	return &unboundError{fmt.Sprintf(format, args...)}
 }

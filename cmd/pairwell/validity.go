@@ -1,0 +1,199 @@
+package main
+
+import (
+	"encoding/json"
+	"fmt"
+	"math"
+	"strconv"
+	"strings"
+
+	"github.com/spf13/cobra"
+
+	"github.com/pairwell/pairwell/core"
+	"github.com/pairwell/pairwell/core/report"
+	"github.com/pairwell/pairwell/core/validity"
+)
+
+// validityHead is the model part of the validity output.
+type validityHead struct {
+	Model  string        `json:"model"`
+	Params report.Params `json:"params"`
+	Re     float64       `json:"equilibrium_r_angstrom"`
+	Depth  report.Number `json:"well_depth_ev"`
+	Pair   string        `json:"pair,omitempty"`
+	Mu     *float64      `json:"reduced_mass_u,omitempty"`
+}
+
+// validityReport is the output of the validity command: the model and its
+// well, then the keys of validity.Result (order, tolerance, potential,
+// period). JSON values are in eV, Å, K; unbounded values are null.
+type validityReport struct {
+	validityHead
+	Result validity.Result
+}
+
+// MarshalJSON writes the head fields followed by those of Result.
+func (r validityReport) MarshalJSON() ([]byte, error) {
+	a, err := json.Marshal(r.validityHead)
+	if err != nil {
+		return nil, err
+	}
+	b, err := json.Marshal(r.Result)
+	if err != nil {
+		return nil, err
+	}
+	out := append(a[:len(a)-1], ',')
+	return append(out, b[1:]...), nil
+}
+
+// validityTolerance reads a relative tolerance: a fraction (0.01) or a
+// percentage (1%).
+func validityTolerance(s string) (float64, error) {
+	t := strings.TrimSpace(s)
+	scale := 1.0
+	if strings.HasSuffix(t, "%") {
+		t, scale = strings.TrimSpace(strings.TrimSuffix(t, "%")), 0.01
+	}
+	v, err := strconv.ParseFloat(t, 64)
+	if err != nil {
+		return 0, fmt.Errorf("%q is not a number (e.g. 0.01 or 1%%)", s)
+	}
+	v *= scale
+	if !(v > 0 && v < 1) {
+		return 0, fmt.Errorf("%q: must be between 0 and 1 (0%% and 100%%), exclusive", s)
+	}
+	return v, nil
+}
+
+// validityCaution is printed under tables that show temperatures.
+const validityCaution = "Caution: these are ranges of a classical model potential, not of a validated force field; do not base safety decisions on them."
+
+func newValidityCmd(e *env) *cobra.Command {
+	var (
+		mass      massFlags
+		order     int
+		tolerance string
+	)
+	cmd := &cobra.Command{
+		Use:   "validity SPEC [--order N] [--tolerance T] [--pair A-B | --mu M]",
+		Short: "How far from re the truncated Taylor expansion (harmonic, cubic, quartic) holds",
+		Long: `validity says how far from the minimum the Taylor expansion of the well of SPEC
+truncated at order N, V_N(r) = Σ_{k=0..N} c_k (r − re)^k (N = 2 harmonic, 3 cubic,
+4 quartic), still describes the potential V, at a relative tolerance T:
+
+  potential criterion  on each side of re, the largest displacement s such that
+                       |V_N − V| ≤ T·(V − V(re)) at every displacement up to s
+                       (compression: re − r; stretch: r − re)
+  period criterion     the largest oscillation energy E above V(re) such that
+                       |T_N(E)/T(E) − 1| ≤ T at every energy up to E, where T(E)
+                       is the exact classical period in V and T_N that in V_N
+                       (for N = 2 the harmonic period); reported as E in eV, as a
+                       fraction of the well depth, as the temperature E/k_B, and
+                       as the turning points (compression re − r₋, stretch
+                       r₊ − re) of the real potential at E
+
+Unbounded ranges are ∞ in tables and null in JSON: for the harmonic form every
+truncation is exact. An energy at which V_N has no bound motion (the cubic above
+its own maximum) counts as a violation.
+
+The ratio T_N/T does not depend on the mass, so neither criterion does:
+--pair/--mu are optional and only echoed in the output.
+
+JSON values are in eV, Å and K, whatever the input units.`,
+		Example: `  pairwell validity morse:De=4.6,a=1.87,re=1.27
+  pairwell validity lj:epsilon=120K,sigma=3.4 --order 4 --tolerance 0.1% --format json
+  pairwell validity buckingham:A=1500,rho=0.3,C=25 --order 3 --tolerance 0.05`,
+		Args: exactArgs(1, "SPEC"),
+		RunE: func(cmd *cobra.Command, args []string) error {
+			m, err := mass.resolve(false)
+			if err != nil {
+				return err
+			}
+			if order < 2 || order > 4 {
+				return usageErr(fmt.Errorf("--order %d: must be 2, 3 or 4", order))
+			}
+			tol, err := validityTolerance(tolerance)
+			if err != nil {
+				return usageErr(fmt.Errorf("--tolerance: %w", err))
+			}
+			inst, err := e.build(args[0])
+			if err != nil {
+				return err
+			}
+			info := inst.Model.Info()
+			p := inst.Potential
+			if p.MaxOrder() < order {
+				return usageErr(fmt.Errorf("%s: --order %d needs derivatives up to order %d, the form has up to %d", info.Key, order, order, p.MaxOrder()))
+			}
+			w, err := core.AnalyzeWell(p, core.WellSettings{Order: max(order, min(4, p.MaxOrder()))})
+			if err != nil {
+				return computeErr(fmt.Errorf("%s: %w", info.Key, err))
+			}
+			res, err := validity.Analyze(p, w, order, validity.Settings{Tolerance: tol})
+			if err != nil {
+				return computeErr(fmt.Errorf("%s: %w", info.Key, err))
+			}
+			r := validityReport{validityHead{Model: info.Key, Params: report.NewParams(inst), Re: w.Re,
+				Depth: report.Number(w.Depth), Pair: m.Pair}, res}
+			if m.Mu > 0 {
+				mu := m.Mu
+				r.Mu = &mu
+			}
+			if e.format == "table" {
+				fmt.Fprintf(e.stdout, "%s (%s): %s truncation (order %d), tolerance %s\n",
+					info.Key, r.Params, orderName(order), order, strconv.FormatFloat(100*tol, 'g', 6, 64)+"%")
+				if err := writeTable(e.stdout, validityTable(r)); err != nil {
+					return failErr(err)
+				}
+				for _, line := range validityNotes(r) {
+					fmt.Fprintln(e.stdout, line)
+				}
+				return nil
+			}
+			return e.emit(r, validityTable(r))
+		},
+	}
+	mass.register(cmd)
+	cmd.Flags().IntVar(&order, "order", 2, "order N of the truncated Taylor expansion: 2 (harmonic), 3 (cubic) or 4 (quartic)")
+	cmd.Flags().StringVar(&tolerance, "tolerance", "0.01", "relative tolerance of both criteria, a fraction (0.01) or a percentage (1%)")
+	return cmd
+}
+
+func orderName(n int) string {
+	switch n {
+	case 2:
+		return "harmonic"
+	case 3:
+		return "cubic"
+	}
+	return "quartic"
+}
+
+// validityTable lays out both criteria as criterion, quantity, value, unit
+// rows.
+func validityTable(r validityReport) *table {
+	t := &table{cols: []column{{Title: "criterion"}, {Title: "quantity"}, {Title: "value"}, {Title: "unit"}}}
+	v := r.Result
+	t.add("potential", "largest compression re − r", num(v.Potential.Compression), "Å")
+	t.add("potential", "largest stretch r − re", num(v.Potential.Stretch), "Å")
+	t.add("period", "largest energy E above V(re)", num(v.Period.Energy), "eV")
+	t.add("period", "E / well depth", num(v.Period.DepthFraction), "")
+	t.add("period", "E / k_B", num(v.Period.Temperature), "K")
+	t.add("period", "compression turning point re − r₋ at E", num(v.Period.Compression), "Å")
+	t.add("period", "stretch turning point r₊ − re at E", num(v.Period.Stretch), "Å")
+	return t
+}
+
+// validityNotes explains the unbounded values and carries the caution.
+func validityNotes(r validityReport) []string {
+	var notes []string
+	v := r.Result
+	inf := []bool{math.IsInf(v.Potential.Compression, 1), math.IsInf(v.Potential.Stretch, 1), math.IsInf(v.Period.Energy, 1)}
+	if inf[0] || inf[1] || inf[2] {
+		notes = append(notes, "∞: the criterion is never violated (up to the edge of the domain, or at any energy with bound motion).")
+	}
+	if inf[0] && inf[1] && inf[2] && math.IsInf(float64(r.Depth), 1) {
+		notes = append(notes, "The truncation reproduces this unbounded well everywhere (for the harmonic form it is exact).")
+	}
+	return append(notes, validityCaution)
+}

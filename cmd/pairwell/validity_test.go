@@ -1,0 +1,112 @@
+package main
+
+import (
+	"bytes"
+	"encoding/json"
+	"strings"
+	"testing"
+
+	"github.com/stretchr/testify/assert"
+	"github.com/stretchr/testify/require"
+
+	"github.com/pairwell/pairwell/core/units"
+)
+
+func validityJSON(t *testing.T, args ...string) map[string]any {
+	t.Helper()
+	var stdout, stderr bytes.Buffer
+	code := run(append([]string{"validity", "--format", "json"}, args...), strings.NewReader(""), &stdout, &stderr)
+	require.Equal(t, 0, code, stderr.String())
+	var obj map[string]any
+	require.NoError(t, json.Unmarshal(stdout.Bytes(), &obj), stdout.String())
+	return obj
+}
+
+func TestValidityJSONContract(t *testing.T) {
+	for _, spec := range []string{"morse:De=4.6,a=1.87,re=1.27", "lj:epsilon=120K,sigma=3.4", "buckingham:A=1500,rho=0.3,C=25", "harmonic:k=30,r0=1.2"} {
+		for _, order := range []string{"2", "3", "4"} {
+			obj := validityJSON(t, spec, "--order", order)
+			for _, k := range []string{"order", "tolerance", "potential", "period"} {
+				require.Contains(t, obj, k, "%s: key %s", spec, k)
+			}
+			assert.EqualValues(t, order[0]-'0', obj["order"])
+			assert.Equal(t, 0.01, obj["tolerance"])
+			pot := obj["potential"].(map[string]any)
+			per := obj["period"].(map[string]any)
+			for _, k := range []string{"compression_angstrom", "stretch_angstrom"} {
+				assert.Contains(t, pot, k, spec)
+			}
+			for _, k := range []string{"energy_ev", "depth_fraction", "temperature_k", "compression_angstrom", "stretch_angstrom"} {
+				assert.Contains(t, per, k, spec)
+			}
+			if strings.HasPrefix(spec, "harmonic") {
+				assert.Nil(t, pot["stretch_angstrom"], "exact truncation: unbounded")
+				assert.Nil(t, per["energy_ev"], "exact truncation: unbounded")
+			} else {
+				assert.Greater(t, per["energy_ev"], 0.0, spec)
+				assert.Less(t, per["depth_fraction"], 1.0, spec)
+			}
+		}
+	}
+}
+
+// TestValidityMorse: for Morse at order 2 the period limit is
+// E/De = 1 − (1 − τ)² (from T = T₀/√(1 − E/De), the classical Morse
+// oscillator, standard result, from memory); the mass does not matter.
+func TestValidityMorse(t *testing.T) {
+	for _, tt := range []struct {
+		tol  string
+		frac float64
+	}{{"1%", 1 - 0.99*0.99}, {"0.05", 1 - 0.95*0.95}, {"0.1 %", 1 - 0.999*0.999}} {
+		obj := validityJSON(t, "morse:De=4.6,a=1.87,re=1.27", "--tolerance", tt.tol)
+		per := obj["period"].(map[string]any)
+		assert.InEpsilon(t, tt.frac, per["depth_fraction"], 1e-8, tt.tol)
+		assert.InEpsilon(t, tt.frac*4.6/units.BoltzmannEV, per["temperature_k"], 1e-8, tt.tol)
+	}
+	a := validityJSON(t, "morse:De=4.6,a=1.87,re=1.27", "--pair", "H-Cl")
+	b := validityJSON(t, "morse:De=4.6,a=1.87,re=1.27", "--mu", "100")
+	assert.Equal(t, a["period"], b["period"], "mass independent")
+	assert.Equal(t, "H-Cl", a["pair"])
+}
+
+func TestValidityTable(t *testing.T) {
+	var stdout, stderr bytes.Buffer
+	code := run([]string{"validity", "harmonic:k=30,r0=1.2"}, strings.NewReader(""), &stdout, &stderr)
+	require.Equal(t, 0, code, stderr.String())
+	out := stdout.String()
+	for _, s := range []string{"harmonic truncation (order 2)", "Å", "eV", "K", "∞", "exact", "safety"} {
+		assert.Contains(t, out, s)
+	}
+	stdout.Reset()
+	code = run([]string{"validity", "morse:De=4.6,a=1.87,re=1.27", "--format", "csv", "--order", "4"}, strings.NewReader(""), &stdout, &stderr)
+	require.Equal(t, 0, code, stderr.String())
+	lines := strings.Split(strings.TrimSpace(stdout.String()), "\n")
+	assert.Equal(t, "criterion,quantity,value,unit", lines[0])
+	assert.Len(t, lines, 8)
+}
+
+func TestValidityBadInput(t *testing.T) {
+	tests := []struct {
+		name string
+		args []string
+		text string
+	}{
+		{"order 5", []string{"morse:De=4.6,a=1.87,re=1.27", "--order", "5"}, "--order"},
+		{"order 1", []string{"morse:De=4.6,a=1.87,re=1.27", "--order", "1"}, "--order"},
+		{"tolerance 0", []string{"morse:De=4.6,a=1.87,re=1.27", "--tolerance", "0"}, "--tolerance"},
+		{"tolerance 150%", []string{"morse:De=4.6,a=1.87,re=1.27", "--tolerance", "150%"}, "--tolerance"},
+		{"tolerance text", []string{"morse:De=4.6,a=1.87,re=1.27", "--tolerance", "tight"}, "--tolerance"},
+		{"tolerance too small", []string{"morse:De=4.6,a=1.87,re=1.27", "--tolerance", "1e-9"}, "larger tolerance"},
+		{"bad mass", []string{"morse:De=4.6,a=1.87,re=1.27", "--mu", "-1"}, "--mu"},
+		{"bad spec", []string{"nosuch:x=1"}, "nosuch"},
+	}
+	for _, tt := range tests {
+		t.Run(tt.name, func(t *testing.T) {
+			var stdout, stderr bytes.Buffer
+			code := run(append([]string{"validity"}, tt.args...), strings.NewReader(""), &stdout, &stderr)
+			assert.Equal(t, exitUsage, code)
+			assert.Empty(t, stdout.String())
+			assert.Contains(t, stderr.String(), tt.text)
+		})
+	}
+}
