@@ -117,21 +117,22 @@ interpretation and caution.`, demoBond.target.Re, demoBond.target.Depth, demoBon
 // runDemo computes every section.
 func runDemo(e *env) (demoReport, error) {
 	r := demoReport{Scenario: demoScenarioSection(), Caution: demoCaution}
-	rows, err := demoCompareSection(e)
+	inputs := demoInputs(e.registry)
+	rows, err := demoCompareSection(e, inputs)
 	if err != nil {
 		return r, err
 	}
 	r.Compare = rows
-	var src *report.CompareRow
-	for i := range rows {
-		if rows[i].Model == demoPeriodModel {
-			src = &rows[i]
+	var src *report.CompareInput
+	for i := range inputs {
+		if inputs[i].Model == demoPeriodModel && inputs[i].Err == nil {
+			src = &inputs[i]
 		}
 	}
-	if src == nil || src.Err != nil {
+	if src == nil {
 		return r, failErr(fmt.Errorf("demo: %s could not be matched to the demo bond", demoPeriodModel))
 	}
-	r.Period, err = demoPeriodSection(e, src.Name)
+	r.Period, err = demoPeriodSection(src.Name, src.Instance.Potential)
 	if err != nil {
 		return r, err
 	}
@@ -162,24 +163,13 @@ func demoInputs(reg *core.Registry) []report.CompareInput {
 }
 
 // demoCompareSection compares the matched forms.
-func demoCompareSection(e *env) ([]report.CompareRow, error) {
-	return e.compare(demoInputs(e.registry), report.CompareSettings{})
+func demoCompareSection(e *env, inputs []report.CompareInput) ([]report.CompareRow, error) {
+	return e.compare(inputs, report.CompareSettings{})
 }
 
 // demoPeriodSection tabulates the exact, harmonic and perturbative periods
-// of the matched form named name at demoAmplitudes.
-func demoPeriodSection(e *env, name string) (demoPeriod, error) {
-	var in *report.CompareInput
-	inputs := demoInputs(e.registry)
-	for i := range inputs {
-		if inputs[i].Name == name {
-			in = &inputs[i]
-		}
-	}
-	if in == nil || in.Err != nil {
-		return demoPeriod{}, failErr(fmt.Errorf("demo: no matched %s", name))
-	}
-	p := in.Instance.Potential
+// of the potential p, named name, at demoAmplitudes.
+func demoPeriodSection(name string, p core.Potential) (demoPeriod, error) {
 	w, err := core.AnalyzeWell(p, core.WellSettings{Order: 4})
 	if err != nil {
 		return demoPeriod{}, computeErr(err)
