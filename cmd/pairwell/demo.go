@@ -303,7 +303,7 @@ func writeDemo(w io.Writer, r demoReport) error {
 func writeDemoScenario(w io.Writer, r demoReport) error {
 	s := r.Scenario
 	_, err := fmt.Fprintf(w, `pairwell demo — an INVENTED bond, not a real molecule:
-  re = %g Å, De = %g eV, k = %g eV/Å², reduced mass μ = %g u.
+  re = %.2f Å, De = %.2f eV, k = %g eV/Å², reduced mass μ = %g u.
 Every built-in form is matched to it (pairwell compare --match re=%g,De=%g,k=%g --mu %g).
 Validity: the Taylor potential of order %d within a tolerance of %g %%.
 `, s.Re, s.Depth, s.K, s.Mu, s.Re, s.Depth, s.K, s.Mu, s.Order, 100*s.Tolerance)
