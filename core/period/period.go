@@ -264,8 +264,8 @@ func Exact(p core.Potential, w core.Well, mu, E float64, s Settings) (Result, er
 // to 5, from one p.Derivatives call per end), which has no cancellation;
 // elsewhere from the batched values. The remaining rounding error comes
 // from the location of the turning points; measured on the Morse closed form
-// it is below 1e-14 for E ≳ 0.01·De, ≈ 3e-13 at E = 1e-4·De and ≈ 1e-12 at
-// 1e-8·De. ErrorEstimate is never below an estimate of it,
+// it is a few 1e-15 for 0.1 ≤ E/De ≤ 0.9, ≈ 2e-14 at E = 0.01·De, ≈ 3e-13
+// at 1e-4·De and ≈ 1e-12 at 1e-8·De. ErrorEstimate is never below an estimate of it,
 // 16ε·√((|V(re)| + E)/E) plus the propagated error of the direct
 // differences, and the doubling stops once two rules agree to that level.
 // Close to the top of the well T(E) is ill-conditioned
