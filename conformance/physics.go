@@ -1,0 +1,240 @@
+package conformance
+
+import (
+	"fmt"
+	"math"
+
+	"github.com/pairwell/pairwell/core"
+)
+
+// checkEquilibrium checks V′(re) = 0 and V″(re) > 0 at the minimum that
+// core.Equilibrium finds. |V′(re)|/(V″(re)·re) is the relative shift of
+// re that the residual V′ implies; it must not exceed
+// EquilibriumTolerance. A form with no minimum that declares none (no
+// EquilibriumR identity, no Guesser, no barrier) is skipped.
+func (c *subject) checkEquilibrium() Result {
+	r := c.result(CheckEquilibrium, "V′(re) = 0 and V″(re) > 0 at the minimum")
+	r.Tolerance = c.s.EquilibriumTolerance
+	if math.IsNaN(c.re) {
+		if !c.declaresMinimum() {
+			r.Passed, r.Skipped = true, true
+			r.Message = fmt.Sprintf("no minimum in the domain (%s) and none declared: not applicable", errString(c.reErr))
+			return r
+		}
+		r.WorstR = c.centre
+		r.Message = fmt.Sprintf("the potential declares a minimum (near r = %.9g Å) but V′ has no − to + sign change there: %s",
+			c.centre, errString(c.reErr))
+		return r
+	}
+	var d [3]float64
+	r.WorstR = c.re
+	if err := c.p.Derivatives(c.re, d[:]); err != nil {
+		r.Message = fmt.Sprintf("Derivatives at re = %.9g Å: %s", c.re, errString(err))
+		return r
+	}
+	r.Error = math.Abs(d[1]) / (math.Abs(d[2]) * c.re)
+	if d[1] == 0 {
+		r.Error = 0
+	}
+	switch {
+	case !(d[2] > 0):
+		r.Message = fmt.Sprintf("at re = %.12g Å V″ = %.6g eV/Å² is not positive: not a minimum", c.re, d[2])
+	case !(r.Error <= r.Tolerance):
+		r.Message = fmt.Sprintf("at re = %.12g Å V′ = %.6g eV/Å, V″ = %.6g eV/Å²: |V′|/(V″·re) = %.3g > %.3g",
+			c.re, d[1], d[2], r.Error, r.Tolerance)
+	default:
+		r.Passed = true
+		r.Message = fmt.Sprintf("re = %.12g Å, V(re) = %.10g eV, V′(re) = %.3g eV/Å, V″(re) = %.10g eV/Å²", c.re, d[0], d[1], d[2])
+	}
+	if v, ok := c.declaredRe(); ok && math.Abs(v-c.re) > 1e-6*v {
+		r.Message += fmt.Sprintf(" (the potential declares re = %.12g Å)", v)
+	}
+	return r
+}
+
+// checkIdentities checks each identity the potential declares. The
+// relative error is |got − want|/(|want| + K·reⁿ⁻²·…): for V⁽ⁿ⁾ at the
+// minimum the scale is |want| + |V″(re)|·re^(2−n), for energies
+// |want| + |V″(re)|·re², so that identities whose value is 0 (V‴ of the
+// harmonic form) are measured against the well's natural magnitude; for
+// re it is |want|.
+func (c *subject) checkIdentities() []Result {
+	id, ok := c.p.(core.Identifier)
+	if !ok {
+		r := c.result(CheckIdentity, "declared identities")
+		r.Passed, r.Skipped = true, true
+		r.Message = "the potential declares no identities (core.Identifier)"
+		return []Result{r}
+	}
+	ids := id.Identities()
+	if len(ids) == 0 {
+		r := c.result(CheckIdentity, "declared identities")
+		r.Passed, r.Skipped = true, true
+		r.Message = "the potential declares an empty list of identities"
+		return []Result{r}
+	}
+	k := math.NaN()
+	if !math.IsNaN(c.re) {
+		if v, err := derivative(c.p, 2, c.re); err == nil {
+			k = math.Abs(v)
+		}
+	}
+	out := make([]Result, 0, len(ids))
+	for _, x := range ids {
+		out = append(out, c.checkIdentity(x, k))
+	}
+	return out
+}
+
+func (c *subject) checkIdentity(x core.Identity, k float64) Result {
+	r := c.result(CheckIdentity, "identity "+x.Name)
+	r.Source, r.Tolerance = x.Source, c.s.IdentityTolerance
+	needRe := x.Quantity != core.ValueAt
+	if needRe && math.IsNaN(c.re) {
+		r.Message = fmt.Sprintf("%s: no minimum found: %s", x.Name, errString(c.reErr))
+		return r
+	}
+	var (
+		got, scale float64
+		what       string
+		err        error
+	)
+	switch x.Quantity {
+	case core.EquilibriumR:
+		got, scale, what, r.WorstR = c.re, math.Abs(x.Value), "re", c.re
+	case core.MinimumEnergy:
+		got, err = derivative(c.p, 0, c.re)
+		scale, what, r.WorstR = math.Abs(x.Value)+k*c.re*c.re, "V(re)", c.re
+	case core.DerivativeAtMinimum:
+		if x.Order < 0 || x.Order > c.p.MaxOrder() {
+			r.Message = fmt.Sprintf("%s: order %d outside 0 to MaxOrder %d", x.Name, x.Order, c.p.MaxOrder())
+			return r
+		}
+		r.Order = x.Order
+		got, err = derivative(c.p, x.Order, c.re)
+		scale = math.Abs(x.Value) + k*math.Pow(c.re, float64(2-x.Order))
+		what, r.WorstR = vname(x.Order)+"(re)", c.re
+	case core.ValueAt:
+		got, err = derivative(c.p, 0, x.R)
+		scale = math.Abs(x.Value)
+		if !math.IsNaN(k) {
+			scale += k * c.re * c.re
+		}
+		what, r.WorstR = fmt.Sprintf("V(%.9g Å)", x.R), x.R
+	default:
+		r.Message = fmt.Sprintf("%s: unknown quantity %d", x.Name, x.Quantity)
+		return r
+	}
+	if err != nil {
+		r.Message = fmt.Sprintf("%s: evaluating %s: %s", x.Name, what, errString(err))
+		return r
+	}
+	diff := math.Abs(got - x.Value)
+	switch {
+	case diff == 0:
+		r.Error = 0
+	case scale > 0:
+		r.Error = diff / scale
+	default:
+		r.Error = math.Inf(1)
+	}
+	if math.IsNaN(r.Error) {
+		r.Error = math.Inf(1)
+	}
+	r.Passed = r.Error <= r.Tolerance
+	verdict := "holds"
+	if !r.Passed {
+		verdict = fmt.Sprintf("fails: relative error %.3g > tolerance %.3g", r.Error, r.Tolerance)
+	}
+	r.Message = fmt.Sprintf("%s: expected %.15g, got %s = %.15g; %s", x.Name, x.Value, what, got, verdict)
+	if x.Source != "" {
+		r.Message += " (source: " + x.Source + ")"
+	}
+	return r
+}
+
+// derivative returns V⁽ⁿ⁾(r) by Batch.
+func derivative(p core.Potential, n int, r float64) (float64, error) {
+	var x, d [1]float64
+	x[0] = r
+	if err := p.Batch(n, x[:], d[:]); err != nil {
+		return 0, err
+	}
+	return d[0], nil
+}
+
+// checkAsymptote checks the declared dissociation limit: for a finite
+// Domain.Limit, |V(f·re) − Limit| ≤ AsymptoteTolerance·depth at
+// f = AsymptoteFactor (10⁶ by default, so that tails as slow as 1/r
+// pass), where depth = Limit − V(re); the message also gives the
+// deviation at 50·re. For Limit = +Inf, V must grow along 50·re, 10³·re,
+// f·re. The point is kept inside a finite Domain.Max. Without a minimum,
+// re is the declared equilibrium distance or the top of the sampled range,
+// and the depth is the largest |V − Limit| over the sampled points.
+func (c *subject) checkAsymptote() Result {
+	lim := c.dom.Limit
+	r := c.result(CheckAsymptote, "V approaches the declared limit Domain.Limit")
+	ref := c.centre
+	if math.IsNaN(ref) {
+		ref = c.ev.hi
+	}
+	clip := func(x float64) float64 {
+		if x >= c.dom.Max {
+			return c.dom.Max - 1e-9*(c.dom.Max-c.dom.Min)
+		}
+		return x
+	}
+	far := clip(c.s.AsymptoteFactor * ref)
+	near := clip(50 * ref)
+	vs := make([]float64, 3)
+	xs := []float64{near, clip(1e3 * ref), far}
+	if err := c.p.Batch(0, xs, vs); err != nil {
+		r.Message = fmt.Sprintf("evaluating V at %g, %g and %g Å: %s", xs[0], xs[1], xs[2], errString(err))
+		return r
+	}
+	r.WorstR = far
+	switch {
+	case math.IsNaN(lim):
+		r.Message = "Domain.Limit is NaN; it must be the limit of V as r → ∞ (+Inf for unbounded forms)"
+		return r
+	case math.IsInf(lim, 0):
+		grows := (lim > 0 && vs[0] < vs[1] && vs[1] < vs[2]) || (lim < 0 && vs[0] > vs[1] && vs[1] > vs[2])
+		r.Passed = grows
+		r.Message = fmt.Sprintf("Limit %g: V(%.4g Å) = %.6g, V(%.4g Å) = %.6g, V(%.4g Å) = %.6g eV", lim, xs[0], vs[0], xs[1], vs[1], xs[2], vs[2])
+		if !grows {
+			r.Message += ": V does not grow towards the declared limit"
+		}
+		return r
+	}
+	depth := math.NaN()
+	if !math.IsNaN(c.re) {
+		if v, err := derivative(c.p, 0, c.re); err == nil {
+			depth = lim - v
+		}
+	}
+	how := "the well depth Limit − V(re)"
+	if !(depth > 0) {
+		depth, how = 0, "the largest |V − Limit| over the sampled points"
+		if c.ev.vals[0] != nil {
+			for _, v := range c.ev.vals[0] {
+				depth = math.Max(depth, math.Abs(v-lim))
+			}
+		}
+	}
+	r.Tolerance = c.s.AsymptoteTolerance
+	dev := math.Abs(vs[2] - lim)
+	r.Error = dev / depth
+	if dev == 0 {
+		r.Error = 0
+	}
+	if math.IsNaN(r.Error) {
+		r.Error = math.Inf(1)
+	}
+	r.Passed = r.Error <= r.Tolerance
+	r.Message = fmt.Sprintf("|V − Limit|/depth = %.3g at r = %.4g Å (%g·re), %.3g at %.4g Å (50·re); Limit %g eV, depth %.6g eV (%s)",
+		r.Error, far, c.s.AsymptoteFactor, math.Abs(vs[0]-lim)/depth, near, lim, depth, how)
+	if !r.Passed {
+		r.Message = "V does not approach the declared limit: " + r.Message
+	}
+	return r
+}
