@@ -83,7 +83,7 @@ func (c *subject) usableOrders() []int {
 // prefix length cycling over the points), since the contract asks for the
 // same bits whichever method and slice length is used.
 func (c *subject) checkBatch() Result {
-	r := c.result(CheckBatch, "Batch and Derivatives give the same bits")
+	r := c.result(CheckBatch, "Batch = Derivatives, bit for bit")
 	ev := c.ev
 	ks := c.usableOrders()
 	if len(ks) == 0 {
@@ -115,7 +115,7 @@ func (c *subject) checkBatch() Result {
 // checkDeterminism evaluates every order again by Batch, with the points
 // in reverse order, and compares the bits.
 func (c *subject) checkDeterminism() Result {
-	r := c.result(CheckDeterminism, "repeated evaluations give the same bits")
+	r := c.result(CheckDeterminism, "repeatable, bit for bit")
 	ks := c.usableOrders()
 	if len(ks) == 0 {
 		r.Message = "no order could be evaluated by Batch (see the derivative checks)"
@@ -149,7 +149,7 @@ const concurrencyRounds = 2
 // the bits with the reference.
 func (c *subject) checkConcurrency() Result {
 	g := c.s.Goroutines
-	r := c.result(CheckConcurrency, fmt.Sprintf("%d goroutines at once give the same bits", g))
+	r := c.result(CheckConcurrency, fmt.Sprintf("%d goroutines at once, bit for bit", g))
 	ks := c.usableOrders()
 	if len(ks) == 0 {
 		r.Message = "no order could be evaluated by Batch (see the derivative checks)"

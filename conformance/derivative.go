@@ -245,7 +245,7 @@ func (c *subject) checkDerivatives() []Result {
 	out := make([]Result, 0, c.order)
 	failed := make([]bool, c.order+1)
 	for n := 1; n <= c.order; n++ {
-		r := c.result(CheckDerivative, fmt.Sprintf("%s vs d%s/dr (finite differences)", vname(n), vname(n-1)))
+		r := c.result(CheckDerivative, fmt.Sprintf("%s vs d%s/dr", vname(n), vname(n-1)))
 		r.Order, r.Tolerance = n, tol
 		if err := firstErr(ev.errs[n], ev.errs[n-1]); err != nil {
 			r.Message = fmt.Sprintf("order %d: cannot compare %s with d%s/dr over %.6g to %.6g Å: %s",

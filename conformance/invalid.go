@@ -106,7 +106,7 @@ func (c *subject) invalidRs() []float64 {
 // when it sits between valid ones.
 func (c *subject) checkInvalidR() Result {
 	bad := c.invalidRs()
-	r := c.result(CheckInvalidR, "r ≤ 0, NaN, ±Inf and r outside the domain give errors")
+	r := c.result(CheckInvalidR, "bad r rejected")
 	r.Tolerance = 0
 	good := c.ev.rs[len(c.ev.rs)/2]
 	var problems []string
@@ -148,7 +148,7 @@ func (c *subject) checkInvalidR() Result {
 // give errors wrapping core.ErrOrder, and that Batch slices of different
 // lengths give an error wrapping core.ErrLength.
 func (c *subject) checkInvalidOrder() Result {
-	r := c.result(CheckInvalidOrder, "orders beyond MaxOrder, negative orders and mismatched slices give errors")
+	r := c.result(CheckInvalidOrder, "bad orders, slice lengths rejected")
 	r.Tolerance = 0
 	mo := c.p.MaxOrder()
 	good := c.ev.rs[len(c.ev.rs)/2]

@@ -13,7 +13,7 @@ import (
 // EquilibriumTolerance. A form with no minimum that declares none (no
 // EquilibriumR identity, no Guesser, no barrier) is skipped.
 func (c *subject) checkEquilibrium() Result {
-	r := c.result(CheckEquilibrium, "V′(re) = 0 and V″(re) > 0 at the minimum")
+	r := c.result(CheckEquilibrium, "V′(re) = 0, V″(re) > 0")
 	r.Tolerance = c.s.EquilibriumTolerance
 	if math.IsNaN(c.re) {
 		if !c.declaresMinimum() {
@@ -74,8 +74,11 @@ func (c *subject) checkIdentities() []Result {
 		return []Result{r}
 	}
 	k := math.NaN()
-	if !math.IsNaN(c.re) {
-		if v, err := derivative(c.p, 2, c.re); err == nil {
+	if re := c.re; !math.IsNaN(re) || !math.IsNaN(c.centre) {
+		if math.IsNaN(re) {
+			re = c.centre
+		}
+		if v, err := derivative(c.p, 2, re); err == nil {
 			k = math.Abs(v)
 		}
 	}
@@ -89,10 +92,16 @@ func (c *subject) checkIdentities() []Result {
 func (c *subject) checkIdentity(x core.Identity, k float64) Result {
 	r := c.result(CheckIdentity, "identity "+x.Name)
 	r.Source, r.Tolerance = x.Source, c.s.IdentityTolerance
-	needRe := x.Quantity != core.ValueAt
-	if needRe && math.IsNaN(c.re) {
-		r.Message = fmt.Sprintf("%s: no minimum found: %s", x.Name, errString(c.reErr))
-		return r
+	// Without a minimum, quantities at the minimum are taken at the
+	// declared equilibrium distance, so that a fault in V′ alone does not
+	// fail every identity.
+	re, at := c.re, ""
+	if math.IsNaN(re) && x.Quantity != core.ValueAt {
+		if x.Quantity == core.EquilibriumR || math.IsNaN(c.centre) {
+			r.Message = fmt.Sprintf("%s: no minimum found: %s", x.Name, errString(c.reErr))
+			return r
+		}
+		re, at = c.centre, fmt.Sprintf(" at the declared re = %.9g Å (no minimum found)", c.centre)
 	}
 	var (
 		got, scale float64
@@ -101,19 +110,19 @@ func (c *subject) checkIdentity(x core.Identity, k float64) Result {
 	)
 	switch x.Quantity {
 	case core.EquilibriumR:
-		got, scale, what, r.WorstR = c.re, math.Abs(x.Value), "re", c.re
+		got, scale, what, r.WorstR = re, math.Abs(x.Value), "re", re
 	case core.MinimumEnergy:
-		got, err = derivative(c.p, 0, c.re)
-		scale, what, r.WorstR = math.Abs(x.Value)+k*c.re*c.re, "V(re)", c.re
+		got, err = derivative(c.p, 0, re)
+		scale, what, r.WorstR = math.Abs(x.Value)+k*re*re, "V(re)", re
 	case core.DerivativeAtMinimum:
 		if x.Order < 0 || x.Order > c.p.MaxOrder() {
 			r.Message = fmt.Sprintf("%s: order %d outside 0 to MaxOrder %d", x.Name, x.Order, c.p.MaxOrder())
 			return r
 		}
 		r.Order = x.Order
-		got, err = derivative(c.p, x.Order, c.re)
-		scale = math.Abs(x.Value) + k*math.Pow(c.re, float64(2-x.Order))
-		what, r.WorstR = vname(x.Order)+"(re)", c.re
+		got, err = derivative(c.p, x.Order, re)
+		scale = math.Abs(x.Value) + k*math.Pow(re, float64(2-x.Order))
+		what, r.WorstR = vname(x.Order)+"(re)", re
 	case core.ValueAt:
 		got, err = derivative(c.p, 0, x.R)
 		scale = math.Abs(x.Value)
@@ -146,7 +155,7 @@ func (c *subject) checkIdentity(x core.Identity, k float64) Result {
 	if !r.Passed {
 		verdict = fmt.Sprintf("fails: relative error %.3g > tolerance %.3g", r.Error, r.Tolerance)
 	}
-	r.Message = fmt.Sprintf("%s: expected %.15g, got %s = %.15g; %s", x.Name, x.Value, what, got, verdict)
+	r.Message = fmt.Sprintf("%s: expected %.15g, got %s = %.15g%s; %s", x.Name, x.Value, what, got, at, verdict)
 	if x.Source != "" {
 		r.Message += " (source: " + x.Source + ")"
 	}
@@ -173,7 +182,7 @@ func derivative(p core.Potential, n int, r float64) (float64, error) {
 // and the depth is the largest |V − Limit| over the sampled points.
 func (c *subject) checkAsymptote() Result {
 	lim := c.dom.Limit
-	r := c.result(CheckAsymptote, "V approaches the declared limit Domain.Limit")
+	r := c.result(CheckAsymptote, "V → Domain.Limit")
 	ref := c.centre
 	if math.IsNaN(ref) {
 		ref = c.ev.hi

@@ -175,7 +175,7 @@ func runCase(name string, inst core.Instance, s Settings) []Result {
 // checkMaxOrder checks that the form declares enough analytic orders and
 // that the potential agrees with its model's metadata.
 func (c *subject) checkMaxOrder() Result {
-	r := c.result(CheckMaxOrder, fmt.Sprintf("analytic derivatives up to order ≥ %d", RequiredOrder))
+	r := c.result(CheckMaxOrder, fmt.Sprintf("MaxOrder ≥ %d", RequiredOrder))
 	got := c.p.MaxOrder()
 	switch {
 	case got < RequiredOrder:

@@ -69,6 +69,7 @@ field: do not base production or safety decisions on its numbers alone.`,
 		newMotionCmd(e),
 		newPeriodCmd(e),
 		newValidityCmd(e),
+		newCheckCmd(e),
 	)
 	return root
 }
