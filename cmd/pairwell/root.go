@@ -70,6 +70,7 @@ field: do not base production or safety decisions on its numbers alone.`,
 		newPeriodCmd(e),
 		newValidityCmd(e),
 		newCheckCmd(e),
+		newBaselineCmd(e),
 	)
 	return root
 }
