@@ -91,6 +91,7 @@ type Plugin struct {
 
 	client *plugin.Client
 	forms  pb.FormsClient
+	fast   *wire.FastClient // nil: evaluations go over gRPC
 	stderr *tail
 
 	ctx    context.Context // canceled when the plugin stops
@@ -230,6 +231,12 @@ func (p *Plugin) start(ctx context.Context) error {
 		return err
 	}
 	p.version = resp.GetPluginVersion()
+	if addr := resp.GetFastPath(); addr != "" {
+		// Without the direct channel evaluations still work, over gRPC.
+		if fc, err := wire.DialFast(addr, p.timeout); err == nil {
+			p.fast = fc
+		}
+	}
 	if len(resp.GetModels()) == 0 {
 		return fmt.Errorf("plugin %s: Describe: %w: no models", p.path, ErrBadOutput)
 	}
@@ -263,6 +270,10 @@ func (p *Plugin) Version() string { return p.version }
 // Models returns the models the plugin serves, in the order it described
 // them. Their Info().Origin is Path and Info().Version is Version.
 func (p *Plugin) Models() []core.Model { return append([]core.Model(nil), p.models...) }
+
+// Direct reports whether evaluations use the plugin's direct evaluation
+// channel rather than gRPC's Evaluate.
+func (p *Plugin) Direct() bool { return p.fast != nil }
 
 // Pid returns the process id of the plugin, 0 if it did not start.
 func (p *Plugin) Pid() int {
@@ -300,6 +311,9 @@ func (p *Plugin) kill(reason error) {
 	p.killMu.Lock()
 	defer p.killMu.Unlock()
 	p.cancel()
+	if p.fast != nil {
+		p.fast.Close()
+	}
 	if proc != nil {
 		_ = proc.Kill(context.Background())
 	}
@@ -327,10 +341,19 @@ func (p *Plugin) call(what string, rpc func(ctx context.Context) error) error {
 	if err == nil {
 		return nil
 	}
+	timedOut := errors.Is(ctx.Err(), context.DeadlineExceeded) || status.Code(err) == codes.DeadlineExceeded
+	return p.failed(what, err, timedOut)
+}
+
+// failed turns the transport error of a call into an error naming the
+// plugin and the call: a deadline stops the plugin (ErrTimeout), a process
+// that ended is reported with how it ended and its last output
+// (ErrCrashed).
+func (p *Plugin) failed(what string, err error, timedOut bool) error {
 	if dead := p.deadErr(); dead != nil {
 		return fmt.Errorf("%s: %w", what, dead)
 	}
-	if errors.Is(ctx.Err(), context.DeadlineExceeded) || status.Code(err) == codes.DeadlineExceeded {
+	if timedOut {
 		e := fmt.Errorf("plugin %s: %s: %w: no answer within %v; the plugin was stopped", p.path, what, ErrTimeout, p.timeout)
 		p.kill(e)
 		return e

@@ -14,6 +14,13 @@ var bin struct {
 	rydberg, mie string
 	test         string // testdata/testplugin: plugin-morse and the faulty models
 	badproto     string // testplugin under a name that makes it speak protocol 2
+	grpconly     string // testplugin without the direct evaluation channel
+}
+
+// transports are the test plugin with and without the direct evaluation
+// channel.
+func transports() []struct{ name, path string } {
+	return []struct{ name, path string }{{"direct", bin.test}, {"grpc", bin.grpconly}}
 }
 
 func TestMain(m *testing.M) {
@@ -35,9 +42,12 @@ func testMain(m *testing.M) int {
 	bin.mie = filepath.Join(dir, "mie")
 	bin.test = filepath.Join(dir, "testplugin")
 	bin.badproto = filepath.Join(dir, "badproto")
-	if err := os.Symlink(bin.test, bin.badproto); err != nil {
-		fmt.Fprintln(os.Stderr, err)
-		return 1
+	bin.grpconly = filepath.Join(dir, "grpconly")
+	for _, link := range []string{bin.badproto, bin.grpconly} {
+		if err := os.Symlink(bin.test, link); err != nil {
+			fmt.Fprintln(os.Stderr, err)
+			return 1
+		}
 	}
 	return m.Run()
 }

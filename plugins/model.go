@@ -2,7 +2,9 @@ package plugins
 
 import (
 	"context"
+	"errors"
 	"fmt"
+	"os"
 	"runtime"
 	"time"
 
@@ -153,25 +155,43 @@ func (pt *potential) Identities() []core.Identity {
 	return append([]core.Identity(nil), pt.ids...)
 }
 
-// evaluate runs one Evaluate call for r; want is the number of values due.
-func (pt *potential) evaluate(what string, req *pb.EvaluateRequest, want int) (*pb.EvaluateResponse, error) {
+// eval runs one evaluation of r, at order n or (allOrders) at every order
+// up to n, storing the values in dst, whose length is the number due. It
+// returns a failure the plugin reported, or an error naming the plugin and
+// the call. what describes the call; it is formatted only for errors.
+func (pt *potential) eval(what func() string, n int, allOrders bool, r, dst []float64) (*pb.PointFailure, *pb.Failure, error) {
+	defer runtime.KeepAlive(pt) // the handle must outlive the call
 	p := pt.p
+	if fc := p.fast; fc != nil {
+		if err := p.deadErr(); err != nil {
+			return nil, nil, fmt.Errorf("%s: %w", what(), err)
+		}
+		pf, f, err := fc.Evaluate(p.timeout, pt.handle, n, allOrders, r, dst)
+		switch {
+		case errors.Is(err, wire.ErrBadCount):
+			return nil, nil, fmt.Errorf("plugin %s: %s: %w: %v", p.path, what(), ErrBadOutput, err)
+		case err != nil:
+			return nil, nil, p.failed(what(), err, errors.Is(err, os.ErrDeadlineExceeded))
+		}
+		return pf, f, nil
+	}
 	var resp *pb.EvaluateResponse
-	err := p.call(what, func(ctx context.Context) (err error) {
-		resp, err = p.forms.Evaluate(ctx, req)
+	w := what()
+	err := p.call(w, func(ctx context.Context) (err error) {
+		resp, err = p.forms.Evaluate(ctx, &pb.EvaluateRequest{Handle: pt.handle, Order: int32(n), R: r, AllOrders: allOrders})
 		return err
 	})
-	runtime.KeepAlive(pt) // the handle must outlive the call
 	if err != nil {
-		return nil, err
+		return nil, nil, err
 	}
 	if resp.GetFailure() != nil || resp.GetPointFailure() != nil {
-		return resp, nil
+		return resp.GetPointFailure(), resp.GetFailure(), nil
 	}
-	if got := len(resp.GetValues()); got != want {
-		return nil, fmt.Errorf("plugin %s: %s: %w: %d values, want %d", p.path, what, ErrBadOutput, got, want)
+	if got := len(resp.GetValues()); got != len(dst) {
+		return nil, nil, fmt.Errorf("plugin %s: %s: %w: %d values, want %d", p.path, w, ErrBadOutput, got, len(dst))
 	}
-	return resp, nil
+	copy(dst, resp.GetValues())
+	return nil, nil, nil
 }
 
 // Derivatives stores V⁽ᵏ⁾(r) in dst[k] for k = 0, …, len(dst)−1, in one
@@ -184,22 +204,21 @@ func (pt *potential) Derivatives(r float64, dst []float64) error {
 	if err := core.CheckOrder(n, pt.maxOrder); err != nil {
 		return fmt.Errorf("%s: %w", pt.key, err)
 	}
-	what := fmt.Sprintf("Evaluate %s V⁽⁰…%d⁾ at r = %g Å", pt.key, n, r)
-	resp, err := pt.evaluate(what, &pb.EvaluateRequest{Handle: pt.handle, Order: int32(n), R: []float64{r}, AllOrders: true}, n+1)
-	if err != nil {
+	what := func() string { return fmt.Sprintf("Evaluate %s V⁽⁰…%d⁾ at r = %g Å", pt.key, n, r) }
+	rr := [1]float64{r}
+	pf, f, err := pt.eval(what, n, true, rr[:], dst)
+	switch {
+	case err != nil:
 		return err
-	}
-	if f := resp.GetFailure(); f != nil {
+	case f != nil:
 		return remote(pt.p, f)
-	}
-	if pf := resp.GetPointFailure(); pf != nil {
+	case pf != nil:
 		return remote(pt.p, pf.GetFailure())
 	}
-	for k, v := range resp.GetValues() {
+	for k, v := range dst {
 		if v-v != 0 {
-			return fmt.Errorf("plugin %s: %s: %w: V⁽%d⁾ is %g", pt.p.path, what, ErrBadOutput, k, v)
+			return fmt.Errorf("plugin %s: %s: %w: V⁽%d⁾ is %g", pt.p.path, what(), ErrBadOutput, k, v)
 		}
-		dst[k] = v
 	}
 	return nil
 }
@@ -214,32 +233,29 @@ func (pt *potential) Batch(n int, r, dst []float64) error {
 	}
 	for off := 0; off < len(r); off += maxBatch {
 		chunk := r[off:min(off+maxBatch, len(r))]
-		what := fmt.Sprintf("Evaluate %s V⁽%d⁾ at %d points", pt.key, n, len(chunk))
-		resp, err := pt.evaluate(what, &pb.EvaluateRequest{Handle: pt.handle, Order: int32(n), R: chunk}, len(chunk))
-		if err != nil {
+		out := dst[off : off+len(chunk)]
+		what := func() string { return fmt.Sprintf("Evaluate %s V⁽%d⁾ at %d points", pt.key, n, len(chunk)) }
+		pf, f, err := pt.eval(what, n, false, chunk, out)
+		switch {
+		case err != nil:
 			return err
-		}
-		if f := resp.GetFailure(); f != nil {
+		case f != nil:
 			return remote(pt.p, f)
-		}
-		if pf := resp.GetPointFailure(); pf != nil {
+		case pf != nil:
 			i := pf.GetIndex()
 			if i < 0 || i >= int64(len(chunk)) {
-				return fmt.Errorf("plugin %s: %s: %w: failure at point %d of %d", pt.p.path, what, ErrBadOutput, i, len(chunk))
+				return fmt.Errorf("plugin %s: %s: %w: failure at point %d of %d", pt.p.path, what(), ErrBadOutput, i, len(chunk))
 			}
 			return &core.PointError{Index: off + int(i), R: chunk[i], Err: remote(pt.p, pf.GetFailure())}
 		}
-		out := dst[off : off+len(chunk)]
-		values := resp.GetValues()
 		bad := 0.0
-		for i, v := range values {
-			out[i] = v
+		for _, v := range out {
 			bad += v - v
 		}
 		if bad != 0 { // NaN unless every value is finite
-			for i, v := range values {
+			for i, v := range out {
 				if v-v != 0 {
-					return &core.PointError{Index: off + i, R: chunk[i], Err: fmt.Errorf("plugin %s: %s: %w: V⁽%d⁾ is %g", pt.p.path, what, ErrBadOutput, n, v)}
+					return &core.PointError{Index: off + i, R: chunk[i], Err: fmt.Errorf("plugin %s: %s: %w: V⁽%d⁾ is %g", pt.p.path, what(), ErrBadOutput, n, v)}
 				}
 			}
 		}

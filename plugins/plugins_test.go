@@ -63,6 +63,7 @@ func requireGone(t *testing.T, pid int) {
 
 func TestLoadDescribesModels(t *testing.T) {
 	p := load(t, bin.rydberg, plugins.Options{})
+	assert.True(t, p.Direct(), "an SDK plugin serves the direct evaluation channel")
 	assert.Equal(t, "1.0.0", p.Version())
 	require.Len(t, p.Models(), 1)
 	info := p.Models()[0].Info()
@@ -162,36 +163,41 @@ func TestRydbergEndToEnd(t *testing.T) {
 // the two terms De(−2a)ⁿy² and 2De(−a)ⁿy whose difference V⁽ⁿ⁾ is, the
 // scale of the rounding of either implementation.
 func TestMorsePluginMatchesBuiltin(t *testing.T) {
-	const De, a, re = 4.6, 1.87, 1.27 // H-Cl-like Morse parameters
-	p := load(t, bin.test, plugins.Options{})
-	pot, err := model(t, p, "plugin-morse").New([]float64{De, a, re})
-	require.NoError(t, err)
-	builtin, err := models.Morse{}.New([]float64{De, a, re})
-	require.NoError(t, err)
+	for _, tp := range transports() {
+		t.Run(tp.name, func(t *testing.T) {
+			const De, a, re = 4.6, 1.87, 1.27 // H-Cl-like Morse parameters
+			p := load(t, tp.path, plugins.Options{})
+			assert.Equal(t, tp.name == "direct", p.Direct())
+			pot, err := model(t, p, "plugin-morse").New([]float64{De, a, re})
+			require.NoError(t, err)
+			builtin, err := models.Morse{}.New([]float64{De, a, re})
+			require.NoError(t, err)
 
-	rs := make([]float64, 200)
-	for i := range rs {
-		rs[i] = 0.6 + 0.03*float64(i)
-	}
-	for n := 0; n <= 10; n++ {
-		got, want := make([]float64, len(rs)), make([]float64, len(rs))
-		require.NoError(t, pot.Batch(n, rs, got))
-		require.NoError(t, builtin.Batch(n, rs, want))
-		for i, r := range rs {
-			y := math.Exp(-a * (r - re))
-			scale := De * (math.Pow(2*a, float64(n))*y*y + 2*math.Pow(a, float64(n))*y)
-			assert.InDelta(t, want[i], got[i], 1e-14*scale, "V⁽%d⁾(%g)", n, r)
-		}
-	}
-	wp, err := core.AnalyzeWell(pot, core.WellSettings{Order: 6})
-	require.NoError(t, err)
-	wb, err := core.AnalyzeWell(builtin, core.WellSettings{Order: 6})
-	require.NoError(t, err)
-	assert.InDelta(t, wb.Re, wp.Re, 1e-14*re)
-	assert.InDelta(t, wb.K, wp.K, 1e-14*wb.K)
-	assert.InDelta(t, wb.Inflection, wp.Inflection, 1e-14*wb.Inflection)
-	for n := range wb.Taylor {
-		assert.InDelta(t, wb.Taylor[n], wp.Taylor[n], 1e-14*De*math.Pow(2*a, float64(n)), "c_%d", n)
+			rs := make([]float64, 200)
+			for i := range rs {
+				rs[i] = 0.6 + 0.03*float64(i)
+			}
+			for n := 0; n <= 10; n++ {
+				got, want := make([]float64, len(rs)), make([]float64, len(rs))
+				require.NoError(t, pot.Batch(n, rs, got))
+				require.NoError(t, builtin.Batch(n, rs, want))
+				for i, r := range rs {
+					y := math.Exp(-a * (r - re))
+					scale := De * (math.Pow(2*a, float64(n))*y*y + 2*math.Pow(a, float64(n))*y)
+					assert.InDelta(t, want[i], got[i], 1e-14*scale, "V⁽%d⁾(%g)", n, r)
+				}
+			}
+			wp, err := core.AnalyzeWell(pot, core.WellSettings{Order: 6})
+			require.NoError(t, err)
+			wb, err := core.AnalyzeWell(builtin, core.WellSettings{Order: 6})
+			require.NoError(t, err)
+			assert.InDelta(t, wb.Re, wp.Re, 1e-14*re)
+			assert.InDelta(t, wb.K, wp.K, 1e-14*wb.K)
+			assert.InDelta(t, wb.Inflection, wp.Inflection, 1e-14*wb.Inflection)
+			for n := range wb.Taylor {
+				assert.InDelta(t, wb.Taylor[n], wp.Taylor[n], 1e-14*De*math.Pow(2*a, float64(n)), "c_%d", n)
+			}
+		})
 	}
 }
 
@@ -307,76 +313,88 @@ func TestConcurrentUse(t *testing.T) {
 }
 
 func TestCrashMidCall(t *testing.T) {
-	p := load(t, bin.test, plugins.Options{})
-	pid := p.Pid()
-	pot, err := model(t, p, "crashing-morse").New([]float64{1, 1, 1})
-	require.NoError(t, err, "Open works; evaluations crash")
-	err = pot.Batch(0, []float64{1, 2}, make([]float64, 2))
-	require.ErrorIs(t, err, plugins.ErrCrashed)
-	msg := err.Error()
-	assert.Contains(t, msg, bin.test, "names the plugin")
-	assert.Contains(t, msg, "Evaluate crashing-morse", "names the call")
-	assert.Contains(t, msg, "exit status 3")
-	assert.Contains(t, msg, "exiting in the middle of a call", "quotes its last output")
-	requireGone(t, pid)
+	for _, tp := range transports() {
+		t.Run(tp.name, func(t *testing.T) {
+			p := load(t, tp.path, plugins.Options{})
+			pid := p.Pid()
+			pot, err := model(t, p, "crashing-morse").New([]float64{1, 1, 1})
+			require.NoError(t, err, "Open works; evaluations crash")
+			err = pot.Batch(0, []float64{1, 2}, make([]float64, 2))
+			require.ErrorIs(t, err, plugins.ErrCrashed)
+			msg := err.Error()
+			assert.Contains(t, msg, tp.path, "names the plugin")
+			assert.Contains(t, msg, "Evaluate crashing-morse", "names the call")
+			assert.Contains(t, msg, "exit status 3")
+			assert.Contains(t, msg, "exiting in the middle of a call", "quotes its last output")
+			requireGone(t, pid)
 
-	// Every later call fails the same way, quickly.
-	_, err = model(t, p, "plugin-morse").New([]float64{1, 1, 1})
-	assert.ErrorIs(t, err, plugins.ErrCrashed)
+			// Every later call fails the same way, quickly.
+			_, err = model(t, p, "plugin-morse").New([]float64{1, 1, 1})
+			assert.ErrorIs(t, err, plugins.ErrCrashed)
+		})
+	}
 }
 
 func TestHangTimesOut(t *testing.T) {
-	p := load(t, bin.test, plugins.Options{Timeout: 300 * time.Millisecond})
-	pid := p.Pid()
-	pot, err := model(t, p, "hanging-morse").New([]float64{1, 1, 1})
-	require.NoError(t, err)
-	start := time.Now()
-	err = pot.Derivatives(1, make([]float64, 3))
-	require.ErrorIs(t, err, plugins.ErrTimeout)
-	assert.Less(t, time.Since(start), 2*time.Second)
-	assert.Contains(t, err.Error(), bin.test)
-	assert.Contains(t, err.Error(), "Evaluate hanging-morse")
-	assert.Contains(t, err.Error(), "300ms")
-	requireGone(t, pid)
-	assert.ErrorIs(t, pot.Batch(0, []float64{1}, make([]float64, 1)), plugins.ErrTimeout)
+	for _, tp := range transports() {
+		t.Run(tp.name, func(t *testing.T) {
+			p := load(t, tp.path, plugins.Options{Timeout: 300 * time.Millisecond})
+			pid := p.Pid()
+			pot, err := model(t, p, "hanging-morse").New([]float64{1, 1, 1})
+			require.NoError(t, err)
+			start := time.Now()
+			err = pot.Derivatives(1, make([]float64, 3))
+			require.ErrorIs(t, err, plugins.ErrTimeout)
+			assert.Less(t, time.Since(start), 2*time.Second)
+			assert.Contains(t, err.Error(), tp.path)
+			assert.Contains(t, err.Error(), "Evaluate hanging-morse")
+			assert.Contains(t, err.Error(), "300ms")
+			requireGone(t, pid)
+			assert.ErrorIs(t, pot.Batch(0, []float64{1}, make([]float64, 1)), plugins.ErrTimeout)
+		})
+	}
 }
 
 func TestBadOutput(t *testing.T) {
-	p := load(t, bin.test, plugins.Options{})
+	for _, tp := range transports() {
+		t.Run(tp.name, func(t *testing.T) {
+			p := load(t, tp.path, plugins.Options{})
 
-	pot, err := model(t, p, "badlen-morse").New([]float64{1, 1, 1})
-	require.NoError(t, err)
-	err = pot.Batch(2, []float64{1, 2, 3}, make([]float64, 3))
-	require.ErrorIs(t, err, plugins.ErrBadOutput)
-	assert.Contains(t, err.Error(), "2 values, want 3")
-	assert.ErrorIs(t, pot.Derivatives(1, make([]float64, 3)), plugins.ErrBadOutput)
+			pot, err := model(t, p, "badlen-morse").New([]float64{1, 1, 1})
+			require.NoError(t, err)
+			err = pot.Batch(2, []float64{1, 2, 3}, make([]float64, 3))
+			require.ErrorIs(t, err, plugins.ErrBadOutput)
+			assert.Contains(t, err.Error(), "2 values, want 3")
+			assert.ErrorIs(t, pot.Derivatives(1, make([]float64, 3)), plugins.ErrBadOutput)
 
-	pot, err = model(t, p, "nan-morse").New([]float64{1, 1, 1})
-	require.NoError(t, err)
-	var pe *core.PointError
-	err = pot.Batch(2, []float64{1, 2}, make([]float64, 2))
-	require.ErrorAs(t, err, &pe)
-	assert.Equal(t, 0, pe.Index)
-	assert.ErrorIs(t, err, plugins.ErrBadOutput)
-	assert.NotErrorIs(t, err, core.ErrDomain, "a broken plugin is not bad input")
-	assert.Contains(t, err.Error(), "NaN")
-	err = pot.Derivatives(1, make([]float64, 3))
-	assert.ErrorIs(t, err, plugins.ErrBadOutput)
-	assert.Contains(t, err.Error(), "V⁽2⁾ is NaN")
-	_, err = core.AnalyzeWell(pot, core.WellSettings{})
-	assert.ErrorIs(t, err, plugins.ErrBadOutput)
+			pot, err = model(t, p, "nan-morse").New([]float64{1, 1, 1})
+			require.NoError(t, err)
+			var pe *core.PointError
+			err = pot.Batch(2, []float64{1, 2}, make([]float64, 2))
+			require.ErrorAs(t, err, &pe)
+			assert.Equal(t, 0, pe.Index)
+			assert.ErrorIs(t, err, plugins.ErrBadOutput)
+			assert.NotErrorIs(t, err, core.ErrDomain, "a broken plugin is not bad input")
+			assert.Contains(t, err.Error(), "NaN")
+			err = pot.Derivatives(1, make([]float64, 3))
+			assert.ErrorIs(t, err, plugins.ErrBadOutput)
+			assert.Contains(t, err.Error(), "V⁽2⁾ is NaN")
+			_, err = core.AnalyzeWell(pot, core.WellSettings{})
+			assert.ErrorIs(t, err, plugins.ErrBadOutput)
 
-	// A panic is reported as a failure of the call; the plugin lives on.
-	pot, err = model(t, p, "panicking-morse").New([]float64{1, 1, 1})
-	require.NoError(t, err)
-	err = pot.Batch(0, []float64{1}, make([]float64, 1))
-	require.Error(t, err)
-	assert.Contains(t, err.Error(), "plugin panicked in Evaluate: panic test plugin")
-	pot, err = model(t, p, "plugin-morse").New([]float64{1, 1, 1})
-	require.NoError(t, err)
-	v, err := core.Value(pot, 1)
-	require.NoError(t, err)
-	assert.Equal(t, -1.0, v)
+			// A panic is reported as a failure of the call; the plugin lives on.
+			pot, err = model(t, p, "panicking-morse").New([]float64{1, 1, 1})
+			require.NoError(t, err)
+			err = pot.Batch(0, []float64{1}, make([]float64, 1))
+			require.Error(t, err)
+			assert.Contains(t, err.Error(), "plugin panicked in Evaluate: panic test plugin")
+			pot, err = model(t, p, "plugin-morse").New([]float64{1, 1, 1})
+			require.NoError(t, err)
+			v, err := core.Value(pot, 1)
+			require.NoError(t, err)
+			assert.Equal(t, -1.0, v)
+		})
+	}
 }
 
 func TestHandshakeFailures(t *testing.T) {

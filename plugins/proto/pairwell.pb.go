@@ -517,6 +517,11 @@ type DescribeResponse struct {
 	state         protoimpl.MessageState `protogen:"open.v1"`
 	PluginVersion string                 `protobuf:"bytes,1,opt,name=plugin_version,json=pluginVersion,proto3" json:"plugin_version,omitempty"` // the plugin's own version, e.g. "1.2.0"
 	Models        []*ModelInfo           `protobuf:"bytes,2,rep,name=models,proto3" json:"models,omitempty"`
+	// fast_path optionally names a Unix socket serving the direct evaluation
+	// channel: the same requests as Evaluate in a fixed binary framing that
+	// avoids gRPC's per-call costs (see plugins/doc.go). Empty: pairwell uses
+	// Evaluate. Plugins written with the Go SDK serve it.
+	FastPath      string `protobuf:"bytes,3,opt,name=fast_path,json=fastPath,proto3" json:"fast_path,omitempty"`
 	unknownFields protoimpl.UnknownFields
 	sizeCache     protoimpl.SizeCache
 }
@@ -563,6 +568,13 @@ func (x *DescribeResponse) GetModels() []*ModelInfo {
 		return x.Models
 	}
 	return nil
+}
+
+func (x *DescribeResponse) GetFastPath() string {
+	if x != nil {
+		return x.FastPath
+	}
+	return ""
 }
 
 // Failure is an error reported by the plugin.
@@ -1380,10 +1392,11 @@ const file_pairwell_proto_rawDesc = "" +
 	"\tmax_order\x18\t \x01(\x05R\bmaxOrder\x12\x18\n" +
 	"\amatcher\x18\n" +
 	" \x01(\bR\amatcher\"\x11\n" +
-	"\x0fDescribeRequest\"p\n" +
+	"\x0fDescribeRequest\"\x8d\x01\n" +
 	"\x10DescribeResponse\x12%\n" +
 	"\x0eplugin_version\x18\x01 \x01(\tR\rpluginVersion\x125\n" +
-	"\x06models\x18\x02 \x03(\v2\x1d.pairwell.plugin.v1.ModelInfoR\x06models\"V\n" +
+	"\x06models\x18\x02 \x03(\v2\x1d.pairwell.plugin.v1.ModelInfoR\x06models\x12\x1b\n" +
+	"\tfast_path\x18\x03 \x01(\tR\bfastPath\"V\n" +
 	"\aFailure\x121\n" +
 	"\x04kind\x18\x01 \x01(\x0e2\x1d.pairwell.plugin.v1.ErrorKindR\x04kind\x12\x18\n" +
 	"\amessage\x18\x02 \x01(\tR\amessage\"\\\n" +

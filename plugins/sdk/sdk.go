@@ -63,6 +63,10 @@ func Serve(version string, models ...core.Model) {
 		os.Exit(1)
 	}
 	go wire.ExitWithParent()
+	if err := srv.ListenFast(); err != nil {
+		// Evaluations still work over gRPC.
+		fmt.Fprintf(os.Stderr, "%s: %v\n", name, err)
+	}
 	plugin.Serve(wire.ServeConfig(wire.ProtocolVersion, srv, os.Stderr))
 }
 

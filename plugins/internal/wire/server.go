@@ -29,6 +29,14 @@ type Server struct {
 	mu   sync.RWMutex
 	next uint64
 	pots map[uint64]core.Potential
+
+	// Filter, when set, may alter the values of every evaluation before
+	// they are sent. It exists to build faulty plugins for tests.
+	Filter func(handle uint64, values []float64) []float64
+
+	// fastAddr is the address of the direct evaluation channel, "" if
+	// none is served.
+	fastAddr string
 }
 
 // NewServer returns a server for models, after checking that their
@@ -74,7 +82,7 @@ func recovered(call string, p any) *pb.Failure {
 
 // Describe returns the metadata of every model.
 func (s *Server) Describe(context.Context, *pb.DescribeRequest) (*pb.DescribeResponse, error) {
-	return &pb.DescribeResponse{PluginVersion: s.version, Models: s.infos}, nil
+	return &pb.DescribeResponse{PluginVersion: s.version, Models: s.infos, FastPath: s.fastAddr}, nil
 }
 
 func (s *Server) model(key string) (core.Model, *pb.Failure) {
@@ -138,38 +146,58 @@ func (s *Server) Potential(h uint64) (core.Potential, bool) {
 }
 
 // Evaluate evaluates the potential under a handle.
-func (s *Server) Evaluate(_ context.Context, req *pb.EvaluateRequest) (resp *pb.EvaluateResponse, err error) {
+func (s *Server) Evaluate(_ context.Context, req *pb.EvaluateRequest) (*pb.EvaluateResponse, error) {
+	values, pf, f := s.evaluate(req.GetHandle(), int(req.GetOrder()), req.GetAllOrders(), req.GetR(), nil)
+	return &pb.EvaluateResponse{Values: values, PointFailure: pf, Failure: f}, nil
+}
+
+// evaluate is Evaluate for both transports. It returns the values or one
+// of the failures. values reuses buf when it is large enough.
+func (s *Server) evaluate(handle uint64, n int, allOrders bool, r, buf []float64) (values []float64, pf *pb.PointFailure, f *pb.Failure) {
 	defer func() {
 		if p := recover(); p != nil {
-			resp = &pb.EvaluateResponse{Failure: recovered("Evaluate", p)}
+			values, pf, f = nil, nil, recovered("Evaluate", p)
 		}
 	}()
-	pot, ok := s.Potential(req.GetHandle())
+	pot, ok := s.Potential(handle)
 	if !ok {
-		return &pb.EvaluateResponse{Failure: &pb.Failure{Message: fmt.Sprintf("unknown handle %d", req.GetHandle())}}, nil
+		return nil, nil, &pb.Failure{Message: fmt.Sprintf("unknown handle %d", handle)}
 	}
-	n := int(req.GetOrder())
 	if n < 0 {
-		return &pb.EvaluateResponse{Failure: FailureFromError(core.CheckOrder(n, pot.MaxOrder()))}, nil
+		return nil, nil, FailureFromError(core.CheckOrder(n, pot.MaxOrder()))
 	}
-	r := req.GetR()
-	if !req.GetAllOrders() {
-		values := make([]float64, len(r))
+	if !allOrders {
+		values = grow(buf, len(r))
 		if err := pot.Batch(n, r, values); err != nil {
-			return &pb.EvaluateResponse{PointFailure: pointFailure(err), Failure: nonPointFailure(err)}, nil
+			return nil, pointFailure(err), nonPointFailure(err)
 		}
-		return &pb.EvaluateResponse{Values: values}, nil
+		return s.filter(handle, values), nil, nil
 	}
 	if n > pot.MaxOrder() {
-		return &pb.EvaluateResponse{Failure: FailureFromError(core.CheckOrder(n, pot.MaxOrder()))}, nil
+		return nil, nil, FailureFromError(core.CheckOrder(n, pot.MaxOrder()))
 	}
-	values := make([]float64, len(r)*(n+1))
+	values = grow(buf, len(r)*(n+1))
 	for i, x := range r {
 		if err := pot.Derivatives(x, values[i*(n+1):(i+1)*(n+1)]); err != nil {
-			return &pb.EvaluateResponse{PointFailure: &pb.PointFailure{Index: int64(i), Failure: FailureFromError(err)}}, nil
+			return nil, &pb.PointFailure{Index: int64(i), Failure: FailureFromError(err)}, nil
 		}
 	}
-	return &pb.EvaluateResponse{Values: values}, nil
+	return s.filter(handle, values), nil, nil
+}
+
+func (s *Server) filter(handle uint64, values []float64) []float64 {
+	if s.Filter == nil {
+		return values
+	}
+	return s.Filter(handle, values)
+}
+
+// grow returns buf resliced to n, or a new slice if buf is too short.
+func grow(buf []float64, n int) []float64 {
+	if cap(buf) >= n {
+		return buf[:n]
+	}
+	return make([]float64, n)
 }
 
 // pointFailure returns the point failure of a Batch error, nil if err is

@@ -11,12 +11,12 @@
 //	morse-badforce   V′ has the wrong sign (its identities are Morse's)
 //
 // Started under a name containing "badproto" (a symbolic link), it speaks
-// protocol version 2 instead, which pairwell refuses. One executable keeps
-// the tests' build short.
+// protocol version 2 instead, which pairwell refuses; under a name
+// containing "grpconly" it serves no direct evaluation channel. One
+// executable keeps the tests' build short.
 package main
 
 import (
-	"context"
 	"fmt"
 	"os"
 	"path/filepath"
@@ -26,25 +26,8 @@ import (
 
 	"github.com/pairwell/pairwell/core"
 	"github.com/pairwell/pairwell/plugins/internal/wire"
-	pb "github.com/pairwell/pairwell/plugins/proto"
-	"github.com/pairwell/pairwell/plugins/testdata/internal/morse"
+	"github.com/pairwell/pairwell/plugins/testdata/morse"
 )
-
-// badLength serves the models but drops the last value of evaluations of
-// a BadLength potential.
-type badLength struct {
-	*wire.Server
-}
-
-func (s badLength) Evaluate(ctx context.Context, req *pb.EvaluateRequest) (*pb.EvaluateResponse, error) {
-	resp, err := s.Server.Evaluate(ctx, req)
-	if p, ok := s.Potential(req.GetHandle()); ok && err == nil && len(resp.Values) > 0 {
-		if mp, ok := p.(*morse.Potential); ok && mp.Fault() == morse.BadLength {
-			resp.Values = resp.Values[:len(resp.Values)-1]
-		}
-	}
-	return resp, err
-}
 
 func main() {
 	srv, err := wire.NewServer("0.1.0-test", []core.Model{
@@ -61,14 +44,31 @@ func main() {
 		fmt.Fprintln(os.Stderr, err)
 		os.Exit(1)
 	}
+	// badlen-morse: one value too few, on either transport.
+	srv.Filter = func(handle uint64, values []float64) []float64 {
+		if p, ok := srv.Potential(handle); ok && len(values) > 0 {
+			if mp, ok := p.(*morse.Potential); ok && mp.Fault() == morse.BadLength {
+				return values[:len(values)-1]
+			}
+		}
+		return values
+	}
 	if os.Getenv(wire.MagicCookieKey) != wire.MagicCookieValue {
 		fmt.Fprint(os.Stderr, "testplugin: a pairwell test plugin; pairwell starts it\n")
 		os.Exit(1)
 	}
 	go wire.ExitWithParent()
+	// Under a name containing "grpconly" it serves no direct evaluation
+	// channel, so that the tests cover both transports.
+	if !strings.Contains(filepath.Base(os.Args[0]), "grpconly") {
+		if err := srv.ListenFast(); err != nil {
+			fmt.Fprintln(os.Stderr, err)
+			os.Exit(1)
+		}
+	}
 	version := uint(wire.ProtocolVersion)
 	if strings.Contains(filepath.Base(os.Args[0]), "badproto") {
 		version++
 	}
-	plugin.Serve(wire.ServeConfig(version, badLength{srv}, os.Stderr))
+	plugin.Serve(wire.ServeConfig(version, srv, os.Stderr))
 }
