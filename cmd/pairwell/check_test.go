@@ -262,3 +262,34 @@ func TestCheckPlugins(t *testing.T) {
 		assert.Contains(t, errOut, "V′ vs dV/dr")
 	})
 }
+
+// BenchmarkCheckBuiltins is "pairwell check" over the four built-in forms
+// (target: ≤ 1 s).
+func BenchmarkCheckBuiltins(b *testing.B) {
+	var out, errOut bytes.Buffer
+	for b.Loop() {
+		out.Reset()
+		if code := run([]string{"check"}, strings.NewReader(""), &out, &errOut); code != 0 {
+			b.Fatalf("exit %d: %s", code, errOut.String())
+		}
+	}
+}
+
+// BenchmarkCheckPluginForm is "pairwell check" of one form served by a
+// plugin, plugin start included (target: ≤ 3 s).
+func BenchmarkCheckPluginForm(b *testing.B) {
+	dir := b.TempDir()
+	const mod = "github.com/pairwell/pairwell/plugins/testdata/testplugin"
+	gobin := filepath.Join(runtime.GOROOT(), "bin", "go")
+	if out, err := exec.Command(gobin, "build", "-o", dir+string(filepath.Separator), mod).CombinedOutput(); err != nil {
+		b.Fatalf("building the test plugin: %v\n%s", err, out)
+	}
+	args := []string{"--plugin=" + filepath.Join(dir, "testplugin"), "check", "plugin-morse:De=4.6,a=1.87,re=1.27"}
+	var out, errOut bytes.Buffer
+	for b.Loop() {
+		out.Reset()
+		if code := run(args, strings.NewReader(""), &out, &errOut); code != 0 {
+			b.Fatalf("exit %d: %s", code, errOut.String())
+		}
+	}
+}
