@@ -48,13 +48,14 @@ func (m *mismatch) merge(o mismatch) {
 	}
 }
 
-// result turns m into a Result whose reference is the first Batch pass.
+// mismatchResult turns m into a Result whose reference is the first
+// Batch pass.
 func (c *subject) mismatchResult(r Result, m mismatch, what string) Result {
 	r.Tolerance = 0
 	r.Error = float64(m.count)
 	switch {
 	case m.err != nil:
-		r.WorstR = m.errR
+		r.Error, r.WorstR = math.NaN(), m.errR
 		r.Message = fmt.Sprintf("%s failed at order %d, r = %.9g Å, where Batch succeeded: %s", what, m.errOrder, m.errR, errString(m.err))
 	case m.count > 0:
 		r.WorstR = m.r
