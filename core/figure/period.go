@@ -40,7 +40,7 @@ type PeriodOptions struct {
 	// Amplitudes are starting displacements x0 = r0 − re in Å (at rest;
 	// positive stretches, negative compresses). The curves run from 0 to
 	// the extreme amplitudes, and measured points are drawn at each of
-	// them. Empty means DefaultAmplitudes stretches evenly spaced up to
+	// them but those too small to start a motion (0). Empty means DefaultAmplitudes stretches evenly spaced up to
 	// the one whose energy is DefaultTopFraction of the limit of bound
 	// motion (for an unbounded well, up to re/2).
 	Amplitudes []float64
@@ -101,14 +101,27 @@ func Period(p core.Potential, o PeriodOptions) (*Figure, error) {
 	if err != nil {
 		return nil, err
 	}
-	starts := make([]motion.Start, len(amps))
-	exacts := make([]period.Result, len(amps))
-	lo, hi := 0.0, 0.0
-	for i, a := range amps {
-		if starts[i], exacts[i], err = start(p, osc, in, a); err != nil {
+	var (
+		starts []motion.Start
+		exacts []period.Result
+		lo, hi float64
+	)
+	for _, a := range amps {
+		st, ex, err := start(p, osc, in, a)
+		if errors.Is(err, core.ErrParam) && !math.IsNaN(a) && !math.IsInf(a, 0) {
+			// A zero amplitude (or one too small for V(re + x0) − V(re)
+			// to exceed rounding) has no motion: T = T0, drawn by the
+			// curves.
+			continue
+		}
+		if err != nil {
 			return nil, err
 		}
+		starts, exacts = append(starts, st), append(exacts, ex)
 		lo, hi = math.Min(lo, a), math.Max(hi, a)
+	}
+	if len(starts) == 0 {
+		return nil, fmt.Errorf("figure: %w: no amplitude with motion: every amplitude is zero or too small to move", core.ErrParam)
 	}
 
 	// The grid: amplitudes, or energies, and the energy of each point.

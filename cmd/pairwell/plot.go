@@ -1,0 +1,453 @@
+package main
+
+import (
+	"errors"
+	"fmt"
+	"os"
+	"path/filepath"
+	"strings"
+
+	"github.com/spf13/cobra"
+
+	"github.com/pairwell/pairwell/core/figure"
+	"github.com/pairwell/pairwell/core/modelset"
+	"github.com/pairwell/pairwell/core/motion"
+	"github.com/pairwell/pairwell/core/units"
+)
+
+// plotReport is the output of a plot command with --format json. Keys are
+// a contract.
+type plotReport struct {
+	File   string   `json:"file"`
+	Kind   string   `json:"kind"`
+	Format string   `json:"format"`
+	Series []string `json:"series"`
+	Notes  []string `json:"notes"`
+}
+
+func newPlotCmd(e *env) *cobra.Command {
+	cmd := &cobra.Command{
+		Use:   "plot (taylor | period | compare | motion) ... -o FILE",
+		Short: "Draw pictures: the well and its Taylor truncations, period against amplitude, forms overlaid, motion",
+		Long: `plot draws what pairwell computes, as PNG, SVG or PDF (by the extension of
+-o FILE):
+
+  taylor   V(r) and its Taylor truncations of order 0…N about re, with the
+           range where the harmonic truncation holds shaded
+  period   the period against amplitude (or energy): exact, harmonic,
+           perturbative, and measured points with --method
+  compare  several forms overlaid, in absolute or reduced units
+  motion   the displacement against time, with the harmonic motion overlaid
+
+Every curve has its own colour, dash pattern and marker (colours from the
+Okabe–Ito palette for colour-blind readers), so the pictures stay readable in
+grayscale. Curves that run off to ±∞ (truncations, Buckingham's collapse) are
+cut at the axis limits. The file is written atomically: a failed command
+leaves no partial file. Exit codes: 2 for bad input (unknown extension, empty
+range, an amplitude beyond the well), 1 when the file cannot be written.`,
+		RunE: func(cmd *cobra.Command, args []string) error {
+			if len(args) > 0 {
+				return usageErr(fmt.Errorf("unknown plot %q: taylor, period, compare or motion (see %s --help)", args[0], cmd.CommandPath()))
+			}
+			return usageErr(fmt.Errorf("plot needs a kind: taylor, period, compare or motion (see %s --help)", cmd.CommandPath()))
+		},
+	}
+	cmd.AddCommand(newPlotTaylorCmd(e), newPlotPeriodCmd(e), newPlotCompareCmd(e), newPlotMotionCmd(e))
+	return cmd
+}
+
+// plotOutput is the -o flag of every plot command.
+type plotOutput struct{ path string }
+
+func (o *plotOutput) register(cmd *cobra.Command) {
+	cmd.Flags().StringVarP(&o.path, "output", "o", "", "picture file to write: .png, .svg or .pdf (required)")
+}
+
+// check validates the output path before anything is computed: a known
+// extension (bad input, exit 2) in an existing directory (exit 1).
+func (o *plotOutput) check(e *env) error {
+	if e.format == "csv" {
+		return usageErr(errors.New("plot writes a picture and reports it as text or JSON: use --format table or json"))
+	}
+	if o.path == "" {
+		return usageErr(errors.New("an output file is needed: -o FILE.png, FILE.svg or FILE.pdf"))
+	}
+	if _, err := figure.FormatFor(o.path); err != nil {
+		return usageErr(fmt.Errorf("-o: %w", err))
+	}
+	dir := filepath.Dir(o.path)
+	st, err := os.Stat(dir)
+	if err != nil {
+		return failErr(fmt.Errorf("-o %s: cannot write to the directory %s: %w", o.path, dir, unwrapPath(err)))
+	}
+	if !st.IsDir() {
+		return failErr(fmt.Errorf("-o %s: %s is not a directory", o.path, dir))
+	}
+	return nil
+}
+
+// unwrapPath strips the path from an *os.PathError, which the message
+// already names.
+func unwrapPath(err error) error {
+	var pe *os.PathError
+	if errors.As(err, &pe) {
+		return pe.Err
+	}
+	return err
+}
+
+// writePlot writes f to the output file and reports it.
+func (e *env) writePlot(f *figure.Figure, path string) error {
+	if err := f.WriteFile(path); err != nil {
+		if errors.Is(err, figure.ErrFormat) {
+			return usageErr(err)
+		}
+		return failErr(err)
+	}
+	format, _ := figure.FormatFor(path)
+	r := plotReport{File: path, Kind: f.Kind, Format: string(format), Notes: f.Notes}
+	for _, s := range f.Series {
+		r.Series = append(r.Series, s.Name)
+	}
+	if r.Notes == nil {
+		r.Notes = []string{}
+	}
+	if e.format == "json" {
+		return e.emit(r, nil)
+	}
+	var b strings.Builder
+	fmt.Fprintf(&b, "wrote %s (%s, %s): %s\n", path, f.Kind, format, strings.Join(r.Series, "; "))
+	for _, n := range f.Notes {
+		fmt.Fprintf(&b, "  %s\n", n)
+	}
+	if _, err := fmt.Fprint(e.stdout, b.String()); err != nil {
+		return failErr(fmt.Errorf("writing output: %w", err))
+	}
+	return nil
+}
+
+// plotErr classifies an error from a figure builder like computeErr.
+func plotErr(key string, err error) error {
+	return computeErr(fmt.Errorf("%s: %w", key, err))
+}
+
+// parsePlotRange parses RMIN:RMAX, each a length with an optional unit.
+func parsePlotRange(s string) (lo, hi float64, err error) {
+	a, b, ok := strings.Cut(s, ":")
+	if !ok || strings.Contains(b, ":") {
+		return 0, 0, fmt.Errorf("%q: want RMIN:RMAX, e.g. 0.8:3.5 or 80pm:350pm", s)
+	}
+	if lo, err = units.Parse(a, units.Length); err != nil {
+		return 0, 0, fmt.Errorf("%q: RMIN: %w", s, err)
+	}
+	if hi, err = units.Parse(b, units.Length); err != nil {
+		return 0, 0, fmt.Errorf("%q: RMAX: %w", s, err)
+	}
+	if !(lo < hi) {
+		return 0, 0, fmt.Errorf("%q: empty range: RMIN must be below RMAX", s)
+	}
+	if !(lo > 0) {
+		return 0, 0, fmt.Errorf("%q: RMIN must be > 0", s)
+	}
+	return lo, hi, nil
+}
+
+func newPlotTaylorCmd(e *env) *cobra.Command {
+	var (
+		out       plotOutput
+		order     int
+		rng       string
+		tolerance float64
+	)
+	cmd := &cobra.Command{
+		Use:   "taylor SPEC [--order N] [--range RMIN:RMAX] -o FILE",
+		Short: "Draw V(r) and its Taylor truncations of order 0…N about re",
+		Long: `taylor draws the exact V(r) of SPEC (black, solid) and its Taylor truncations
+about the minimum,
+
+  V_n(r) = Σ c_k (r − re)ᵏ over k = 0 … n,   c_k = V⁽ᵏ⁾(re)/k!,
+
+for n = 0 … N (--order, default 4; orders 0 and 1 are one curve, c₁ = V′(re) = 0).
+A shaded band marks where the harmonic truncation V₂ satisfies the potential
+criterion |V₂ − V| ≤ tol·(V − V(re)) (--tolerance, default 1 %), and dotted
+lines the turning points up to which its period is within tol of the exact one
+(see "pairwell validity"). A hatched region is outside the form's domain (below
+Buckingham's inner barrier V collapses to −∞).
+
+Default range: from where V − V(re) reaches twice the depth (or a little below
+an inner barrier) to where it reaches 95 % of the depth (between 1.5 and 4 re);
+energies from V(re) − 0.2·depth to at most V(re) + 2.5·depth. --range sets the
+separations, RMIN:RMAX with optional units; it must overlap the domain.`,
+		Example: `  pairwell plot taylor morse:De=4.6,a=1.87,re=1.27 -o taylor.png
+  pairwell plot taylor lj:epsilon=120K,sigma=3.4 --order 6 --range 3.3:6 -o lj.svg
+  pairwell plot taylor buckingham:A=1500,rho=0.3,C=25 --range 250pm:700pm -o bk.pdf`,
+		Args: exactArgs(1, "SPEC"),
+		RunE: func(cmd *cobra.Command, args []string) error {
+			if err := out.check(e); err != nil {
+				return err
+			}
+			o := figure.TaylorOptions{Order: order, Tolerance: tolerance}
+			if order < 2 || order > figure.MaxTaylorOrder {
+				return usageErr(fmt.Errorf("--order %d: must be 2 to %d", order, figure.MaxTaylorOrder))
+			}
+			if !(tolerance > 0 && tolerance < 1) {
+				return usageErr(fmt.Errorf("--tolerance %g: must be in (0, 1), e.g. 0.01 for 1 %%", tolerance))
+			}
+			if rng != "" {
+				var err error
+				if o.RMin, o.RMax, err = parsePlotRange(rng); err != nil {
+					return usageErr(fmt.Errorf("--range %w", err))
+				}
+			}
+			inst, err := e.build(args[0])
+			if err != nil {
+				return err
+			}
+			key := inst.Model.Info().Key
+			o.Name = key
+			f, err := figure.Taylor(inst.Potential, o)
+			if err != nil {
+				return plotErr(key, err)
+			}
+			return e.writePlot(f, out.path)
+		},
+	}
+	out.register(cmd)
+	f := cmd.Flags()
+	f.IntVar(&order, "order", figure.DefaultTaylorOrder, fmt.Sprintf("highest truncation order N (2 to %d)", figure.MaxTaylorOrder))
+	f.StringVar(&rng, "range", "", "separations RMIN:RMAX, Å unless a unit is given (default: from the well's shape)")
+	f.Float64Var(&tolerance, "tolerance", 0.01, "relative tolerance of the validity marks")
+	return cmd
+}
+
+func newPlotPeriodCmd(e *env) *cobra.Command {
+	var (
+		out        plotOutput
+		mass       massFlags
+		amplitudes string
+		energyAxis bool
+		method     string
+		periods    int
+	)
+	cmd := &cobra.Command{
+		Use:   "period SPEC (--pair A-B | --mu M) [--amplitudes LIST|FROM:TO:COUNT] [--energy-axis] [--method M] -o FILE",
+		Short: "Draw the period against amplitude or energy: exact, harmonic, perturbative, measured",
+		Long: `period draws the period of the classical vibration in the well of SPEC against
+its amplitude x0 (a start at rest at r = re + x0; --energy-axis: against the
+oscillation energy E = V(re + x0) − V(re)):
+
+  exact         by quadrature (black, solid; see "pairwell period")
+  harmonic      2π/ω0 = 2π√(μ/k), the same at every amplitude
+  perturbative  second-order Lindstedt–Poincaré, T0/(1 + δ)
+  measured      with --method (heun, rk4, verlet, dopri): one point per
+                amplitude, integrated over --periods periods
+
+--amplitudes takes a list (0.1,0.2,30pm) or FROM:TO:COUNT as in "pairwell
+period"; the curves run from 0 to the extreme amplitudes and the measured
+points sit at the amplitudes. Default: 8 stretches evenly spaced up to the one
+whose energy is 90 % of the limit of bound motion (the depth, or an inner
+barrier when lower); re/2 for a well without a top. An amplitude beyond the
+well is bad input.`,
+		Example: `  pairwell plot period morse:De=4.6,a=1.87,re=1.27 --pair H-Cl -o period.png
+  pairwell plot period morse:De=4.6,a=1.87,re=1.27 --pair H-Cl --method rk4 --energy-axis -o period.svg
+  pairwell plot period lj:epsilon=120K,sigma=3.4 --pair Ar-Ar --amplitudes=-0.3:0.8:12 --method dopri -o lj.png`,
+		Args: exactArgs(1, "SPEC"),
+		RunE: func(cmd *cobra.Command, args []string) error {
+			if err := out.check(e); err != nil {
+				return err
+			}
+			m, err := mass.resolve(true)
+			if err != nil {
+				return err
+			}
+			o := figure.PeriodOptions{Mu: m.Mu, EnergyAxis: energyAxis, Periods: periods}
+			if cmd.Flags().Changed("amplitudes") {
+				if o.Amplitudes, err = parseSweep(amplitudes, units.Length); err != nil {
+					return usageErr(fmt.Errorf("--amplitudes: %w", err))
+				}
+			}
+			if method != "" {
+				if o.Method, err = motion.ParseMethod(method); err != nil {
+					return usageErr(fmt.Errorf("--method: %w", err))
+				}
+				o.Measure = true
+			} else if cmd.Flags().Changed("periods") {
+				return usageErr(errors.New("--periods applies to the measured points: name an integrator with --method"))
+			}
+			if periods < 1 {
+				return usageErr(fmt.Errorf("--periods %d: must be at least 1", periods))
+			}
+			inst, err := e.build(args[0])
+			if err != nil {
+				return err
+			}
+			key := inst.Model.Info().Key
+			o.Name = key
+			f, err := figure.Period(inst.Potential, o)
+			if err != nil {
+				return plotErr(key, err)
+			}
+			return e.writePlot(f, out.path)
+		},
+	}
+	out.register(cmd)
+	mass.register(cmd)
+	f := cmd.Flags()
+	f.StringVar(&amplitudes, "amplitudes", "", "displacements from re at rest, Å unless a unit is given: LIST or FROM:TO:COUNT (default: 8 up to 90 % of the limit of bound motion)")
+	f.BoolVar(&energyAxis, "energy-axis", false, "put the oscillation energy E = V(re + x0) − V(re) on the x axis instead of the amplitude")
+	f.StringVar(&method, "method", "", "also measure the period at each amplitude by integrating: heun, rk4, verlet or dopri")
+	f.IntVar(&periods, "periods", motion.DefaultPeriods, "periods per measured run (with --method)")
+	return cmd
+}
+
+func newPlotCompareCmd(e *env) *cobra.Command {
+	var (
+		out                  plotOutput
+		setPath              string
+		reduced, fromMinimum bool
+	)
+	cmd := &cobra.Command{
+		Use:   "compare [SPEC...] [--set FILE.toml] [--reduced] [--from-minimum] -o FILE",
+		Short: "Draw several forms overlaid, in absolute or reduced units",
+		Long: `compare draws the forms given as SPEC arguments and in a model-set file (--set,
+as for "pairwell compare"; legend entries are the entry names, then the model
+keys) on common axes:
+
+  default          V(r) [eV] against r [Å], each form with its own energy zero
+  --from-minimum   V(r) − V(re) [eV]: every minimum at 0
+  --reduced        (V(r) − V(∞))/De against r/re: every minimum at (1, −1)
+                   (V/De for forms whose energy zero is at dissociation, as
+                   every built-in form with a depth)
+  --reduced --from-minimum
+                   (V(r) − V(re))/De against r/re: minimum at (1, 0), 1 at
+                   dissociation
+
+A form without a well depth (harmonic) has no reduced form and is left out of
+reduced plots, with a note. A dotted line marks a Buckingham-type inner
+barrier, below which that form collapses.`,
+		Example: `  pairwell plot compare morse:De=4.6,a=1.87,re=1.27 lj:epsilon=4.6,sigma=1.13 -o forms.png
+  pairwell plot compare --set candidates.toml --reduced -o reduced.svg`,
+		RunE: func(cmd *cobra.Command, args []string) error {
+			if err := out.check(e); err != nil {
+				return err
+			}
+			if len(args) == 0 && setPath == "" {
+				return usageErr(fmt.Errorf("plot compare needs SPEC arguments or --set FILE.toml (see %s --help)", cmd.CommandPath()))
+			}
+			curves, err := e.plotCurves(args, setPath)
+			if err != nil {
+				return err
+			}
+			f, err := figure.Compare(curves, figure.CompareOptions{Reduced: reduced, FromMinimum: fromMinimum})
+			if err != nil {
+				return computeErr(err)
+			}
+			return e.writePlot(f, out.path)
+		},
+	}
+	out.register(cmd)
+	f := cmd.Flags()
+	f.StringVar(&setPath, "set", "", "model-set file (TOML) naming the forms to draw")
+	f.BoolVar(&reduced, "reduced", false, "reduced units: r/re and (V − V(∞))/De")
+	f.BoolVar(&fromMinimum, "from-minimum", false, "measure energies from each form's minimum, V − V(re)")
+	return cmd
+}
+
+// plotCurves builds the forms of a comparison: the model-set entries, then
+// the specs, with unique legend names.
+func (e *env) plotCurves(specs []string, setPath string) ([]figure.Curve, error) {
+	var curves []figure.Curve
+	if setPath != "" {
+		set, err := modelset.Load(setPath)
+		if err != nil {
+			return nil, usageErr(fmt.Errorf("--set: %w", err))
+		}
+		built, err := set.Build(e.registry)
+		if err != nil {
+			return nil, usageErr(fmt.Errorf("--set %s: %w", setPath, err))
+		}
+		for _, b := range built {
+			curves = append(curves, figure.Curve{Name: b.Name, Potential: b.Instance.Potential})
+		}
+	}
+	for _, s := range specs {
+		inst, err := e.build(s)
+		if err != nil {
+			return nil, err
+		}
+		curves = append(curves, figure.Curve{Name: inst.Model.Info().Key, Potential: inst.Potential})
+	}
+	used := map[string]bool{}
+	for i := range curves {
+		name := curves[i].Name
+		for n := 2; used[name]; n++ {
+			name = fmt.Sprintf("%s-%d", curves[i].Name, n)
+		}
+		used[name] = true
+		curves[i].Name = name
+	}
+	return curves, nil
+}
+
+func newPlotMotionCmd(e *env) *cobra.Command {
+	var (
+		out       plotOutput
+		mass      massFlags
+		amplitude string
+		method    string
+		periods   int
+	)
+	cmd := &cobra.Command{
+		Use:   "motion SPEC (--pair A-B | --mu M) --amplitude X [--method M] [--periods P] -o FILE",
+		Short: "Draw the displacement against time, with the harmonic motion overlaid",
+		Long: `motion integrates the vibration of the pair in the well of SPEC from rest at
+r = re + X (--amplitude; positive stretches, negative compresses) with --method
+(heun, rk4, verlet or dopri, default dopri; see "pairwell motion") over
+--periods periods (default 3), and draws the displacement x(t) = r(t) − re of
+every step against the harmonic motion x0·cos(ω0 t), ω0 = √(k/μ), started the
+same way. The title gives the measured, exact and harmonic periods.`,
+		Example: `  pairwell plot motion morse:De=4.6,a=1.87,re=1.27 --pair H-Cl --amplitude 0.5 -o motion.png
+  pairwell plot motion lj:epsilon=120K,sigma=3.4 --pair Ar-Ar --amplitude=-0.3 --method verlet --periods 5 -o lj.svg`,
+		Args: exactArgs(1, "SPEC"),
+		RunE: func(cmd *cobra.Command, args []string) error {
+			if err := out.check(e); err != nil {
+				return err
+			}
+			m, err := mass.resolve(true)
+			if err != nil {
+				return err
+			}
+			if !cmd.Flags().Changed("amplitude") {
+				return usageErr(errors.New("a start is needed: --amplitude X (Å; positive stretches, negative compresses)"))
+			}
+			x0, err := units.Parse(amplitude, units.Length)
+			if err != nil {
+				return usageErr(fmt.Errorf("--amplitude: %w", err))
+			}
+			meth, err := motion.ParseMethod(method)
+			if err != nil {
+				return usageErr(fmt.Errorf("--method: %w", err))
+			}
+			if periods < 1 {
+				return usageErr(fmt.Errorf("--periods %d: must be at least 1", periods))
+			}
+			inst, err := e.build(args[0])
+			if err != nil {
+				return err
+			}
+			key := inst.Model.Info().Key
+			f, err := figure.Motion(inst.Potential, figure.MotionOptions{Name: key, Mu: m.Mu, Amplitude: x0, Method: meth, Periods: periods})
+			if err != nil {
+				return plotErr(key, err)
+			}
+			return e.writePlot(f, out.path)
+		},
+	}
+	out.register(cmd)
+	mass.register(cmd)
+	f := cmd.Flags()
+	f.StringVar(&amplitude, "amplitude", "", "starting displacement r0 − re at rest, Å unless a unit is given (e.g. 0.2, -0.1, 20pm)")
+	f.StringVar(&method, "method", "dopri", "integrator: heun, rk4, verlet or dopri")
+	f.IntVar(&periods, "periods", figure.DefaultMotionPeriods, "number of periods to integrate")
+	return cmd
+}
