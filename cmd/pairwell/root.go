@@ -31,6 +31,7 @@ func (e *env) close() {
 }
 
 func newRootCmd(e *env) *cobra.Command {
+	var loadPlugins func() error // see plugins.go
 	root := &cobra.Command{
 		Use:   "pairwell",
 		Short: "Find, characterise and compare the wells of interatomic pair potentials",
@@ -52,12 +53,13 @@ field: do not base production or safety decisions on its numbers alone.`,
 		PersistentPreRunE: func(cmd *cobra.Command, args []string) error {
 			switch e.format {
 			case "table", "json", "csv":
-				return nil
+				return loadPlugins()
 			}
 			return usageErr(fmt.Errorf("--format %q: allowed: table, json, csv", e.format))
 		},
 	}
 	root.PersistentFlags().StringVar(&e.format, "format", "table", "output format: table, json or csv")
+	loadPlugins = registerPlugins(root, e)
 	root.SetFlagErrorFunc(func(cmd *cobra.Command, err error) error {
 		return usageErr(fmt.Errorf("%s: %w (see %s --help)", cmd.Name(), err, cmd.CommandPath()))
 	})

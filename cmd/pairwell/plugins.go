@@ -1,0 +1,250 @@
+package main
+
+import (
+	"context"
+	"errors"
+	"fmt"
+	"io/fs"
+	"os"
+	"os/signal"
+	"path/filepath"
+	"sync"
+	"syscall"
+	"time"
+
+	"github.com/spf13/cobra"
+	"github.com/spf13/pflag"
+
+	"github.com/pairwell/pairwell/plugins"
+)
+
+// Environment variables naming plugins.
+const (
+	// envPluginPath lists directories, separated like PATH, whose
+	// executables named pairwell-plugin-* are loaded.
+	envPluginPath = "PAIRWELL_PLUGIN_PATH"
+	// envPluginLock names a lock file ("HEX  PATH" lines, as sha256sum
+	// prints) pinning plugins to their SHA-256. When it is set, every
+	// plugin found through envPluginPath must be listed in it.
+	envPluginLock = "PAIRWELL_PLUGIN_LOCK"
+)
+
+// pluginFlags are the persistent flags that name plugins.
+type pluginFlags struct {
+	refs    []string
+	timeout time.Duration
+}
+
+func (f *pluginFlags) register(fs *pflag.FlagSet) {
+	fs.StringArrayVar(&f.refs, "plugin", nil,
+		"load the plugin executable `PATH[@sha256:HEX]` (repeatable); @sha256: pins its SHA-256 and refuses any other binary. "+
+			"Plugins are also loaded from the directories in "+envPluginPath+" (executables named pairwell-plugin-*), "+
+			"pinned by the lock file "+envPluginLock+" if set")
+	fs.DurationVar(&f.timeout, "plugin-timeout", plugins.DefaultTimeout,
+		"deadline of a plugin's start and of each call to it; a plugin that exceeds it is stopped")
+}
+
+// pluginSet is the plugins of one invocation: it closes each exactly
+// once, also those whose start completes after it was closed.
+type pluginSet struct {
+	mu     sync.Mutex
+	closed bool
+	loaded []*plugins.Plugin
+}
+
+func (s *pluginSet) add(p *plugins.Plugin) {
+	s.mu.Lock()
+	closed := s.closed
+	if !closed {
+		s.loaded = append(s.loaded, p)
+	}
+	s.mu.Unlock()
+	if closed {
+		p.Close()
+	}
+}
+
+// close stops every plugin and waits until their processes are gone.
+func (s *pluginSet) close() {
+	s.mu.Lock()
+	s.closed = true
+	loaded := s.loaded
+	s.loaded = nil
+	s.mu.Unlock()
+	var wg sync.WaitGroup
+	for _, p := range loaded {
+		wg.Add(1)
+		go func() {
+			defer wg.Done()
+			p.Close()
+		}()
+	}
+	wg.Wait()
+}
+
+// load starts the plugins named by --plugin and PAIRWELL_PLUGIN_PATH, in
+// parallel, and registers their models: those of --plugin first, in flag
+// order, then those found in the path, directory by directory and by name.
+// Every plugin is stopped when the invocation ends (env.close), and on
+// SIGINT, SIGTERM or SIGHUP, after which pairwell dies of that signal as it
+// would without plugins.
+func (f *pluginFlags) load(e *env) error {
+	if f.timeout <= 0 {
+		return usageErr(fmt.Errorf("--plugin-timeout %v: must be positive", f.timeout))
+	}
+	refs, err := f.resolve()
+	if err != nil {
+		return err
+	}
+	if len(refs) == 0 {
+		return nil
+	}
+
+	set := &pluginSet{}
+	ctx, cancel := context.WithCancel(context.Background())
+	sigs := make(chan os.Signal, 1)
+	signal.Notify(sigs, os.Interrupt, syscall.SIGTERM, syscall.SIGHUP)
+	done := make(chan struct{})
+	var stopOnce sync.Once
+	stop := func() {
+		stopOnce.Do(func() {
+			signal.Stop(sigs)
+			close(done)
+		})
+	}
+	go func() {
+		select {
+		case s := <-sigs:
+			cancel()
+			set.close()
+			stop()
+			if sig, ok := s.(syscall.Signal); ok {
+				_ = syscall.Kill(os.Getpid(), sig)
+			}
+		case <-done:
+		}
+	}()
+	e.closers = append(e.closers, func() {
+		stop()
+		cancel()
+		set.close()
+	})
+
+	loaded := make([]*plugins.Plugin, len(refs))
+	errs := make([]error, len(refs))
+	var wg sync.WaitGroup
+	for i, r := range refs {
+		wg.Add(1)
+		go func() {
+			defer wg.Done()
+			p, err := plugins.Load(ctx, r.Path, plugins.Options{Timeout: f.timeout, SHA256: r.SHA256})
+			if err != nil {
+				errs[i] = err
+				return
+			}
+			loaded[i] = p
+			set.add(p)
+		}()
+	}
+	wg.Wait()
+	for _, err := range errs {
+		if err != nil {
+			return pluginErr(err)
+		}
+	}
+	for _, p := range loaded {
+		for _, m := range p.Models() {
+			if err := e.registry.Add(m); err != nil {
+				return usageErr(fmt.Errorf("plugin %s: %w", p.Path(), err))
+			}
+		}
+	}
+	return nil
+}
+
+// resolve lists the plugins to load, each once (by absolute path), with
+// their pins: a pin given with --plugin wins over the lock file.
+func (f *pluginFlags) resolve() ([]plugins.Ref, error) {
+	var lock plugins.Lock
+	if name := os.Getenv(envPluginLock); name != "" {
+		l, err := plugins.ReadLock(name)
+		if err != nil {
+			return nil, usageErr(fmt.Errorf("%s: %w", envPluginLock, err))
+		}
+		lock = l
+	}
+	var refs []plugins.Ref
+	seen := make(map[string]int)
+	add := func(r plugins.Ref, fromPath bool) error {
+		abs, err := filepath.Abs(r.Path)
+		if err != nil {
+			return usageErr(fmt.Errorf("plugin %s: %w", r.Path, err))
+		}
+		r.Path = abs
+		if r.SHA256 == nil && lock != nil {
+			if sum, ok := lock.Lookup(abs); ok {
+				r.SHA256 = sum
+			} else if fromPath {
+				return usageErr(fmt.Errorf("plugin %s (found through %s) is not listed in the lock file %s; add its \"sha256sum\" line to load it",
+					abs, envPluginPath, os.Getenv(envPluginLock)))
+			}
+		}
+		if i, ok := seen[abs]; ok {
+			if refs[i].SHA256 == nil {
+				refs[i].SHA256 = r.SHA256
+			}
+			return nil
+		}
+		seen[abs] = len(refs)
+		refs = append(refs, r)
+		return nil
+	}
+	for _, s := range f.refs {
+		r, err := plugins.ParseRef(s)
+		if err != nil {
+			return nil, usageErr(fmt.Errorf("--plugin: %w", err))
+		}
+		if err := add(r, false); err != nil {
+			return nil, err
+		}
+	}
+	found, err := plugins.Discover(os.Getenv(envPluginPath))
+	if err != nil {
+		return nil, usageErr(fmt.Errorf("%s: %w", envPluginPath, err))
+	}
+	for _, path := range found {
+		if err := add(plugins.Ref{Path: path}, true); err != nil {
+			return nil, err
+		}
+	}
+	return refs, nil
+}
+
+// pluginErr classifies an error of starting a plugin: a file that is not
+// there, not executable or not the pinned one is bad input (exit 2), a
+// plugin that fails is a failure (exit 1).
+func pluginErr(err error) error {
+	for _, target := range []error{plugins.ErrChecksum, plugins.ErrNotExecutable, plugins.ErrRef, fs.ErrNotExist, fs.ErrPermission} {
+		if errors.Is(err, target) {
+			return usageErr(err)
+		}
+	}
+	return failErr(err)
+}
+
+// pluginsHelp is appended to the root command's help.
+const pluginsHelp = `
+Plugins: forms that are not built in are served by plugin executables, named
+with --plugin PATH (repeatable; PATH@sha256:HEX pins the binary) or found in
+the directories of PAIRWELL_PLUGIN_PATH (colon-separated; every executable
+named pairwell-plugin-*; PAIRWELL_PLUGIN_LOCK names a sha256sum-style lock
+file they must be listed in). "pairwell models" shows their path and version.`
+
+// registerPlugins adds the plugin flags to root and returns the hook that
+// loads the plugins, to be called from root's PersistentPreRunE.
+func registerPlugins(root *cobra.Command, e *env) func() error {
+	f := &pluginFlags{}
+	f.register(root.PersistentFlags())
+	root.Long += "\n" + pluginsHelp
+	return func() error { return f.load(e) }
+}

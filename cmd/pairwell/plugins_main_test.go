@@ -1,0 +1,71 @@
+package main
+
+import (
+	"fmt"
+	"os"
+	"os/exec"
+	"path/filepath"
+	"runtime"
+	"testing"
+)
+
+// TestMain builds, once for the package, the plugins the plugin tests run
+// (the two examples and the test plugin) and the pairwell binary the
+// signal test runs. Other tests of this package need none of it; if a
+// second TestMain is wanted, merge it into this one.
+func TestMain(m *testing.M) {
+	os.Exit(testMain(m))
+}
+
+// pluginBin holds what TestMain built.
+var pluginBin struct {
+	dir          string // every executable below lives here
+	pairwell     string
+	rydberg, mie string
+	test         string // plugin-morse and the faulty models
+	badproto     string // the test plugin speaking protocol 2
+	buildErr     error
+}
+
+func testMain(m *testing.M) int {
+	dir, err := os.MkdirTemp("", "pairwell-cli-plugins-")
+	if err != nil {
+		fmt.Fprintln(os.Stderr, err)
+		return 1
+	}
+	defer os.RemoveAll(dir)
+	pluginBin.dir = dir
+	pluginBin.buildErr = buildTestBinaries(dir)
+	return m.Run()
+}
+
+// buildTestBinaries builds into dir, in one go build, with the toolchain
+// that runs the tests.
+func buildTestBinaries(dir string) error {
+	gobin := filepath.Join(runtime.GOROOT(), "bin", "go")
+	if _, err := os.Stat(gobin); err != nil {
+		if gobin, err = exec.LookPath("go"); err != nil {
+			return fmt.Errorf("no go command to build the test plugins: %w", err)
+		}
+	}
+	const mod = "github.com/pairwell/pairwell/"
+	cmd := exec.Command(gobin, "build", "-ldflags=-s -w", "-o", dir+string(filepath.Separator),
+		mod+"cmd/pairwell", mod+"plugins/examples/rydberg", mod+"plugins/examples/mie", mod+"plugins/testdata/testplugin")
+	if out, err := cmd.CombinedOutput(); err != nil {
+		return fmt.Errorf("building the test plugins: %v\n%s", err, out)
+	}
+	pluginBin.pairwell = filepath.Join(dir, "pairwell")
+	pluginBin.rydberg = filepath.Join(dir, "rydberg")
+	pluginBin.mie = filepath.Join(dir, "mie")
+	pluginBin.test = filepath.Join(dir, "testplugin")
+	pluginBin.badproto = filepath.Join(dir, "badproto")
+	return os.Symlink(pluginBin.test, pluginBin.badproto)
+}
+
+// requirePlugins skips nothing: it fails the test if the build failed.
+func requirePlugins(t *testing.T) {
+	t.Helper()
+	if pluginBin.buildErr != nil {
+		t.Fatal(pluginBin.buildErr)
+	}
+}
