@@ -6,13 +6,13 @@
 // this file; authors in other languages implement this service and the
 // go-plugin handshake themselves:
 //
-//   - pairwell starts the plugin with PAIRWELL_PLUGIN=<magic cookie> and
-//     PLUGIN_PROTOCOL_VERSIONS=1 in its environment (see plugins/doc.go for
-//     the cookie value);
-//   - the plugin listens on a Unix socket (or TCP on 127.0.0.1), serves the
-//     Forms service plus the standard grpc.health.v1 Health service with
-//     service name "plugin" reporting SERVING, and prints one line to stdout:
-//     "1|1|unix|/path/to/socket|grpc|" (core protocol 1, app protocol 1);
+//   - pairwell starts the plugin with PAIRWELL_PLUGIN=<magic cookie>,
+//     PLUGIN_PROTOCOL_VERSIONS=1 and PLUGIN_UNIX_SOCKET_DIR=<a private
+//     directory> in its environment (see plugins/doc.go for the cookie);
+//   - the plugin listens on a Unix socket in that directory, serves the
+//     Forms service there over plaintext gRPC, and prints one line to
+//     stdout: "1|1|unix|/path/to/socket|grpc|" (go-plugin's core protocol
+//     1, this protocol's version 1);
 //   - pairwell kills the process when it is done with it.
 //
 // Units are pairwell's throughout: energy eV, length Å, mass u, time fs; the
