@@ -95,7 +95,18 @@ func Equilibrium(p Potential) (float64, error) {
 	if err != nil {
 		return 0, err
 	}
-	return solve(p, 1, lo, hi)
+	re, err := solve(p, 1, lo, hi)
+	if err != nil {
+		return 0, err
+	}
+	var d [3]float64
+	if err := p.Derivatives(re, d[:]); err != nil {
+		return 0, fmt.Errorf("at the minimum r = %g Å: %w", re, err)
+	}
+	if !(d[2] > 0) {
+		return 0, fmt.Errorf("%w: V′(%g Å) = 0 but V″ = %g is not positive", ErrNoMinimum, re, d[2])
+	}
+	return re, nil
 }
 
 // scanPoints is the number of points of the logarithmic scan used when a
@@ -137,11 +148,10 @@ func bracketMinimum(p Potential) (lo, hi float64, err error) {
 	if err := p.Batch(1, rs, f); err != nil {
 		return 0, 0, fmt.Errorf("scanning for the minimum: %w", err)
 	}
+	// A sign change needs V′ > 0 on the right: a V′ that is exactly zero
+	// in a tail where it underflows is not a minimum.
 	for i := 1; i < len(rs); i++ {
-		if f[i-1] < 0 && f[i] >= 0 {
-			if f[i] == 0 {
-				return rs[i-1], math.Nextafter(rs[i], math.Inf(1)), nil
-			}
+		if f[i-1] < 0 && f[i] > 0 {
 			return rs[i-1], rs[i], nil
 		}
 	}

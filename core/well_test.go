@@ -140,3 +140,31 @@ func BenchmarkWellAndHarmonic(b *testing.B) {
 		}
 	}
 }
+
+// repulsive is V = A·e^{−r/ρ}, which has no minimum; its derivatives
+// underflow to zero far out, which must not pass for a minimum.
+type repulsive struct{}
+
+func (repulsive) Derivatives(r float64, dst []float64) error {
+	for n := range dst {
+		dst[n] = 1000 * math.Pow(-1/0.3, float64(n)) * math.Exp(-r/0.3)
+	}
+	return nil
+}
+
+func (p repulsive) Batch(n int, r, dst []float64) error {
+	var d [8]float64
+	for i, x := range r {
+		_ = p.Derivatives(x, d[:n+1])
+		dst[i] = d[n]
+	}
+	return nil
+}
+
+func (repulsive) Domain() core.Domain { return core.Domain{Max: math.Inf(1)} }
+func (repulsive) MaxOrder() int       { return 7 }
+
+func TestEquilibriumRejectsUnderflowedTail(t *testing.T) {
+	_, err := core.Equilibrium(repulsive{})
+	assert.ErrorIs(t, err, core.ErrNoMinimum)
+}
