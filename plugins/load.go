@@ -58,7 +58,7 @@ var (
 	ErrCrashed = errors.New("plugin crashed")
 	// ErrTimeout means a call exceeded its deadline; the plugin was
 	// stopped.
-	ErrTimeout = errors.New("plugin did not answer in time")
+	ErrTimeout = errors.New("plugin call timed out")
 	// ErrClosed means the plugin was closed or stopped earlier.
 	ErrClosed = errors.New("plugin not running")
 )
