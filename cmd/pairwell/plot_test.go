@@ -41,7 +41,7 @@ func requirePNG(t *testing.T, path string) {
 	defer f.Close()
 	img, err := png.Decode(f)
 	require.NoError(t, err, path)
-	assert.Equal(t, 1350, img.Bounds().Dx(), path)
+	assert.Equal(t, 1500, img.Bounds().Dx(), path)
 	assert.Equal(t, 750, img.Bounds().Dy(), path)
 }
 
@@ -80,7 +80,7 @@ func TestPlotEveryKindEveryForm(t *testing.T) {
 		png := filepath.Join(dir, key+"-taylor.png")
 		r := plotJSON(t, "plot", "taylor", spec, "-o", png)
 		assert.Equal(t, plotReport{File: png, Kind: "taylor", Format: "png",
-			Series: []string{"exact V(r)", "order 0, 1 (c_1 = 0)", "order 2 (harmonic)", "order 3", "order 4"}, Notes: r.Notes}, r)
+			Series: []string{"exact V(r)", "order 0, 1 (c₁ = 0)", "order 2 (harmonic)", "order 3", "order 4"}, Notes: r.Notes}, r)
 		assert.Len(t, r.Notes, 2, spec)
 		requirePNG(t, png)
 

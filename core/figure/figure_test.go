@@ -121,7 +121,7 @@ func TestTaylorMorse(t *testing.T) {
 			t.Fatal(err)
 		}
 		checkData(t, f)
-		want := []string{"exact V(r)", "order 0, 1 (c_1 = 0)", "order 2 (harmonic)", "order 3", "order 4"}
+		want := []string{"exact V(r)", "order 0, 1 (c₁ = 0)", "order 2 (harmonic)", "order 3", "order 4"}
 		if got := names(f); strings.Join(got, "|") != strings.Join(want, "|") {
 			t.Fatalf("series %q, want %q", got, want)
 		}
@@ -499,8 +499,8 @@ func TestRender(t *testing.T) {
 	if err != nil {
 		t.Fatal(err)
 	}
-	if b := img.Bounds(); b.Dx() != 1350 || b.Dy() != 750 {
-		t.Errorf("PNG %d×%d, want 1350×750 (9×5 in at 150 dpi)", b.Dx(), b.Dy())
+	if b := img.Bounds(); b.Dx() != 1500 || b.Dy() != 750 {
+		t.Errorf("PNG %d×%d, want 1500×750 (10×5 in at 150 dpi)", b.Dx(), b.Dy())
 	}
 	buf.Reset()
 	if err := f.Render(&buf, SVG); err != nil {

@@ -5,6 +5,7 @@ import (
 	"errors"
 	"fmt"
 	"image/color"
+	"image/png"
 	"io"
 	"math"
 	"os"
@@ -33,9 +34,9 @@ const (
 
 // Picture size and resolution.
 const (
-	width  = 9 * vg.Inch
+	width  = 10 * vg.Inch
 	height = 5 * vg.Inch
-	// dpi is the resolution of PNG output: 1350×750 pixels.
+	// dpi is the resolution of PNG output: 1500×750 pixels.
 	dpi = 150
 )
 
@@ -117,7 +118,7 @@ func (f *Figure) Render(w io.Writer, format Format) error {
 	switch format {
 	case PNG:
 		img := vgimg.NewWith(vgimg.UseWH(width, height), vgimg.UseDPI(dpi), vgimg.UseBackgroundColor(color.White))
-		c, wt = img, vgimg.PngCanvas{Canvas: img}
+		c, wt = img, pngWriter{img}
 	case SVG:
 		s := vgsvg.New(width, height)
 		c, wt = s, s
@@ -127,13 +128,42 @@ func (f *Figure) Render(w io.Writer, format Format) error {
 	default:
 		return fmt.Errorf("%w %q: use png, svg or pdf", ErrFormat, format)
 	}
-	if err := f.draw(draw.New(c)); err != nil {
+	dc := draw.New(c)
+	if format != PNG { // the PNG canvas starts white
+		dc.SetColor(color.White)
+		dc.Fill(dc.Rectangle.Path())
+	}
+	if err := f.draw(dc); err != nil {
 		return err
 	}
 	if _, err := wt.WriteTo(w); err != nil {
 		return fmt.Errorf("rendering %s: %w", format, err)
 	}
 	return nil
+}
+
+// pngWriter encodes a raster canvas as PNG at the fastest compression:
+// about half the time of the default level for files about 1.3 times as
+// large.
+type pngWriter struct{ c *vgimg.Canvas }
+
+func (p pngWriter) WriteTo(w io.Writer) (int64, error) {
+	cw := &countWriter{w: w}
+	enc := png.Encoder{CompressionLevel: png.BestSpeed}
+	err := enc.Encode(cw, p.c.Image())
+	return cw.n, err
+}
+
+// countWriter counts the bytes written through it.
+type countWriter struct {
+	w io.Writer
+	n int64
+}
+
+func (c *countWriter) Write(b []byte) (int, error) {
+	n, err := c.w.Write(b)
+	c.n += int64(n)
+	return n, err
 }
 
 // sans is the typeface of every text, from the Liberation fonts that
@@ -143,9 +173,6 @@ var sans = font.Font{Typeface: "Liberation", Variant: "Sans"}
 // draw lays the picture out on dc: the plot on the left, the legend in a
 // column on the right, so that the legend never hides a curve.
 func (f *Figure) draw(dc draw.Canvas) error {
-	dc.SetColor(color.White)
-	dc.Fill(dc.Rectangle.Path())
-
 	p := plot.New()
 	p.Title.Text = f.Title
 	p.Title.TextStyle.Font = font.From(sans, 13)
@@ -162,7 +189,7 @@ func (f *Figure) draw(dc draw.Canvas) error {
 	p.Add(grid)
 
 	leg := plot.NewLegend()
-	leg.TextStyle.Font = font.From(sans, 11)
+	leg.TextStyle.Font = font.From(sans, 10.5)
 	leg.Left, leg.Top = true, true
 	leg.ThumbnailWidth = vg.Points(34)
 	leg.Padding = vg.Points(3)
@@ -197,12 +224,13 @@ func (f *Figure) draw(dc draw.Canvas) error {
 	avail := dc.Max.X - dc.Min.X - lw - 2*gap
 	for size := vg.Points(13); size > vg.Points(8); size -= vg.Points(0.5) {
 		p.Title.TextStyle.Font = font.From(sans, size)
-		if p.Title.TextStyle.Rectangle(f.Title).Max.X <= avail {
+		if r := p.Title.TextStyle.Rectangle(f.Title); r.Max.X-r.Min.X <= avail {
 			break
 		}
 	}
 	p.Draw(draw.Crop(dc, 0, -(lw + 2*gap), 0, 0))
-	top := p.Title.TextStyle.Rectangle(f.Title).Max.Y + p.Title.Padding + vg.Points(4)
+	tr := p.Title.TextStyle.Rectangle(f.Title)
+	top := tr.Max.Y - tr.Min.Y + p.Title.Padding + vg.Points(4)
 	leg.Draw(draw.Crop(dc, dc.Max.X-dc.Min.X-lw-gap, -gap, 0, -top))
 	return nil
 }
@@ -433,8 +461,9 @@ func (m *markPlotter) fill(c draw.Canvas, r vg.Rectangle) {
 	if m.mark.Kind == Band {
 		c.SetColor(bandFill)
 		c.Fill(r.Path())
+		edge := draw.LineStyle{Color: markLine, Width: vg.Points(0.8)}
 		for _, x := range []vg.Length{r.Min.X, r.Max.X} {
-			m.line(c, x, r.Min.Y, x, r.Max.Y)
+			c.StrokeLine2(edge, x, r.Min.Y, x, r.Max.Y)
 		}
 		return
 	}

@@ -102,7 +102,7 @@ func Taylor(p core.Potential, o TaylorOptions) (*Figure, error) {
 	for i := range c0 {
 		c0[i] = w.Taylor[0]
 	}
-	f.Series = append(f.Series, Series{Name: "order 0, 1 (c_1 = 0)", Role: Approximation, X: rs, Y: c0})
+	f.Series = append(f.Series, Series{Name: "order 0, 1 (c₁ = 0)", Role: Approximation, X: rs, Y: c0})
 	for k := 2; k <= n; k++ {
 		tr, err := validity.NewTruncation(w, k)
 		if err != nil {
@@ -140,7 +140,7 @@ func Taylor(p core.Potential, o TaylorOptions) (*Figure, error) {
 	lo, hi := w.Re-lim.Compression, w.Re+lim.Stretch
 	f.Marks = append(f.Marks, Mark{
 		Kind: Band, X0: math.Max(lo, xmin), X1: math.Min(hi, xmax),
-		Label: fmt.Sprintf("harmonic: |V₂ − V| ≤ %g %% of V − V(re)", 100*tol),
+		Label: fmt.Sprintf("|V₂ − V| ≤ %g %% of V − V(re)", 100*tol),
 	})
 	f.Notes = append(f.Notes, fmt.Sprintf("harmonic truncation within %g %% of V − V(re) (potential criterion): %s",
 		100*tol, rangeText(lim.Compression, lim.Stretch)))
@@ -148,7 +148,7 @@ func Taylor(p core.Potential, o TaylorOptions) (*Figure, error) {
 	if err != nil {
 		return nil, fmt.Errorf("figure: period validity of the harmonic truncation: %w", err)
 	}
-	plabel := fmt.Sprintf("harmonic period within %g %%: turning points", 100*tol)
+	plabel := fmt.Sprintf("turning points: period of V₂ within %g %%", 100*tol)
 	for _, r := range []float64{w.Re - per.Compression, w.Re + per.Stretch} {
 		if !math.IsInf(r, 0) {
 			f.Marks = append(f.Marks, Mark{Kind: VLine, X0: r, Label: plabel})
