@@ -78,7 +78,8 @@ type demoPeriodRow struct {
 }
 
 func newDemoCmd(e *env) *cobra.Command {
-	return &cobra.Command{
+	var pictures demoPictures // see plot_demo.go
+	cmd := &cobra.Command{
 		Use:   "demo",
 		Short: "Tell the whole story on built-in data: one invented bond, four forms, their harmonic ranges",
 		Long: fmt.Sprintf(`demo runs pairwell end to end on an INVENTED bond (re = %g Å, De = %g eV,
@@ -90,10 +91,13 @@ k = %g eV/Å², μ = %g u — made-up numbers, not a real molecule):
  2. for Morse, the exact period, the harmonic one and the second-order
     perturbative one at a handful of amplitudes;
  3. a paragraph saying in plain words what the numbers mean, computed from
-    them.
+    them;
+ 4. pictures of the Morse well and its Taylor truncations, of the period
+    against amplitude, of the four forms and of the motion, written to the
+    folder --out (default ./pairwell-demo/; --no-pictures for none).
 
 --format json emits one object with the keys scenario, compare, period,
-interpretation and caution.`, demoBond.target.Re, demoBond.target.Depth, demoBond.target.K, demoBond.mu),
+interpretation and caution; the pictures are then listed on stderr.`, demoBond.target.Re, demoBond.target.Depth, demoBond.target.K, demoBond.mu),
 		Args: exactArgs(0, "no arguments"),
 		RunE: func(cmd *cobra.Command, args []string) error {
 			if e.format == "csv" {
@@ -104,14 +108,19 @@ interpretation and caution.`, demoBond.target.Re, demoBond.target.Depth, demoBon
 				return err
 			}
 			if e.format == "json" {
-				return e.emit(r, nil)
+				if err := e.emit(r, nil); err != nil {
+					return err
+				}
+				return pictures.write(e)
 			}
 			if err := writeDemo(e.stdout, r); err != nil {
 				return failErr(fmt.Errorf("writing output: %w", err))
 			}
-			return nil
+			return pictures.write(e)
 		},
 	}
+	pictures.register(cmd)
+	return cmd
 }
 
 // runDemo computes every section.
