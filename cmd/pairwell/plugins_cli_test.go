@@ -10,6 +10,7 @@ import (
 	"runtime"
 	"strconv"
 	"strings"
+	"sync"
 	"syscall"
 	"testing"
 	"time"
@@ -260,7 +261,7 @@ func TestPluginSIGINT(t *testing.T) {
 	requirePlugins(t)
 	cmd := exec.Command(pluginBin.pairwell, "--plugin", pluginBin.test, "--plugin", pluginBin.rydberg,
 		"--plugin-timeout", "1m", "inspect", "hanging-morse:De=1,a=1,re=1")
-	var stderr strings.Builder
+	var stderr lockedBuffer
 	cmd.Stderr = &stderr
 	require.NoError(t, cmd.Start())
 	done := make(chan error, 1)
@@ -287,4 +288,22 @@ func TestPluginSIGINT(t *testing.T) {
 		t.Fatal("pairwell did not exit on SIGINT")
 	}
 	assert.Empty(t, pluginProcs(t), "plugin processes left after SIGINT")
+}
+
+// lockedBuffer is a strings.Builder safe to read while a process writes.
+type lockedBuffer struct {
+	mu sync.Mutex
+	b  strings.Builder
+}
+
+func (l *lockedBuffer) Write(p []byte) (int, error) {
+	l.mu.Lock()
+	defer l.mu.Unlock()
+	return l.b.Write(p)
+}
+
+func (l *lockedBuffer) String() string {
+	l.mu.Lock()
+	defer l.mu.Unlock()
+	return l.b.String()
 }

@@ -6,6 +6,7 @@ import (
 	"math"
 	"net"
 	"path/filepath"
+	"sync/atomic"
 	"testing"
 	"time"
 
@@ -81,12 +82,13 @@ func TestNewServerRejects(t *testing.T) {
 	assert.ErrorContains(t, err, "already used")
 }
 
-// fastPair serves the built-in Morse on a direct channel in a temporary
-// directory and returns a client and an open handle.
-func fastPair(t *testing.T) (*Server, *FastClient, uint64) {
+// fastPair serves the built-in Morse, with filter, on a direct channel in
+// a temporary directory and returns a client and an open handle.
+func fastPair(t *testing.T, filter func(uint64, []float64) []float64) (*Server, *FastClient, uint64) {
 	t.Helper()
 	srv, err := NewServer("1", []core.Model{models.Morse{}})
 	require.NoError(t, err)
+	srv.Filter = filter
 	l, err := net.Listen("unix", filepath.Join(t.TempDir(), "s"))
 	require.NoError(t, err)
 	t.Cleanup(func() { l.Close() })
@@ -101,7 +103,13 @@ func fastPair(t *testing.T) (*Server, *FastClient, uint64) {
 }
 
 func TestFastChannel(t *testing.T) {
-	srv, fc, h := fastPair(t)
+	var extra atomic.Bool // makes the server send one value too many
+	_, fc, h := fastPair(t, func(_ uint64, v []float64) []float64 {
+		if extra.Load() {
+			return append(v, math.Pi)
+		}
+		return v
+	})
 	want, err := models.NewMorse(4.6, 1.87, 1.27)
 	require.NoError(t, err)
 
@@ -133,10 +141,10 @@ func TestFastChannel(t *testing.T) {
 	assert.Contains(t, f.GetMessage(), "unknown handle")
 
 	// A wrong count is reported, and the connection stays usable.
-	srv.Filter = func(_ uint64, v []float64) []float64 { return append(v, math.Pi) }
+	extra.Store(true)
 	_, _, err = fc.Evaluate(time.Second, h, 0, false, []float64{1}, make([]float64, 1))
 	assert.ErrorIs(t, err, ErrBadCount)
-	srv.Filter = nil
+	extra.Store(false)
 	_, _, err = fc.Evaluate(time.Second, h, 0, false, []float64{1}, make([]float64, 1))
 	assert.NoError(t, err)
 
