@@ -12,6 +12,7 @@ import (
 	"github.com/pairwell/pairwell/core/figure"
 	"github.com/pairwell/pairwell/core/modelset"
 	"github.com/pairwell/pairwell/core/motion"
+	"github.com/pairwell/pairwell/core/report"
 	"github.com/pairwell/pairwell/core/units"
 )
 
@@ -124,6 +125,14 @@ func (e *env) writePlot(f *figure.Figure, path string) error {
 		return failErr(fmt.Errorf("writing output: %w", err))
 	}
 	return nil
+}
+
+// plotName names the form, and the pair when one is given, in a title.
+func plotName(key string, m report.Mass) string {
+	if m.Pair != "" {
+		return key + " (" + m.Pair + ")"
+	}
+	return key
 }
 
 // plotErr classifies an error from a figure builder like computeErr.
@@ -282,7 +291,7 @@ well is bad input.`,
 				return err
 			}
 			key := inst.Model.Info().Key
-			o.Name = key
+			o.Name = plotName(key, m)
 			f, err := figure.Period(inst.Potential, o)
 			if err != nil {
 				return plotErr(key, err)
@@ -436,7 +445,7 @@ same way. The title gives the measured, exact and harmonic periods.`,
 				return err
 			}
 			key := inst.Model.Info().Key
-			f, err := figure.Motion(inst.Potential, figure.MotionOptions{Name: key, Mu: m.Mu, Amplitude: x0, Method: meth, Periods: periods})
+			f, err := figure.Motion(inst.Potential, figure.MotionOptions{Name: plotName(key, m), Mu: m.Mu, Amplitude: x0, Method: meth, Periods: periods})
 			if err != nil {
 				return plotErr(key, err)
 			}
