@@ -365,5 +365,8 @@ func (p *Plugin) failed(what string, err error, timedOut bool) error {
 			return e
 		}
 	}
+	if errors.Is(err, wire.ErrFastProtocol) {
+		return fmt.Errorf("plugin %s: %s: %w: %v", p.path, what, ErrBadOutput, err)
+	}
 	return fmt.Errorf("plugin %s: %s: %w", p.path, what, err)
 }

@@ -118,8 +118,9 @@ func (f *pluginFlags) load(e *env) error {
 			cancel()
 			set.close()
 			stop()
-			if sig, ok := s.(syscall.Signal); ok {
-				_ = syscall.Kill(os.Getpid(), sig)
+			// Die of the signal, as without plugins.
+			if self, err := os.FindProcess(os.Getpid()); err == nil {
+				_ = self.Signal(s)
 			}
 		case <-done:
 		}
