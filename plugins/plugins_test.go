@@ -465,3 +465,31 @@ func TestClosedPlugin(t *testing.T) {
 	_, err = p.Models()[0].New([]float64{4.6, 2.5, 1.27})
 	assert.ErrorIs(t, err, plugins.ErrClosed)
 }
+
+// TestTurnoverTravels checks that a form with an inner barrier (Buckingham,
+// served by the test plugin) keeps its domain, barrier, guess and
+// identities through the protocol.
+func TestTurnoverTravels(t *testing.T) {
+	params := []float64{1500, 0.3, 25} // A (eV), rho (Å), C (eV·Å⁶): invented
+	p := load(t, bin.test, plugins.Options{})
+	pot, err := model(t, p, "plugin-buckingham").New(params)
+	require.NoError(t, err)
+	want, err := models.Buckingham{}.New(params)
+	require.NoError(t, err)
+	assert.Equal(t, want.Domain(), pot.Domain())
+	require.True(t, pot.Domain().Barrier)
+	tp, ok := pot.(core.Turnover)
+	require.True(t, ok)
+	r, v := tp.Barrier()
+	wr, wv := want.(core.Turnover).Barrier()
+	assert.Equal(t, wr, r)
+	assert.Equal(t, wv, v)
+	g, ok := pot.(core.Guesser)
+	require.True(t, ok)
+	assert.Equal(t, want.(core.Guesser).EquilibriumGuess(), g.EquilibriumGuess())
+	assert.Equal(t, want.(core.Identifier).Identities(), pot.(core.Identifier).Identities())
+	var pe *core.PointError
+	require.ErrorAs(t, pot.Batch(0, []float64{2, r / 2}, make([]float64, 2)), &pe)
+	assert.Equal(t, 1, pe.Index)
+	assert.ErrorIs(t, pe, core.ErrDomain, "below the barrier")
+}

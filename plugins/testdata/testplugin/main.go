@@ -10,6 +10,9 @@
 //	morse-bad3       V‴ is 10 % too large (its identities are Morse's)
 //	morse-badforce   V′ has the wrong sign (its identities are Morse's)
 //
+// and the built-in Buckingham form as "plugin-buckingham", whose inner
+// barrier (core.Turnover) travels through the protocol.
+//
 // Started under a name containing "badproto" (a symbolic link), it speaks
 // protocol version 2 instead, which pairwell refuses; under a name
 // containing "grpconly" it serves no direct evaluation channel. One
@@ -25,9 +28,22 @@ import (
 	plugin "github.com/hashicorp/go-plugin"
 
 	"github.com/pairwell/pairwell/core"
+	"github.com/pairwell/pairwell/models"
 	"github.com/pairwell/pairwell/plugins/internal/wire"
 	"github.com/pairwell/pairwell/plugins/testdata/morse"
 )
+
+// renamed serves a model under another key.
+type renamed struct {
+	core.Model
+	key string
+}
+
+func (m renamed) Info() core.ModelInfo {
+	info := m.Model.Info()
+	info.Key, info.Aliases = m.key, nil
+	return info
+}
 
 func main() {
 	srv, err := wire.NewServer("0.1.0-test", []core.Model{
@@ -39,6 +55,7 @@ func main() {
 		morse.Model{Key: "panicking-morse", Fault: morse.Panic},
 		morse.Model{Key: "morse-bad3", Fault: morse.Third},
 		morse.Model{Key: "morse-badforce", Fault: morse.ForceSign},
+		renamed{models.Buckingham{}, "plugin-buckingham"},
 	})
 	if err != nil {
 		fmt.Fprintln(os.Stderr, err)
