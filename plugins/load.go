@@ -91,7 +91,7 @@ type Plugin struct {
 
 	client *plugin.Client
 	forms  pb.FormsClient
-	fast   *wire.FastClient // nil: evaluations go over gRPC
+	fast   *wire.FastClient // nil: evaluations go over gRPC; set by Load
 	stderr *tail
 
 	ctx    context.Context // canceled when the plugin stops
@@ -234,7 +234,14 @@ func (p *Plugin) start(ctx context.Context) error {
 	if addr := resp.GetFastPath(); addr != "" {
 		// Without the direct channel evaluations still work, over gRPC.
 		if fc, err := wire.DialFast(addr, p.timeout); err == nil {
-			p.fast = fc
+			p.mu.Lock()
+			if p.dead == nil {
+				p.fast, fc = fc, nil
+			}
+			p.mu.Unlock()
+			if fc != nil { // stopped meanwhile
+				fc.Close()
+			}
 		}
 	}
 	if len(resp.GetModels()) == 0 {
@@ -306,13 +313,13 @@ func (p *Plugin) kill(reason error) {
 	if p.dead == nil {
 		p.dead = reason
 	}
-	proc := p.proc
+	proc, fast := p.proc, p.fast
 	p.mu.Unlock()
 	p.killMu.Lock()
 	defer p.killMu.Unlock()
 	p.cancel()
-	if p.fast != nil {
-		p.fast.Close()
+	if fast != nil {
+		fast.Close()
 	}
 	if proc != nil {
 		_ = proc.Kill(context.Background())
