@@ -50,11 +50,12 @@ func (m *model) New(params []float64) (core.Potential, error) {
 	if f := resp.GetFailure(); f != nil {
 		return nil, remote(p, f)
 	}
-	bad := func(format string, args ...any) error {
-		return fmt.Errorf("plugin %s: %s: %w: %s", p.path, what, ErrBadOutput, fmt.Sprintf(format, args...))
-	}
 	if resp.GetHandle() == 0 {
-		return nil, bad("no handle")
+		return nil, fmt.Errorf("plugin %s: %s: %w: no handle", p.path, what, ErrBadOutput)
+	}
+	bad := func(format string, args ...any) error {
+		go p.release(resp.GetHandle())
+		return fmt.Errorf("plugin %s: %s: %w: %s", p.path, what, ErrBadOutput, fmt.Sprintf(format, args...))
 	}
 	d, err := wire.DomainFromProto(resp.GetDomain())
 	if err != nil {
@@ -68,14 +69,14 @@ func (m *model) New(params []float64) (core.Potential, error) {
 		}
 		pot.ids = append(pot.ids, id)
 	}
-	// Release the handle in the plugin when the potential is garbage.
-	runtime.AddCleanup(pot, func(h uint64) { go p.release(h) }, pot.handle)
-
 	g, hasGuess := resp.GetEquilibriumGuess(), resp.EquilibriumGuess != nil
 	b := resp.GetBarrier()
 	if d.Barrier && b == nil {
 		return nil, bad("the domain has an inner barrier but its position was not given")
 	}
+	// Release the handle in the plugin when the potential is garbage.
+	runtime.AddCleanup(pot, func(h uint64) { go p.release(h) }, pot.handle)
+
 	switch {
 	case hasGuess && d.Barrier:
 		return guessTurnoverPotential{pot, g, b.GetR(), b.GetV()}, nil
