@@ -37,11 +37,9 @@ type pluginFlags struct {
 
 func (f *pluginFlags) register(fs *pflag.FlagSet) {
 	fs.StringArrayVar(&f.refs, "plugin", nil,
-		"load the plugin executable `PATH[@sha256:HEX]` (repeatable); @sha256: pins its SHA-256 and refuses any other binary. "+
-			"Plugins are also loaded from the directories in "+envPluginPath+" (executables named pairwell-plugin-*), "+
-			"pinned by the lock file "+envPluginLock+" if set")
+		"load the plugin executable at `PATH[@sha256:HEX]` (repeatable); @sha256:HEX refuses any binary with another SHA-256")
 	fs.DurationVar(&f.timeout, "plugin-timeout", plugins.DefaultTimeout,
-		"deadline of a plugin's start and of each call to it; a plugin that exceeds it is stopped")
+		"deadline of a plugin's start and of each call to it; a plugin past it is stopped")
 }
 
 // pluginSet is the plugins of one invocation: it closes each exactly
