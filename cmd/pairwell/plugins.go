@@ -48,6 +48,7 @@ type pluginSet struct {
 	mu     sync.Mutex
 	closed bool
 	loaded []*plugins.Plugin
+	once   sync.Once
 }
 
 func (s *pluginSet) add(p *plugins.Plugin) {
@@ -62,8 +63,11 @@ func (s *pluginSet) add(p *plugins.Plugin) {
 	}
 }
 
-// close stops every plugin and waits until their processes are gone.
-func (s *pluginSet) close() {
+// close stops every plugin and waits until their processes are gone; a
+// concurrent call waits as long.
+func (s *pluginSet) close() { s.once.Do(s.closeAll) }
+
+func (s *pluginSet) closeAll() {
 	s.mu.Lock()
 	s.closed = true
 	loaded := s.loaded
@@ -99,6 +103,7 @@ func (f *pluginFlags) load(e *env) error {
 	}
 
 	set := &pluginSet{}
+	var loading sync.WaitGroup // the Loads in flight
 	ctx, cancel := context.WithCancel(context.Background())
 	sigs := make(chan os.Signal, 1)
 	signal.Notify(sigs, os.Interrupt, syscall.SIGTERM, syscall.SIGHUP)
@@ -113,7 +118,10 @@ func (f *pluginFlags) load(e *env) error {
 	go func() {
 		select {
 		case s := <-sigs:
+			// Abandon the starts in flight (each kills its process
+			// before it returns), then stop the running plugins.
 			cancel()
+			waitTimeout(&loading, f.timeout)
 			set.close()
 			stop()
 			// Die of the signal, as without plugins.
@@ -131,11 +139,10 @@ func (f *pluginFlags) load(e *env) error {
 
 	loaded := make([]*plugins.Plugin, len(refs))
 	errs := make([]error, len(refs))
-	var wg sync.WaitGroup
 	for i, r := range refs {
-		wg.Add(1)
+		loading.Add(1)
 		go func() {
-			defer wg.Done()
+			defer loading.Done()
 			p, err := plugins.Load(ctx, r.Path, plugins.Options{Timeout: f.timeout, SHA256: r.SHA256})
 			if err != nil {
 				errs[i] = err
@@ -145,7 +152,7 @@ func (f *pluginFlags) load(e *env) error {
 			set.add(p)
 		}()
 	}
-	wg.Wait()
+	loading.Wait()
 	for _, err := range errs {
 		if err != nil {
 			return pluginErr(err)
@@ -159,6 +166,21 @@ func (f *pluginFlags) load(e *env) error {
 		}
 	}
 	return nil
+}
+
+// waitTimeout waits for wg, at most d.
+func waitTimeout(wg *sync.WaitGroup, d time.Duration) {
+	done := make(chan struct{})
+	go func() {
+		wg.Wait()
+		close(done)
+	}()
+	t := time.NewTimer(d)
+	defer t.Stop()
+	select {
+	case <-done:
+	case <-t.C:
+	}
 }
 
 // resolve lists the plugins to load, each once (by absolute path), with
