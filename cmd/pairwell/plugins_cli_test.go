@@ -252,42 +252,53 @@ func TestPluginBadInput(t *testing.T) {
 	assert.Equal(t, exitUsage, code)
 }
 
-// TestPluginSIGINT interrupts a pairwell blocked in a call to a hanging
-// plugin and checks that no plugin process survives it.
+// TestPluginSIGINT interrupts pairwell while its plugins start, and while
+// it is blocked in a call to a hanging plugin, and checks that no plugin
+// process survives it.
 func TestPluginSIGINT(t *testing.T) {
 	if runtime.GOOS != "linux" {
 		t.Skip("reads /proc")
 	}
 	requirePlugins(t)
-	cmd := exec.Command(pluginBin.pairwell, "--plugin", pluginBin.test, "--plugin", pluginBin.rydberg,
-		"--plugin-timeout", "1m", "inspect", "hanging-morse:De=1,a=1,re=1")
-	var stderr lockedBuffer
-	cmd.Stderr = &stderr
-	require.NoError(t, cmd.Start())
-	done := make(chan error, 1)
-	go func() { done <- cmd.Wait() }()
+	for _, c := range []struct {
+		name  string
+		procs int           // plugin processes to wait for
+		pause time.Duration // then wait this long
+	}{
+		{"starting", 1, 0},
+		{"in a call", 2, 200 * time.Millisecond},
+	} {
+		t.Run(c.name, func(t *testing.T) {
+			cmd := exec.Command(pluginBin.pairwell, "--plugin", pluginBin.test, "--plugin", pluginBin.rydberg,
+				"--plugin-timeout", "1m", "inspect", "hanging-morse:De=1,a=1,re=1")
+			var stderr lockedBuffer
+			cmd.Stderr = &stderr
+			require.NoError(t, cmd.Start())
+			done := make(chan error, 1)
+			go func() { done <- cmd.Wait() }()
 
-	// Wait for both plugins to run, and a little for the call to hang.
-	deadline := time.Now().Add(10 * time.Second)
-	for len(pluginProcs(t)) < 2 && time.Now().Before(deadline) {
-		time.Sleep(20 * time.Millisecond)
-	}
-	require.Len(t, pluginProcs(t), 2, "plugins did not start; stderr: %s", stderr.String())
-	time.Sleep(200 * time.Millisecond)
+			deadline := time.Now().Add(10 * time.Second)
+			for len(pluginProcs(t)) < c.procs && time.Now().Before(deadline) {
+				time.Sleep(time.Millisecond)
+			}
+			require.GreaterOrEqual(t, len(pluginProcs(t)), c.procs, "plugins did not start; stderr: %s", stderr.String())
+			time.Sleep(c.pause)
 
-	require.NoError(t, cmd.Process.Signal(os.Interrupt))
-	select {
-	case err := <-done:
-		var exit *exec.ExitError
-		require.ErrorAs(t, err, &exit, "pairwell must not succeed")
-		if ws, ok := exit.Sys().(syscall.WaitStatus); ok && ws.Signaled() {
-			assert.Equal(t, syscall.SIGINT, ws.Signal())
-		}
-	case <-time.After(5 * time.Second):
-		cmd.Process.Kill()
-		t.Fatal("pairwell did not exit on SIGINT")
+			require.NoError(t, cmd.Process.Signal(os.Interrupt))
+			select {
+			case err := <-done:
+				var exit *exec.ExitError
+				require.ErrorAs(t, err, &exit, "pairwell must not succeed")
+				if ws, ok := exit.Sys().(syscall.WaitStatus); ok && ws.Signaled() {
+					assert.Equal(t, syscall.SIGINT, ws.Signal())
+				}
+			case <-time.After(5 * time.Second):
+				cmd.Process.Kill()
+				t.Fatal("pairwell did not exit on SIGINT")
+			}
+			assert.Empty(t, pluginProcs(t), "plugin processes left after SIGINT")
+		})
 	}
-	assert.Empty(t, pluginProcs(t), "plugin processes left after SIGINT")
 }
 
 // lockedBuffer is a strings.Builder safe to read while a process writes.
