@@ -5,9 +5,7 @@ import (
 	"encoding/json"
 	"encoding/xml"
 	"os"
-	"os/exec"
 	"path/filepath"
-	"runtime"
 	"strings"
 	"testing"
 
@@ -188,34 +186,14 @@ func TestCheckBadInput(t *testing.T) {
 	assert.Contains(t, errOut, "--junit")
 }
 
-// buildTestPlugins builds the example plugins and the test plugin of
-// package plugins into dir with the toolchain running the tests.
-func buildTestPlugins(t *testing.T, dir string) {
-	t.Helper()
-	gobin := filepath.Join(runtime.GOROOT(), "bin", "go")
-	if _, err := os.Stat(gobin); err != nil {
-		if gobin, err = exec.LookPath("go"); err != nil {
-			t.Skipf("no go command to build the test plugins: %v", err)
-		}
-	}
-	const mod = "github.com/pairwell/pairwell/plugins/"
-	cmd := exec.Command(gobin, "build", "-o", dir+string(filepath.Separator),
-		mod+"examples/rydberg", mod+"examples/mie", mod+"testdata/testplugin")
-	out, err := cmd.CombinedOutput()
-	require.NoError(t, err, "building the test plugins: %s", out)
-}
-
 // TestCheckPlugins runs check on forms served by plugins: the example
 // plugins and the test plugin's Morse pass; its Morse with a wrong third
 // derivative and its Morse with a sign error in the force fail, naming
 // the order and the r.
 func TestCheckPlugins(t *testing.T) {
-	if testing.Short() {
-		t.Skip("builds plugins")
-	}
-	dir := t.TempDir()
-	buildTestPlugins(t, dir)
-	plug := func(name string) string { return "--plugin=" + filepath.Join(dir, name) }
+	requirePlugins(t)
+	bins := map[string]string{"rydberg": pluginBin.rydberg, "mie": pluginBin.mie, "testplugin": pluginBin.test}
+	plug := func(name string) string { return "--plugin=" + bins[name] }
 
 	t.Run("examples pass", func(t *testing.T) {
 		code, out, errOut := runCLI(t, plug("rydberg"), plug("mie"), plug("testplugin"), "check",
@@ -278,13 +256,10 @@ func BenchmarkCheckBuiltins(b *testing.B) {
 // BenchmarkCheckPluginForm is "pairwell check" of one form served by a
 // plugin, plugin start included (target: ≤ 3 s).
 func BenchmarkCheckPluginForm(b *testing.B) {
-	dir := b.TempDir()
-	const mod = "github.com/pairwell/pairwell/plugins/testdata/testplugin"
-	gobin := filepath.Join(runtime.GOROOT(), "bin", "go")
-	if out, err := exec.Command(gobin, "build", "-o", dir+string(filepath.Separator), mod).CombinedOutput(); err != nil {
-		b.Fatalf("building the test plugin: %v\n%s", err, out)
+	if pluginBin.buildErr != nil {
+		b.Fatal(pluginBin.buildErr)
 	}
-	args := []string{"--plugin=" + filepath.Join(dir, "testplugin"), "check", "plugin-morse:De=4.6,a=1.87,re=1.27"}
+	args := []string{"--plugin=" + pluginBin.test, "check", "plugin-morse:De=4.6,a=1.87,re=1.27"}
 	var out, errOut bytes.Buffer
 	for b.Loop() {
 		out.Reset()

@@ -205,15 +205,9 @@ func TestPlotKeepsOldFile(t *testing.T) {
 // TestPlotPluginForms draws forms served by plugins, which reach the
 // pictures through the same registry.
 func TestPlotPluginForms(t *testing.T) {
-	if testing.Short() {
-		t.Skip("builds plugins")
-	}
-	if newRootCmd(newEnv(io.Discard, io.Discard)).PersistentFlags().Lookup("plugin") == nil {
-		t.Skip("this build has no --plugin flag")
-	}
+	requirePlugins(t)
 	dir := t.TempDir()
-	buildTestPlugins(t, dir)
-	plug := "--plugin=" + filepath.Join(dir, "rydberg")
+	plug := "--plugin=" + pluginBin.rydberg
 	spec := "rydberg:De=4.6,a=2.1,re=1.27"
 	for _, args := range [][]string{
 		{"taylor", spec},
