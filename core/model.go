@@ -59,6 +59,16 @@ type Param struct {
 	Meaning string
 }
 
+// String describes p as NAME [UNIT, CONSTRAINT], e.g. "De [eV, > 0]" or
+// "n [dimensionless, > 0]".
+func (p Param) String() string {
+	u := p.Dimension.DefaultUnit()
+	if u == "" {
+		u = "dimensionless"
+	}
+	return fmt.Sprintf("%s [%s, %s]", p.Name, u, p.Constraint)
+}
+
 // ModelInfo is the metadata of a form.
 type ModelInfo struct {
 	// Key is the canonical name used in specs, e.g. "morse".

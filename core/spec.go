@@ -141,7 +141,7 @@ func paramIndex(info ModelInfo, name string) int {
 func paramList(info ModelInfo) string {
 	parts := make([]string, len(info.Params))
 	for i, p := range info.Params {
-		parts[i] = fmt.Sprintf("%s [%s, %s]", p.Name, p.Dimension.DefaultUnit(), p.Constraint)
+		parts[i] = p.String()
 	}
 	return strings.Join(parts, ", ")
 }

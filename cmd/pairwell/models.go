@@ -64,15 +64,18 @@ literature reference. The KEY (or an alias) starts a spec: KEY:NAME=VALUE,...`,
 				entries = append(entries, newModelEntry(info))
 				var ps []string
 				for _, p := range info.Params {
-					ps = append(ps, fmt.Sprintf("%s [%s, %s]", p.Name, p.Dimension.DefaultUnit(), p.Constraint))
+					ps = append(ps, p.String())
 				}
 				key := info.Key
 				if len(info.Aliases) > 0 {
 					key += " (" + strings.Join(info.Aliases, ", ") + ")"
 				}
 				origin := info.Origin
-				if info.Version != "" {
-					origin += " v" + info.Version
+				if origin != "built-in" {
+					origin = "plugin " + origin
+					if info.Version != "" {
+						origin += " (version " + info.Version + ")"
+					}
 				}
 				t.add(key, info.Formula, strings.Join(ps, "; "), origin)
 			}
