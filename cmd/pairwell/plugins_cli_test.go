@@ -76,8 +76,8 @@ func TestPluginModelsListed(t *testing.T) {
 	code, out, errOut := runPlugins(t, "--plugin", pluginBin.rydberg, "--plugin", pluginBin.mie, "models")
 	require.Equal(t, 0, code, errOut)
 	assert.Contains(t, out, "V = −De(1 + a(r − re))exp(−a(r − re))")
-	assert.Contains(t, out, pluginBin.rydberg+" v1.0.0")
-	assert.Contains(t, out, pluginBin.mie+" v1.0.0")
+	assert.Contains(t, out, "plugin "+pluginBin.rydberg+" (version 1.0.0)")
+	assert.Contains(t, out, "plugin "+pluginBin.mie+" (version 1.0.0)")
 	assert.Contains(t, out, "R. Rydberg, Z. Phys. 73, 376 (1931)")
 
 	code, out, errOut = runPlugins(t, "--plugin", pluginBin.rydberg, "models", "--format", "json")
@@ -106,8 +106,8 @@ func TestPluginPathVariable(t *testing.T) {
 
 	code, out, errOut := runPlugins(t, "models")
 	require.Equal(t, 0, code, errOut)
-	assert.Contains(t, out, filepath.Join(dir, "pairwell-plugin-mie")+" v1.0.0")
-	assert.Contains(t, out, filepath.Join(dir, "pairwell-plugin-rydberg")+" v1.0.0")
+	assert.Contains(t, out, filepath.Join(dir, "pairwell-plugin-mie")+" (version 1.0.0)")
+	assert.Contains(t, out, filepath.Join(dir, "pairwell-plugin-rydberg")+" (version 1.0.0)")
 	assert.NotContains(t, out, "plugin-morse")
 
 	code, out, errOut = runPlugins(t, "inspect", rydbergSpec, "--format", "json")
