@@ -9,7 +9,6 @@ import (
 	"github.com/spf13/cobra"
 
 	"github.com/pairwell/pairwell/conformance"
-	"github.com/pairwell/pairwell/core/modelset"
 )
 
 func newCheckCmd(e *env) *cobra.Command {
@@ -104,13 +103,9 @@ Exit status: 0 every check passed, 1 a check failed, 2 bad input.`,
 func (e *env) checkCases(specs []string, setPath string) ([]conformance.Case, error) {
 	var cases []conformance.Case
 	if setPath != "" {
-		set, err := modelset.Load(setPath)
+		built, err := e.loadSet(setPath)
 		if err != nil {
-			return nil, usageErr(fmt.Errorf("--set: %w", err))
-		}
-		built, err := set.Build(e.registry)
-		if err != nil {
-			return nil, computeErr(fmt.Errorf("--set %s: %w", setPath, err))
+			return nil, err
 		}
 		for _, b := range built {
 			cases = append(cases, conformance.Case{Name: b.Name, Instance: b.Instance})

@@ -9,7 +9,6 @@ import (
 	"github.com/spf13/cobra"
 
 	"github.com/pairwell/pairwell/core"
-	"github.com/pairwell/pairwell/core/modelset"
 	"github.com/pairwell/pairwell/core/report"
 	"github.com/pairwell/pairwell/core/units"
 )
@@ -107,13 +106,9 @@ table).`,
 func (e *env) compareInputs(specs []string, setPath, match string, m report.Mass) ([]report.CompareInput, error) {
 	var inputs []report.CompareInput
 	if setPath != "" {
-		set, err := modelset.Load(setPath)
+		built, err := e.loadSet(setPath)
 		if err != nil {
-			return nil, usageErr(fmt.Errorf("--set: %w", err))
-		}
-		built, err := set.Build(e.registry)
-		if err != nil {
-			return nil, usageErr(fmt.Errorf("--set %s: %w", setPath, err))
+			return nil, err
 		}
 		for _, b := range built {
 			in := report.CompareInput{Name: b.Name, Instance: b.Instance, Mass: report.Mass{Pair: b.Pair, Mu: b.Mu}}

@@ -10,7 +10,6 @@ import (
 	"github.com/spf13/cobra"
 
 	"github.com/pairwell/pairwell/core/figure"
-	"github.com/pairwell/pairwell/core/modelset"
 	"github.com/pairwell/pairwell/core/motion"
 	"github.com/pairwell/pairwell/core/report"
 	"github.com/pairwell/pairwell/core/units"
@@ -367,13 +366,9 @@ barrier, below which that form collapses.`,
 func (e *env) plotCurves(specs []string, setPath string) ([]figure.Curve, error) {
 	var curves []figure.Curve
 	if setPath != "" {
-		set, err := modelset.Load(setPath)
+		built, err := e.loadSet(setPath)
 		if err != nil {
-			return nil, usageErr(fmt.Errorf("--set: %w", err))
-		}
-		built, err := set.Build(e.registry)
-		if err != nil {
-			return nil, usageErr(fmt.Errorf("--set %s: %w", setPath, err))
+			return nil, err
 		}
 		for _, b := range built {
 			curves = append(curves, figure.Curve{Name: b.Name, Potential: b.Instance.Potential})
