@@ -6,6 +6,8 @@ import (
 	"strings"
 
 	"gonum.org/v1/gonum/diff/fd"
+
+	"github.com/pairwell/pairwell/core/units"
 )
 
 // Finite differences. The derivative of g = V⁽ⁿ⁻¹⁾ at r is estimated by
@@ -266,7 +268,7 @@ func (c *subject) checkDerivatives() []Result {
 		failed[n] = true
 		var b strings.Builder
 		fmt.Fprintf(&b, "order %d: at r = %.9g Å %s = %.10g %s but the finite-difference derivative of %s is %.10g (±%.2g): relative error %.3g > tolerance %.3g; %d of %d points fail",
-			n, r.WorstR, vname(n), oc.analytic, unit(n), vname(n-1), oc.numeric, oc.fdErr, oc.worst, tol, oc.failing, len(ev.rs))
+			n, r.WorstR, vname(n), oc.analytic, units.DerivativeUnit(n), vname(n-1), oc.numeric, oc.fdErr, oc.worst, tol, oc.failing, len(ev.rs))
 		if oc.failing > 1 {
 			fmt.Fprintf(&b, ", from r = %.6g to %.6g Å", ev.rs[oc.first], ev.rs[oc.last])
 		}
@@ -318,30 +320,5 @@ func vname(n int) string {
 	case 4:
 		return "V⁗"
 	}
-	return "V⁽" + superscript(n) + "⁾"
-}
-
-// unit is the unit of the n-th derivative, eV/Åⁿ.
-func unit(n int) string {
-	switch n {
-	case 0:
-		return "eV"
-	case 1:
-		return "eV/Å"
-	}
-	return "eV/Å" + superscript(n)
-}
-
-func superscript(n int) string {
-	sup := []rune("⁰¹²³⁴⁵⁶⁷⁸⁹")
-	s := fmt.Sprint(n)
-	out := make([]rune, 0, len(s))
-	for _, ch := range s {
-		if ch == '-' {
-			out = append(out, '⁻')
-			continue
-		}
-		out = append(out, sup[ch-'0'])
-	}
-	return string(out)
+	return "V⁽" + units.Superscript(n) + "⁾"
 }

@@ -7,6 +7,7 @@ import (
 
 	"github.com/pairwell/pairwell/core"
 	"github.com/pairwell/pairwell/core/report"
+	"github.com/pairwell/pairwell/core/units"
 )
 
 func newInspectCmd(e *env) *cobra.Command {
@@ -84,7 +85,7 @@ func inspectTable(r report.Inspect) *table {
 	t.add("well depth V(∞) − V(re)", num(float64(r.Depth)), "eV")
 	t.add("force constant k = V″(re)", num(r.K), "eV/Å²")
 	for n, c := range r.Taylor {
-		t.add(fmt.Sprintf("c%s = V⁽%s⁾(re)/%d!", subscript(n), superscript(n), n), num(c), energyPerLength(n))
+		t.add(fmt.Sprintf("c%s = V⁽%s⁾(re)/%d!", units.Subscript(n), units.Superscript(n), n), num(c), units.DerivativeUnit(n))
 	}
 	t.add("stretch inflection point", num(float64(r.Inflection)), "Å")
 	t.add("max restoring force", num(float64(r.MaxForce)), "eV/Å")
