@@ -3,10 +3,10 @@ package plugins_test
 import (
 	"fmt"
 	"os"
-	"os/exec"
 	"path/filepath"
-	"runtime"
 	"testing"
+
+	"github.com/pairwell/pairwell/plugins/plugintest"
 )
 
 // bin holds the paths of the plugins TestMain builds.
@@ -34,7 +34,7 @@ func testMain(m *testing.M) int {
 		return 1
 	}
 	defer os.RemoveAll(dir)
-	if err := buildPlugins(dir); err != nil {
+	if err := plugintest.Build(dir, append(plugintest.Examples, plugintest.TestPlugin)...); err != nil {
 		fmt.Fprintln(os.Stderr, err)
 		return 1
 	}
@@ -50,22 +50,4 @@ func testMain(m *testing.M) int {
 		}
 	}
 	return m.Run()
-}
-
-// buildPlugins builds the example plugins and the test plugin into dir in
-// one go build, with the toolchain that runs the tests.
-func buildPlugins(dir string) error {
-	gobin := filepath.Join(runtime.GOROOT(), "bin", "go")
-	if _, err := os.Stat(gobin); err != nil {
-		if gobin, err = exec.LookPath("go"); err != nil {
-			return fmt.Errorf("no go command to build the test plugins: %w", err)
-		}
-	}
-	const mod = "github.com/pairwell/pairwell/plugins/"
-	cmd := exec.Command(gobin, "build", "-ldflags=-s -w", "-o", dir+string(filepath.Separator),
-		mod+"examples/rydberg", mod+"examples/mie", mod+"testdata/testplugin")
-	if out, err := cmd.CombinedOutput(); err != nil {
-		return fmt.Errorf("building the test plugins: %v\n%s", err, out)
-	}
-	return nil
 }

@@ -3,10 +3,10 @@ package main
 import (
 	"fmt"
 	"os"
-	"os/exec"
 	"path/filepath"
-	"runtime"
 	"testing"
+
+	"github.com/pairwell/pairwell/plugins/plugintest"
 )
 
 // TestMain builds, once for the package, the plugins the plugin tests run
@@ -42,17 +42,9 @@ func testMain(m *testing.M) int {
 // buildTestBinaries builds into dir, in one go build, with the toolchain
 // that runs the tests.
 func buildTestBinaries(dir string) error {
-	gobin := filepath.Join(runtime.GOROOT(), "bin", "go")
-	if _, err := os.Stat(gobin); err != nil {
-		if gobin, err = exec.LookPath("go"); err != nil {
-			return fmt.Errorf("no go command to build the test plugins: %w", err)
-		}
-	}
-	const mod = "github.com/pairwell/pairwell/"
-	cmd := exec.Command(gobin, "build", "-ldflags=-s -w", "-o", dir+string(filepath.Separator),
-		mod+"cmd/pairwell", mod+"plugins/examples/rydberg", mod+"plugins/examples/mie", mod+"plugins/testdata/testplugin")
-	if out, err := cmd.CombinedOutput(); err != nil {
-		return fmt.Errorf("building the test plugins: %v\n%s", err, out)
+	pkgs := append([]string{plugintest.Module + "cmd/pairwell", plugintest.TestPlugin}, plugintest.Examples...)
+	if err := plugintest.Build(dir, pkgs...); err != nil {
+		return err
 	}
 	pluginBin.pairwell = filepath.Join(dir, "pairwell")
 	pluginBin.rydberg = filepath.Join(dir, "rydberg")
