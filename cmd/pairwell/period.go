@@ -4,39 +4,15 @@ import (
 	"errors"
 	"fmt"
 	"math"
-	"runtime"
 	"strconv"
 	"strings"
-	"sync"
-	"sync/atomic"
 
 	"github.com/spf13/cobra"
 
-	"github.com/pairwell/pairwell/core"
 	"github.com/pairwell/pairwell/core/motion"
-	"github.com/pairwell/pairwell/core/period"
 	"github.com/pairwell/pairwell/core/report"
 	"github.com/pairwell/pairwell/core/units"
 )
-
-// periodRow is one row of the period command. JSON keys are a contract;
-// values are in eV, Å and fs. A row that has no oscillation carries the
-// reason in Error and nulls where there is no value.
-type periodRow struct {
-	// Amplitude is the displacement from re at the start at rest
-	// (+ stretch, − compress); for an --energies row, the stretch-side
-	// turning point r₊ − re.
-	Amplitude          report.Number  `json:"amplitude_angstrom"`
-	Energy             report.Number  `json:"energy_ev"`
-	ExactPeriod        report.Number  `json:"exact_period_fs"`
-	ExactPeriodError   report.Number  `json:"exact_period_relative_error_estimate"`
-	HarmonicPeriod     report.Number  `json:"harmonic_period_fs"`
-	PerturbativePeriod report.Number  `json:"perturbative_period_fs"`
-	MeasuredPeriod     *report.Number `json:"measured_period_fs,omitempty"`
-	Inner              report.Number  `json:"inner_turning_point_angstrom"`
-	Outer              report.Number  `json:"outer_turning_point_angstrom"`
-	Error              *string        `json:"error"`
-}
 
 // maxSweepCount caps the COUNT of a FROM:TO:COUNT range.
 const maxSweepCount = 1_000_000
@@ -150,21 +126,23 @@ JSON values are in eV, Å, u and fs, whatever the input units.`,
 			if len(xs)+len(es) == 0 {
 				return usageErr(errors.New("give --amplitudes LIST|FROM:TO:COUNT (Å) or --energies LIST|FROM:TO:COUNT (eV)"))
 			}
-			var meth *motion.Method
+			set := report.PeriodSettings{}
 			if cmd.Flags().Changed("method") {
-				mm, err := motion.ParseMethod(method)
-				if err != nil {
+				if set.Method, err = motion.ParseMethod(method); err != nil {
 					return usageErr(fmt.Errorf("--method: %w", err))
 				}
-				meth = &mm
+				set.Measure = true
 			}
 			inst, err := e.build(args[0])
 			if err != nil {
 				return err
 			}
-			rows, w, err := e.periodRows(inst, m.Mu, xs, es, meth)
+			progress, finish := e.sweepProgress("periods")
+			set.Progress = progress
+			rows, w, err := report.PeriodSweep(inst, m.Mu, xs, es, set)
+			finish()
 			if err != nil {
-				return err
+				return computeErr(err)
 			}
 			if e.format == "table" {
 				info := inst.Model.Info()
@@ -181,14 +159,14 @@ JSON values are in eV, Å, u and fs, whatever the input units.`,
 			}
 			failed := 0
 			for _, r := range rows {
-				if r.Error != nil {
+				if r.Err != nil {
 					failed++
 				}
 			}
 			if failed > 0 {
 				fmt.Fprintf(e.stderr, "pairwell: %d of %d rows have no period (see their error)\n", failed, len(rows))
 			}
-			return e.emit(rows, periodTable(rows, meth != nil))
+			return e.emit(rows, periodTable(rows, set.Measure))
 		},
 	}
 	mass.register(cmd)
@@ -199,203 +177,24 @@ JSON values are in eV, Å, u and fs, whatever the input units.`,
 	return cmd
 }
 
-// periodRows computes the rows for amplitudes xs and energies es.
-func (e *env) periodRows(inst core.Instance, mu float64, xs, es []float64, meth *motion.Method) ([]periodRow, core.Well, error) {
-	p := inst.Potential
-	key := inst.Model.Info().Key
-	w, err := core.AnalyzeWell(p, core.WellSettings{Order: min(4, p.MaxOrder())})
-	if err != nil {
-		return nil, core.Well{}, computeErr(fmt.Errorf("%s: %w", key, err))
-	}
-	t0, err := period.Harmonic(w, mu)
-	if err != nil {
-		return nil, core.Well{}, computeErr(fmt.Errorf("%s: %w", key, err))
-	}
-	n := len(xs) + len(es)
-	rows := make([]periodRow, n)
-	energy := make([]float64, n)
-	rowErr := make([]error, n)
-	amplitudeEnergies(p, w, xs, energy, rowErr)
-	copy(energy[len(xs):], es)
-
-	// The exact periods of the rows that have an energy, on all cores.
-	var idx []int
-	var todo []float64
-	for i := range rows {
-		if rowErr[i] == nil {
-			idx = append(idx, i)
-			todo = append(todo, energy[i])
+// sweepProgress returns a progress callback of the form func(done, total
+// int), as report.PeriodSweep takes, that draws a bar of what on stderr
+// from its first call, and finish, to be called once at the end. The
+// callback must not be called concurrently.
+func (e *env) sweepProgress(what string) (progress func(done, total int), finish func()) {
+	var step func()
+	stop := func() {}
+	progress = func(_, total int) {
+		if step == nil {
+			step, stop = e.progress(total, what)
 		}
+		step()
 	}
-	steps := len(todo)
-	if meth != nil {
-		steps *= 2
-	}
-	step, done := e.progress(steps, "periods")
-	defer done()
-	res, errs := period.Sweep(p, w, mu, todo, period.Settings{}, func(int, int) { step() })
-	exact := make([]period.Result, n)
-	for k, i := range idx {
-		exact[i] = res[k]
-		if errs[k] != nil {
-			rowErr[i] = errs[k]
-		}
-	}
-	nan := report.Number(math.NaN())
-	for i := range rows {
-		r := &rows[i]
-		*r = periodRow{Amplitude: nan, Energy: nan, ExactPeriod: nan, ExactPeriodError: nan,
-			HarmonicPeriod: report.Number(t0), PerturbativePeriod: nan, Inner: nan, Outer: nan}
-		if i < len(xs) {
-			r.Amplitude = report.Number(xs[i])
-		}
-		if !math.IsNaN(energy[i]) {
-			r.Energy = report.Number(energy[i])
-		}
-		if rowErr[i] != nil {
-			msg := rowErr[i].Error()
-			r.Error = &msg
-			continue
-		}
-		if t, err := period.Perturbative(w, mu, energy[i]); err == nil {
-			r.PerturbativePeriod = report.Number(t) // null where ω ≤ 0 or c₄ is unknown
-		}
-		x := exact[i]
-		r.ExactPeriod, r.ExactPeriodError = report.Number(x.Period), report.Number(x.ErrorEstimate)
-		r.Inner, r.Outer = report.Number(x.Inner), report.Number(x.Outer)
-		if i >= len(xs) {
-			r.Amplitude = report.Number(x.Outer - w.Re)
-		}
-	}
-	if meth != nil {
-		if err := measurePeriods(p, w, mu, *meth, rows, xs, energy, exact, rowErr, step); err != nil {
-			return nil, core.Well{}, computeErr(fmt.Errorf("%s: %w", key, err))
-		}
-	}
-	return rows, w, nil
-}
-
-// amplitudeEnergies sets energy[i] = V(re + xs[i]) − V(re), with one Batch
-// call over the separations inside the domain; a row outside it, or whose
-// value the potential cannot give, gets its error in rowErr[i] and NaN.
-func amplitudeEnergies(p core.Potential, w core.Well, xs []float64, energy []float64, rowErr []error) {
-	d := p.Domain()
-	var idx []int
-	var rs []float64
-	for i, x := range xs {
-		energy[i] = math.NaN()
-		r := w.Re + x
-		if err := core.CheckR(d, r); err != nil || math.IsNaN(x) {
-			rowErr[i] = fmt.Errorf("amplitude %g Å puts r = %g Å outside the domain: %w", x, r, core.CheckR(d, r))
-			continue
-		}
-		idx = append(idx, i)
-		rs = append(rs, r)
-	}
-	vs := make([]float64, len(rs))
-	if err := p.Batch(0, rs, vs); err != nil {
-		// Some point failed (e.g. V overflows): take them one by one.
-		for k, r := range rs {
-			v, err := core.Value(p, r)
-			if err != nil {
-				rowErr[idx[k]] = fmt.Errorf("amplitude %g Å: %w", xs[idx[k]], err)
-				continue
-			}
-			vs[k] = v
-		}
-	}
-	for k, i := range idx {
-		if rowErr[i] == nil {
-			energy[i] = max(vs[k]-w.Energy, 0)
-		}
-	}
-}
-
-// maxMeasuredRatio caps the exact period, in harmonic periods, of a row
-// whose period is measured: longer ones are too close to the top of the
-// well to integrate in reasonable time.
-const maxMeasuredRatio = 50
-
-// measurePeriods fills MeasuredPeriod by integrating the trajectories of
-// the rows without an error, on all cores, in any order (results are
-// stored by row). A row whose measurement fails keeps its exact values and
-// gets the reason in Error; the measured value is then null.
-func measurePeriods(p core.Potential, w core.Well, mu float64, meth motion.Method,
-	rows []periodRow, xs, energy []float64, exact []period.Result, rowErr []error, step func()) error {
-	o, err := motion.NewFromWell(p, w, mu)
-	if err != nil {
-		return err
-	}
-	t0 := o.Harmonic().PeriodFs
-	var next atomic.Int64
-	var wg sync.WaitGroup
-	for range min(runtime.GOMAXPROCS(0), len(rows)) {
-		wg.Add(1)
-		go func() {
-			defer wg.Done()
-			for {
-				i := int(next.Add(1)) - 1
-				if i >= len(rows) {
-					return
-				}
-				if rowErr[i] != nil {
-					continue
-				}
-				nan := report.Number(math.NaN())
-				rows[i].MeasuredPeriod = &nan
-				t, err := measureRow(o, meth, i, xs, energy[i], exact[i].Period, t0)
-				step()
-				if err != nil {
-					msg := "measured period: " + err.Error()
-					rows[i].Error = &msg
-					continue
-				}
-				v := report.Number(t)
-				rows[i].MeasuredPeriod = &v
-			}
-		}()
-	}
-	wg.Wait()
-	for i := range rows {
-		if rows[i].MeasuredPeriod == nil {
-			nan := report.Number(math.NaN())
-			rows[i].MeasuredPeriod = &nan
-		}
-	}
-	return nil
-}
-
-// measureRow integrates one row: from rest at amplitude xs[i] for an
-// amplitude row, else from the stretch-side turning point of energy E.
-func measureRow(o *motion.Oscillator, meth motion.Method, i int, xs []float64, E, exact, t0 float64) (float64, error) {
-	if E == 0 {
-		return 0, errors.New("zero amplitude: the pair stays at rest at re")
-	}
-	if exact > maxMeasuredRatio*t0 {
-		return 0, fmt.Errorf("not integrated: the period is %.4g harmonic periods (too close to the top of the well)", exact/t0)
-	}
-	var st motion.Start
-	var err error
-	if i < len(xs) {
-		st, err = o.FromDisplacement(xs[i])
-	} else {
-		st, err = o.FromEnergy(E)
-	}
-	if err != nil {
-		return 0, err
-	}
-	set := motion.Settings{Method: meth}
-	periods := motion.DefaultPeriods
-	set.MaxTime = max(100*float64(periods+1)*t0, 2*float64(periods+1)*exact)
-	res, err := o.Run(st, set)
-	if err != nil {
-		return 0, err
-	}
-	return res.Period, nil
+	return progress, func() { stop() }
 }
 
 // periodTable lays out the rows, one per amplitude, units in the headers.
-func periodTable(rows []periodRow, measured bool) *table {
+func periodTable(rows []report.PeriodRow, measured bool) *table {
 	cols := []column{{Title: "amplitude", Unit: "Å"}, {Title: "energy", Unit: "eV"}, {Title: "exact period", Unit: "fs"},
 		{Title: "harmonic period", Unit: "fs"}, {Title: "perturbative period", Unit: "fs"}}
 	if measured {
@@ -414,8 +213,8 @@ func periodTable(rows []periodRow, measured bool) *table {
 			cells = append(cells, num(v))
 		}
 		msg := ""
-		if r.Error != nil {
-			msg = *r.Error
+		if r.Err != nil {
+			msg = r.Err.Error()
 		}
 		t.add(append(cells, msg)...)
 	}
