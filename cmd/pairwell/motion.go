@@ -4,63 +4,16 @@ import (
 	"encoding/csv"
 	"errors"
 	"fmt"
-	"math"
 	"os"
 	"path/filepath"
 	"strconv"
 
 	"github.com/spf13/cobra"
 
-	"github.com/pairwell/pairwell/core"
 	"github.com/pairwell/pairwell/core/motion"
-	"github.com/pairwell/pairwell/core/period"
 	"github.com/pairwell/pairwell/core/report"
 	"github.com/pairwell/pairwell/core/units"
 )
-
-// motionReport is the output of the motion command. JSON keys are a
-// contract; values are in eV, Å, u and fs.
-type motionReport struct {
-	Model  string        `json:"model"`
-	Params report.Params `json:"params"`
-	Pair   string        `json:"pair,omitempty"`
-	Mu     float64       `json:"reduced_mass_u"`
-	Method string        `json:"method"`
-	Re     float64       `json:"equilibrium_r_angstrom"`
-	// Amplitude is the starting displacement x0 = r0 − re (negative when
-	// compressed); with --energy, the stretch-side turning point.
-	Amplitude float64 `json:"amplitude_angstrom"`
-	R0        float64 `json:"start_r_angstrom"`
-	Energy    float64 `json:"energy_ev"`
-	// EnergyFraction is E over the largest bound energy (the depth, or an
-	// inner barrier when lower); 0 for an unbounded well.
-	EnergyFraction float64 `json:"energy_fraction_of_bound"`
-
-	MeasuredPeriod      float64       `json:"measured_period_fs"`
-	ExactPeriod         float64       `json:"exact_period_fs"`
-	ExactPeriodError    float64       `json:"exact_period_relative_error_estimate"`
-	MeasuredError       float64       `json:"measured_relative_error"`
-	HarmonicPeriod      float64       `json:"harmonic_period_fs"`
-	PerturbativePeriod  report.Number `json:"perturbative_period_fs"`
-	PeriodSpread        float64       `json:"period_spread_fs"`
-	PeriodsMeasured     int           `json:"periods_measured"`
-	InnerTurningPoint   float64       `json:"inner_turning_point_angstrom"`
-	OuterTurningPoint   float64       `json:"outer_turning_point_angstrom"`
-	RelativeEnergyDrift float64       `json:"relative_energy_drift"`
-	FinalEnergyError    float64       `json:"final_relative_energy_error"`
-
-	TimeStep       float64  `json:"time_step_fs"`
-	StepsPerPeriod float64  `json:"steps_per_period"`
-	Steps          int      `json:"steps"`
-	Rejected       int      `json:"rejected_steps"`
-	ForceEvals     int      `json:"force_evaluations"`
-	Duration       float64  `json:"duration_fs"`
-	RTol           *float64 `json:"rtol,omitempty"`
-	ATol           *float64 `json:"atol,omitempty"`
-
-	Trajectory        string `json:"trajectory_file,omitempty"`
-	TrajectorySamples int    `json:"trajectory_samples,omitempty"`
-}
 
 func newMotionCmd(e *env) *cobra.Command {
 	var (
@@ -130,9 +83,27 @@ JSON values are in eV, Å, u and fs, whatever the input units.`,
 			if err != nil {
 				return err
 			}
-			r, tr, err := runMotion(inst, m, set, amplitude, energy, amplitudeSet)
+			flag, value := "--amplitude", amplitude
+			var start report.MotionStart
+			if amplitudeSet {
+				start.Amplitude, err = units.Parse(amplitude, units.Length)
+			} else {
+				flag, value = "--energy", energy
+				start.ByEnergy = true
+				start.Energy, err = units.Parse(energy, units.Energy)
+			}
 			if err != nil {
-				return err
+				return usageErr(fmt.Errorf("%s: %w", flag, err))
+			}
+			r, tr, err := report.NewMotion(inst, m, start, set)
+			var se *report.StartError
+			switch {
+			case errors.As(err, &se):
+				return usageErr(fmt.Errorf("%s %s: %w", flag, value, se.Err))
+			case errors.Is(err, report.ErrTooLong):
+				return usageErr(err)
+			case err != nil:
+				return computeErr(err)
 			}
 			if trajectory != "" {
 				if err := writeTrajectory(trajectory, tr); err != nil {
@@ -180,120 +151,8 @@ func checkMotionFlags(cmd *cobra.Command, s motion.Settings) error {
 	return nil
 }
 
-// The motion command refuses runs whose period is out of reach: an energy
-// within nearLimit (relative) of the limit of bound motion, or an exact
-// period beyond maxPeriodRatio harmonic periods. For Morse both mean
-// E/De > 1 − 10⁻⁶, where T = T0/√(1 − E/De) exceeds 1000·T0.
-const (
-	nearLimit      = 1e-6
-	maxPeriodRatio = 1000
-)
-
-// runMotion starts the pair from the amplitude or the energy, runs the
-// integrator and adds the exact, harmonic and perturbative periods.
-func runMotion(inst core.Instance, m report.Mass, set motion.Settings, amplitude, energy string, byAmplitude bool) (motionReport, []motion.Sample, error) {
-	p := inst.Potential
-	key := inst.Model.Info().Key
-	order := min(4, p.MaxOrder())
-	w, err := core.AnalyzeWell(p, core.WellSettings{Order: order})
-	if err != nil {
-		return motionReport{}, nil, computeErr(fmt.Errorf("%s: %w", key, err))
-	}
-	o, err := motion.NewFromWell(p, w, m.Mu)
-	if err != nil {
-		return motionReport{}, nil, computeErr(fmt.Errorf("%s: %w", key, err))
-	}
-	var st motion.Start
-	if byAmplitude {
-		x, err := units.Parse(amplitude, units.Length)
-		if err != nil {
-			return motionReport{}, nil, usageErr(fmt.Errorf("--amplitude: %w", err))
-		}
-		if st, err = o.FromDisplacement(x); err != nil {
-			return motionReport{}, nil, usageErr(fmt.Errorf("--amplitude %s: %w", amplitude, err))
-		}
-	} else {
-		en, err := units.Parse(energy, units.Energy)
-		if err != nil {
-			return motionReport{}, nil, usageErr(fmt.Errorf("--energy: %w", err))
-		}
-		if st, err = o.FromEnergy(en); err != nil {
-			return motionReport{}, nil, usageErr(fmt.Errorf("--energy %s: %w", energy, err))
-		}
-	}
-	t0 := o.Harmonic().PeriodFs
-	tooLong := func(detail string) error {
-		return usageErr(fmt.Errorf("%s: E = %.6g eV is too close to the limit of bound motion (%.6g eV): %s, too long to integrate; choose a smaller amplitude or energy",
-			key, st.Energy, o.MaxEnergy(), detail))
-	}
-	if lim := o.MaxEnergy(); st.Energy > (1-nearLimit)*lim {
-		return motionReport{}, nil, tooLong(fmt.Sprintf("E/limit = 1 − %.2g, the period diverges there", 1-st.Energy/lim))
-	}
-	ex, err := period.Exact(p, w, m.Mu, st.Energy, period.Settings{})
-	if err != nil {
-		return motionReport{}, nil, computeErr(fmt.Errorf("%s: exact period: %w", key, err))
-	}
-	if ratio := ex.Period / t0; ratio > maxPeriodRatio {
-		return motionReport{}, nil, tooLong(fmt.Sprintf("the period is %.4g fs, %.4g harmonic periods", ex.Period, ratio))
-	}
-	// Room for the periods, the half period of a compressed start and
-	// the lengthening of the period by the energy drift of a coarse step.
-	set.MaxTime = max(100*float64(set.Periods+1)*t0, 2*float64(set.Periods+1)*ex.Period)
-	res, err := o.Run(st, set)
-	if err != nil {
-		return motionReport{}, nil, computeErr(fmt.Errorf("%s: %w", key, err))
-	}
-	pert := math.NaN() // null when the expansion breaks down or c₄ is unknown
-	if t, err := period.Perturbative(w, m.Mu, st.Energy); err == nil {
-		pert = t
-	}
-	r := motionReport{
-		Model:               key,
-		Params:              report.NewParams(inst),
-		Pair:                m.Pair,
-		Mu:                  m.Mu,
-		Method:              res.Method.String(),
-		Re:                  w.Re,
-		Amplitude:           st.X0,
-		R0:                  st.R0,
-		Energy:              st.Energy,
-		MeasuredPeriod:      res.Period,
-		ExactPeriod:         ex.Period,
-		ExactPeriodError:    ex.ErrorEstimate,
-		MeasuredError:       res.Period/ex.Period - 1,
-		HarmonicPeriod:      res.HarmonicPeriod,
-		PerturbativePeriod:  report.Number(pert),
-		PeriodSpread:        res.PeriodSpread,
-		PeriodsMeasured:     res.PeriodsMeasured,
-		InnerTurningPoint:   ex.Inner,
-		OuterTurningPoint:   ex.Outer,
-		RelativeEnergyDrift: res.EnergyDrift,
-		FinalEnergyError:    res.FinalEnergyError,
-		TimeStep:            res.TimeStep,
-		StepsPerPeriod:      res.StepsPerPeriod,
-		Steps:               res.Steps,
-		Rejected:            res.Rejected,
-		ForceEvals:          res.ForceEvals,
-		Duration:            res.Duration,
-	}
-	if lim := o.MaxEnergy(); !math.IsInf(lim, 1) {
-		r.EnergyFraction = st.Energy / lim
-	}
-	if res.Method == motion.DormandPrince {
-		rt, at := set.RTol, set.ATol
-		if rt == 0 {
-			rt = motion.DefaultRTol
-		}
-		if at == 0 {
-			at = motion.DefaultATol
-		}
-		r.RTol, r.ATol = &rt, &at
-	}
-	return r, res.Trajectory, nil
-}
-
 // motionTable lays out a motion report as quantity, value, unit rows.
-func motionTable(r motionReport) *table {
+func motionTable(r report.Motion) *table {
 	t := &table{cols: []column{{Title: "quantity"}, {Title: "value"}, {Title: "unit"}}}
 	t.add("model", r.Model, "")
 	for i, n := range r.Params.Names {

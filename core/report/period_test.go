@@ -32,13 +32,16 @@ func build(t testing.TB, spec string) core.Instance {
 	return inst
 }
 
-// morseT0 is the harmonic period 2π√(μ/k) in fs of the test well, with
-// k = V″(re) = 2De·a² and the time unit √(u·Å²/eV) from the SI values of
-// u and eV (definition).
-func morseT0(mu float64) float64 {
+// harmonicT0 is the harmonic period 2π√(μ/k) in fs for k in eV/Å² and μ
+// in u, with the time unit √(u·Å²/eV) from the SI values of u and eV
+// (definition).
+func harmonicT0(k, mu float64) float64 {
 	tau := math.Sqrt(units.Dalton*1e-20/units.ElectronVolt) * 1e15
-	return 2 * math.Pi * math.Sqrt(mu/(2*morseDe*morseA*morseA)) * tau
+	return 2 * math.Pi * math.Sqrt(mu/k) * tau
 }
+
+// morseT0 is the harmonic period of the test well: k = V″(re) = 2De·a².
+func morseT0(mu float64) float64 { return harmonicT0(2*morseDe*morseA*morseA, mu) }
 
 // morseEnergy is E = V(re + x) − V(re) = De(1 − e^{−ax})² (definition of
 // the Morse form).
