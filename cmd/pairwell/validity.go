@@ -1,7 +1,6 @@
 package main
 
 import (
-	"encoding/json"
 	"fmt"
 	"math"
 	"strconv"
@@ -9,42 +8,8 @@ import (
 
 	"github.com/spf13/cobra"
 
-	"github.com/pairwell/pairwell/core"
 	"github.com/pairwell/pairwell/core/report"
-	"github.com/pairwell/pairwell/core/validity"
 )
-
-// validityHead is the model part of the validity output.
-type validityHead struct {
-	Model  string        `json:"model"`
-	Params report.Params `json:"params"`
-	Re     float64       `json:"equilibrium_r_angstrom"`
-	Depth  report.Number `json:"well_depth_ev"`
-	Pair   string        `json:"pair,omitempty"`
-	Mu     *float64      `json:"reduced_mass_u,omitempty"`
-}
-
-// validityReport is the output of the validity command: the model and its
-// well, then the keys of validity.Result (order, tolerance, potential,
-// period). JSON values are in eV, Å, K; unbounded values are null.
-type validityReport struct {
-	validityHead
-	Result validity.Result
-}
-
-// MarshalJSON writes the head fields followed by those of Result.
-func (r validityReport) MarshalJSON() ([]byte, error) {
-	a, err := json.Marshal(r.validityHead)
-	if err != nil {
-		return nil, err
-	}
-	b, err := json.Marshal(r.Result)
-	if err != nil {
-		return nil, err
-	}
-	out := append(a[:len(a)-1], ',')
-	return append(out, b[1:]...), nil
-}
 
 // validityTolerance reads a relative tolerance: a fraction (0.01) or a
 // percentage (1%).
@@ -121,23 +86,12 @@ JSON values are in eV, Å and K, whatever the input units.`,
 				return err
 			}
 			info := inst.Model.Info()
-			p := inst.Potential
-			if p.MaxOrder() < order {
-				return usageErr(fmt.Errorf("%s: --order %d needs derivatives up to order %d, the form has up to %d", info.Key, order, order, p.MaxOrder()))
+			if mo := inst.Potential.MaxOrder(); mo < order {
+				return usageErr(fmt.Errorf("%s: --order %d needs derivatives up to order %d, the form has up to %d", info.Key, order, order, mo))
 			}
-			w, err := core.AnalyzeWell(p, core.WellSettings{Order: max(order, min(4, p.MaxOrder()))})
+			r, err := report.NewValidity(inst, order, tol, m)
 			if err != nil {
-				return computeErr(fmt.Errorf("%s: %w", info.Key, err))
-			}
-			res, err := validity.Analyze(p, w, order, validity.Settings{Tolerance: tol})
-			if err != nil {
-				return computeErr(fmt.Errorf("%s: %w", info.Key, err))
-			}
-			r := validityReport{validityHead{Model: info.Key, Params: report.NewParams(inst), Re: w.Re,
-				Depth: report.Number(w.Depth), Pair: m.Pair}, res}
-			if m.Mu > 0 {
-				mu := m.Mu
-				r.Mu = &mu
+				return computeErr(err)
 			}
 			if e.format == "table" {
 				fmt.Fprintf(e.stdout, "%s (%s): %s truncation (order %d), tolerance %s\n",
@@ -171,7 +125,7 @@ func orderName(n int) string {
 
 // validityTable lays out both criteria as criterion, quantity, value, unit
 // rows.
-func validityTable(r validityReport) *table {
+func validityTable(r report.Validity) *table {
 	t := &table{cols: []column{{Title: "criterion"}, {Title: "quantity"}, {Title: "value"}, {Title: "unit"}}}
 	v := r.Result
 	t.add("potential", "largest compression re − r", num(v.Potential.Compression), "Å")
@@ -185,7 +139,7 @@ func validityTable(r validityReport) *table {
 }
 
 // validityNotes explains the unbounded values and carries the caution.
-func validityNotes(r validityReport) []string {
+func validityNotes(r report.Validity) []string {
 	var notes []string
 	v := r.Result
 	inf := []bool{math.IsInf(v.Potential.Compression, 1), math.IsInf(v.Potential.Stretch, 1), math.IsInf(v.Period.Energy, 1)}
