@@ -10,9 +10,7 @@ import (
 	"github.com/spf13/cobra"
 
 	"github.com/pairwell/pairwell/core"
-	"github.com/pairwell/pairwell/core/period"
 	"github.com/pairwell/pairwell/core/report"
-	"github.com/pairwell/pairwell/core/units"
 )
 
 // The demo is a sequence of sections, each computed by a demoX function
@@ -32,6 +30,10 @@ var demoBond = struct {
 // from the harmonic regime (E ≈ 1 % of the depth) to near dissociation.
 var demoAmplitudes = []float64{0.05, 0.1, 0.2, 0.3, 0.5, 0.8, 1.2, 2.0}
 
+// demoRoomTemperature (K) is the temperature the interpretation relates
+// to the harmonic period range.
+const demoRoomTemperature = 300
+
 // demoPeriodModel is the form of the period-vs-amplitude table.
 const demoPeriodModel = "morse"
 
@@ -43,7 +45,7 @@ const demoCaution = "pairwell evaluates classical model potentials: a model is n
 type demoReport struct {
 	Scenario       demoScenario        `json:"scenario"`
 	Compare        []report.CompareRow `json:"compare"`
-	Period         demoPeriod          `json:"period"`
+	Period         report.PeriodTable  `json:"period"`
 	Interpretation string              `json:"interpretation"`
 	Caution        string              `json:"caution"`
 }
@@ -58,23 +60,6 @@ type demoScenario struct {
 	Mu          float64 `json:"reduced_mass_u"`
 	Order       int     `json:"validity_order"`
 	Tolerance   float64 `json:"validity_tolerance"`
-}
-
-// demoPeriod is the period-vs-amplitude table of one form.
-type demoPeriod struct {
-	Name string          `json:"name"`
-	Rows []demoPeriodRow `json:"rows"`
-}
-
-// demoPeriodRow is one amplitude; keys as in the period command.
-type demoPeriodRow struct {
-	Amplitude     float64       `json:"amplitude_angstrom"`
-	Energy        float64       `json:"energy_ev"`
-	DepthFraction float64       `json:"depth_fraction"`
-	Exact         report.Number `json:"exact_period_fs"`
-	Harmonic      float64       `json:"harmonic_period_fs"`
-	Perturbative  report.Number `json:"perturbative_period_fs"`
-	Error         string        `json:"error,omitempty"`
 }
 
 func newDemoCmd(e *env) *cobra.Command {
@@ -141,9 +126,9 @@ func runDemo(e *env) (demoReport, error) {
 	if src == nil {
 		return r, failErr(fmt.Errorf("demo: %s could not be matched to the demo bond", demoPeriodModel))
 	}
-	r.Period, err = demoPeriodSection(src.Name, src.Instance.Potential)
+	r.Period, err = report.NewPeriodTable(src.Name, src.Instance, demoBond.mu, demoAmplitudes)
 	if err != nil {
-		return r, err
+		return r, computeErr(err)
 	}
 	r.Interpretation = demoInterpretation(r)
 	return r, nil
@@ -176,47 +161,6 @@ func demoCompareSection(e *env, inputs []report.CompareInput) ([]report.CompareR
 	return e.compare(inputs, report.CompareSettings{})
 }
 
-// demoPeriodSection tabulates the exact, harmonic and perturbative periods
-// of the potential p, named name, at demoAmplitudes.
-func demoPeriodSection(name string, p core.Potential) (demoPeriod, error) {
-	w, err := core.AnalyzeWell(p, core.WellSettings{Order: 4})
-	if err != nil {
-		return demoPeriod{}, computeErr(err)
-	}
-	t0, err := period.Harmonic(w, demoBond.mu)
-	if err != nil {
-		return demoPeriod{}, computeErr(err)
-	}
-	out := demoPeriod{Name: name}
-	energies := make([]float64, len(demoAmplitudes))
-	for i, x := range demoAmplitudes {
-		v, err := core.Value(p, w.Re+x)
-		if err != nil {
-			return demoPeriod{}, computeErr(err)
-		}
-		energies[i] = v - w.Energy
-	}
-	exact, errs := period.Sweep(p, w, demoBond.mu, energies, period.Settings{}, nil)
-	for i, x := range demoAmplitudes {
-		row := demoPeriodRow{
-			Amplitude: x, Energy: energies[i], DepthFraction: energies[i] / w.Depth,
-			Exact: report.Number(math.NaN()), Harmonic: t0, Perturbative: report.Number(math.NaN()),
-		}
-		if errs[i] != nil {
-			row.Error = errs[i].Error()
-		} else {
-			row.Exact = report.Number(exact[i].Period)
-		}
-		if tp, err := period.Perturbative(w, demoBond.mu, energies[i]); err == nil {
-			row.Perturbative = report.Number(tp)
-		} else if row.Error == "" {
-			row.Error = err.Error()
-		}
-		out.Rows = append(out.Rows, row)
-	}
-	return out, nil
-}
-
 // demoInterpretation says in words what the numbers of r mean. Every
 // number in it comes from r.
 func demoInterpretation(r demoReport) string {
@@ -227,6 +171,7 @@ func demoInterpretation(r demoReport) string {
 		}
 	}
 	tol := 100 * r.Scenario.Tolerance
+	target := core.Target{Re: r.Scenario.Re, Depth: r.Scenario.Depth, K: r.Scenario.K}
 	var s []string
 	if m := rows["morse"]; m != nil {
 		v := m.Validity
@@ -240,18 +185,19 @@ func demoInterpretation(r demoReport) string {
 				"at first order, changes the period only at second order (its effects on the two sides of a swing largely cancel)."
 		}
 		s = append(s, pot)
-		room := 300 * units.BoltzmannEV
-		s = append(s, fmt.Sprintf("At room temperature the mean energy of a classical vibration, k_B·300 K = %.3g eV, is %.2g %% of that limit.",
-			room, 100*room/v.Period.Energy))
+		room := report.NewThermal(*v, demoRoomTemperature)
+		s = append(s, fmt.Sprintf("At room temperature the mean energy of a classical vibration, k_B·%g K = %.3g eV, is %.2g %% of that limit.",
+			room.Temperature, room.Energy, 100*room.Fraction))
 	}
 	if lj, m := rows["lennard-jones"], rows["morse"]; lj != nil && m != nil {
-		ratio := lj.Inspect.K / r.Scenario.K
+		c := report.NewContrast(*lj.Inspect, *m.Inspect, target)
 		s = append(s, fmt.Sprintf("Lennard-Jones matched to re and De is %.2g× stiffer than the target (k = %.4g instead of %.4g eV/Å²), "+
 			"so its harmonic wavenumber is %.3g× higher (%.0f cm⁻¹ against %.0f cm⁻¹):"+
 			" its two parameters cannot give this bond its depth and its curvature at once.",
-			ratio, lj.Inspect.K, r.Scenario.K, *lj.Inspect.Wavenumber / *m.Inspect.Wavenumber, *lj.Inspect.Wavenumber, *m.Inspect.Wavenumber))
+			c.StiffnessRatio, lj.Inspect.K, r.Scenario.K, c.WavenumberRatio, *lj.Inspect.Wavenumber, *m.Inspect.Wavenumber))
 	}
 	if b, m := rows["buckingham"], rows["morse"]; b != nil && m != nil {
+		c := report.NewContrast(*b.Inspect, *m.Inspect, target)
 		s = append(s, fmt.Sprintf("Buckingham matches re, De and k exactly, so it has the same harmonic frequency as Morse, "+
 			"yet its harmonic period range ends at %.3g eV instead of %.3g eV (c3 = %.4g against %.4g eV/Å³): "+
 			"the same curvature does not mean the same anharmonicity.",
@@ -259,7 +205,7 @@ func demoInterpretation(r demoReport) string {
 		if br := b.Inspect.Barrier; br != nil {
 			s = append(s, fmt.Sprintf("Its spurious inner maximum lies at r = %.3g Å, only %.3g eV above the minimum: "+
 				"a vibration with more energy than that collapses the pair, so for this bond the form is close to turning over.",
-				br.R, br.Energy-b.Inspect.Energy))
+				br.R, c.BarrierHeight))
 		}
 	}
 	if h := rows["harmonic"]; h != nil && math.IsInf(h.Validity.Period.Energy, 1) {
@@ -272,27 +218,18 @@ func demoInterpretation(r demoReport) string {
 // periodSentence summarises the period table: how far the harmonic period
 // is off at the largest amplitude where the perturbative one is still
 // within tol percent.
-func periodSentence(p demoPeriod, tol float64) string {
-	best := -1
-	for i, row := range p.Rows {
-		if row.Error != "" {
-			continue
-		}
-		if math.Abs(float64(row.Perturbative)/float64(row.Exact)-1) <= tol/100 {
-			best = i
-		}
-	}
-	if best < 0 {
+func periodSentence(p report.PeriodTable, tol float64) string {
+	row, ok := p.PerturbativeReach(tol / 100)
+	if !ok {
 		return ""
 	}
-	row := p.Rows[best]
 	last := p.Rows[len(p.Rows)-1]
 	s := fmt.Sprintf("In the period table, second-order perturbation theory is within %g %% of the exact %s period up to a stretch of %g Å "+
 		"(E = %.3g eV, %.0f %% of the depth), where the exact period is already %.3g %% longer than the harmonic one.",
-		tol, p.Name, row.Amplitude, row.Energy, 100*row.DepthFraction, 100*(float64(row.Exact)/row.Harmonic-1))
+		tol, p.Name, row.Amplitude, row.Energy, 100*row.DepthFraction, 100*row.Lengthening())
 	if last.Error == "" {
 		s += fmt.Sprintf(" Near dissociation (%g Å, %.0f %% of the depth) the period is %.3g× the harmonic one and neither approximation holds.",
-			last.Amplitude, 100*last.DepthFraction, float64(last.Exact)/last.Harmonic)
+			last.Amplitude, 100*last.DepthFraction, last.PeriodRatio())
 	}
 	return s
 }
@@ -348,10 +285,9 @@ func writeDemoPeriod(w io.Writer, r demoReport) error {
 		{Title: "exact/harmonic − 1", Unit: "%"}, {Title: "perturbative/exact − 1", Unit: "%"}, {Title: "notes"},
 	}}
 	for _, row := range r.Period.Rows {
-		ex, pe := float64(row.Exact), float64(row.Perturbative)
 		t.add(short(row.Amplitude), short(row.Energy), short(row.DepthFraction),
-			short(ex), short(row.Harmonic), short(pe),
-			percent(ex/row.Harmonic-1), percent(pe/ex-1), row.Error)
+			short(float64(row.Exact)), short(row.Harmonic), short(float64(row.Perturbative)),
+			percent(row.Lengthening()), percent(row.PerturbativeError()), row.Error)
 	}
 	return writeTable(w, t)
 }

@@ -111,9 +111,9 @@ func (e *tooLongError) Unwrap() error { return ErrTooLong }
 func NewMotion(inst core.Instance, m Mass, start MotionStart, s motion.Settings) (Motion, []motion.Sample, error) {
 	p := inst.Potential
 	key := inst.Model.Info().Key
-	w, err := core.AnalyzeWell(p, core.WellSettings{Order: min(4, p.MaxOrder())})
+	w, err := wellOf(inst, 0)
 	if err != nil {
-		return Motion{}, nil, fmt.Errorf("%s: %w", key, err)
+		return Motion{}, nil, err
 	}
 	o, err := motion.NewFromWell(p, w, m.Mu)
 	if err != nil {

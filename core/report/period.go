@@ -5,9 +5,7 @@ import (
 	"errors"
 	"fmt"
 	"math"
-	"runtime"
 	"sync"
-	"sync/atomic"
 
 	"github.com/pairwell/pairwell/core"
 	"github.com/pairwell/pairwell/core/motion"
@@ -100,9 +98,9 @@ const maxMeasuredRatio = 50
 func PeriodSweep(inst core.Instance, mu float64, amplitudes, energies []float64, s PeriodSettings) ([]PeriodRow, core.Well, error) {
 	p := inst.Potential
 	key := inst.Model.Info().Key
-	w, err := core.AnalyzeWell(p, core.WellSettings{Order: min(4, p.MaxOrder())})
+	w, err := wellOf(inst, 0)
 	if err != nil {
-		return nil, core.Well{}, fmt.Errorf("%s: %w", key, err)
+		return nil, core.Well{}, err
 	}
 	t0, err := period.Harmonic(w, mu)
 	if err != nil {
@@ -226,32 +224,19 @@ func measurePeriods(p core.Potential, w core.Well, mu float64, meth motion.Metho
 	}
 	t0 := o.Harmonic().PeriodFs
 	measured := make([]float64, len(rows))
-	var next atomic.Int64
-	var wg sync.WaitGroup
-	for range min(runtime.GOMAXPROCS(0), len(rows)) {
-		wg.Add(1)
-		go func() {
-			defer wg.Done()
-			for {
-				i := int(next.Add(1)) - 1
-				if i >= len(rows) {
-					return
-				}
-				measured[i] = math.NaN()
-				if rows[i].Err != nil {
-					continue
-				}
-				t, err := measureRow(o, meth, i, in, t0)
-				step()
-				if err != nil {
-					rows[i].Err = fmt.Errorf("measured period: %w", err)
-					continue
-				}
-				measured[i] = t
-			}
-		}()
-	}
-	wg.Wait()
+	forEach(len(rows), func(i int) {
+		measured[i] = math.NaN()
+		if rows[i].Err != nil {
+			return
+		}
+		t, err := measureRow(o, meth, i, in, t0)
+		step()
+		if err != nil {
+			rows[i].Err = fmt.Errorf("measured period: %w", err)
+			return
+		}
+		measured[i] = t
+	})
 	for i := range rows {
 		v := Number(measured[i])
 		rows[i].MeasuredPeriod = &v

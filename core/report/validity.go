@@ -55,13 +55,12 @@ func (r Validity) MarshalJSON() ([]byte, error) {
 // validity.DefaultTolerance). m is only echoed: a zero m.Mu leaves the
 // mass out. Errors are prefixed with the model key.
 func NewValidity(inst core.Instance, n int, tol float64, m Mass) (Validity, error) {
-	p := inst.Potential
 	key := inst.Model.Info().Key
-	w, err := core.AnalyzeWell(p, core.WellSettings{Order: max(n, min(4, p.MaxOrder()))})
+	w, err := wellOf(inst, n)
 	if err != nil {
-		return Validity{}, fmt.Errorf("%s: %w", key, err)
+		return Validity{}, err
 	}
-	res, err := validity.Analyze(p, w, n, validity.Settings{Tolerance: tol})
+	res, err := validity.Analyze(inst.Potential, w, n, validity.Settings{Tolerance: tol})
 	if err != nil {
 		return Validity{}, fmt.Errorf("%s: %w", key, err)
 	}
