@@ -5,8 +5,6 @@ import (
 	"errors"
 	"fmt"
 	"runtime"
-	"sync"
-	"sync/atomic"
 
 	"github.com/pairwell/pairwell/core"
 	"github.com/pairwell/pairwell/core/validity"
@@ -131,28 +129,12 @@ func Compare(inputs []CompareInput, s CompareSettings) ([]CompareRow, error) {
 		return nil, err
 	}
 	rows := make([]CompareRow, len(inputs))
-	workers := min(s.Workers, len(inputs))
-	var (
-		next atomic.Int64
-		wg   sync.WaitGroup
-	)
-	for range workers {
-		wg.Add(1)
-		go func() {
-			defer wg.Done()
-			for {
-				i := int(next.Add(1)) - 1
-				if i >= len(inputs) {
-					return
-				}
-				rows[i] = compareOne(inputs[i], s)
-				if s.Progress != nil {
-					s.Progress()
-				}
-			}
-		}()
-	}
-	wg.Wait()
+	forEach(s.Workers, len(inputs), func(i int) {
+		rows[i] = compareOne(inputs[i], s)
+		if s.Progress != nil {
+			s.Progress()
+		}
+	})
 	return rows, nil
 }
 

@@ -224,7 +224,7 @@ func measurePeriods(p core.Potential, w core.Well, mu float64, meth motion.Metho
 	}
 	t0 := o.Harmonic().PeriodFs
 	measured := make([]float64, len(rows))
-	forEach(len(rows), func(i int) {
+	forEach(0, len(rows), func(i int) {
 		measured[i] = math.NaN()
 		if rows[i].Err != nil {
 			return

@@ -21,15 +21,18 @@ func wellOf(inst core.Instance, n int) (core.Well, error) {
 	return w, nil
 }
 
-// forEach calls f(i) for every i in [0, n), in any order, on
-// runtime.GOMAXPROCS(0) goroutines (at most n), and returns when every
-// call has returned.
-func forEach(n int, f func(i int)) {
+// forEach calls f(i) for every i in [0, n), in any order, on workers
+// goroutines (at most n; workers ≤ 0 means runtime.GOMAXPROCS(0)), and
+// returns when every call has returned.
+func forEach(workers, n int, f func(i int)) {
+	if workers <= 0 {
+		workers = runtime.GOMAXPROCS(0)
+	}
 	var (
 		next atomic.Int64
 		wg   sync.WaitGroup
 	)
-	for range min(runtime.GOMAXPROCS(0), n) {
+	for range min(workers, n) {
 		wg.Add(1)
 		go func() {
 			defer wg.Done()
