@@ -24,6 +24,7 @@
 package period
 
 import (
+	"errors"
 	"fmt"
 	"math"
 	"sync"
@@ -180,8 +181,9 @@ func Perturbative(w core.Well, mu, E float64) (float64, error) {
 // computed once per node count on first use, so reuse one Integrator for
 // many periods. It is safe for concurrent use and must not be copied.
 type Integrator struct {
-	s      Settings
-	levels []level // rules of MinNodes·2^j nodes, up to MaxNodes
+	s       Settings
+	levels  []level   // rules of MinNodes·2^j nodes, up to MaxNodes
+	scratch sync.Pool // of *scratch, the buffers of passes
 }
 
 // level is a Gauss–Legendre rule on θ ∈ (−π/2, π/2), stored as sin θ and
@@ -223,17 +225,19 @@ func NewIntegrator(s Settings) (*Integrator, error) {
 // in.
 func (in *Integrator) Settings() Settings { return in.s }
 
-// scratch holds the buffers of one quadrature.
+// scratch holds the buffers of a pass, reused by the next.
 type scratch struct {
-	r, v []float64
-}
-
-func (sc *scratch) grow(n int) {
-	if cap(sc.r) < n {
-		sc.r = make([]float64, n)
-		sc.v = make([]float64, n)
-	}
-	sc.r, sc.v = sc.r[:n], sc.v[:n]
+	qr, qv     []float64 // quadrature nodes and V there
+	r, v, dv   []float64 // scan points, V and V′ there
+	owner      []int
+	sides      []side
+	probs      []core.RootProblem
+	roots      []float64
+	errs       []error
+	idx        []int
+	es, in, on []float64
+	terrs      []error
+	jobs       []job
 }
 
 // Exact returns the exact period T(E) in fs of the oscillation of energy E
@@ -282,64 +286,226 @@ func Exact(p core.Potential, w core.Well, mu, E float64, s Settings) (Result, er
 // at E, see TurningPoints) or core.ErrNoConvergence (MaxNodes reached:
 // the Result is still filled in, with its error estimate).
 func (in *Integrator) Exact(p core.Potential, w core.Well, mu, E float64) (Result, error) {
-	var sc scratch
-	return in.exact(p, w, mu, E, &sc)
+	var (
+		res  [1]Result
+		errs [1]error
+		es   = [1]float64{E}
+	)
+	sc := in.getScratch()
+	in.pass(p, w, mu, es[:], res[:], errs[:], sc)
+	in.scratch.Put(sc)
+	return res[0], errs[0]
 }
 
-func (in *Integrator) exact(p core.Potential, w core.Well, mu, E float64, sc *scratch) (Result, error) {
+// getScratch returns buffers for a pass.
+func (in *Integrator) getScratch() *scratch {
+	if sc, ok := in.scratch.Get().(*scratch); ok {
+		return sc
+	}
+	return new(scratch)
+}
+
+// job is the quadrature of one energy of a pass.
+type job struct {
+	i      int // index of the energy in the pass
+	E      float64
+	lo, hi endExpansion
+	round  float64 // the rule-independent rounding estimate
+	prev   float64 // the period of the previous rule
+}
+
+// pass computes res[i], errs[i] = in.Exact(p, w, mu, energies[i]) for
+// every i, with the work of all energies batched: the turning points of all
+// in one scan and one Newton iteration at a time (see TurningPoints), the
+// Taylor expansions at all turning points in one p.Batch call per order,
+// and the nodes of each rule for all energies still being integrated in
+// one p.Batch call. Each energy's arithmetic is its own, so that its result
+// does not depend on the other energies of the pass.
+func (in *Integrator) pass(p core.Potential, w core.Well, mu float64, energies []float64, res []Result, errs []error, sc *scratch) {
+	for i := range res {
+		res[i], errs[i] = Result{}, nil
+	}
+	fail := func(err error) {
+		for i := range errs {
+			errs[i] = err
+		}
+	}
 	if err := checkWell(w, 2); err != nil {
-		return Result{}, err
+		fail(err)
+		return
 	}
 	if err := core.Positive.Check("reduced mass", mu); err != nil {
-		return Result{}, fmt.Errorf("period: %w", err)
+		fail(fmt.Errorf("period: %w", err))
+		return
 	}
 	t0, err := Harmonic(w, mu)
 	if err != nil {
-		return Result{}, err
+		fail(err)
+		return
 	}
-	inner, outer, err := TurningPoints(p, w, E)
-	if err != nil {
-		return Result{}, err
-	}
-	res := Result{Inner: inner, Outer: outer}
-	if E == 0 {
-		res.Period, res.SmallAmplitude = t0, true
-		return res, nil
-	}
-	round := roundingEstimate(w, E)
-	if len(w.Taylor) > 4 {
-		if d, err := PerturbativeShift(w, E); err == nil && round > smallRounding && d*d < round && 1+d > 0 {
-			res.Period, res.SmallAmplitude = t0/(1+d), true
-			res.ErrorEstimate = d*d + 4*eps
-			return res, nil
+	ec := energyCheck{p: p, w: w}
+	idx, es := sc.idx[:0], sc.es[:0]
+	for i, E := range energies {
+		if err := ec.check(E); err != nil {
+			errs[i] = err
+			continue
 		}
-	}
-	lo, hi, err := newEnds(p, w, E, inner, outer)
-	if err != nil {
-		return Result{}, err
-	}
-	scale := math.Sqrt(2*mu) * timeUnit()
-	prev := math.NaN()
-	for j := range in.levels {
-		lv := &in.levels[j]
-		lv.init()
-		t, nodeRound, err := integrate(p, w, E, &lo, &hi, lv, sc)
-		if err != nil {
-			return Result{}, err
+		if E == 0 {
+			res[i] = Result{Inner: w.Re, Outer: w.Re, Period: t0, SmallAmplitude: true}
+			continue
 		}
-		round := math.Max(round, nodeRound)
-		t *= scale
-		res.Period, res.Nodes = t, lv.n
-		if j > 0 {
-			res.ErrorEstimate = math.Max(math.Abs(t-prev)/t, round)
-			if res.ErrorEstimate <= math.Max(in.s.Tolerance, round) {
-				return res, nil
+		idx, es = append(idx, i), append(es, E)
+	}
+	sc.idx, sc.es = idx, es
+	if len(es) == 0 {
+		return
+	}
+	sc.in, sc.on, sc.terrs = grow(sc.in, len(es)), grow(sc.on, len(es)), grows(sc.terrs, len(es))
+	inner, outer, terrs := sc.in, sc.on, sc.terrs
+	turningPoints(p, w, es, inner, outer, terrs, sc)
+	jobs := sc.jobs[:0]
+	for k, i := range idx {
+		if terrs[k] != nil {
+			errs[i] = terrs[k]
+			continue
+		}
+		E := es[k]
+		res[i] = Result{Inner: inner[k], Outer: outer[k]}
+		round := roundingEstimate(w, E)
+		if len(w.Taylor) > 4 {
+			if d, err := PerturbativeShift(w, E); err == nil && round > smallRounding && d*d < round && 1+d > 0 {
+				res[i].Period, res[i].SmallAmplitude = t0/(1+d), true
+				res[i].ErrorEstimate = d*d + 4*eps
+				continue
 			}
 		}
-		prev = t
+		jb := job{i: i, E: E, round: round, prev: math.NaN()}
+		jb.lo.at, jb.hi.at = inner[k], outer[k]
+		jobs = append(jobs, jb)
 	}
-	return res, fmt.Errorf("period: %w: at E = %g eV the rules of %d and %d nodes differ by %.2g (relative), tolerance %g",
-		core.ErrNoConvergence, E, res.Nodes/2, res.Nodes, res.ErrorEstimate, in.s.Tolerance)
+	sc.jobs = jobs
+	jobs = newEnds(p, w, jobs, res, errs, sc)
+	in.quadrature(p, w, mu, jobs, res, errs, sc)
+}
+
+// quadrature integrates every job with the rules of in, all nodes of a
+// rule in one p.Batch call, until two successive rules agree (see Exact).
+func (in *Integrator) quadrature(p core.Potential, w core.Well, mu float64, jobs []job, res []Result, errs []error, sc *scratch) {
+	scale := math.Sqrt(2*mu) * timeUnit()
+	for j := range in.levels {
+		if len(jobs) == 0 {
+			return
+		}
+		lv := &in.levels[j]
+		lv.init()
+		n := lv.n
+		sc.qr, sc.qv = grow(sc.qr, n*len(jobs)), grow(sc.qv, n*len(jobs))
+		for a := range jobs {
+			jb := &jobs[a]
+			m := 0.5 * (jb.lo.at + jb.hi.at)
+			h := 0.5 * (jb.hi.at - jb.lo.at)
+			r := sc.qr[a*n : (a+1)*n]
+			for k, s := range lv.sin {
+				r[k] = m + h*s
+			}
+		}
+		var dropped map[int]bool
+		err := batchGroups(p, 0, sc.qr, sc.qv, func(k int) int { return k / n }, func(a int, pe *core.PointError) {
+			if dropped == nil {
+				dropped = make(map[int]bool)
+			}
+			dropped[a] = true
+			i := jobs[a].i
+			res[i], errs[i] = Result{}, fmt.Errorf("period: potential at the quadrature nodes: %w", pe)
+		})
+		if err != nil {
+			for a, jb := range jobs {
+				if !dropped[a] {
+					res[jb.i], errs[jb.i] = Result{}, fmt.Errorf("period: potential at the quadrature nodes: %w", err)
+				}
+			}
+			return
+		}
+		next := jobs[:0]
+		for a := range jobs {
+			if dropped[a] {
+				continue
+			}
+			jb := jobs[a]
+			i := jb.i
+			t, nodeRound, err := integrate(w, jb.E, &jb.lo, &jb.hi, lv, sc.qr[a*n:(a+1)*n], sc.qv[a*n:(a+1)*n])
+			if err != nil {
+				res[i], errs[i] = Result{}, err
+				continue
+			}
+			round := math.Max(jb.round, nodeRound)
+			t *= scale
+			res[i].Period, res[i].Nodes = t, n
+			if j > 0 {
+				res[i].ErrorEstimate = math.Max(math.Abs(t-jb.prev)/t, round)
+				if res[i].ErrorEstimate <= math.Max(in.s.Tolerance, round) {
+					continue
+				}
+			}
+			jb.prev = t
+			next = append(next, jb)
+		}
+		jobs = next
+	}
+	for _, jb := range jobs {
+		r := res[jb.i]
+		errs[jb.i] = fmt.Errorf("period: %w: at E = %g eV the rules of %d and %d nodes differ by %.2g (relative), tolerance %g",
+			core.ErrNoConvergence, jb.E, r.Nodes/2, r.Nodes, r.ErrorEstimate, in.s.Tolerance)
+	}
+}
+
+// batchGroups stores V⁽ⁿ⁾(r[k]) in v[k], where point k belongs to the
+// group group(k). When p reports a *core.PointError, the group of that
+// point is dropped, reported to drop with the index of the point within
+// its group, and the other points are evaluated again. Any other error is
+// returned.
+func batchGroups(p core.Potential, n int, r, v []float64, group func(k int) int, drop func(g int, pe *core.PointError)) error {
+	err := p.Batch(n, r, v)
+	if err == nil {
+		return nil
+	}
+	pos := make([]int, len(r))
+	for k := range pos {
+		pos[k] = k
+	}
+	rr := append([]float64(nil), r...)
+	vv := make([]float64, len(r))
+	for {
+		var pe *core.PointError
+		if !errors.As(err, &pe) || pe.Index < 0 || pe.Index >= len(rr) {
+			return err
+		}
+		bad := group(pos[pe.Index])
+		within := 0
+		for k := 0; k < pe.Index; k++ {
+			if group(pos[k]) == bad {
+				within++
+			}
+		}
+		drop(bad, &core.PointError{Index: within, R: pe.R, Err: pe.Err})
+		k := 0
+		for j := range rr {
+			if group(pos[j]) != bad {
+				rr[k], pos[k] = rr[j], pos[j]
+				k++
+			}
+		}
+		rr, pos, vv = rr[:k], pos[:k], vv[:k]
+		if k == 0 {
+			return nil
+		}
+		if err = p.Batch(n, rr, vv); err == nil {
+			for j, k := range pos {
+				v[k] = vv[j]
+			}
+			return nil
+		}
+	}
 }
 
 // smallRounding is the rounding estimate below which Exact always
@@ -375,43 +541,99 @@ type endExpansion struct {
 // terms up to maxEndOrder−1, the last one estimating the truncation.
 const maxEndOrder = 6
 
-// newEnds returns the expansions of V at both turning points. Within a
-// distance d of a turning point r±, E − U(r) = V(r±) − V(r) (the turning
-// point is where U = E) is evaluated as −Σ_{j=1}^{K} V⁽ʲ⁾(r±)tʲ/j!,
-// t = r − r±, which has relative rounding error ε, instead of the direct
-// difference, whose absolute error ε·|V| is a relative error
-// ε·|V|/(|V′|·d) that grows without bound as d → 0. The reach is where the
-// truncation error |V⁽ᴷ⁺¹⁾|d^{K+1}/(K+1)! equals the direct difference's
-// rounding error 2ε·|V|, capped at the half-width h of the interval.
-func newEnds(p core.Potential, w core.Well, E, inner, outer float64) (lo, hi endExpansion, err error) {
+// newEnds fills in the expansions of V at the turning points of every job
+// and returns the jobs that have them (the others get their error in
+// errs). Within a distance d of a turning point r±, E − U(r) = V(r±) − V(r)
+// (the turning point is where U = E) is evaluated as
+// −Σ_{j=1}^{K} V⁽ʲ⁾(r±)tʲ/j!, t = r − r±, which has relative rounding error
+// ε, instead of the direct difference, whose absolute error ε·|V| is a
+// relative error ε·|V|/(|V′|·d) that grows without bound as d → 0. The
+// reach is where the truncation error |V⁽ᴷ⁺¹⁾|d^{K+1}/(K+1)! equals the
+// direct difference's rounding error 2ε·|V|, capped at the half-width h of
+// the interval. The derivatives come from one p.Batch call per order for
+// all turning points, or from one p.Derivatives call per turning point
+// when that is fewer calls.
+func newEnds(p core.Potential, w core.Well, jobs []job, res []Result, errs []error, sc *scratch) []job {
+	if len(jobs) == 0 {
+		return jobs
+	}
 	top := min(maxEndOrder, p.MaxOrder())
-	for _, e := range []*endExpansion{&lo, &hi} {
-		e.at = outer
-		if e == &lo {
-			e.at = inner
+	end := func(k int) *endExpansion {
+		if k%2 == 0 {
+			return &jobs[k/2].lo
 		}
-		if err := p.Derivatives(e.at, e.d[:top+1]); err != nil {
-			return lo, hi, fmt.Errorf("period: derivatives at the turning point %g Å: %w", e.at, err)
+		return &jobs[k/2].hi
+	}
+	n := 2 * len(jobs)
+	var dropped map[int]error
+	failEnd := func(a int, err error) {
+		if dropped == nil {
+			dropped = make(map[int]error)
 		}
-		f := 1.0
-		for j := 2; j <= top; j++ {
-			f *= float64(j)
-			e.d[j] /= f
+		if _, ok := dropped[a]; !ok {
+			dropped[a] = err
 		}
-		e.order = top - 1
 	}
-	vs := 2 * eps * (math.Abs(w.Energy) + E)
-	h := 0.5 * (outer - inner)
-	last := math.Max(math.Abs(lo.d[top]), math.Abs(hi.d[top]))
-	reach := h
-	if top >= 2 && last > 0 {
-		reach = math.Min(h, math.Pow(vs/last, 1/float64(top)))
+	if n < top {
+		for k := range n {
+			if _, ok := dropped[k/2]; ok {
+				continue
+			}
+			e := end(k)
+			if err := p.Derivatives(e.at, e.d[:top+1]); err != nil {
+				failEnd(k/2, fmt.Errorf("period: derivatives at the turning point %g Å: %w", e.at, err))
+			}
+		}
+	} else {
+		sc.r, sc.v = grow(sc.r, n), grow(sc.v, n)
+		r, v := sc.r, sc.v
+		for k := range n {
+			r[k] = end(k).at
+		}
+		for j := 1; j <= top; j++ { // V(r±) itself is not used
+			err := batchGroups(p, j, r, v, func(k int) int { return k / 2 }, func(a int, pe *core.PointError) {
+				failEnd(a, fmt.Errorf("period: derivatives at the turning point %g Å: %w", pe.R, pe.Err))
+			})
+			if err != nil {
+				for a := range jobs {
+					failEnd(a, fmt.Errorf("period: derivatives at the turning points: %w", err))
+				}
+				break
+			}
+			for k := range n {
+				end(k).d[j] = v[k]
+			}
+		}
 	}
-	if top < 2 {
-		reach = 0
+	out := jobs[:0]
+	for a, jb := range jobs {
+		if err, ok := dropped[a]; ok {
+			res[jb.i], errs[jb.i] = Result{}, err
+			continue
+		}
+		lo, hi := &jb.lo, &jb.hi
+		for _, e := range []*endExpansion{lo, hi} {
+			f := 1.0
+			for j := 2; j <= top; j++ {
+				f *= float64(j)
+				e.d[j] /= f
+			}
+			e.order = top - 1
+		}
+		vs := 2 * eps * (math.Abs(w.Energy) + jb.E)
+		h := 0.5 * (hi.at - lo.at)
+		last := math.Max(math.Abs(lo.d[top]), math.Abs(hi.d[top]))
+		reach := h
+		if top >= 2 && last > 0 {
+			reach = math.Min(h, math.Pow(vs/last, 1/float64(top)))
+		}
+		if top < 2 {
+			reach = 0
+		}
+		lo.reach, hi.reach = reach, reach
+		out = append(out, jb)
 	}
-	lo.reach, hi.reach = reach, reach
-	return lo, hi, nil
+	return out
 }
 
 // slope returns (E − U(r))/d at the distance d ≥ 0 inside the interval
@@ -434,28 +656,18 @@ func (e *endExpansion) slope(d float64, outer bool) float64 {
 }
 
 // integrate returns ∫ dθ/√g(r(θ)) over (−π/2, π/2) with the rule lv, in
-// units where the period is √(2μ) times it.
+// units where the period is √(2μ) times it, from the nodes r and V there.
 //
 // The integrand √((r₊ − r)(r − r₋)/(E − U(r))) is evaluated at the rounded
 // nodes r themselves, with the distances to the turning points computed
 // from them, so that it is a smooth function of r sampled at slightly
 // shifted points rather than a ratio of inconsistent small numbers. Near
 // the turning points E − U(r) comes from the expansions lo and hi.
-func integrate(p core.Potential, w core.Well, E float64, lo, hi *endExpansion, lv *level, sc *scratch) (sum, round float64, err error) {
-	n := lv.n
-	sc.grow(n)
+func integrate(w core.Well, E float64, lo, hi *endExpansion, lv *level, rs, vs []float64) (sum, round float64, err error) {
 	inner, outer := lo.at, hi.at
-	m := 0.5 * (inner + outer)
-	h := 0.5 * (outer - inner)
-	for k, s := range lv.sin {
-		sc.r[k] = m + h*s
-	}
-	if err := p.Batch(0, sc.r, sc.v); err != nil {
-		return 0, 0, fmt.Errorf("period: potential at the quadrature nodes: %w", err)
-	}
 	top := E + w.Energy // V at the turning points
-	vs := eps * (math.Abs(w.Energy) + E)
-	for k, r := range sc.r {
+	noise := eps * (math.Abs(w.Energy) + E)
+	for k, r := range rs {
 		dp, dm := outer-r, r-inner
 		var f float64
 		switch {
@@ -464,9 +676,9 @@ func integrate(p core.Potential, w core.Well, E float64, lo, hi *endExpansion, l
 		case dm < dp && dm < lo.reach:
 			f = math.Sqrt(dp / lo.slope(dm, false))
 		default:
-			den := top - sc.v[k]
+			den := top - vs[k]
 			f = math.Sqrt(dp * dm / den)
-			round += lv.w[k] * f * vs / den
+			round += lv.w[k] * f * noise / den
 		}
 		if !(f < math.Inf(1)) {
 			return 0, 0, unbound("E − V(r) + V(re) ≤ 0 at r = %g Å between the turning points %g Å and %g Å at E = %g eV: "+

@@ -8,6 +8,14 @@ import (
 	"github.com/pairwell/pairwell/core"
 )
 
+// Chunks of Sweep: the energies are split into about one chunk per
+// goroutine, of sweepMinChunk to sweepMaxChunk energies each, and every
+// chunk is one batched pass (see Integrator.Sweep).
+const (
+	sweepMinChunk = 32
+	sweepMaxChunk = 256
+)
+
 // Sweep returns the exact periods (fs) at many energies (eV) in the well w
 // of p for the reduced mass mu (u), with NewIntegrator(s). See
 // Integrator.Sweep.
@@ -29,18 +37,27 @@ func Sweep(p core.Potential, w core.Well, mu float64, energies []float64, s Sett
 // order is deterministic. An energy without a bound oscillation gets its
 // own error; the others are unaffected.
 //
-// The energies are shared among runtime.GOMAXPROCS(0) goroutines, each
-// with its own buffers; p must be safe for concurrent use, as
+// The energies are split into chunks of 32 to 256, about one per
+// goroutine (runtime.GOMAXPROCS(0) of them), and each chunk is computed in
+// one batched pass: its turning points in one scan and one Newton
+// iteration at a time for all its energies, the Taylor expansions at the
+// turning points in one p.Batch call per order, and the quadrature nodes
+// of all its energies in one p.Batch call per rule. A chunk thus costs a
+// few tens of p.Batch calls whatever its size, which is what matters for
+// a potential in another process. p must be safe for concurrent use, as
 // core.Potential requires.
 //
 // progress, if not nil, is called after each energy with the number of
-// energies done so far and the total. Calls are serialised and done
-// increases by one each time; keep progress cheap.
+// energies done so far and the total, as the chunks complete. Calls are
+// serialised and done increases by one each time; keep progress cheap.
 func (in *Integrator) Sweep(p core.Potential, w core.Well, mu float64, energies []float64, progress func(done, total int)) ([]Result, []error) {
 	n := len(energies)
 	results := make([]Result, n)
 	errs := make([]error, n)
-	workers := min(runtime.GOMAXPROCS(0), n)
+	workers := runtime.GOMAXPROCS(0)
+	chunk := min(max((n+workers-1)/workers, sweepMinChunk), sweepMaxChunk)
+	chunks := (n + chunk - 1) / chunk
+	workers = min(workers, chunks)
 	var (
 		next atomic.Int64
 		lock sync.Mutex
@@ -51,17 +68,21 @@ func (in *Integrator) Sweep(p core.Potential, w core.Well, mu float64, energies 
 		wg.Add(1)
 		go func() {
 			defer wg.Done()
-			var sc scratch
+			sc := in.getScratch()
+			defer in.scratch.Put(sc)
 			for {
-				i := int(next.Add(1)) - 1
-				if i >= n {
+				c := int(next.Add(1)) - 1
+				if c >= chunks {
 					return
 				}
-				results[i], errs[i] = in.exact(p, w, mu, energies[i], &sc)
+				a, b := c*chunk, min((c+1)*chunk, n)
+				in.pass(p, w, mu, energies[a:b], results[a:b], errs[a:b], sc)
 				if progress != nil {
 					lock.Lock()
-					done++
-					progress(done, n)
+					for range b - a {
+						done++
+						progress(done, n)
+					}
 					lock.Unlock()
 				}
 			}
