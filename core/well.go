@@ -215,9 +215,12 @@ func solve(p Potential, n int, lo, hi float64) (float64, error) {
 // inflection finds the first r > re where V″ changes sign from + to −, by a
 // geometric scan outward from re (one batched call) and solve on V″.
 func inflection(p Potential, re float64) (r, force float64, err error) {
-	const points = 96 // re·(1 + 1e-4·1.25^k) reaches about 2e5·re
+	// re·(1 + 1e-4·1.5^k), k < 48, reaches about 2e4·re; the sign change
+	// is then located to a few ulp by solve.
+	const points = 48
 	d := p.Domain()
-	rs := make([]float64, 0, points)
+	var rbuf, fbuf [points]float64
+	rs := rbuf[:0]
 	step := 1e-4 * re
 	for k := 0; k < points; k++ {
 		x := re + step
@@ -225,9 +228,9 @@ func inflection(p Potential, re float64) (r, force float64, err error) {
 			break
 		}
 		rs = append(rs, x)
-		step *= 1.25
+		step *= 1.5
 	}
-	f := make([]float64, len(rs))
+	f := fbuf[:len(rs)]
 	if err := p.Batch(2, rs, f); err != nil {
 		return 0, 0, fmt.Errorf("scanning for the inflection point: %w", err)
 	}
