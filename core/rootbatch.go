@@ -37,6 +37,10 @@ type BatchFunc func(idx []int, x, fx, dfx []float64) error
 // narrows the bracket by a factor of rootSamples+1.
 const rootSamples = 15
 
+// sampleBand is the width of the rounding band, in ulp, from which a
+// problem samples rather than takes Newton steps.
+const sampleBand = 32
+
 // RootBatch finds roots of many functions at once, for functions that are
 // cheaper to evaluate in bulk than one point at a time (a potential in
 // another process, whose every call is a round trip). It is Root run on
@@ -72,12 +76,31 @@ const rootSamples = 15
 // yet done have errs[i] set to it. roots, errs and probs must have the same
 // length, else the error wraps ErrLength.
 func RootBatch(f BatchFunc, probs []RootProblem, roots []float64, errs []error) error {
+	var ws RootWorkspace
+	return ws.Solve(f, probs, roots, errs)
+}
+
+// RootWorkspace holds the buffers of RootBatch, to be reused by calls in
+// a loop. The zero value is ready to use; a RootWorkspace must not be used
+// by two calls at once.
+type RootWorkspace struct {
+	st         []rootState
+	active     []int
+	idx        []int
+	xs, fx, dx []float64
+}
+
+// Solve is RootBatch with the buffers of ws.
+func (ws *RootWorkspace) Solve(f BatchFunc, probs []RootProblem, roots []float64, errs []error) error {
 	n := len(probs)
 	if len(roots) != n || len(errs) != n {
 		return fmt.Errorf("root batch: %w: %d problems, %d roots, %d errors", ErrLength, n, len(roots), len(errs))
 	}
-	st := make([]rootState, n)
-	active := make([]int, 0, n)
+	if cap(ws.st) < n {
+		ws.st, ws.active = make([]rootState, n), make([]int, 0, n)
+	}
+	st := ws.st[:n]
+	active := ws.active[:0]
 	for i, pr := range probs {
 		errs[i] = nil
 		lo, hi, flo, fhi := pr.Lo, pr.Hi, pr.FLo, pr.FHi
@@ -102,9 +125,8 @@ func RootBatch(f BatchFunc, probs []RootProblem, roots []float64, errs []error) 
 		st[i] = rootState{lo: lo, hi: hi, flo: flo, fhi: fhi, x: x, width: hi - lo, noise: pr.Noise}
 		active = append(active, i)
 	}
-	idx := make([]int, 0, 2*len(active))
-	xs := make([]float64, 0, 2*len(active))
-	var fx, dfx []float64
+	idx, xs, fx, dfx := ws.idx, ws.xs, ws.fx, ws.dx
+	defer func() { ws.idx, ws.xs, ws.fx, ws.dx = idx[:0], xs[:0], fx, dfx }()
 	for iter := 0; len(active) > 0; iter++ {
 		if iter == maxIter {
 			for _, i := range active {
@@ -113,6 +135,16 @@ func RootBatch(f BatchFunc, probs []RootProblem, roots []float64, errs []error) 
 			return nil
 		}
 		// Newton iterates first (with derivatives), then the samples.
+		total := 0
+		for _, i := range active {
+			total++
+			if st[i].sampling {
+				total += rootSamples
+			}
+		}
+		if cap(idx) < total {
+			idx, xs = make([]int, 0, total), make([]float64, 0, total)
+		}
 		idx, xs = idx[:0], xs[:0]
 		for _, i := range active {
 			if !st[i].sampling {
@@ -230,12 +262,16 @@ func (s *rootState) newton(fx, dfx float64) (root float64, done bool) {
 		return x - step, true
 	}
 	if math.Abs(fx) <= s.noise {
-		s.sampling = true
-		s.band = 2 * s.noise / math.Abs(dfx)
-		if !(s.band > 0) || math.IsInf(s.band, 1) {
-			s.band = 0
+		// Sample when the band is wide; within a narrow one, Newton
+		// steps and the safeguard close the bracket in a few steps.
+		band := 2 * s.noise / math.Abs(dfx)
+		if !(band > 0) || math.IsInf(band, 1) {
+			band = 0
 		}
-		return s.converged()
+		if !(band > 0) || band > sampleBand*ulp(x) {
+			s.sampling, s.band = true, band
+			return s.converged()
+		}
 	}
 	next := x - step
 	switch {

@@ -3,6 +3,7 @@ package period
 import (
 	"errors"
 	"math"
+	"sync/atomic"
 	"testing"
 
 	"github.com/stretchr/testify/assert"
@@ -274,4 +275,48 @@ func BenchmarkSweep(b *testing.B) {
 			}
 		}
 	}
+}
+
+// counting counts the calls to a potential.
+type counting struct {
+	core.Potential
+	derivatives, batch atomic.Int64
+}
+
+func (c *counting) Derivatives(r float64, dst []float64) error {
+	c.derivatives.Add(1)
+	return c.Potential.Derivatives(r, dst)
+}
+
+func (c *counting) Batch(n int, r, dst []float64) error {
+	c.batch.Add(1)
+	return c.Potential.Batch(n, r, dst)
+}
+
+// TestBatchedCalls: a potential in another process costs a round trip per
+// call, so a sweep of many energies makes a few tens of calls in all, not
+// tens per energy, and a single period about fifteen.
+func TestBatchedCalls(t *testing.T) {
+	f := forms(t)[0]
+	c := &counting{Potential: f.p}
+	var energies []float64
+	for k := 1; k <= 200; k++ {
+		energies = append(energies, 0.9*f.w.Depth*float64(k)/200)
+	}
+	in, err := NewIntegrator(Settings{})
+	require.NoError(t, err)
+	res, errs := in.Sweep(c, f.w, mu, energies, nil)
+	for i := range errs {
+		require.NoError(t, errs[i])
+		want, err := in.Exact(f.p, f.w, mu, energies[i])
+		require.NoError(t, err)
+		require.Equal(t, want, res[i], "E = %g eV", energies[i])
+	}
+	calls := c.derivatives.Load() + c.batch.Load()
+	assert.Less(t, calls, int64(60), "calls for 200 energies")
+	c.derivatives.Store(0)
+	c.batch.Store(0)
+	_, err = in.Exact(c, f.w, mu, 0.3*f.w.Depth)
+	require.NoError(t, err)
+	assert.Less(t, c.derivatives.Load()+c.batch.Load(), int64(25), "calls for one energy")
 }

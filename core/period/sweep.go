@@ -8,13 +8,9 @@ import (
 	"github.com/pairwell/pairwell/core"
 )
 
-// Chunks of Sweep: the energies are split into about one chunk per
-// goroutine, of sweepMinChunk to sweepMaxChunk energies each, and every
-// chunk is one batched pass (see Integrator.Sweep).
-const (
-	sweepMinChunk = 32
-	sweepMaxChunk = 256
-)
+// sweepChunk is the number of energies of a chunk of Sweep, one batched
+// pass (see Integrator.Sweep).
+const sweepChunk = 256
 
 // Sweep returns the exact periods (fs) at many energies (eV) in the well w
 // of p for the reduced mass mu (u), with NewIntegrator(s). See
@@ -37,9 +33,9 @@ func Sweep(p core.Potential, w core.Well, mu float64, energies []float64, s Sett
 // order is deterministic. An energy without a bound oscillation gets its
 // own error; the others are unaffected.
 //
-// The energies are split into chunks of 32 to 256, about one per
-// goroutine (runtime.GOMAXPROCS(0) of them), and each chunk is computed in
-// one batched pass: its turning points in one scan and one Newton
+// The energies are split into chunks of 256, shared among
+// runtime.GOMAXPROCS(0) goroutines (up to 256 energies are computed in the
+// calling goroutine), and each chunk is computed in one batched pass: its turning points in one scan and one Newton
 // iteration at a time for all its energies, the Taylor expansions at the
 // turning points in one p.Batch call per order, and the quadrature nodes
 // of all its energies in one p.Batch call per rule. A chunk thus costs a
@@ -54,10 +50,19 @@ func (in *Integrator) Sweep(p core.Potential, w core.Well, mu float64, energies 
 	n := len(energies)
 	results := make([]Result, n)
 	errs := make([]error, n)
-	workers := runtime.GOMAXPROCS(0)
-	chunk := min(max((n+workers-1)/workers, sweepMinChunk), sweepMaxChunk)
-	chunks := (n + chunk - 1) / chunk
-	workers = min(workers, chunks)
+	chunks := (n + sweepChunk - 1) / sweepChunk
+	if chunks <= 1 {
+		sc := in.getScratch()
+		in.pass(p, w, mu, energies, results, errs, sc)
+		in.putScratch(sc)
+		for i := range n {
+			if progress != nil {
+				progress(i+1, n)
+			}
+		}
+		return results, errs
+	}
+	workers := min(runtime.GOMAXPROCS(0), chunks)
 	var (
 		next atomic.Int64
 		lock sync.Mutex
@@ -69,13 +74,13 @@ func (in *Integrator) Sweep(p core.Potential, w core.Well, mu float64, energies 
 		go func() {
 			defer wg.Done()
 			sc := in.getScratch()
-			defer in.scratch.Put(sc)
+			defer in.putScratch(sc)
 			for {
 				c := int(next.Add(1)) - 1
 				if c >= chunks {
 					return
 				}
-				a, b := c*chunk, min((c+1)*chunk, n)
+				a, b := c*sweepChunk, min((c+1)*sweepChunk, n)
 				in.pass(p, w, mu, energies[a:b], results[a:b], errs[a:b], sc)
 				if progress != nil {
 					lock.Lock()

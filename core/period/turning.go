@@ -23,27 +23,33 @@ const maxExpand = 200
 const (
 	gridFine        = 45 // points of ratio 2^(1/4)
 	gridStretchK0   = 4  // index of the first stretch point, s₀
-	gridCompression = 7  // s₀/2 to √2·s₀
-	gridStretch     = 13 // s₀ to 8·s₀
+	gridCompression = 5  // s₀/2 to s₀
+	gridStretch     = 5  // s₀ to 1.7·s₀
 	gridFew         = 6
 	gridLater       = 16
 	fewEnergies     = 4
 )
 
-// noiseFactor times ε·(|V(re)| + E) is the rounding error assumed for
-// V(r) − V(re) − E near a turning point.
-const noiseFactor = 4
-
-// quarters are 2^(j/4), j = 0, …, 3.
-var quarters = [4]float64{1, 1.189207115002721, 1.414213562373095, 1.6817928305074292}
+// noiseFactor times ε·(|V(re)| + E), about an ulp of V, is the rounding
+// error assumed for V(r) − V(re) − E near a turning point.
+const noiseFactor = 1
 
 // gridDisp returns the k-th displacement of the scan in units of s₀.
 func gridDisp(k int) float64 {
-	if k < gridFine {
-		m := k - 4
-		return math.Ldexp(quarters[m&3], m>>2)
+	if k >= gridFine {
+		return math.Ldexp(1, 10+k-gridFine+1)
 	}
-	return math.Ldexp(1, 10+k-gridFine+1)
+	m := k - 4
+	q := 1.0 // 2^((m mod 4)/4)
+	switch m & 3 {
+	case 1:
+		q = 1.189207115002721
+	case 2:
+		q = 1.414213562373095
+	case 3:
+		q = 1.6817928305074292
+	}
+	return math.Ldexp(q, m>>2)
 }
 
 // TurningPoints returns the classical turning points r₋ < re < r₊ (Å) of
@@ -52,14 +58,18 @@ func gridDisp(k int) float64 {
 // are re.
 //
 // Each root is bracketed by a scan outward from re on the grid of
-// displacements s₀·2^(k/4), k = −4, −3, … (s₀ = √(E/c₂) the harmonic
-// amplitude; the spacing doubles beyond 2¹⁰·s₀), then refined by
-// core.RootBatch (Newton safeguarded by bisection, from the linear
-// interpolation between the bracketing grid points) to a few ulp. Both
-// sides are solved together, in a few p.Batch calls: one pair (V, V′) per
-// scan call and per iteration. The oscillation is assumed to be in a
-// single well: V increases monotonically away from re up to each turning
-// point.
+// displacements s₀·2^(k/4) (s₀ = √(E/c₂) the harmonic amplitude), from s₀/2
+// on the compression side and from s₀ on the stretch side, the spacing
+// doubling beyond 2¹⁰·s₀; then refined by core.RootBatch (Newton
+// safeguarded by bisection, from the linear interpolation between the
+// bracketing grid points) to a few ulp, sampling instead of stepping where
+// V(r) − V(re) − E is within its rounding, ε·(|V(re)| + E). Both sides are
+// solved together, in about a dozen p.Batch calls: one of V and one of V′
+// per scan round and per iteration. Exact and Sweep solve all their
+// energies the same way at once, with the same result for each. The
+// oscillation is assumed to be in a single well: V increases
+// monotonically away from re up to each turning point (V′ is checked at
+// every scanned point).
 //
 // The returned error wraps core.ErrParam for E < 0 or NaN, and
 // core.ErrDomain when there is no bound oscillation at E: E at or above the
@@ -255,22 +265,33 @@ func scan(p core.Potential, w core.Well, sides []side, sc *scratch) {
 	r, owner, v, dv := sc.r[:0], sc.owner[:0], sc.v, sc.dv
 	defer func() { sc.r, sc.owner, sc.v, sc.dv = r, owner, v, dv }()
 	for round := 0; ; round++ {
+		chunk := func(s *side) int {
+			switch {
+			case round > 0:
+				return gridLater
+			case len(sides) <= 2*fewEnergies:
+				return gridFew
+			case s.dir > 0:
+				return gridStretch
+			}
+			return gridCompression
+		}
+		total := 0
+		for q := range sides {
+			if sides[q].stage == scanning {
+				total += chunk(&sides[q])
+			}
+		}
+		if cap(r) < total {
+			r, owner = make([]float64, 0, total), make([]int, 0, total)
+		}
 		r, owner = r[:0], owner[:0]
 		for q := range sides {
 			s := &sides[q]
 			if s.stage != scanning {
 				continue
 			}
-			m := gridLater
-			switch {
-			case round > 0:
-			case len(sides) <= 2*fewEnergies:
-				m = gridFew
-			case s.dir > 0:
-				m = gridStretch
-			default:
-				m = gridCompression
-			}
+			m := chunk(s)
 			n0 := len(r)
 			r = s.next(d, w.Re, r, m)
 			for range len(r) - n0 {
@@ -445,9 +466,9 @@ func refine(p core.Potential, w core.Well, sides []side, sc *scratch) {
 		probs[k] = core.RootProblem{Lo: s.lo, Hi: s.hi, FLo: s.flo, FHi: s.fhi, Start: start,
 			Noise: noiseFactor * eps * (math.Abs(w.Energy) + s.E)}
 	}
-	sc.roots, sc.errs = grows(sc.roots, len(qs)), grows(sc.errs, len(qs))
-	roots, errs := sc.roots, sc.errs
-	core.RootBatch(func(idx []int, x, fx, dfx []float64) error {
+	sc.rs, sc.errs = grows(sc.rs, len(qs)), grows(sc.errs, len(qs))
+	roots, errs := sc.rs, sc.errs
+	sc.roots.Solve(func(idx []int, x, fx, dfx []float64) error {
 		if err := p.Batch(0, x, fx); err != nil {
 			return err
 		}
@@ -466,8 +487,14 @@ func refine(p core.Potential, w core.Well, sides []side, sc *scratch) {
 	}
 }
 
-// grow returns s resized to n, reusing its storage when large enough.
-func grow(s []float64, n int) []float64 { return grows(s, n) }
+// grow returns s resized to n, reusing its storage when large enough (the
+// contents are then unspecified).
+func grow(s []float64, n int) []float64 {
+	if cap(s) < n {
+		return make([]float64, n)
+	}
+	return s[:n]
+}
 
 // grows returns s resized to n, zeroed, reusing its storage when large
 // enough.

@@ -4,6 +4,7 @@ import (
 	"errors"
 	"fmt"
 	"math"
+	"sort"
 
 	"github.com/pairwell/pairwell/core"
 	"github.com/pairwell/pairwell/core/period"
@@ -19,27 +20,37 @@ const (
 	scanRatio = 1.02
 	// stretchCap is the largest stretch scanned, in units of re.
 	stretchCap = 100
-	// sweepBlock is the number of grid energies whose periods are
-	// computed in parallel before the scan checks for a violation.
-	sweepBlock = 32
+	// The periods of the grid energies are computed in blocks, before
+	// the scan checks for a violation: up to blockEnd1·E_top, up to
+	// blockEnd2·E_top, up to E_top/2, then block energies at a time.
+	blockEnd1 = 1e-4
+	blockEnd2 = 0.1
+	block     = 32
 	// refineTol is the relative precision of the refined period limit.
 	refineTol = 1e-12
+	// refinePoints is the number of energies evaluated together in each
+	// round of the refinement of the period limit.
+	refinePoints = 8
+	// refineRounds bounds the rounds of the refinement.
+	refineRounds = 100
 )
 
 // PotentialRange returns the potential criterion for the truncation of
 // order n (2, 3 or 4) of the well w of p, at tolerance s.Tolerance.
 //
 // On each side, displacements s from s₀ outward are scanned on a
-// geometric grid (ratio 1.02, one p.Batch call per side) up to the edge of
-// the domain (compression) or 100·re (stretch); the first grid point where
-// |V_n − V| > τ·|V − V(re)| and the one before bracket the crossing, which
-// core.Root refines to a few ulp. The crossing itself is defined only to
-// the rounding of V(r) − V(re): ≈ ε·|V|/(τ·c₂s²) relative, 1e-10 for Morse
-// at τ = 1% and n = 2, 2e-7 at τ = 0.1%. The scan starts at
-// s₀ = √(100·ε·(|V(re)| + c₂re²)/(τ·c₂)), where the rounding of
-// V(r) − V(re) is 1% of the allowed difference; a crossing below s₀ (a
-// tolerance too small to resolve in float64, ≲ 1e-4 for n = 2) is an error
-// wrapping core.ErrParam.
+// geometric grid (ratio 1.02; both sides in one p.Batch call) up to the
+// edge of the domain (compression) or 100·re (stretch); the first grid
+// point where |V_n − V| > τ·|V − V(re)| and the one before bracket the
+// crossing, which core.RootBatch refines to a few ulp, both sides together
+// (a call of V and one of V′ per iteration). The crossing itself is defined
+// only to the rounding of V(r) − V(re): ≈ ε·|V|/(τ·c₂s²) relative, 1e-10
+// for Morse at τ = 1% and n = 2, 2e-7 at τ = 0.1%; within that band the
+// refinement samples instead of taking Newton steps (see core.RootBatch).
+// The scan starts at s₀ = √(100·ε·(|V(re)| + c₂re²)/(τ·c₂)), where the
+// rounding of V(r) − V(re) is 1% of the allowed difference; a crossing
+// below s₀ (a tolerance too small to resolve in float64, ≲ 1e-4 for n = 2)
+// is an error wrapping core.ErrParam.
 func PotentialRange(p core.Potential, w core.Well, n int, s Settings) (Displacements, error) {
 	if err := checkOrder(n); err != nil {
 		return Displacements{}, err
@@ -52,86 +63,210 @@ func PotentialRange(p core.Potential, w core.Well, n int, s Settings) (Displacem
 	if err != nil {
 		return Displacements{}, err
 	}
-	var out Displacements
-	if out.Compression, err = potentialSide(p, w, tr, tol, -1); err != nil {
-		return Displacements{}, err
+	sides := [2]potentialSide{{dir: -1, name: "compression"}, {dir: +1, name: "stretch"}}
+	for k := range sides {
+		sides[k].grid(p, w, tol)
 	}
-	if out.Stretch, err = potentialSide(p, w, tr, tol, +1); err != nil {
-		return Displacements{}, err
+	scanPotential(p, w, sides[:])
+	for k := range sides {
+		sides[k].bracket(w, tr, tol)
 	}
-	return out, nil
+	crossings(p, w, tr, tol, sides[:])
+	for _, sd := range sides {
+		if sd.err != nil {
+			return Displacements{}, sd.err
+		}
+	}
+	return Displacements{Compression: sides[0].limit, Stretch: sides[1].limit}, nil
 }
 
-// potentialSide scans one side, dir = −1 (compression) or +1 (stretch).
-func potentialSide(p core.Potential, w core.Well, tr *Truncation, tol, dir float64) (float64, error) {
+// potentialSide is the potential criterion on one side, dir = −1
+// (compression) or +1 (stretch).
+type potentialSide struct {
+	dir    float64
+	name   string
+	ss, vs []float64 // displacements scanned and V there
+	err    error
+	limit  float64
+	// The bracket of the crossing: displacements, criterion there, and
+	// the sign of V_n − V beyond it.
+	lo, hi, glo, ghi, sgn float64
+	bracketed             bool
+}
+
+// grid lays out the displacements of the scan of the side.
+func (sd *potentialSide) grid(p core.Potential, w core.Well, tol float64) {
 	d := p.Domain()
 	re, c2 := w.Re, w.Taylor[2]
-	side := "stretch"
 	sMax := math.Min(d.Max-re, stretchCap*re)
-	if dir < 0 {
-		side, sMax = "compression", re-d.Min
+	if sd.dir < 0 {
+		sMax = re - d.Min
 	}
 	s0 := math.Sqrt(100 * eps * (math.Abs(w.Energy) + c2*re*re) / (tol * c2))
 	if !(s0 < sMax) {
-		return 0, fmt.Errorf("validity: %w: the %s side of the domain is too short to scan (%g Å)", core.ErrParam, side, sMax)
+		sd.err = fmt.Errorf("validity: %w: the %s side of the domain is too short to scan (%g Å)", core.ErrParam, sd.name, sMax)
+		return
 	}
-	var ss []float64
+	sd.ss = make([]float64, 0, int(math.Log(sMax/s0)/math.Log(scanRatio))+42)
 	for x := s0; x < sMax; x *= scanRatio {
-		ss = append(ss, x)
+		sd.ss = append(sd.ss, x)
 	}
-	last := ss[len(ss)-1]
+	last := sd.ss[len(sd.ss)-1]
 	for k := 1; k <= 40; k++ { // approach the edge
 		x := sMax - (sMax-last)*math.Ldexp(1, -k)
-		if x >= sMax || x <= ss[len(ss)-1] {
+		if x >= sMax || x <= sd.ss[len(sd.ss)-1] {
 			break
 		}
-		ss = append(ss, x)
+		sd.ss = append(sd.ss, x)
 	}
-	rs := make([]float64, len(ss))
-	for i, x := range ss {
-		rs[i] = re + dir*x
+}
+
+// scanPotential evaluates V on the grids of all sides in one p.Batch call.
+// A point where V is out of the domain ends the scan of its side there.
+func scanPotential(p core.Potential, w core.Well, sides []potentialSide) {
+	total := 0
+	for k := range sides {
+		total += len(sides[k].ss)
 	}
-	vs := make([]float64, len(rs))
+	rs := make([]float64, 0, total)
+	owner := make([]int, 0, total)
 	for {
+		rs, owner = rs[:0], owner[:0]
+		for k := range sides {
+			sd := &sides[k]
+			if sd.err != nil {
+				continue
+			}
+			for _, x := range sd.ss {
+				rs, owner = append(rs, w.Re+sd.dir*x), append(owner, k)
+			}
+		}
+		if len(rs) == 0 {
+			return
+		}
+		vs := make([]float64, len(rs))
 		err := p.Batch(0, rs, vs)
 		if err == nil {
-			break
+			j := 0
+			for k := range sides {
+				if sides[k].err == nil {
+					sides[k].vs = vs[j : j+len(sides[k].ss)]
+					j += len(sides[k].ss)
+				}
+			}
+			return
 		}
-		// A point where V is out of range ends the scan there.
 		var pe *core.PointError
-		if !errors.As(err, &pe) || !errors.Is(err, core.ErrDomain) || pe.Index == 0 {
-			return 0, fmt.Errorf("validity: potential criterion, %s side: %w", side, err)
+		if !errors.As(err, &pe) || pe.Index < 0 || pe.Index >= len(rs) {
+			for k := range sides {
+				if sides[k].err == nil {
+					sides[k].err = fmt.Errorf("validity: potential criterion, %s side: %w", sides[k].name, err)
+				}
+			}
+			return
 		}
-		rs, vs, ss = rs[:pe.Index], vs[:pe.Index], ss[:pe.Index]
+		k := owner[pe.Index]
+		sd := &sides[k]
+		local := pe.Index
+		for j := 0; j < pe.Index; j++ {
+			if owner[j] != k {
+				local--
+			}
+		}
+		if !errors.Is(err, core.ErrDomain) || local == 0 {
+			sd.err = fmt.Errorf("validity: potential criterion, %s side: %w", sd.name,
+				&core.PointError{Index: local, R: pe.R, Err: pe.Err})
+			continue
+		}
+		sd.ss = sd.ss[:local]
 	}
-	for j, v := range vs {
-		x := dir * ss[j]
+}
+
+// criterion returns sgn·(V_n − V) − τ·(V − V(re)) at displacement x (signed)
+// from V there.
+func criterion(w core.Well, tr *Truncation, tol, sgn, x, v float64) float64 {
+	return sgn*(tr.eval(0, x)-v) - tol*(v-w.Energy)
+}
+
+// bracket finds the first grid point of the side where the criterion
+// fails and the one before; without one, the limit is +Inf.
+func (sd *potentialSide) bracket(w core.Well, tr *Truncation, tol float64) {
+	if sd.err != nil {
+		return
+	}
+	sd.limit = math.Inf(1)
+	for j, v := range sd.vs {
+		x := sd.dir * sd.ss[j]
 		diff := tr.eval(0, x) - v
 		if math.Abs(diff) <= tol*math.Abs(v-w.Energy) {
 			continue
 		}
 		if j == 0 {
-			return 0, fmt.Errorf("validity: %w: on the %s side the tolerance %g is exceeded already at %.3g Å, "+
-				"where the rounding of V(r) − V(re) starts to matter: use a larger tolerance", core.ErrParam, side, tol, ss[0])
+			sd.err = fmt.Errorf("validity: %w: on the %s side the tolerance %g is exceeded already at %.3g Å, "+
+				"where the rounding of V(r) − V(re) starts to matter: use a larger tolerance", core.ErrParam, sd.name, tol, sd.ss[0])
+			return
 		}
-		sgn := math.Copysign(1, diff)
-		var buf [2]float64
-		f := func(s float64) (float64, float64, error) {
-			x := dir * s
-			if err := p.Derivatives(re+x, buf[:]); err != nil {
-				return 0, 0, err
-			}
-			g := sgn*(tr.eval(0, x)-buf[0]) - tol*(buf[0]-w.Energy)
-			dg := dir * (sgn*(tr.eval(1, x)-buf[1]) - tol*buf[1])
-			return g, dg, nil
-		}
-		x, err := core.Root(f, ss[j-1], ss[j])
-		if err != nil {
-			return 0, fmt.Errorf("validity: potential criterion, %s side: %w", side, err)
-		}
-		return x, nil
+		sd.sgn = math.Copysign(1, diff)
+		sd.lo, sd.hi = sd.ss[j-1], sd.ss[j]
+		sd.glo = criterion(w, tr, tol, sd.sgn, sd.dir*sd.lo, sd.vs[j-1])
+		sd.ghi = criterion(w, tr, tol, sd.sgn, x, v)
+		sd.bracketed = true
+		return
 	}
-	return math.Inf(1), nil
+}
+
+// crossings refines the bracketed crossings of all sides together.
+func crossings(p core.Potential, w core.Well, tr *Truncation, tol float64, sides []potentialSide) {
+	var (
+		probs []core.RootProblem
+		which []*potentialSide
+	)
+	for k := range sides {
+		sd := &sides[k]
+		if sd.err != nil || !sd.bracketed {
+			continue
+		}
+		noise := 4 * eps * (math.Abs(sd.vs[len(sd.vs)-1]) + math.Abs(w.Energy) + math.Abs(tr.eval(0, sd.dir*sd.hi)))
+		probs = append(probs, core.RootProblem{Lo: sd.lo, Hi: sd.hi, FLo: sd.glo, FHi: sd.ghi,
+			Start: sd.lo - sd.glo*(sd.hi-sd.lo)/(sd.ghi-sd.glo), Noise: noise})
+		which = append(which, sd)
+	}
+	if len(probs) == 0 {
+		return
+	}
+	roots := make([]float64, len(probs))
+	errs := make([]error, len(probs))
+	var rs, dv []float64
+	core.RootBatch(func(idx []int, x, fx, dfx []float64) error {
+		rs = rs[:0]
+		for k, i := range idx {
+			rs = append(rs, w.Re+which[i].dir*x[k])
+		}
+		if err := p.Batch(0, rs, fx); err != nil {
+			return err
+		}
+		dv = append(dv[:0], make([]float64, len(dfx))...)
+		if err := p.Batch(1, rs[:len(dfx)], dv); err != nil {
+			return err
+		}
+		for k, i := range idx {
+			sd := which[i]
+			xx := sd.dir * x[k]
+			v := fx[k]
+			fx[k] = criterion(w, tr, tol, sd.sgn, xx, v)
+			if k < len(dfx) {
+				dfx[k] = sd.dir * (sd.sgn*(tr.eval(1, xx)-dv[k]) - tol*dv[k])
+			}
+		}
+		return nil
+	}, probs, roots, errs)
+	for k, sd := range which {
+		if errs[k] != nil {
+			sd.err = fmt.Errorf("validity: potential criterion, %s side: %w", sd.name, errs[k])
+			continue
+		}
+		sd.limit = roots[k]
+	}
 }
 
 // PeriodRange returns the period criterion for the truncation of order n
@@ -142,13 +277,19 @@ func potentialSide(p core.Potential, w core.Well, tr *Truncation, tol, dir float
 // well, the energy at which a turning point reaches the edge of the domain
 // or 100·re. The grid is geometric from 1e-8·E_top to E_top/2 (ratio 1.1)
 // and then approaches E_top geometrically to within 1e-9·E_top; the periods
-// are computed by period.Sweep in parallel blocks of 32 energies, stopping
-// at the first block with a violation (the ratio is mass independent, so
-// μ = 1 u is used). The first failing energy and the one
-// before bracket the limit, which bisection refines to 1e-12 relative; the
-// largest energy known to pass is returned. The limit depends on the
-// precision of the periods (1e-12 by default): |R(E)| = |T_n/T − 1| is
-// known to ≈ 1e-12, so E is resolved to ≈ 1e-12/(τ·dlnR/dlnE) relative.
+// are computed by period.Sweep (batched passes over many energies) in
+// blocks — the grid below 1e-4·E_top, up to E_top/10, up to E_top/2, then
+// 32 energies at a time — stopping at the first block with a violation (the ratio is mass independent, so
+// μ = 1 u is used). The first failing energy and the one before bracket
+// the limit, which is refined to 1e-12 relative by rounds of 8 energies
+// computed together: spread around the root of the inverse interpolation
+// of |T_n/T − 1| − τ through the nearest energies on either side, over a
+// width of twice its estimated error, or spread evenly over the bracket
+// when that fails to halve it; each round keeps the first failing energy
+// and the passing one before it. The largest energy known to pass is
+// returned. The limit depends on the precision of the periods (1e-12 by
+// default): |R(E)| = |T_n/T − 1| is known to ≈ 1e-12, so E is resolved to
+// ≈ 1e-12/(τ·dlnR/dlnE) relative.
 func PeriodRange(p core.Potential, w core.Well, n int, s Settings) (EnergyRange, error) {
 	if err := checkOrder(n); err != nil {
 		return EnergyRange{}, err
@@ -174,7 +315,11 @@ func PeriodRange(p core.Potential, w core.Well, n int, s Settings) (EnergyRange,
 		return EnergyRange{}, err
 	}
 	var fr []float64
+	var ends []int // of the blocks below E_top/2
 	for f := 1e-8; f < 0.5; f *= 1.1 {
+		if (len(ends) == 0 && f >= blockEnd1) || (len(ends) == 1 && f >= blockEnd2) {
+			ends = append(ends, len(fr))
+		}
 		fr = append(fr, f)
 	}
 	for g := 0.5; g > 1e-9; g *= 0.8 {
@@ -184,34 +329,38 @@ func PeriodRange(p core.Potential, w core.Well, n int, s Settings) (EnergyRange,
 	for i, f := range fr {
 		energies[i] = f * top
 	}
-	lo := 0.0
-	for start := 0; start < len(energies); start += sweepBlock {
-		block := energies[start:min(start+sweepBlock, len(energies))]
-		ts, terrs := in.Sweep(p, w, 1, block, nil)
-		tns := make([]period.Result, len(block))
-		tnerrs := make([]error, len(block))
-		if n > 2 {
-			tns, tnerrs = in.Sweep(tr, c.wn, 1, block, nil)
+	// E = 0 passes, with both turning points at re.
+	best := sample{res: period.Result{Inner: w.Re, Outer: w.Re}, g: -tol}
+	var known []sample
+	for start := 0; start < len(energies); {
+		end := min(start+block, len(energies))
+		if len(ends) > 0 {
+			end, ends = ends[0], ends[1:]
 		}
-		for i, E := range block {
-			ok, end, err := c.judge(E, ts[i], terrs[i], tns[i], tnerrs[i])
-			if err != nil {
-				return EnergyRange{}, err
+		ss, err := c.evaluate(energies[start:end])
+		if err != nil {
+			return EnergyRange{}, err
+		}
+		known = append(known, ss...)
+		for _, sm := range ss {
+			if sm.err != nil {
+				return EnergyRange{}, sm.err
 			}
-			if end {
-				return c.describe(math.Inf(1))
+			if sm.end {
+				return c.describe(math.Inf(1), period.Result{})
 			}
-			if !ok {
-				E, err := c.refine(lo, E)
+			if !sm.ok {
+				lim, err := c.refine(best, sm, known)
 				if err != nil {
 					return EnergyRange{}, err
 				}
-				return c.describe(E)
+				return c.describe(lim.E, lim.res)
 			}
-			lo = E
+			best = sm
 		}
+		start = end
 	}
-	return c.describe(math.Inf(1))
+	return c.describe(math.Inf(1), period.Result{})
 }
 
 // periodCriterion evaluates R(E) = T_n(E)/T(E) − 1.
@@ -226,64 +375,178 @@ type periodCriterion struct {
 	t0  float64 // harmonic period for μ = 1 u
 }
 
+// sample is the criterion at one energy.
+type sample struct {
+	E       float64
+	ok, end bool          // see judge
+	g       float64       // |R(E)| − τ; NaN when T_n is undefined
+	res     period.Result // the period in the real potential
+	err     error
+}
+
+// evaluate computes the criterion at every energy, the periods of all of
+// them by one period.Sweep per potential.
+func (c *periodCriterion) evaluate(energies []float64) ([]sample, error) {
+	ts, terrs := c.in.Sweep(c.p, c.w, 1, energies, nil)
+	tns := make([]period.Result, len(energies))
+	tnerrs := make([]error, len(energies))
+	if c.n > 2 {
+		tns, tnerrs = c.in.Sweep(c.tr, c.wn, 1, energies, nil)
+	}
+	ss := make([]sample, len(energies))
+	for i, E := range energies {
+		sm := &ss[i]
+		sm.E, sm.res = E, ts[i]
+		sm.ok, sm.end, sm.g, sm.err = c.judge(E, ts[i], terrs[i], tns[i], tnerrs[i])
+	}
+	return ss, nil
+}
+
 // judge classifies one energy from its periods: ok when the criterion
 // holds; end when the real potential has no bound motion there (the scan
-// is over).
-func (c *periodCriterion) judge(E float64, t period.Result, terr error, tn period.Result, tnerr error) (ok, end bool, err error) {
+// is over). g is |R| − τ, NaN when R is undefined.
+func (c *periodCriterion) judge(E float64, t period.Result, terr error, tn period.Result, tnerr error) (ok, end bool, g float64, err error) {
 	if terr != nil {
 		if errors.Is(terr, core.ErrDomain) {
-			return false, true, nil
+			return false, true, math.NaN(), nil
 		}
 		if !errors.Is(terr, core.ErrNoConvergence) || t.ErrorEstimate > c.tol/100 {
-			return false, false, fmt.Errorf("validity: period at E = %g eV: %w", E, terr)
+			return false, false, math.NaN(), fmt.Errorf("validity: period at E = %g eV: %w", E, terr)
 		}
 	}
 	tnp := c.t0
 	if c.n > 2 {
 		if tnerr != nil {
 			if errors.Is(tnerr, core.ErrDomain) {
-				return false, false, nil // no bound motion in V_n
+				return false, false, math.NaN(), nil // no bound motion in V_n
 			}
 			if !errors.Is(tnerr, core.ErrNoConvergence) || tn.ErrorEstimate > c.tol/100 {
-				return false, false, fmt.Errorf("validity: period of the order-%d truncation at E = %g eV: %w", c.n, E, tnerr)
+				return false, false, math.NaN(), fmt.Errorf("validity: period of the order-%d truncation at E = %g eV: %w", c.n, E, tnerr)
 			}
 		}
 		tnp = tn.Period
 	}
-	return math.Abs(tnp/t.Period-1) <= c.tol, false, nil
+	r := math.Abs(tnp/t.Period - 1)
+	return r <= c.tol, false, r - c.tol, nil
 }
 
-// at evaluates the criterion at one energy.
-func (c *periodCriterion) at(E float64) (ok, end bool, err error) {
-	t, terr := c.in.Exact(c.p, c.w, 1, E)
-	var tn period.Result
-	var tnerr error
-	if c.n > 2 {
-		tn, tnerr = c.in.Exact(c.tr, c.wn, 1, E)
-	}
-	return c.judge(E, t, terr, tn, tnerr)
-}
-
-// refine bisects between lo (passes) and hi (fails) and returns the
-// largest energy found to pass.
-func (c *periodCriterion) refine(lo, hi float64) (float64, error) {
-	for i := 0; i < 200 && hi-lo > refineTol*hi; i++ {
-		mid := 0.5 * (lo + hi)
-		ok, end, err := c.at(mid)
-		if err != nil {
-			return 0, err
-		}
-		if ok && !end {
-			lo = mid
+// refine narrows the bracket between a (passes) and b (fails) to refineTol
+// relative and returns the largest energy found to pass. known are the
+// energies evaluated so far, for the interpolation.
+func (c *periodCriterion) refine(a, b sample, known []sample) (sample, error) {
+	section := false
+	for round := 0; round < refineRounds && b.E-a.E > refineTol*b.E; round++ {
+		es := make([]float64, 0, refinePoints)
+		if est, ok := estimate(a, b, known); ok && !section {
+			// Offsets growing geometrically from refineTol/2 to the
+			// far end of the bracket, on either side of est.
+			far := math.Max(est-a.E, b.E-est)
+			near := 0.5 * refineTol * b.E
+			ratio := math.Pow(far/near, 1/float64(refinePoints/2-1))
+			for k := refinePoints/2 - 1; k >= 0; k-- {
+				if E := est - near*math.Pow(ratio, float64(k)); E > a.E {
+					es = append(es, E)
+				}
+			}
+			for k := 0; k < refinePoints/2; k++ {
+				if E := est + near*math.Pow(ratio, float64(k)); E < b.E {
+					es = append(es, E)
+				}
+			}
 		} else {
-			hi = mid
+			for k := 1; k <= refinePoints; k++ {
+				if E := a.E + (b.E-a.E)*float64(k)/(refinePoints+1); E > a.E && E < b.E && (len(es) == 0 || E > es[len(es)-1]) {
+					es = append(es, E)
+				}
+			}
 		}
+		if len(es) == 0 {
+			break
+		}
+		ss, err := c.evaluate(es)
+		if err != nil {
+			return sample{}, err
+		}
+		width := b.E - a.E
+		for _, sm := range ss {
+			if sm.err != nil {
+				return sample{}, sm.err
+			}
+			if sm.ok && !sm.end {
+				a = sm
+				continue
+			}
+			b = sm
+			break
+		}
+		known = append(known, ss...)
+		section = b.E-a.E > 0.5*width
 	}
-	return lo, nil
+	return a, nil
 }
 
-// describe fills in an EnergyRange for the limit E.
-func (c *periodCriterion) describe(E float64) (EnergyRange, error) {
+// estimate returns the root of the inverse interpolation of g(E) through
+// the samples nearest the bracket (a, b), up to two on either side. ok is
+// false when g is undefined at a or b or the root falls outside the
+// bracket.
+func estimate(a, b sample, known []sample) (est float64, ok bool) {
+	if !(a.g <= 0) || !(b.g > 0) {
+		return 0, false
+	}
+	left := []sample{a}
+	right := []sample{b}
+	for _, sm := range known {
+		if math.IsNaN(sm.g) {
+			continue
+		}
+		switch {
+		case sm.E < a.E && (len(left) < 2 || sm.E > left[1].E):
+			left = append(left[:1], sm)
+		case sm.E > b.E && (len(right) < 2 || sm.E < right[1].E):
+			right = append(right[:1], sm)
+		}
+	}
+	pts := append(left, right...)
+	// Order by distance from the bracket: a and b first.
+	sort.SliceStable(pts, func(i, j int) bool { return dist(pts[i].E, a.E, b.E) < dist(pts[j].E, a.E, b.E) })
+	est = neville(pts, 0)
+	if !(est > a.E && est < b.E) {
+		// A higher-degree fit can overshoot: fall back to the secant.
+		est = neville(pts[:2], 0)
+	}
+	return est, est > a.E && est < b.E
+}
+
+// dist is the distance of E from the interval [a, b].
+func dist(E, a, b float64) float64 {
+	switch {
+	case E < a:
+		return a - E
+	case E > b:
+		return E - b
+	}
+	return 0
+}
+
+// neville evaluates at g the polynomial through the points (g_i, E_i).
+func neville(pts []sample, g float64) float64 {
+	var p [4]float64
+	n := min(len(pts), len(p))
+	for i := range n {
+		p[i] = pts[i].E
+	}
+	for m := 1; m < n; m++ {
+		for i := 0; i < n-m; i++ {
+			gi, gj := pts[i].g, pts[i+m].g
+			p[i] = ((g-gj)*p[i] + (gi-g)*p[i+1]) / (gi - gj)
+		}
+	}
+	return p[0]
+}
+
+// describe fills in an EnergyRange for the limit E, with res the period at
+// E (for the turning points).
+func (c *periodCriterion) describe(E float64, res period.Result) (EnergyRange, error) {
 	r := EnergyRange{Energy: E, DepthFraction: math.NaN(), Temperature: E / units.BoltzmannEV,
 		Compression: math.Inf(1), Stretch: math.Inf(1)}
 	if c.w.Bounded() {
@@ -292,11 +555,7 @@ func (c *periodCriterion) describe(E float64) (EnergyRange, error) {
 	if math.IsInf(E, 1) {
 		return r, nil
 	}
-	inner, outer, err := period.TurningPoints(c.p, c.w, E)
-	if err != nil {
-		return EnergyRange{}, fmt.Errorf("validity: turning points at the period limit: %w", err)
-	}
-	r.Compression, r.Stretch = c.w.Re-inner, outer-c.w.Re
+	r.Compression, r.Stretch = c.w.Re-res.Inner, res.Outer-c.w.Re
 	return r, nil
 }
 

@@ -3,6 +3,7 @@ package validity
 import (
 	"encoding/json"
 	"math"
+	"sync/atomic"
 	"testing"
 
 	"github.com/stretchr/testify/assert"
@@ -242,4 +243,34 @@ func BenchmarkAnalyze(b *testing.B) {
 			}
 		}
 	}
+}
+
+// counting counts the calls to a potential.
+type counting struct {
+	core.Potential
+	calls atomic.Int64
+}
+
+func (c *counting) Derivatives(r float64, dst []float64) error {
+	c.calls.Add(1)
+	return c.Potential.Derivatives(r, dst)
+}
+
+func (c *counting) Batch(n int, r, dst []float64) error {
+	c.calls.Add(1)
+	return c.Potential.Batch(n, r, dst)
+}
+
+// TestBatchedCalls: both criteria of a form make about a hundred calls to
+// the potential (a round trip each for a potential in another process), not
+// thousands.
+func TestBatchedCalls(t *testing.T) {
+	f := forms(t)[0]
+	c := &counting{Potential: f.p}
+	r, err := Analyze(c, f.w, 2, Settings{})
+	require.NoError(t, err)
+	want, err := Analyze(f.p, f.w, 2, Settings{})
+	require.NoError(t, err)
+	assert.Equal(t, want, r)
+	assert.Less(t, c.calls.Load(), int64(200))
 }
