@@ -129,16 +129,15 @@ func scanPotential(p core.Potential, w core.Well, sides []potentialSide) {
 		total += len(sides[k].ss)
 	}
 	rs := make([]float64, 0, total)
-	owner := make([]int, 0, total)
 	for {
-		rs, owner = rs[:0], owner[:0]
+		rs = rs[:0]
 		for k := range sides {
 			sd := &sides[k]
 			if sd.err != nil {
 				continue
 			}
 			for _, x := range sd.ss {
-				rs, owner = append(rs, w.Re+sd.dir*x), append(owner, k)
+				rs = append(rs, w.Re+sd.dir*x)
 			}
 		}
 		if len(rs) == 0 {
@@ -165,14 +164,18 @@ func scanPotential(p core.Potential, w core.Well, sides []potentialSide) {
 			}
 			return
 		}
-		k := owner[pe.Index]
-		sd := &sides[k]
-		local := pe.Index
-		for j := 0; j < pe.Index; j++ {
-			if owner[j] != k {
-				local--
+		// The side of the failing point, and its index there.
+		k, local := 0, pe.Index
+		for ; k < len(sides); k++ {
+			if sides[k].err != nil {
+				continue
 			}
+			if local < len(sides[k].ss) {
+				break
+			}
+			local -= len(sides[k].ss)
 		}
+		sd := &sides[k]
 		if !errors.Is(err, core.ErrDomain) || local == 0 {
 			sd.err = fmt.Errorf("validity: potential criterion, %s side: %w", sd.name,
 				&core.PointError{Index: local, R: pe.R, Err: pe.Err})
@@ -331,7 +334,7 @@ func PeriodRange(p core.Potential, w core.Well, n int, s Settings) (EnergyRange,
 	}
 	// E = 0 passes, with both turning points at re.
 	best := sample{res: period.Result{Inner: w.Re, Outer: w.Re}, g: -tol}
-	var known []sample
+	var known []point
 	for start := 0; start < len(energies); {
 		end := min(start+block, len(energies))
 		if len(ends) > 0 {
@@ -341,7 +344,7 @@ func PeriodRange(p core.Potential, w core.Well, n int, s Settings) (EnergyRange,
 		if err != nil {
 			return EnergyRange{}, err
 		}
-		known = append(known, ss...)
+		known = appendPoints(known, ss)
 		for _, sm := range ss {
 			if sm.err != nil {
 				return EnergyRange{}, sm.err
@@ -388,16 +391,23 @@ type sample struct {
 // them by one period.Sweep per potential.
 func (c *periodCriterion) evaluate(energies []float64) ([]sample, error) {
 	ts, terrs := c.in.Sweep(c.p, c.w, 1, energies, nil)
-	tns := make([]period.Result, len(energies))
-	tnerrs := make([]error, len(energies))
+	var (
+		tns    []period.Result
+		tnerrs []error
+	)
 	if c.n > 2 {
 		tns, tnerrs = c.in.Sweep(c.tr, c.wn, 1, energies, nil)
 	}
 	ss := make([]sample, len(energies))
 	for i, E := range energies {
+		var tn period.Result
+		var tnerr error
+		if c.n > 2 {
+			tn, tnerr = tns[i], tnerrs[i]
+		}
 		sm := &ss[i]
 		sm.E, sm.res = E, ts[i]
-		sm.ok, sm.end, sm.g, sm.err = c.judge(E, ts[i], terrs[i], tns[i], tnerrs[i])
+		sm.ok, sm.end, sm.g, sm.err = c.judge(E, ts[i], terrs[i], tn, tnerr)
 	}
 	return ss, nil
 }
@@ -433,7 +443,7 @@ func (c *periodCriterion) judge(E float64, t period.Result, terr error, tn perio
 // refine narrows the bracket between a (passes) and b (fails) to refineTol
 // relative and returns the largest energy found to pass. known are the
 // energies evaluated so far, for the interpolation.
-func (c *periodCriterion) refine(a, b sample, known []sample) (sample, error) {
+func (c *periodCriterion) refine(a, b sample, known []point) (sample, error) {
 	section := false
 	for round := 0; round < refineRounds && b.E-a.E > refineTol*b.E; round++ {
 		es := make([]float64, 0, refinePoints)
@@ -479,7 +489,7 @@ func (c *periodCriterion) refine(a, b sample, known []sample) (sample, error) {
 			b = sm
 			break
 		}
-		known = append(known, ss...)
+		known = appendPoints(known, ss)
 		section = b.E-a.E > 0.5*width
 	}
 	return a, nil
@@ -489,21 +499,18 @@ func (c *periodCriterion) refine(a, b sample, known []sample) (sample, error) {
 // the samples nearest the bracket (a, b), up to two on either side. ok is
 // false when g is undefined at a or b or the root falls outside the
 // bracket.
-func estimate(a, b sample, known []sample) (est float64, ok bool) {
+func estimate(a, b sample, known []point) (est float64, ok bool) {
 	if !(a.g <= 0) || !(b.g > 0) {
 		return 0, false
 	}
-	left := []sample{a}
-	right := []sample{b}
-	for _, sm := range known {
-		if math.IsNaN(sm.g) {
-			continue
-		}
+	left := []point{{a.E, a.g}}
+	right := []point{{b.E, b.g}}
+	for _, pt := range known {
 		switch {
-		case sm.E < a.E && (len(left) < 2 || sm.E > left[1].E):
-			left = append(left[:1], sm)
-		case sm.E > b.E && (len(right) < 2 || sm.E < right[1].E):
-			right = append(right[:1], sm)
+		case pt.E < a.E && (len(left) < 2 || pt.E > left[1].E):
+			left = append(left[:1], pt)
+		case pt.E > b.E && (len(right) < 2 || pt.E < right[1].E):
+			right = append(right[:1], pt)
 		}
 	}
 	pts := append(left, right...)
@@ -515,6 +522,19 @@ func estimate(a, b sample, known []sample) (est float64, ok bool) {
 		est = neville(pts[:2], 0)
 	}
 	return est, est > a.E && est < b.E
+}
+
+// point is an energy with a defined criterion g there.
+type point struct{ E, g float64 }
+
+// appendPoints appends the samples of ss where g is defined to known.
+func appendPoints(known []point, ss []sample) []point {
+	for _, sm := range ss {
+		if !math.IsNaN(sm.g) {
+			known = append(known, point{sm.E, sm.g})
+		}
+	}
+	return known
 }
 
 // dist is the distance of E from the interval [a, b].
@@ -529,7 +549,7 @@ func dist(E, a, b float64) float64 {
 }
 
 // neville evaluates at g the polynomial through the points (g_i, E_i).
-func neville(pts []sample, g float64) float64 {
+func neville(pts []point, g float64) float64 {
 	var p [4]float64
 	n := min(len(pts), len(p))
 	for i := range n {
