@@ -30,7 +30,8 @@ type Well struct {
 	K float64
 	// Inflection is the stretch-side inflection point in Å, where V″
 	// changes sign beyond Re and the restoring force is largest; NaN when
-	// V″ > 0 at every r > Re (harmonic).
+	// V″ stays positive from Re out to about 2·10⁴·Re or the end of the
+	// domain (harmonic).
 	Inflection float64
 	// MaxForce is the largest restoring force on the stretch side,
 	// V′(Inflection), in eV/Å; NaN when there is no inflection.
@@ -197,12 +198,16 @@ func bracketAround(p Potential, g float64) (lo, hi float64, ok bool) {
 }
 
 // solve finds the root in [lo, hi] of V⁽ⁿ⁾, which has opposite signs at the
-// two ends, by Newton steps with V⁽ⁿ⁺¹⁾ safeguarded by bisection.
+// two ends, by Newton steps with V⁽ⁿ⁺¹⁾ safeguarded by bisection. When
+// V⁽ⁿ⁺¹⁾ is beyond p.MaxOrder(), every step is a bisection.
 func solve(p Potential, n int, lo, hi float64) (float64, error) {
-	buf := make([]float64, n+2)
+	buf := make([]float64, min(n+2, p.MaxOrder()+1))
 	x, err := Root(func(r float64) (float64, float64, error) {
 		if err := p.Derivatives(r, buf); err != nil {
 			return 0, 0, err
+		}
+		if len(buf) < n+2 {
+			return buf[n], math.NaN(), nil // Root bisects on a NaN step
 		}
 		return buf[n], buf[n+1], nil
 	}, lo, hi)
@@ -237,9 +242,6 @@ func inflection(p Potential, re float64) (r, force float64, err error) {
 	prev := re
 	for i, v := range f {
 		if v < 0 {
-			if p.MaxOrder() < 3 {
-				return math.NaN(), math.NaN(), nil
-			}
 			r, err := solve(p, 2, prev, rs[i])
 			if err != nil {
 				if errors.Is(err, ErrNoConvergence) {

@@ -168,3 +168,32 @@ func TestEquilibriumRejectsUnderflowedTail(t *testing.T) {
 	_, err := core.Equilibrium(repulsive{})
 	assert.ErrorIs(t, err, core.ErrNoMinimum)
 }
+
+// secondOrder hides every derivative above V″ of a potential.
+type secondOrder struct{ core.Potential }
+
+func (p secondOrder) Derivatives(r float64, dst []float64) error {
+	if len(dst) > 3 {
+		return core.CheckOrder(len(dst)-1, 2)
+	}
+	return p.Potential.Derivatives(r, dst)
+}
+
+func (p secondOrder) Batch(n int, r, dst []float64) error {
+	if err := core.CheckOrder(n, 2); err != nil {
+		return err
+	}
+	return p.Potential.Batch(n, r, dst)
+}
+
+func (secondOrder) MaxOrder() int { return 2 }
+
+func TestAnalyzeWellSecondOrderForm(t *testing.T) {
+	// Without V‴ the inflection is found by bisection on V″. Morse 1929:
+	// V″ vanishes at r = re + ln2/a.
+	const a, re = 1.87, 1.27
+	w, err := core.AnalyzeWell(secondOrder{build(t, "morse:De=4.6,a=1.87,re=1.27")}, core.WellSettings{Order: 2})
+	require.NoError(t, err)
+	assert.InEpsilon(t, re+math.Ln2/a, w.Inflection, 1e-13)
+	assert.InEpsilon(t, 4.6*a/2, w.MaxForce, 1e-13) // V′ = 2De·a·y(1 − y) at y = ½
+}
