@@ -28,6 +28,8 @@ baseline verify analyses the set again and reports every parameter and quantity
 whose relative change |new − old|/max(|old|, |new|) exceeds --rtol, and entries
 added to or removed from the set. Run it in CI to catch a change to a form or to
 pairwell that silently moves the physics.`,
+		Example: `  pairwell baseline record --set forms.toml -o forms.baseline.json
+  pairwell baseline verify --set forms.toml forms.baseline.json`,
 		Args: exactArgs(0, "a subcommand: record or verify"),
 		RunE: func(cmd *cobra.Command, args []string) error {
 			return usageErr(fmt.Errorf("baseline needs a subcommand: record or verify (see %s --help)", cmd.CommandPath()))

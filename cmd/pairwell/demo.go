@@ -83,6 +83,9 @@ k = %g eV/Å², μ = %g u — made-up numbers, not a real molecule):
 
 --format json emits one object with the keys scenario, compare, period,
 interpretation and caution; the pictures are then listed on stderr.`, demoBond.target.Re, demoBond.target.Depth, demoBond.target.K, demoBond.mu),
+		Example: `  pairwell demo
+  pairwell demo --out /tmp/pictures
+  pairwell demo --format json --no-pictures`,
 		Args: exactArgs(0, "no arguments"),
 		RunE: func(cmd *cobra.Command, args []string) error {
 			if e.format == "csv" {

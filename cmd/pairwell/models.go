@@ -55,6 +55,9 @@ func newModelsCmd(e *env) *cobra.Command {
 		Long: `models lists every form pairwell knows — the built-in ones and those served by
 plugins — with its formula, parameters (default unit and constraint), domain and
 literature reference. The KEY (or an alias) starts a spec: KEY:NAME=VALUE,...`,
+		Example: `  pairwell models
+  pairwell models --format json
+  pairwell --plugin ./pairwell-plugin-rydberg models     # with a plugin's forms`,
 		Args: exactArgs(0, "no arguments"),
 		RunE: func(cmd *cobra.Command, args []string) error {
 			var entries []modelEntry

@@ -77,9 +77,11 @@ func writeCSV(w io.Writer, t *table) error {
 	return cw.Error()
 }
 
-// writeJSON writes v indented, with a trailing newline.
+// writeJSON writes v indented, with a trailing newline. Text such as
+// "> 0" is written as is, not HTML-escaped to "\u003e 0".
 func writeJSON(w io.Writer, v any) error {
 	enc := json.NewEncoder(w)
+	enc.SetEscapeHTML(false)
 	enc.SetIndent("", "  ")
 	return enc.Encode(v)
 }

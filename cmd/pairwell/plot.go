@@ -45,6 +45,10 @@ grayscale. Curves that run off to ±∞ (truncations, Buckingham's collapse) are
 cut at the axis limits. The file is written atomically: a failed command
 leaves no partial file. Exit codes: 2 for bad input (unknown extension, empty
 range, an amplitude beyond the well), 1 when the file cannot be written.`,
+		Example: `  pairwell plot taylor morse:De=4.6,a=1.87,re=1.27 -o taylor.png
+  pairwell plot period morse:De=4.6,a=1.87,re=1.27 --pair H-Cl --method rk4 -o period.svg
+  pairwell plot compare morse:De=4.6,a=1.87,re=1.27 lj:epsilon=120K,sigma=3.4 --reduced -o compare.pdf
+  pairwell plot motion morse:De=4.6,a=1.87,re=1.27 --pair H-Cl --amplitude 0.5 -o motion.png`,
 		RunE: func(cmd *cobra.Command, args []string) error {
 			if len(args) > 0 {
 				return usageErr(fmt.Errorf("unknown plot %q: taylor, period, compare or motion (see %s --help)", args[0], cmd.CommandPath()))
