@@ -81,8 +81,10 @@ func TestDemoBadInput(t *testing.T) {
 	}
 }
 
-// BenchmarkDemo is the whole demo, in process, as a table.
+// BenchmarkDemo is the whole demo, in process, as a table, pictures
+// included; they go to a temporary directory, not the package directory.
 func BenchmarkDemo(b *testing.B) {
+	b.Chdir(b.TempDir())
 	for b.Loop() {
 		var out, errOut strings.Builder
 		if code := run([]string{"demo"}, strings.NewReader(""), &out, &errOut); code != 0 {

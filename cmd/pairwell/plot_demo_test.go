@@ -11,15 +11,6 @@ import (
 	"github.com/stretchr/testify/require"
 )
 
-// demoFolderExisted records, before any test runs, whether the default
-// demo folder was already in the package directory: the demo tests that
-// run the demo without --out create it, and TestPlotDemoZCleanup removes
-// it again unless it was there before.
-var demoFolderExisted = func() bool {
-	_, err := os.Stat(defaultDemoOut)
-	return err == nil
-}()
-
 var demoPictureFiles = []string{"compare.png", "motion.png", "period.png", "taylor.png"}
 
 func requireDemoPictures(t *testing.T, dir string) {
@@ -79,12 +70,4 @@ func TestPlotDemoUnwritable(t *testing.T) {
 	assert.Equal(t, 1, code)
 	assert.Contains(t, out, "What the numbers say", "the text comes first")
 	assert.True(t, strings.HasPrefix(errOut, "pairwell: demo pictures: --out"), errOut)
-}
-
-// TestPlotDemoZCleanup removes the default folder that the demo tests
-// running the demo without --out left in the package directory.
-func TestPlotDemoZCleanup(t *testing.T) {
-	if !demoFolderExisted {
-		require.NoError(t, os.RemoveAll(defaultDemoOut))
-	}
 }
