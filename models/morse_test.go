@@ -94,7 +94,8 @@ func TestMorseSpectroscopic(t *testing.T) {
 		kSI := c.mu * 1.66053906660e-27 * omega * omega
 		assert.InEpsilon(t, kSI/1.602176634e-19/1e20, k, 1e-12, "%s: k = μω²", c.name)
 	}
-	// H³⁵Cl: De ≈ 5.25 eV and k ≈ 516 N/m = 32.2 eV/Å² (textbook values).
+	// H³⁵Cl from the Huber & Herzberg constants above: De = ωe²/(4ωexe)
+	// ≈ 5.25 eV and k ≈ 516 N/m = 32.2 eV/Å², computed by hand.
 	ps, err := MorseFromSpectroscopic(2990.946, 52.8186, 1.27455, mH1*mCl35/(mH1+mCl35))
 	require.NoError(t, err)
 	assert.InDelta(t, 5.25, ps[0], 0.01)
