@@ -77,7 +77,7 @@ func newPeriodCmd(e *env) *cobra.Command {
 		method               string
 	)
 	cmd := &cobra.Command{
-		Use:   "period SPEC (--pair A-B | --mu M) (--amplitudes LIST|FROM:TO:COUNT | --energies LIST|FROM:TO:COUNT)",
+		Use:   "period SPEC (--pair A-B | --mu M) [--amplitudes LIST|FROM:TO:COUNT] [--energies LIST|FROM:TO:COUNT]",
 		Short: "Tabulate the vibration period against amplitude: exact, harmonic, perturbative (and measured)",
 		Long: `period computes, for each amplitude (or energy), the period of the classical
 vibration of the pair in the well of SPEC:
@@ -94,7 +94,9 @@ vibration of the pair in the well of SPEC:
 An amplitude x is a start at rest at r = re + x (positive stretches, negative
 compresses; Å unless a unit is given), so E = V(re + x) − V(re). --energies
 gives E directly (eV unless a unit is given, e.g. 300K, 1000cm-1); its
-amplitude column is then the stretch-side turning point r₊ − re.
+amplitude column is then the stretch-side turning point r₊ − re. At least
+one of --amplitudes and --energies is needed; with both, the amplitude rows
+come first.
 
 Values: a comma list (0.05,0.1,20pm) or FROM:TO:COUNT, evenly spaced with both
 ends included (-0.2:0.4:7). A row beyond the well (the pair dissociates, or
