@@ -214,8 +214,7 @@ func (p *Plugin) start(ctx context.Context) error {
 		if errors.Is(err, fs.ErrPermission) || errors.Is(err, fs.ErrNotExist) {
 			return fmt.Errorf("plugin %s: %w", p.path, err)
 		}
-		msg := strings.Join(strings.Fields(err.Error()), " ")
-		return fmt.Errorf("plugin %s: %w: %s%s", p.path, ErrHandshake, msg, p.stderr.quote())
+		return fmt.Errorf("plugin %s: %w: %s%s", p.path, ErrHandshake, oneLine(err.Error()), p.stderr.quote())
 	}
 	raw, err := rpc.Dispense(wire.PluginName)
 	if err != nil {
@@ -266,6 +265,20 @@ func (p *Plugin) start(ctx context.Context) error {
 		}
 	}
 	return nil
+}
+
+// oneLine joins the lines of a multi-line message with "; " (go-plugin's
+// start errors are several sentences on separate lines), dropping empty
+// lines and a line's trailing colon, and collapses runs of white space.
+func oneLine(msg string) string {
+	var parts []string
+	for _, l := range strings.Split(msg, "\n") {
+		l = strings.TrimSuffix(strings.Join(strings.Fields(l), " "), ":")
+		if l != "" {
+			parts = append(parts, l)
+		}
+	}
+	return strings.Join(parts, "; ")
 }
 
 // Path returns the absolute path of the executable.

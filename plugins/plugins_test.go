@@ -410,6 +410,17 @@ func TestHandshakeFailures(t *testing.T) {
 	require.ErrorIs(t, err, plugins.ErrHandshake)
 	assert.Contains(t, err.Error(), "hello")
 
+	// A program that closes its standard output without a word (and stays,
+	// so that it is the closed output, not the exit, that go-plugin sees):
+	// go-plugin's several lines become one message whose sentences stay
+	// apart. Load kills it.
+	silent := filepath.Join(dir, "pairwell-plugin-silent")
+	require.NoError(t, os.WriteFile(silent, []byte("#!/bin/sh\nexec >&-\nexec sleep 60\n"), 0o755))
+	_, err = plugins.Load(context.Background(), silent, plugins.Options{})
+	require.ErrorIs(t, err, plugins.ErrHandshake)
+	assert.NotContains(t, err.Error(), "\n")
+	assert.Contains(t, err.Error(), "stdout; "+silent+" is not a working pairwell plugin")
+
 	_, err = plugins.Load(context.Background(), filepath.Join(dir, "missing"), plugins.Options{})
 	assert.ErrorIs(t, err, fs.ErrNotExist)
 	plain := filepath.Join(dir, "plain")
