@@ -3,7 +3,8 @@
 // constant and harmonic frequency, anharmonic motion, and the range over
 // which the harmonic picture holds. Run "pairwell --help" for the commands.
 //
-// Exit codes: 0 success, 1 a computation or plugin failed, 2 bad input.
+// Exit codes: 0 success; 1 a computation, plugin or file operation failed
+// (for check and baseline verify also: a check failed); 2 bad input.
 package main
 
 import (

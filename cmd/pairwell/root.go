@@ -44,7 +44,8 @@ A potential is named by a spec KEY:NAME=VALUE[UNIT],...  for example
 A bare number is in the parameter's default unit ("pairwell models" lists them).
 
 Units: energy eV, length Å, mass u, time fs, wavenumber cm⁻¹ (CODATA 2018).
-Exit codes: 0 success, 1 a computation or plugin failed, 2 bad input.
+Exit codes: 0 success; 1 a computation, plugin or file operation failed (for
+check and baseline verify also: a check failed); 2 bad input.
 
 pairwell evaluates classical model potentials. A model is not a validated force
 field: do not base production or safety decisions on its numbers alone.`,
