@@ -159,7 +159,7 @@ func (p *BuckinghamPotential) polish(r float64) float64 {
 // (κ ≳ 4000) that A overflows is an error wrapping core.ErrParam.
 func (Buckingham) Match(t core.Target) ([]float64, []string, error) {
 	if !positive(t.Re) || !positive(t.Depth) || !positive(t.K) {
-		return nil, nil, fmt.Errorf("%s: %w: matching needs re, Depth and K, all > 0 (got re = %g Å, Depth = %g eV, K = %g eV/Å²)",
+		return nil, nil, fmt.Errorf("%s: %w: matching needs re, De and k, all > 0 (got re = %g Å, De = %g eV, k = %g eV/Å²)",
 			buckinghamKey, core.ErrParam, t.Re, t.Depth, t.K)
 	}
 	kappa := t.K * t.Re * t.Re / t.Depth
@@ -172,11 +172,11 @@ func (Buckingham) Match(t core.Target) ([]float64, []string, error) {
 	A := 6 * t.Depth * u / (1 - 6*u) * math.Exp(1/u)
 	params := []float64{A, rho, C}
 	if !finite(A) || !finite(C) || !positive(rho) {
-		return nil, nil, fmt.Errorf("%s: %w: target re = %g Å, Depth = %g eV, K = %g eV/Å² (K·re²/Depth = %g) needs A = %g, rho = %g, C = %g: out of float64 range",
+		return nil, nil, fmt.Errorf("%s: %w: target re = %g Å, De = %g eV, k = %g eV/Å² (k·re²/De = %g) needs A = %g, rho = %g, C = %g: out of float64 range",
 			buckinghamKey, core.ErrParam, t.Re, t.Depth, t.K, kappa, A, rho, C)
 	}
 	if _, err := (Buckingham{}).New(params); err != nil {
-		return nil, nil, fmt.Errorf("%s: %w: target re = %g Å, Depth = %g eV, K = %g eV/Å² gives an unusable set: %w",
+		return nil, nil, fmt.Errorf("%s: %w: target re = %g Å, De = %g eV, k = %g eV/Å² gives an unusable set: %w",
 			buckinghamKey, core.ErrParam, t.Re, t.Depth, t.K, err)
 	}
 	return params, nil, nil

@@ -60,12 +60,12 @@ func NewHarmonic(k, r0 float64) (*HarmonicPotential, error) {
 // a target Depth is not honoured (a note says so).
 func (Harmonic) Match(t core.Target) ([]float64, []string, error) {
 	if !positive(t.Re) || !positive(t.K) {
-		return nil, nil, fmt.Errorf("%s: %w: matching needs re > 0 and K > 0 (got re = %g Å, K = %g eV/Å²)",
+		return nil, nil, fmt.Errorf("%s: %w: matching needs re > 0 and k > 0 (got re = %g Å, k = %g eV/Å²)",
 			harmonicKey, core.ErrParam, t.Re, t.K)
 	}
 	var notes []string
 	if t.Depth != 0 {
-		notes = append(notes, fmt.Sprintf("Depth = %g eV not honoured: the harmonic well grows without bound and has no dissociation limit", t.Depth))
+		notes = append(notes, fmt.Sprintf("De = %g eV not honoured: the harmonic well grows without bound and has no dissociation limit", t.Depth))
 	}
 	return []float64{t.K, t.Re}, notes, nil
 }

@@ -44,7 +44,7 @@ func TestHarmonicMatch(t *testing.T) {
 	_, notes, err = Harmonic{}.Match(core.Target{Re: 1, Depth: 2, K: 3})
 	require.NoError(t, err)
 	require.Len(t, notes, 1)
-	assert.Contains(t, notes[0], "Depth")
+	assert.Contains(t, notes[0], "De =")
 
 	for _, tg := range []core.Target{{Re: 1}, {K: 1}, {Re: 1, K: -1}} {
 		_, _, err := Harmonic{}.Match(tg)

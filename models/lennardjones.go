@@ -76,7 +76,7 @@ func newLJ(eps, sigma float64) *LennardJonesPotential {
 // too; given K alone, ε = K·re²/72 = Kσ²/(36·2^{2/3}), with a note.
 func (LennardJones) Match(t core.Target) ([]float64, []string, error) {
 	if !positive(t.Re) || !(t.Depth >= 0 && finite(t.Depth)) || !(t.K >= 0 && finite(t.K)) || (t.Depth == 0 && t.K == 0) {
-		return nil, nil, fmt.Errorf("%s: %w: matching needs re > 0 and Depth > 0 or K > 0 (got re = %g Å, Depth = %g eV, K = %g eV/Å²)",
+		return nil, nil, fmt.Errorf("%s: %w: matching needs re > 0 and De > 0 or k > 0 (got re = %g Å, De = %g eV, k = %g eV/Å²)",
 			ljKey, core.ErrParam, t.Re, t.Depth, t.K)
 	}
 	sigma := t.Re / ljRmin
@@ -85,12 +85,12 @@ func (LennardJones) Match(t core.Target) ([]float64, []string, error) {
 	if t.Depth > 0 {
 		if t.K > 0 {
 			k := 72 * eps / (t.Re * t.Re)
-			notes = append(notes, fmt.Sprintf("K not honoured: Lennard-Jones with this re and Depth has V″(re) = 72ε/re² = %.6g eV/Å², %+.3g%% from the target %.6g eV/Å²",
+			notes = append(notes, fmt.Sprintf("k not honoured: Lennard-Jones with this re and De has V″(re) = 72ε/re² = %.6g eV/Å², %+.3g%% from the target %.6g eV/Å²",
 				k, 100*(k-t.K)/t.K, t.K))
 		}
 	} else {
 		eps = t.K * t.Re * t.Re / 72
-		notes = append(notes, fmt.Sprintf("Depth not given: ε = K·re²/72 = Kσ²/(36·2^(2/3)) = %.6g eV from K", eps))
+		notes = append(notes, fmt.Sprintf("De not given: ε = k·re²/72 = kσ²/(36·2^(2/3)) = %.6g eV from k", eps))
 	}
 	return []float64{eps, sigma}, notes, nil
 }

@@ -53,7 +53,7 @@ func TestLJMatch(t *testing.T) {
 	assert.InEpsilon(t, tg.Re, re, 1e-12)
 	assert.InEpsilon(t, tg.Depth, depth, 1e-12)
 	require.Len(t, notes, 1)
-	assert.Contains(t, notes[0], "K not honoured")
+	assert.Contains(t, notes[0], "k not honoured")
 	assert.InEpsilon(t, 72*tg.Depth/(tg.Re*tg.Re), k, 1e-12)
 
 	// (re, Depth) without K: no note.

@@ -68,7 +68,7 @@ func newMorse(De, a, re float64) *MorsePotential {
 // must be given.
 func (Morse) Match(t core.Target) ([]float64, []string, error) {
 	if !positive(t.Re) || !positive(t.Depth) || !positive(t.K) {
-		return nil, nil, fmt.Errorf("%s: %w: matching needs re, Depth and K, all > 0 (got re = %g Å, Depth = %g eV, K = %g eV/Å²)",
+		return nil, nil, fmt.Errorf("%s: %w: matching needs re, De and k, all > 0 (got re = %g Å, De = %g eV, k = %g eV/Å²)",
 			morseKey, core.ErrParam, t.Re, t.Depth, t.K)
 	}
 	return []float64{t.Depth, math.Sqrt(t.K / (2 * t.Depth)), t.Re}, nil, nil

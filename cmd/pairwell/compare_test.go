@@ -139,7 +139,7 @@ func TestCompareMatch(t *testing.T) {
 	assert.InEpsilon(t, 72*4/(1.2*1.2), lj["force_constant_ev_per_angstrom2"], 1e-9)
 	require.Contains(t, lj, "notes")
 	assert.Contains(t, fmt.Sprint(lj["notes"]), "+567%")
-	assert.Contains(t, fmt.Sprint(byModel["harmonic"]["notes"]), "Depth")
+	assert.Contains(t, fmt.Sprint(byModel["harmonic"]["notes"]), "De =")
 	// Morse matched exactly: a = √(k/(2De)) (closed form).
 	p := byModel["morse"]["params"].(map[string]any)
 	assert.InEpsilon(t, math.Sqrt(30/8.0), p["a"], 1e-12)

@@ -127,6 +127,13 @@ JSON values are in eV, Å, u and fs, whatever the input units.`,
 	return cmd
 }
 
+// Bounds on the length of a run, so that a typo cannot start a run that
+// never ends: 10⁵ periods of 10⁷ steps each is already far beyond any use.
+const (
+	maxPeriods        = 100_000
+	maxStepsPerPeriod = 10_000_000
+)
+
 // checkMotionFlags rejects flags that do not apply to the method or are out
 // of range.
 func checkMotionFlags(cmd *cobra.Command, s motion.Settings) error {
@@ -139,10 +146,10 @@ func checkMotionFlags(cmd *cobra.Command, s motion.Settings) error {
 		return usageErr(fmt.Errorf("--rtol and --atol apply to --method dopri only; %s takes a fixed step (set --steps-per-period)", s.Method))
 	}
 	switch {
-	case s.Periods < 1:
-		return usageErr(fmt.Errorf("--periods %d: must be at least 1", s.Periods))
-	case s.StepsPerPeriod < 0 || (changed("steps-per-period") && s.StepsPerPeriod < 4):
-		return usageErr(fmt.Errorf("--steps-per-period %d: must be at least 4", s.StepsPerPeriod))
+	case s.Periods < 1 || s.Periods > maxPeriods:
+		return usageErr(fmt.Errorf("--periods %d: must be from 1 to %d", s.Periods, maxPeriods))
+	case s.StepsPerPeriod < 0 || (changed("steps-per-period") && (s.StepsPerPeriod < 4 || s.StepsPerPeriod > maxStepsPerPeriod)):
+		return usageErr(fmt.Errorf("--steps-per-period %d: must be from 4 to %d", s.StepsPerPeriod, maxStepsPerPeriod))
 	case changed("rtol") && !(s.RTol > 0 && s.RTol < 1):
 		return usageErr(fmt.Errorf("--rtol %g: must be in (0, 1)", s.RTol))
 	case changed("atol") && !(s.ATol > 0 && s.ATol < 1):

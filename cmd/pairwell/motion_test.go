@@ -198,8 +198,10 @@ func TestMotionBadInput(t *testing.T) {
 		{"energy in Å", []string{morse, "--pair", "H-Cl", "--energy", "1A"}, "energy"},
 		{"steps for dopri", []string{morse, "--pair", "H-Cl", "--amplitude", "0.1", "--steps-per-period", "100"}, "dopri adapts its step"},
 		{"rtol for rk4", []string{morse, "--pair", "H-Cl", "--amplitude", "0.1", "--method", "rk4", "--rtol", "1e-6"}, "dopri only"},
-		{"too few steps", []string{morse, "--pair", "H-Cl", "--amplitude", "0.1", "--method", "rk4", "--steps-per-period", "2"}, "at least 4"},
-		{"zero periods", []string{morse, "--pair", "H-Cl", "--amplitude", "0.1", "--periods", "0"}, "at least 1"},
+		{"too few steps", []string{morse, "--pair", "H-Cl", "--amplitude", "0.1", "--method", "rk4", "--steps-per-period", "2"}, "from 4 to"},
+		{"too many steps", []string{morse, "--pair", "H-Cl", "--amplitude", "0.1", "--method", "rk4", "--steps-per-period", "100000000"}, "from 4 to"},
+		{"zero periods", []string{morse, "--pair", "H-Cl", "--amplitude", "0.1", "--periods", "0"}, "from 1 to"},
+		{"too many periods", []string{morse, "--pair", "H-Cl", "--amplitude", "0.1", "--periods", "1000000000"}, "from 1 to"},
 		{"rtol out of range", []string{morse, "--pair", "H-Cl", "--amplitude", "0.1", "--rtol", "2"}, "(0, 1)"},
 		{"no spec", []string{"--pair", "H-Cl", "--amplitude", "0.1"}, "takes SPEC"},
 	}

@@ -25,6 +25,10 @@ type plotReport struct {
 	Notes  []string `json:"notes"`
 }
 
+// maxPlotPeriods bounds --periods of the plots: every step of a run is
+// kept for the picture, and a thousand periods are already unreadable.
+const maxPlotPeriods = 1000
+
 func newPlotCmd(e *env) *cobra.Command {
 	cmd := &cobra.Command{
 		Use:   "plot (taylor | period | compare | motion) ... -o FILE",
@@ -286,8 +290,8 @@ well is bad input.`,
 			} else if cmd.Flags().Changed("periods") {
 				return usageErr(errors.New("--periods applies to the measured points: name an integrator with --method"))
 			}
-			if periods < 1 {
-				return usageErr(fmt.Errorf("--periods %d: must be at least 1", periods))
+			if periods < 1 || periods > maxPlotPeriods {
+				return usageErr(fmt.Errorf("--periods %d: must be from 1 to %d", periods, maxPlotPeriods))
 			}
 			inst, err := e.build(args[0])
 			if err != nil {
@@ -436,8 +440,8 @@ same way. The title gives the measured, exact and harmonic periods.`,
 			if err != nil {
 				return usageErr(fmt.Errorf("--method: %w", err))
 			}
-			if periods < 1 {
-				return usageErr(fmt.Errorf("--periods %d: must be at least 1", periods))
+			if periods < 1 || periods > maxPlotPeriods {
+				return usageErr(fmt.Errorf("--periods %d: must be from 1 to %d", periods, maxPlotPeriods))
 			}
 			inst, err := e.build(args[0])
 			if err != nil {

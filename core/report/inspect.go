@@ -71,7 +71,10 @@ func (p Params) String() string {
 		if i > 0 {
 			b.WriteString(", ")
 		}
-		fmt.Fprintf(&b, "%s=%.10g %s", n, p.Values[i], p.Units[i])
+		fmt.Fprintf(&b, "%s=%.10g", n, p.Values[i])
+		if p.Units[i] != "" {
+			b.WriteString(" " + p.Units[i])
+		}
 	}
 	return b.String()
 }

@@ -60,7 +60,7 @@ func (m Rydberg) New(params []float64) (core.Potential, error) {
 // honours all three quantities exactly.
 func (Rydberg) Match(t core.Target) ([]float64, []string, error) {
 	if !(t.Re > 0 && t.Depth > 0 && t.K > 0) || math.IsInf(t.Re+t.Depth+t.K, 0) {
-		return nil, nil, fmt.Errorf("%s: %w: matching needs re, Depth and K, all finite and > 0 (got re = %g Å, Depth = %g eV, K = %g eV/Å²)",
+		return nil, nil, fmt.Errorf("%s: %w: matching needs re, De and k, all finite and > 0 (got re = %g Å, De = %g eV, k = %g eV/Å²)",
 			key, core.ErrParam, t.Re, t.Depth, t.K)
 	}
 	return []float64{t.Depth, math.Sqrt(t.K / t.Depth), t.Re}, nil, nil
