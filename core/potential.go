@@ -111,9 +111,9 @@ func (e *PointError) Unwrap() error { return e.Err }
 func CheckR(d Domain, r float64) error {
 	if !d.Contains(r) {
 		if d.Barrier {
-			return fmt.Errorf("r = %g Å: %w (%g Å, %g Å): below %g Å the form turns over and collapses", r, ErrDomain, d.Min, d.Max, d.Min)
+			return fmt.Errorf("r = %.10g Å: %w (%.10g Å, %g Å): below %.10g Å the form turns over and collapses", r, ErrDomain, d.Min, d.Max, d.Min)
 		}
-		return fmt.Errorf("r = %g Å: %w (%g Å, %g Å)", r, ErrDomain, d.Min, d.Max)
+		return fmt.Errorf("r = %.10g Å: %w (%.10g Å, %g Å)", r, ErrDomain, d.Min, d.Max)
 	}
 	return nil
 }

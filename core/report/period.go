@@ -178,8 +178,8 @@ func amplitudeEnergies(p core.Potential, w core.Well, xs []float64, energy []flo
 	for i, x := range xs {
 		energy[i] = math.NaN()
 		r := w.Re + x
-		if err := core.CheckR(d, r); err != nil || math.IsNaN(x) {
-			rowErr[i] = fmt.Errorf("amplitude %g Å puts r = %g Å outside the domain: %w", x, r, core.CheckR(d, r))
+		if err := core.CheckR(d, r); err != nil {
+			rowErr[i] = fmt.Errorf("amplitude %g Å: %w", x, err)
 			continue
 		}
 		idx = append(idx, i)
