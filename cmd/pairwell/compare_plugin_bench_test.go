@@ -3,12 +3,11 @@ package main
 import (
 	"context"
 	"strings"
-	"sync/atomic"
 	"testing"
 
 	"github.com/stretchr/testify/require"
 
-	"github.com/pairwell/pairwell/core"
+	"github.com/pairwell/pairwell/core/coretest"
 	"github.com/pairwell/pairwell/core/report"
 	"github.com/pairwell/pairwell/models"
 	"github.com/pairwell/pairwell/plugins"
@@ -18,61 +17,9 @@ import (
 // plugin.
 var pluginFourSpecs = append([]string{"plugin-morse:De=4.6,a=1.87,re=1.27"}, fourSpecs[1:]...)
 
-// counting is a potential that counts the calls to Derivatives and Batch
-// of the potential it wraps.
-type counting struct {
-	core.Potential
-	derivatives, batch atomic.Int64
-}
-
-func (c *counting) Derivatives(r float64, dst []float64) error {
-	c.derivatives.Add(1)
-	return c.Potential.Derivatives(r, dst)
-}
-
-func (c *counting) Batch(n int, r, dst []float64) error {
-	c.batch.Add(1)
-	return c.Potential.Batch(n, r, dst)
-}
-
-// countingGuess keeps the optional interfaces of the wrapped potential.
-type countingGuess struct{ *counting }
-
-func (c countingGuess) EquilibriumGuess() float64 {
-	return c.Potential.(core.Guesser).EquilibriumGuess()
-}
-
-type countingTurnover struct{ *counting }
-
-func (c countingTurnover) Barrier() (r, v float64) { return c.Potential.(core.Turnover).Barrier() }
-
-type countingBoth struct{ *counting }
-
-func (c countingBoth) EquilibriumGuess() float64 {
-	return c.Potential.(core.Guesser).EquilibriumGuess()
-}
-func (c countingBoth) Barrier() (r, v float64) { return c.Potential.(core.Turnover).Barrier() }
-
-// wrapCounting returns p wrapped in a counter, as a potential with the
-// same optional interfaces.
-func wrapCounting(p core.Potential) (core.Potential, *counting) {
-	c := &counting{Potential: p}
-	_, g := p.(core.Guesser)
-	_, t := p.(core.Turnover)
-	switch {
-	case g && t:
-		return countingBoth{c}, c
-	case g:
-		return countingGuess{c}, c
-	case t:
-		return countingTurnover{c}, c
-	}
-	return c, c
-}
-
 // pluginCompareInputs loads the test plugin and returns the compare inputs
 // of pluginFourSpecs, the plugin form wrapped in a counter.
-func pluginCompareInputs(tb testing.TB) ([]report.CompareInput, *counting) {
+func pluginCompareInputs(tb testing.TB) ([]report.CompareInput, *coretest.Counting) {
 	tb.Helper()
 	if pluginBin.buildErr != nil {
 		tb.Fatal(pluginBin.buildErr)
@@ -85,12 +32,12 @@ func pluginCompareInputs(tb testing.TB) ([]report.CompareInput, *counting) {
 		require.NoError(tb, reg.Add(m))
 	}
 	var inputs []report.CompareInput
-	var cnt *counting
+	var cnt *coretest.Counting
 	for _, s := range pluginFourSpecs {
 		inst, err := reg.Build(s)
 		require.NoError(tb, err)
 		if strings.HasPrefix(s, "plugin-") {
-			inst.Potential, cnt = wrapCounting(inst.Potential)
+			inst.Potential, cnt = coretest.Count(inst.Potential)
 		}
 		inputs = append(inputs, report.CompareInput{Name: inst.Model.Info().Key, Instance: inst, Mass: report.Mass{Mu: 0.9797}})
 	}
@@ -106,8 +53,8 @@ func TestComparePluginCalls(t *testing.T) {
 	for _, r := range rows {
 		require.NoError(t, r.Err, r.Name)
 	}
-	calls := cnt.derivatives.Load() + cnt.batch.Load()
-	t.Logf("plugin form: %d Derivatives and %d Batch calls", cnt.derivatives.Load(), cnt.batch.Load())
+	calls := cnt.Calls()
+	t.Logf("plugin form: %d Derivatives and %d Batch calls", cnt.Derivs.Load(), cnt.Batches.Load())
 	require.Less(t, calls, int64(250), "calls to the plugin for one compare row (over 6000 when the solves went point by point)")
 }
 
@@ -142,6 +89,6 @@ func BenchmarkComparePlugin(b *testing.B) {
 				b.Fatal(err)
 			}
 		}
-		b.ReportMetric(float64(cnt.derivatives.Load()+cnt.batch.Load())/float64(b.N), "calls/op")
+		b.ReportMetric(float64(cnt.Calls())/float64(b.N), "calls/op")
 	})
 }

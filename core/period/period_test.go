@@ -3,44 +3,21 @@ package period
 import (
 	"errors"
 	"math"
-	"sync/atomic"
 	"testing"
 
 	"github.com/stretchr/testify/assert"
 	"github.com/stretchr/testify/require"
 
 	"github.com/pairwell/pairwell/core"
+	"github.com/pairwell/pairwell/core/coretest"
 	"github.com/pairwell/pairwell/models"
+	"github.com/pairwell/pairwell/models/modelstest"
 )
 
 // form is a built-in potential with its well.
-type form struct {
-	name string
-	p    core.Potential
-	w    core.Well
-}
+type form = modelstest.Form
 
-func newForm(t testing.TB, name string, m core.Model, params []float64) form {
-	t.Helper()
-	p, err := m.New(params)
-	require.NoError(t, err)
-	w, err := core.AnalyzeWell(p, core.WellSettings{})
-	require.NoError(t, err)
-	return form{name, p, w}
-}
-
-// forms returns the four built-in forms, Buckingham matched to an invented
-// bond (re = 1.2 Å, De = 4 eV, k = 30 eV/Å²).
-func forms(t testing.TB) []form {
-	bk, _, err := models.Buckingham{}.Match(core.Target{Re: 1.2, Depth: 4, K: 30})
-	require.NoError(t, err)
-	return []form{
-		newForm(t, "morse", models.Morse{}, []float64{4.4, 1.9, 1.27}),
-		newForm(t, "lj", models.LennardJones{}, []float64{0.0104, 3.4}),
-		newForm(t, "buckingham", models.Buckingham{}, bk),
-		newForm(t, "harmonic", models.Harmonic{}, []float64{30, 1.2}),
-	}
-}
+func forms(t testing.TB) []form { return modelstest.Forms(t) }
 
 const mu = 0.9797 // u, about H-Cl
 
@@ -50,14 +27,14 @@ const mu = 0.9797 // u, about H-Cl
 // x± = −ln(1 ∓ √(E/De))/a.
 func TestMorseClosedForm(t *testing.T) {
 	const de, a, re = 4.4, 1.9, 1.27
-	f := newForm(t, "morse", models.Morse{}, []float64{de, a, re})
-	t0, err := Harmonic(f.w, mu)
+	f := modelstest.NewForm(t, "morse", models.Morse{}, []float64{de, a, re})
+	t0, err := Harmonic(f.W, mu)
 	require.NoError(t, err)
 	in, err := NewIntegrator(Settings{})
 	require.NoError(t, err)
 	for _, frac := range []float64{1e-7, 1e-5, 1e-4, 1e-3, 0.01, 0.1, 0.3, 0.5, 0.7, 0.9, 0.99} {
 		E := frac * de
-		r, err := in.Exact(f.p, f.w, mu, E)
+		r, err := in.Exact(f.P, f.W, mu, E)
 		require.NoError(t, err, "E/De = %g", frac)
 		want := t0 / math.Sqrt(1-frac)
 		rel := math.Abs(r.Period/want - 1)
@@ -75,15 +52,15 @@ func TestMorseClosedForm(t *testing.T) {
 // TestHarmonicForm: in V = ½k(r − r0)² the period is 2π√(μ/k) at every
 // amplitude (the isochronous oscillator).
 func TestHarmonicForm(t *testing.T) {
-	f := newForm(t, "harmonic", models.Harmonic{}, []float64{30, 1.2})
-	t0, err := Harmonic(f.w, mu)
+	f := modelstest.NewForm(t, "harmonic", models.Harmonic{}, []float64{30, 1.2})
+	t0, err := Harmonic(f.W, mu)
 	require.NoError(t, err)
 	// A well with Taylor coefficients only up to c₂ is always integrated.
-	w2, err := core.AnalyzeWell(f.p, core.WellSettings{Order: 2})
+	w2, err := core.AnalyzeWell(f.P, core.WellSettings{Order: 2})
 	require.NoError(t, err)
-	for _, w := range []core.Well{f.w, w2} {
+	for _, w := range []core.Well{f.W, w2} {
 		for _, E := range []float64{1e-12, 1e-6, 1e-3, 0.1, 1, 10, 21} {
-			r, err := Exact(f.p, w, mu, E, Settings{})
+			r, err := Exact(f.P, w, mu, E, Settings{})
 			require.NoError(t, err, "E = %g eV", E)
 			assert.InEpsilon(t, t0, r.Period, 1e-12, "E = %g eV, Taylor order %d", E, len(w.Taylor)-1)
 			assert.False(t, r.SmallAmplitude, "E = %g eV", E)
@@ -91,7 +68,7 @@ func TestHarmonicForm(t *testing.T) {
 	}
 	// k = 30 eV/Å², μ = 1 u: T₀ = 2π/(√30 · 0.0982269 rad/fs) ≈ 11.679 fs
 	// (ω for k = μ = 1 from the units package documentation).
-	t1, err := Harmonic(f.w, 1)
+	t1, err := Harmonic(f.W, 1)
 	require.NoError(t, err)
 	assert.InDelta(t, 11.679, t1, 1e-3)
 }
@@ -105,14 +82,14 @@ func TestHarmonicForm(t *testing.T) {
 // whose relative size is ≈ 25·E/De for that Buckingham well.
 func TestSmallEnergyLimit(t *testing.T) {
 	for _, f := range forms(t) {
-		if !f.w.Bounded() {
+		if !f.W.Bounded() {
 			continue
 		}
-		t.Run(f.name, func(t *testing.T) {
-			t0, err := Harmonic(f.w, mu)
+		t.Run(f.Name, func(t *testing.T) {
+			t0, err := Harmonic(f.W, mu)
 			require.NoError(t, err)
 			shift := func(frac float64, small bool) float64 {
-				r, err := Exact(f.p, f.w, mu, frac*f.w.Depth, Settings{})
+				r, err := Exact(f.P, f.W, mu, frac*f.W.Depth, Settings{})
 				require.NoError(t, err)
 				if !small {
 					assert.False(t, r.SmallAmplitude, "quadrature at E/depth = %g", frac)
@@ -123,13 +100,13 @@ func TestSmallEnergyLimit(t *testing.T) {
 			assert.Less(t, math.Abs(s6), 1e-5, "relative difference from the harmonic period at E = 1e-6 depth")
 			assert.InEpsilon(t, 10, s4/s5, 5e-3, "T/T₀ − 1 scales as E")
 			assert.InEpsilon(t, 10, s5/s6, 5e-4, "T/T₀ − 1 scales as E")
-			d, err := PerturbativeShift(f.w, 1e-5*f.w.Depth)
+			d, err := PerturbativeShift(f.W, 1e-5*f.W.Depth)
 			require.NoError(t, err)
 			assert.InEpsilon(t, -d, s5, 5e-4, "first-order coefficient")
-			zero, err := Exact(f.p, f.w, mu, 0, Settings{})
+			zero, err := Exact(f.P, f.W, mu, 0, Settings{})
 			require.NoError(t, err)
 			assert.Equal(t, t0, zero.Period)
-			assert.Equal(t, f.w.Re, zero.Inner)
+			assert.Equal(t, f.W.Re, zero.Inner)
 		})
 	}
 }
@@ -140,17 +117,17 @@ func TestSmallEnergyLimit(t *testing.T) {
 // (1e-14 relative).
 func TestPerturbativeMorse(t *testing.T) {
 	const de = 4.4
-	f := newForm(t, "morse", models.Morse{}, []float64{de, 1.9, 1.27})
-	t0, err := Harmonic(f.w, mu)
+	f := modelstest.NewForm(t, "morse", models.Morse{}, []float64{de, 1.9, 1.27})
+	t0, err := Harmonic(f.W, mu)
 	require.NoError(t, err)
 	for _, frac := range []float64{0, 1e-6, 0.01, 0.1, 0.5, 0.9} {
-		got, err := Perturbative(f.w, mu, frac*de)
+		got, err := Perturbative(f.W, mu, frac*de)
 		require.NoError(t, err)
 		assert.InEpsilon(t, t0/(1-frac/2), got, 1e-14, "E/De = %g", frac)
 	}
-	_, err = Perturbative(f.w, mu, 2.5*de)
+	_, err = Perturbative(f.W, mu, 2.5*de)
 	assert.ErrorIs(t, err, core.ErrDomain, "ω ≤ 0")
-	short := f.w
+	short := f.W
 	short.Taylor = short.Taylor[:4]
 	_, err = Perturbative(short, mu, 0.1)
 	assert.ErrorIs(t, err, core.ErrOrder)
@@ -159,8 +136,8 @@ func TestPerturbativeMorse(t *testing.T) {
 func TestErrors(t *testing.T) {
 	fs := forms(t)
 	morse, lj, bk, harm := fs[0], fs[1], fs[2], fs[3]
-	_, vb := bk.p.(core.Turnover).Barrier()
-	barrier := vb - bk.w.Energy
+	_, vb := bk.P.(core.Turnover).Barrier()
+	barrier := vb - bk.W.Energy
 	tests := []struct {
 		name string
 		f    form
@@ -179,16 +156,16 @@ func TestErrors(t *testing.T) {
 	}
 	for _, tt := range tests {
 		t.Run(tt.name, func(t *testing.T) {
-			_, err := Exact(tt.f.p, tt.f.w, tt.mu, tt.E, Settings{})
+			_, err := Exact(tt.f.P, tt.f.W, tt.mu, tt.E, Settings{})
 			require.Error(t, err)
 			assert.ErrorIs(t, err, tt.want)
 			assert.Contains(t, err.Error(), tt.text)
 		})
 	}
 	// Below the barrier the Buckingham oscillation exists.
-	r, err := Exact(bk.p, bk.w, mu, barrier*0.999, Settings{})
+	r, err := Exact(bk.P, bk.W, mu, barrier*0.999, Settings{})
 	require.NoError(t, err)
-	assert.Greater(t, r.Inner, bk.p.Domain().Min)
+	assert.Greater(t, r.Inner, bk.P.Domain().Min)
 	_, err = NewIntegrator(Settings{Tolerance: -1})
 	assert.ErrorIs(t, err, core.ErrParam)
 	_, err = NewIntegrator(Settings{MinNodes: 64, MaxNodes: 100})
@@ -199,7 +176,7 @@ func TestErrors(t *testing.T) {
 // with the result still filled in.
 func TestNoConvergence(t *testing.T) {
 	f := forms(t)[0]
-	r, err := Exact(f.p, f.w, mu, 0.999*f.w.Depth, Settings{MinNodes: 2, MaxNodes: 4})
+	r, err := Exact(f.P, f.W, mu, 0.999*f.W.Depth, Settings{MinNodes: 2, MaxNodes: 4})
 	require.Error(t, err)
 	assert.True(t, errors.Is(err, core.ErrNoConvergence))
 	assert.Greater(t, r.Period, 0.0)
@@ -212,14 +189,14 @@ func TestSweep(t *testing.T) {
 	var calls []int
 	in, err := NewIntegrator(Settings{})
 	require.NoError(t, err)
-	res, errs := in.Sweep(f.p, f.w, mu, energies, func(done, total int) {
+	res, errs := in.Sweep(f.P, f.W, mu, energies, func(done, total int) {
 		assert.Equal(t, len(energies), total)
 		calls = append(calls, done)
 	})
 	require.Len(t, res, len(energies))
 	assert.Equal(t, []int{1, 2, 3, 4, 5, 6, 7}, calls)
 	for i, E := range energies {
-		want, wantErr := in.Exact(f.p, f.w, mu, E)
+		want, wantErr := in.Exact(f.P, f.W, mu, E)
 		if wantErr != nil {
 			assert.Error(t, errs[i], "row %d", i)
 			continue
@@ -227,18 +204,18 @@ func TestSweep(t *testing.T) {
 		require.NoError(t, errs[i], "row %d", i)
 		assert.Equal(t, want, res[i], "row %d", i)
 	}
-	_, errs = Sweep(f.p, f.w, mu, energies, Settings{MaxNodes: 1}, nil)
+	_, errs = Sweep(f.P, f.W, mu, energies, Settings{MaxNodes: 1}, nil)
 	assert.ErrorIs(t, errs[0], core.ErrParam)
 }
 
 // BenchmarkExactPeriod is one Morse period at E = 0.3 De to 1e-10
 // relative.
 func BenchmarkExactPeriod(b *testing.B) {
-	f := newForm(b, "morse", models.Morse{}, []float64{4.4, 1.9, 1.27})
+	f := modelstest.NewForm(b, "morse", models.Morse{}, []float64{4.4, 1.9, 1.27})
 	in, err := NewIntegrator(Settings{Tolerance: 1e-10})
 	require.NoError(b, err)
 	for b.Loop() {
-		if _, err := in.Exact(f.p, f.w, mu, 1.32); err != nil {
+		if _, err := in.Exact(f.P, f.W, mu, 1.32); err != nil {
 			b.Fatal(err)
 		}
 	}
@@ -252,12 +229,12 @@ func BenchmarkSweep(b *testing.B) {
 	grids := make([][]float64, len(fs))
 	for i, f := range fs {
 		top := 10.0
-		if f.w.Bounded() {
-			top = f.w.Depth
+		if f.W.Bounded() {
+			top = f.W.Depth
 		}
-		if t, ok := f.p.(core.Turnover); ok {
+		if t, ok := f.P.(core.Turnover); ok {
 			_, vb := t.Barrier()
-			top = min(top, vb-f.w.Energy)
+			top = min(top, vb-f.W.Energy)
 		}
 		for k := 1; k <= 1000; k++ {
 			grids[i] = append(grids[i], 0.95*top*float64(k)/1000)
@@ -267,7 +244,7 @@ func BenchmarkSweep(b *testing.B) {
 	require.NoError(b, err)
 	for b.Loop() {
 		for i, f := range fs {
-			_, errs := in.Sweep(f.p, f.w, mu, grids[i], nil)
+			_, errs := in.Sweep(f.P, f.W, mu, grids[i], nil)
 			for _, err := range errs {
 				if err != nil {
 					b.Fatal(err)
@@ -277,46 +254,30 @@ func BenchmarkSweep(b *testing.B) {
 	}
 }
 
-// counting counts the calls to a potential.
-type counting struct {
-	core.Potential
-	derivatives, batch atomic.Int64
-}
-
-func (c *counting) Derivatives(r float64, dst []float64) error {
-	c.derivatives.Add(1)
-	return c.Potential.Derivatives(r, dst)
-}
-
-func (c *counting) Batch(n int, r, dst []float64) error {
-	c.batch.Add(1)
-	return c.Potential.Batch(n, r, dst)
-}
-
 // TestBatchedCalls: a potential in another process costs a round trip per
 // call, so a sweep of many energies makes a few tens of calls in all, not
 // tens per energy, and a single period about fifteen.
 func TestBatchedCalls(t *testing.T) {
 	f := forms(t)[0]
-	c := &counting{Potential: f.p}
+	c := &coretest.Counting{Potential: f.P}
 	var energies []float64
 	for k := 1; k <= 200; k++ {
-		energies = append(energies, 0.9*f.w.Depth*float64(k)/200)
+		energies = append(energies, 0.9*f.W.Depth*float64(k)/200)
 	}
 	in, err := NewIntegrator(Settings{})
 	require.NoError(t, err)
-	res, errs := in.Sweep(c, f.w, mu, energies, nil)
+	res, errs := in.Sweep(c, f.W, mu, energies, nil)
 	for i := range errs {
 		require.NoError(t, errs[i])
-		want, err := in.Exact(f.p, f.w, mu, energies[i])
+		want, err := in.Exact(f.P, f.W, mu, energies[i])
 		require.NoError(t, err)
 		require.Equal(t, want, res[i], "E = %g eV", energies[i])
 	}
-	calls := c.derivatives.Load() + c.batch.Load()
+	calls := c.Calls()
 	assert.Less(t, calls, int64(60), "calls for 200 energies")
-	c.derivatives.Store(0)
-	c.batch.Store(0)
-	_, err = in.Exact(c, f.w, mu, 0.3*f.w.Depth)
+	c.Derivs.Store(0)
+	c.Batches.Store(0)
+	_, err = in.Exact(c, f.W, mu, 0.3*f.W.Depth)
 	require.NoError(t, err)
-	assert.Less(t, c.derivatives.Load()+c.batch.Load(), int64(25), "calls for one energy")
+	assert.Less(t, c.Calls(), int64(25), "calls for one energy")
 }

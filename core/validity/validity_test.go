@@ -3,45 +3,23 @@ package validity
 import (
 	"encoding/json"
 	"math"
-	"sync/atomic"
 	"testing"
 
 	"github.com/stretchr/testify/assert"
 	"github.com/stretchr/testify/require"
 
 	"github.com/pairwell/pairwell/core"
+	"github.com/pairwell/pairwell/core/coretest"
 	"github.com/pairwell/pairwell/core/period"
 	"github.com/pairwell/pairwell/core/units"
 	"github.com/pairwell/pairwell/models"
+	"github.com/pairwell/pairwell/models/modelstest"
 )
 
-type form struct {
-	name string
-	p    core.Potential
-	w    core.Well
-}
+// form is a built-in potential with its well.
+type form = modelstest.Form
 
-func newForm(t testing.TB, name string, m core.Model, params []float64) form {
-	t.Helper()
-	p, err := m.New(params)
-	require.NoError(t, err)
-	w, err := core.AnalyzeWell(p, core.WellSettings{})
-	require.NoError(t, err)
-	return form{name, p, w}
-}
-
-// forms returns the four built-in forms, Buckingham matched to an invented
-// bond (re = 1.2 Å, De = 4 eV, k = 30 eV/Å²).
-func forms(t testing.TB) []form {
-	bk, _, err := models.Buckingham{}.Match(core.Target{Re: 1.2, Depth: 4, K: 30})
-	require.NoError(t, err)
-	return []form{
-		newForm(t, "morse", models.Morse{}, []float64{4.4, 1.9, 1.27}),
-		newForm(t, "lj", models.LennardJones{}, []float64{0.0104, 3.4}),
-		newForm(t, "buckingham", models.Buckingham{}, bk),
-		newForm(t, "harmonic", models.Harmonic{}, []float64{30, 1.2}),
-	}
-}
+func forms(t testing.TB) []form { return modelstest.Forms(t) }
 
 // TestMorseHarmonicPeriodLimit: for Morse T(E) = T₀/√(1 − E/De) (classical
 // Morse oscillator, standard result, from memory), so |T₀/T − 1| =
@@ -49,9 +27,9 @@ func forms(t testing.TB) []form {
 // are x± = −ln(1 ∓ √(E/De))/a.
 func TestMorseHarmonicPeriodLimit(t *testing.T) {
 	const de, a, re = 4.4, 1.9, 1.27
-	f := newForm(t, "morse", models.Morse{}, []float64{de, a, re})
+	f := modelstest.NewForm(t, "morse", models.Morse{}, []float64{de, a, re})
 	for _, tol := range []float64{1e-3, 0.01, 0.05, 0.2, 0.6} {
-		r, err := PeriodRange(f.p, f.w, 2, Settings{Tolerance: tol})
+		r, err := PeriodRange(f.P, f.W, 2, Settings{Tolerance: tol})
 		require.NoError(t, err, "τ = %g", tol)
 		want := 1 - (1-tol)*(1-tol)
 		assert.InEpsilon(t, want, r.DepthFraction, 1e-8, "τ = %g", tol)
@@ -68,7 +46,7 @@ func TestMorseHarmonicPeriodLimit(t *testing.T) {
 func TestHarmonicFormUnbounded(t *testing.T) {
 	f := forms(t)[3]
 	for n := 2; n <= 4; n++ {
-		r, err := Analyze(f.p, f.w, n, Settings{})
+		r, err := Analyze(f.P, f.W, n, Settings{})
 		require.NoError(t, err)
 		assert.True(t, math.IsInf(r.Potential.Compression, 1), "n = %d", n)
 		assert.True(t, math.IsInf(r.Potential.Stretch, 1), "n = %d", n)
@@ -93,16 +71,16 @@ func TestPotentialCriterion(t *testing.T) {
 	for _, f := range forms(t)[:3] {
 		for n := 2; n <= 4; n++ {
 			for _, tol := range []float64{0.01, 0.1, 0.3} {
-				d, err := PotentialRange(f.p, f.w, n, Settings{Tolerance: tol})
-				require.NoError(t, err, "%s n=%d τ=%g", f.name, n, tol)
-				tr, err := NewTruncation(f.w, n)
+				d, err := PotentialRange(f.P, f.W, n, Settings{Tolerance: tol})
+				require.NoError(t, err, "%s n=%d τ=%g", f.Name, n, tol)
+				tr, err := NewTruncation(f.W, n)
 				require.NoError(t, err)
 				holds := func(x float64) bool {
-					v, err := core.Value(f.p, f.w.Re+x)
+					v, err := core.Value(f.P, f.W.Re+x)
 					require.NoError(t, err)
-					vn, err := core.Value(tr, f.w.Re+x)
+					vn, err := core.Value(tr, f.W.Re+x)
 					require.NoError(t, err)
-					return math.Abs(vn-v) <= tol*math.Abs(v-f.w.Energy)
+					return math.Abs(vn-v) <= tol*math.Abs(v-f.W.Energy)
 				}
 				for _, side := range []struct {
 					s   float64
@@ -113,15 +91,15 @@ func TestPotentialCriterion(t *testing.T) {
 					}
 					for k := 1; k <= 200; k++ {
 						x := side.s * float64(k) / 200 * (1 - 1e-6)
-						require.True(t, holds(side.dir*x), "%s n=%d τ=%g holds at %g", f.name, n, tol, side.dir*x)
+						require.True(t, holds(side.dir*x), "%s n=%d τ=%g holds at %g", f.Name, n, tol, side.dir*x)
 					}
-					assert.False(t, holds(side.dir*side.s*(1+1e-6)), "%s n=%d τ=%g fails beyond %g", f.name, n, tol, side.s)
+					assert.False(t, holds(side.dir*side.s*(1+1e-6)), "%s n=%d τ=%g fails beyond %g", f.Name, n, tol, side.s)
 				}
 			}
 		}
 	}
 	morse := forms(t)[0]
-	d, err := PotentialRange(morse.p, morse.w, 2, Settings{Tolerance: 1e-4})
+	d, err := PotentialRange(morse.P, morse.W, 2, Settings{Tolerance: 1e-4})
 	require.NoError(t, err)
 	assert.InEpsilon(t, 1e-4/1.9, d.Stretch, 1e-3)
 	assert.InEpsilon(t, 1e-4/1.9, d.Compression, 1e-3)
@@ -133,8 +111,8 @@ func TestPotentialCriterion(t *testing.T) {
 // ends the period range below it.
 func TestCubicBarrier(t *testing.T) {
 	const de, a, re = 4.4, 1.9, 1.27
-	f := newForm(t, "morse", models.Morse{}, []float64{de, a, re})
-	tr, err := NewTruncation(f.w, 3)
+	f := modelstest.NewForm(t, "morse", models.Morse{}, []float64{de, a, re})
+	tr, err := NewTruncation(f.W, 3)
 	require.NoError(t, err)
 	rb, h, ok := tr.Barrier()
 	require.True(t, ok)
@@ -145,12 +123,12 @@ func TestCubicBarrier(t *testing.T) {
 	require.NoError(t, err)
 	_, err = period.Exact(tr, tr.Well(), 1, 1.01*h, period.Settings{})
 	assert.ErrorIs(t, err, core.ErrDomain)
-	r, err := PeriodRange(f.p, f.w, 3, Settings{Tolerance: 0.9})
+	r, err := PeriodRange(f.P, f.W, 3, Settings{Tolerance: 0.9})
 	require.NoError(t, err)
 	assert.Less(t, r.Energy, h)
 	// The quartic truncation of Morse has c₄ = 7De·a⁴/12 > 0 and
 	// 9c₃² < 32c₂c₄: no maximum.
-	tr4, err := NewTruncation(f.w, 4)
+	tr4, err := NewTruncation(f.W, 4)
 	require.NoError(t, err)
 	_, _, ok = tr4.Barrier()
 	assert.False(t, ok)
@@ -199,21 +177,21 @@ func TestTruncationDerivatives(t *testing.T) {
 
 func TestErrors(t *testing.T) {
 	f := forms(t)[0]
-	_, err := Analyze(f.p, f.w, 5, Settings{})
+	_, err := Analyze(f.P, f.W, 5, Settings{})
 	assert.ErrorIs(t, err, core.ErrOrder)
-	_, err = Analyze(f.p, f.w, 1, Settings{})
+	_, err = Analyze(f.P, f.W, 1, Settings{})
 	assert.ErrorIs(t, err, core.ErrOrder)
-	_, err = Analyze(f.p, f.w, 2, Settings{Tolerance: 1.5})
+	_, err = Analyze(f.P, f.W, 2, Settings{Tolerance: 1.5})
 	assert.ErrorIs(t, err, core.ErrParam)
-	_, err = Analyze(f.p, f.w, 2, Settings{Tolerance: -0.1})
+	_, err = Analyze(f.P, f.W, 2, Settings{Tolerance: -0.1})
 	assert.ErrorIs(t, err, core.ErrParam)
-	short := f.w
+	short := f.W
 	short.Taylor = short.Taylor[:3]
-	_, err = Analyze(f.p, short, 3, Settings{})
+	_, err = Analyze(f.P, short, 3, Settings{})
 	assert.ErrorIs(t, err, core.ErrOrder)
-	_, err = PotentialRange(f.p, f.w, 2, Settings{Tolerance: 1e-9})
+	_, err = PotentialRange(f.P, f.W, 2, Settings{Tolerance: 1e-9})
 	assert.ErrorIs(t, err, core.ErrParam, "tolerance below the rounding of V(r) − V(re)")
-	r, err := Analyze(f.p, f.w, 2, Settings{})
+	r, err := Analyze(f.P, f.W, 2, Settings{})
 	require.NoError(t, err)
 	assert.Equal(t, DefaultTolerance, r.Tolerance)
 }
@@ -222,14 +200,14 @@ func TestErrors(t *testing.T) {
 // further than the harmonic one by both criteria.
 func TestOrdersImprove(t *testing.T) {
 	for _, f := range forms(t)[:3] {
-		r2, err := Analyze(f.p, f.w, 2, Settings{})
+		r2, err := Analyze(f.P, f.W, 2, Settings{})
 		require.NoError(t, err)
-		r4, err := Analyze(f.p, f.w, 4, Settings{})
+		r4, err := Analyze(f.P, f.W, 4, Settings{})
 		require.NoError(t, err)
-		assert.Greater(t, r4.Potential.Stretch, r2.Potential.Stretch, f.name)
-		assert.Greater(t, r4.Potential.Compression, r2.Potential.Compression, f.name)
-		assert.Greater(t, r4.Period.Energy, r2.Period.Energy, f.name)
-		assert.Less(t, r4.Period.DepthFraction, 1.0, f.name)
+		assert.Greater(t, r4.Potential.Stretch, r2.Potential.Stretch, f.Name)
+		assert.Greater(t, r4.Potential.Compression, r2.Potential.Compression, f.Name)
+		assert.Greater(t, r4.Period.Energy, r2.Period.Energy, f.Name)
+		assert.Less(t, r4.Period.DepthFraction, 1.0, f.Name)
 	}
 }
 
@@ -238,27 +216,11 @@ func BenchmarkAnalyze(b *testing.B) {
 	fs := forms(b)
 	for b.Loop() {
 		for _, f := range fs {
-			if _, err := Analyze(f.p, f.w, 2, Settings{}); err != nil {
+			if _, err := Analyze(f.P, f.W, 2, Settings{}); err != nil {
 				b.Fatal(err)
 			}
 		}
 	}
-}
-
-// counting counts the calls to a potential.
-type counting struct {
-	core.Potential
-	calls atomic.Int64
-}
-
-func (c *counting) Derivatives(r float64, dst []float64) error {
-	c.calls.Add(1)
-	return c.Potential.Derivatives(r, dst)
-}
-
-func (c *counting) Batch(n int, r, dst []float64) error {
-	c.calls.Add(1)
-	return c.Potential.Batch(n, r, dst)
 }
 
 // TestBatchedCalls: both criteria of a form make about a hundred calls to
@@ -266,11 +228,11 @@ func (c *counting) Batch(n int, r, dst []float64) error {
 // thousands.
 func TestBatchedCalls(t *testing.T) {
 	f := forms(t)[0]
-	c := &counting{Potential: f.p}
-	r, err := Analyze(c, f.w, 2, Settings{})
+	c := &coretest.Counting{Potential: f.P}
+	r, err := Analyze(c, f.W, 2, Settings{})
 	require.NoError(t, err)
-	want, err := Analyze(f.p, f.w, 2, Settings{})
+	want, err := Analyze(f.P, f.W, 2, Settings{})
 	require.NoError(t, err)
 	assert.Equal(t, want, r)
-	assert.Less(t, c.calls.Load(), int64(200))
+	assert.Less(t, c.Calls(), int64(200))
 }
