@@ -69,8 +69,8 @@ table).`,
 			if err != nil {
 				return err
 			}
-			if order < 2 || order > 4 {
-				return usageErr(fmt.Errorf("--order %d: must be 2, 3 or 4", order))
+			if err := checkTruncationOrder(order); err != nil {
+				return err
 			}
 			if !(tolerance > 0 && tolerance < 1) {
 				return usageErr(fmt.Errorf("--tolerance %g: must be in (0, 1), e.g. 0.01 for 1 %%", tolerance))

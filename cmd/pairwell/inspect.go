@@ -75,11 +75,7 @@ func exactArgs(n int, names string) cobra.PositionalArgs {
 
 // inspectTable lays out an inspect report as quantity, value, unit rows.
 func inspectTable(r report.Inspect) *table {
-	t := &table{cols: []column{{Title: "quantity"}, {Title: "value"}, {Title: "unit"}}}
-	t.add("model", r.Model, "")
-	for i, n := range r.Params.Names {
-		t.add("  "+n, num(r.Params.Values[i]), r.Params.Units[i])
-	}
+	t := quantityTable(r.Model, r.Params)
 	t.add("equilibrium distance re", num(r.Re), "Å")
 	t.add("V(re)", num(r.Energy), "eV")
 	t.add("well depth V(∞) − V(re)", num(float64(r.Depth)), "eV")

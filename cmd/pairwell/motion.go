@@ -160,11 +160,7 @@ func checkMotionFlags(cmd *cobra.Command, s motion.Settings) error {
 
 // motionTable lays out a motion report as quantity, value, unit rows.
 func motionTable(r report.Motion) *table {
-	t := &table{cols: []column{{Title: "quantity"}, {Title: "value"}, {Title: "unit"}}}
-	t.add("model", r.Model, "")
-	for i, n := range r.Params.Names {
-		t.add("  "+n, num(r.Params.Values[i]), r.Params.Units[i])
-	}
+	t := quantityTable(r.Model, r.Params)
 	if r.Pair != "" {
 		t.add("pair", r.Pair, "")
 	}

@@ -8,6 +8,8 @@ import (
 	"math"
 	"strings"
 	"text/tabwriter"
+
+	"github.com/pairwell/pairwell/core/report"
 )
 
 // column is a column of a table: a title and the unit of its values.
@@ -116,4 +118,23 @@ func num(v float64) string {
 		return "-∞"
 	}
 	return fmt.Sprintf("%.10g", v)
+}
+
+// quantityTable starts a table of quantity, value, unit rows with the model
+// and its parameters, as inspect and motion print them.
+func quantityTable(model string, p report.Params) *table {
+	t := &table{cols: []column{{Title: "quantity"}, {Title: "value"}, {Title: "unit"}}}
+	t.add("model", model, "")
+	for i, n := range p.Names {
+		t.add("  "+n, num(p.Values[i]), p.Units[i])
+	}
+	return t
+}
+
+// checkTruncationOrder checks --order of the truncated Taylor potential.
+func checkTruncationOrder(order int) error {
+	if order < 2 || order > 4 {
+		return usageErr(fmt.Errorf("--order %d: must be 2, 3 or 4", order))
+	}
+	return nil
 }

@@ -74,8 +74,8 @@ JSON values are in eV, Å and K, whatever the input units.`,
 			if err != nil {
 				return err
 			}
-			if order < 2 || order > 4 {
-				return usageErr(fmt.Errorf("--order %d: must be 2, 3 or 4", order))
+			if err := checkTruncationOrder(order); err != nil {
+				return err
 			}
 			tol, err := validityTolerance(tolerance)
 			if err != nil {
