@@ -32,7 +32,7 @@ func scan(t testing.TB, m core.Model, params []float64, lo, hi float64, n int, s
 // recoveryCases are exact data of each built-in form (invented parameter
 // sets) over a range that covers the well.
 var recoveryCases = []struct {
-	model  core.Model
+	model     core.Model
 	params    []float64
 	lo, hi, n float64
 }{
