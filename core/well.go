@@ -81,7 +81,7 @@ func AnalyzeWell(p Potential, s WellSettings) (Well, error) {
 			break
 		}
 	}
-	w := Well{Re: re, Taylor: series[:order+1:order+1], Series: series}
+	w := Well{Re: re, Taylor: series[: order+1 : order+1], Series: series}
 	w.Energy = w.Taylor[0]
 	w.K = 2 * w.Taylor[2] // V″(re) = 2c₂
 	d := p.Domain()
