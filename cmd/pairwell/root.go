@@ -78,6 +78,7 @@ field: do not base production or safety decisions on its numbers alone.`,
 		newCheckCmd(e),
 		newBaselineCmd(e),
 		newPlotCmd(e),
+		newFitCmd(e),
 	)
 	return root
 }

@@ -48,6 +48,9 @@ func forces(p core.Potential, r, dst []float64) error {
 	return nil
 }
 
+// equilibrium returns the position of the minimum of p.
+func equilibrium(p core.Potential) (float64, error) { return core.Equilibrium(p) }
+
 // paramGradient stores ∂V(r[i])/∂pⱼ in dst when p evaluates it
 // analytically; ok is false when it does not.
 func paramGradient(p core.Potential, r, dst []float64) (ok bool, err error) {

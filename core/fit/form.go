@@ -122,7 +122,7 @@ func (r Result) Converged() bool { return r.Reason.Converged() }
 // its constraints ("≥ 0" is then reached only as a limit, see Notes).
 // Without Settings.Start, m must implement core.Matcher: the main start is
 // its match to EstimateWell(data); each restart matches a deterministic
-// variation of that target (k ×½, ×2, depth ×½, ×2, …) and the result with
+// variation of that target (k ×2, ×½, ×4, depth ×½, …) and the result with
 // the smallest RSS wins (a converged one before an unconverged one).
 //
 // Standard errors are √diag(C) of C = s²(JᵀJ)⁻¹, J the Jacobian of the
@@ -180,7 +180,7 @@ func FitForm(m core.Model, d Data, s Settings) (Result, error) {
 		}
 	}
 	if !found {
-		return Result{}, fmt.Errorf("%s: no start led to a fit: %w", info.Key, bestErr)
+		return Result{}, fmt.Errorf("%s: %w: no start led to a fit: %v", info.Key, ErrInfeasible, bestErr)
 	}
 	if best.StartIndex > 0 && !(mainRSS <= 1.01*best.RSS+1e-24) {
 		best.Notes = append(best.Notes, fmt.Sprintf("restart %d (%s) gave the lowest RSS", best.StartIndex, starts[best.StartIndex].what))
@@ -412,8 +412,9 @@ var restartTargets = []struct {
 	what         string
 	k, depth, re float64
 }{
-	{"k ×½", 0.5, 1, 1},
 	{"k ×2", 2, 1, 1},
+	{"k ×½", 0.5, 1, 1},
+	{"k ×4", 4, 1, 1}, // moves an inner barrier (Buckingham) far inwards
 	{"depth ×½", 1, 0.5, 1},
 	{"depth ×2", 1, 2, 1},
 	{"re ×0.95", 1, 1, 0.95},
@@ -575,9 +576,12 @@ func (p *formProblem) finish(r *Result) error {
 			r.Notes = append(r.Notes, fmt.Sprintf("%s tends to 0, the boundary of its constraint (≥ 0): fitted as a logarithm it can only approach it", q.Name))
 		}
 	}
+	if re, err := equilibrium(pot); err == nil && (re < p.d.R[0] || re > p.d.R[len(p.d.R)-1]) {
+		r.Notes = append(r.Notes, fmt.Sprintf("the fitted form's minimum, r = %.4g Å, lies outside the data (%.4g to %.4g Å): the form does not describe this well", re, p.d.R[0], p.d.R[len(p.d.R)-1]))
+	}
 	v := make([]float64, len(p.d.R))
 	if err := energies(pot, p.d.R, v); err != nil {
-		r.All = Errors{RMSE: math.NaN(), MAE: math.NaN(), Max: math.NaN()}
+		r.All = Errors{N: len(v), RMSE: math.NaN(), MAE: math.NaN(), Max: math.NaN()}
 		r.Notes = append(r.Notes, fmt.Sprintf("the fitted form cannot be evaluated at every point of the data (%v): errors over all points not given", err))
 		return nil
 	}

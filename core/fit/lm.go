@@ -15,7 +15,7 @@ import (
 // at which the model cannot be evaluated (outside its constraints, a point
 // beyond its domain, no minimum where the form requires one). The engine
 // rejects such a trial step like one that increases the cost.
-const debugLM = false
+var debug = false
 
 var ErrInfeasible = errors.New("infeasible parameters")
 
@@ -39,8 +39,8 @@ type Problem struct {
 // Reason says why a minimisation stopped.
 type Reason string
 
-// The reasons a minimisation stops. All but IterationLimit and NoProgress
-// mean convergence.
+// The reasons a minimisation stops. All but IterationLimit, Boundary and
+// NoProgress mean convergence.
 const (
 	// SmallGradient: the largest cosine between the residual vector and a
 	// Jacobian column is ≤ LMSettings.GradTol (MINPACK's gtol test).
@@ -57,13 +57,20 @@ const (
 	ZeroResidual Reason = "zero residual"
 	// IterationLimit: LMSettings.MaxIter iterations without convergence.
 	IterationLimit Reason = "iteration limit"
+	// Boundary: the trial steps left the feasible set (ErrInfeasible)
+	// until they shrank to nothing: the best point lies on its edge (a
+	// form's domain reaching the data, say) and is not a stationary
+	// point of S.
+	Boundary Reason = "feasibility boundary"
 	// NoProgress: the damping grew beyond 10³⁰·max σ² without an accepted
 	// step, the cost not yet meeting a convergence test.
 	NoProgress Reason = "no progress"
 )
 
 // Converged reports whether r is a convergence reason.
-func (r Reason) Converged() bool { return r != IterationLimit && r != NoProgress && r != "" }
+func (r Reason) Converged() bool {
+	return r != IterationLimit && r != NoProgress && r != Boundary && r != ""
+}
 
 // Defaults of LMSettings.
 const (
@@ -204,6 +211,7 @@ func Minimize(p Problem, start []float64, s LMSettings) (LMResult, error) {
 	step := make([]float64, np)
 	lambda, nu := 0.0, 2.0
 	polishing, lastGN := false, math.Inf(1)
+	lastInfeasible := false
 	prevTheta, prevR, prevCost := make([]float64, np), make([]float64, n), 0.0
 
 	finish := func(reason Reason) (LMResult, error) {
@@ -288,10 +296,13 @@ func Minimize(p Problem, start []float64, s LMSettings) (LMResult, error) {
 		if polishing {
 			// Undamped Gauss–Newton steps while they contract; the cost
 			// can no longer tell better from worse here.
-			if gn >= lastGN {
+			if !(gn < lastGN) {
 				copy(res.Theta, prevTheta)
 				copy(r, prevR)
 				cost = prevCost
+				if math.IsInf(gn, 0) || math.IsNaN(gn) {
+					return finish(NoProgress) // singular: no Gauss–Newton step
+				}
 				return finish(SmallStep)
 			}
 			copy(prevTheta, res.Theta)
@@ -308,7 +319,7 @@ func Minimize(p Problem, start []float64, s LMSettings) (LMResult, error) {
 			}
 			if err := eval(tt, rt); err != nil {
 				if errors.Is(err, ErrInfeasible) {
-					return finish(SmallStep)
+					return finish(Boundary)
 				}
 				return LMResult{}, err
 			}
@@ -344,13 +355,20 @@ func Minimize(p Problem, start []float64, s LMSettings) (LMResult, error) {
 			}
 			if rejected > 0 && zn <= s.StepTol*(xs+s.StepTol) {
 				// Damped by rejections to nothing: no representable
-				// improvement is left (MINPACK's xtol test on Δ).
+				// improvement is left (MINPACK's xtol test on Δ) — unless
+				// the trials failed for infeasibility, where the
+				// minimisation is pressed against the edge of the
+				// feasible set rather than at a stationary point.
+				if lastInfeasible {
+					return finish(Boundary)
+				}
 				return finish(SmallStep)
 			}
 			err := eval(tt, rt)
 			if err != nil && !errors.Is(err, ErrInfeasible) {
 				return LMResult{}, err
 			}
+			lastInfeasible = err != nil
 			rho, reduction := -1.0, 0.0
 			newCost := math.Inf(1)
 			if err == nil {
@@ -360,7 +378,7 @@ func Minimize(p Problem, start []float64, s LMSettings) (LMResult, error) {
 					rho = reduction / pred
 				}
 			}
-			if debugLM {
+			if debug {
 				fmt.Printf("it %d rej %d lambda/s2 %g %g zn/xs %g pred/cost %g red/cost %g gn %g\n", res.Iterations, rejected, lambda/(sig[0]*sig[0]), lambda/(sig[np-1]*sig[np-1]), zn/xs, pred/cost, reduction/cost, math.Sqrt(gn)/xs)
 			}
 			if rho > 0 && reduction > 0 {
@@ -381,16 +399,22 @@ func Minimize(p Problem, start []float64, s LMSettings) (LMResult, error) {
 				}
 				continue
 			}
-			if pred <= polishBelow*cost {
+			if !lastInfeasible && pred <= polishBelow*cost {
 				// Rejected although the predicted reduction is at the
 				// level where rounding in the residuals decides the
 				// comparison: polish by Gauss–Newton steps instead.
 				polishing, lastGN = true, math.Inf(1)
+				copy(prevTheta, res.Theta)
+				copy(prevR, r)
+				prevCost = cost
 				break
 			}
 			lambda *= nu
 			nu *= 2
 			if lambda > 1e30*smax {
+				if lastInfeasible {
+					return finish(Boundary)
+				}
 				return finish(NoProgress)
 			}
 		}

@@ -166,7 +166,10 @@ func newFit(x FitInput, metric FitMetric, m Mass) Fit {
 		f.Jacobian = "analytic"
 	}
 	f.Notes = append(f.Notes, r.Notes...)
-	if !r.Converged() {
+	switch {
+	case r.Reason == fit.Boundary:
+		f.Notes = append(f.Notes, "not converged: the fit stopped at the edge of the parameters the form allows with these data (a point would leave its domain); the parameters are the best such point and their errors describe no minimum")
+	case !r.Converged():
 		f.Notes = append(f.Notes, fmt.Sprintf("not converged (%s): the parameters are the best point reached", r.Reason))
 	}
 	if w, err := core.AnalyzeWell(r.Instance.Potential, core.WellSettings{Order: 2}); err != nil {
@@ -207,12 +210,23 @@ func newFit(x FitInput, metric FitMetric, m Mass) Fit {
 }
 
 // FitSpec formats a fitted parameter set as a spec string that every
-// command accepts: values in the default units, each with the shortest
-// decimal that reads back to the same float64.
+// command accepts: each value with the shortest decimal that reads back to
+// the same float64, in the default unit — bare where a bare number means
+// that unit, else followed by it (a parameter whose Unit differs).
 func FitSpec(key string, params []core.Param, values []float64) string {
 	parts := make([]string, len(params))
 	for i, q := range params {
-		parts[i] = q.Name + "=" + strconv.FormatFloat(values[i], 'g', -1, 64)
+		parts[i] = q.Name + "=" + ParamText(q, values[i])
 	}
 	return key + ":" + strings.Join(parts, ",")
+}
+
+// ParamText formats v, a value of q in its default unit, as spec text that
+// reads back to the same float64 (see FitSpec).
+func ParamText(q core.Param, v float64) string {
+	t := strconv.FormatFloat(v, 'g', -1, 64)
+	if u := q.Dimension.DefaultUnit(); q.Unit != "" && q.Unit != u && u != "" {
+		t += " " + u
+	}
+	return t
 }
