@@ -139,7 +139,7 @@ func (o *fitFlags) models(e *env) ([]core.Model, error) {
 	for _, k := range o.forms {
 		m, err := e.registry.Lookup(strings.TrimSpace(k))
 		if err != nil {
-			return nil, computeErr(fmt.Errorf("--form: %w", err))
+			return nil, usageErr(fmt.Errorf("--form: %w", err))
 		}
 		if key := m.Info().Key; !seen[key] {
 			seen[key] = true
@@ -149,14 +149,12 @@ func (o *fitFlags) models(e *env) ([]core.Model, error) {
 	return out, nil
 }
 
-// run reads the data and fits every form, in parallel; the output order is
-// the ranking.
+// run reads the data and fits every form.
 func (o *fitFlags) run(e *env, path string) (*fitRun, error) {
 	s, err := o.settings()
 	if err != nil {
 		return nil, err
 	}
-	metric := report.FitMetric(strings.ToLower(o.rank))
 	mass, err := o.mass.resolve(false)
 	if err != nil {
 		return nil, err
@@ -172,6 +170,13 @@ func (o *fitFlags) run(e *env, path string) (*fitRun, error) {
 		}
 		return nil, failErr(err)
 	}
+	return fitAll(ms, data, path, s, report.FitMetric(strings.ToLower(o.rank)), mass)
+}
+
+// fitAll fits every form to data, in parallel, and ranks the fits. A form
+// that cannot describe the data gets its row error; bad data or settings
+// are usage errors, a failing plugin is a failure.
+func fitAll(ms []core.Model, data fit.Data, path string, s fit.Settings, metric report.FitMetric, mass report.Mass) (*fitRun, error) {
 	inputs := make([]report.FitInput, len(ms))
 	var wg sync.WaitGroup
 	for i, m := range ms {
@@ -184,10 +189,7 @@ func (o *fitFlags) run(e *env, path string) (*fitRun, error) {
 	}
 	wg.Wait()
 	for _, in := range inputs {
-		switch err := in.Err; {
-		case err == nil, errors.Is(err, fit.ErrInfeasible):
-			// a form that cannot describe the data gets its row error
-		default:
+		if err := in.Err; err != nil && !errors.Is(err, fit.ErrInfeasible) {
 			return nil, computeErr(fmt.Errorf("%s: %w", path, err))
 		}
 	}
@@ -334,11 +336,24 @@ func (e *env) emitFit(run *fitRun) error {
 	if e.format == "json" {
 		return e.emit(run.fits, nil)
 	}
+	if err := e.emit(run.fits, fitTable(run.fits, e.format == "csv")); err != nil {
+		return err
+	}
+	if e.format == "table" {
+		if err := writeFitDetails(e.stdout, run); err != nil {
+			return failErr(fmt.Errorf("writing output: %w", err))
+		}
+	}
+	return nil
+}
+
+// fitTable is the ranking table; csv adds the spec and error columns.
+func fitTable(fits []report.Fit, csv bool) *table {
 	t := &table{cols: fitColumns}
-	if e.format == "csv" {
+	if csv {
 		t.cols = append(append([]column(nil), fitColumns...), column{Title: "spec"}, column{Title: "error"})
 	}
-	for _, f := range run.fits {
+	for _, f := range fits {
 		w10, w50 := math.NaN(), math.NaN()
 		for _, w := range f.Windows {
 			switch w.Fraction {
@@ -367,20 +382,12 @@ func (e *env) emitFit(run *fitRun) error {
 		}
 		cells := []string{fmt.Sprint(f.Rank), f.Form, num(float64(f.RMSE)), num(float64(f.MAE)), num(float64(f.Max)),
 			num(w10), num(w50), num(re), num(depth), num(k), num(wn), fmt.Sprint(f.Iterations), conv}
-		if e.format == "csv" {
+		if csv {
 			cells = append(cells, f.Spec, f.Error)
 		}
 		t.add(cells...)
 	}
-	if err := e.emit(run.fits, t); err != nil {
-		return err
-	}
-	if e.format == "table" {
-		if err := writeFitDetails(e.stdout, run); err != nil {
-			return failErr(fmt.Errorf("writing output: %w", err))
-		}
-	}
-	return nil
+	return t
 }
 
 // writeFitDetails writes, per form, the parameters with their standard

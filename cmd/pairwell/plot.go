@@ -31,7 +31,7 @@ const maxPlotPeriods = 1000
 
 func newPlotCmd(e *env) *cobra.Command {
 	cmd := &cobra.Command{
-		Use:   "plot (taylor | period | compare | motion) ... -o FILE",
+		Use:   "plot (taylor | period | compare | motion | fit) ... -o FILE",
 		Short: "Draw pictures: the well and its Taylor truncations, period against amplitude, forms overlaid, motion",
 		Long: `plot draws what pairwell computes, as PNG, SVG or PDF (by the extension of
 -o FILE):
@@ -42,6 +42,7 @@ func newPlotCmd(e *env) *cobra.Command {
            perturbative, and measured points with --method
   compare  several forms overlaid, in absolute or reduced units
   motion   the displacement against time, with the harmonic motion overlaid
+  fit      reference data with fitted forms overlaid and a residual panel
 
 Every curve has its own colour, dash pattern and marker (colours from the
 Okabe–Ito palette for colour-blind readers), so the pictures stay readable in
@@ -52,15 +53,16 @@ range, an amplitude beyond the well), 1 when the file cannot be written.`,
 		Example: `  pairwell plot taylor morse:De=4.6,a=1.87,re=1.27 -o taylor.png
   pairwell plot period morse:De=4.6,a=1.87,re=1.27 --pair H-Cl --method rk4 -o period.svg
   pairwell plot compare morse:De=4.6,a=1.87,re=1.27 lj:epsilon=120K,sigma=3.4 --reduced -o compare.pdf
-  pairwell plot motion morse:De=4.6,a=1.87,re=1.27 --pair H-Cl --amplitude 0.5 -o motion.png`,
+  pairwell plot motion morse:De=4.6,a=1.87,re=1.27 --pair H-Cl --amplitude 0.5 -o motion.png
+  pairwell plot fit scan.csv -o fit.png`,
 		RunE: func(cmd *cobra.Command, args []string) error {
 			if len(args) > 0 {
-				return usageErr(fmt.Errorf("unknown plot %q: taylor, period, compare or motion (see %s --help)", args[0], cmd.CommandPath()))
+				return usageErr(fmt.Errorf("unknown plot %q: taylor, period, compare, motion or fit (see %s --help)", args[0], cmd.CommandPath()))
 			}
-			return usageErr(fmt.Errorf("plot needs a kind: taylor, period, compare or motion (see %s --help)", cmd.CommandPath()))
+			return usageErr(fmt.Errorf("plot needs a kind: taylor, period, compare, motion or fit (see %s --help)", cmd.CommandPath()))
 		},
 	}
-	cmd.AddCommand(newPlotTaylorCmd(e), newPlotPeriodCmd(e), newPlotCompareCmd(e), newPlotMotionCmd(e))
+	cmd.AddCommand(newPlotTaylorCmd(e), newPlotPeriodCmd(e), newPlotCompareCmd(e), newPlotMotionCmd(e), newPlotFitCmd(e))
 	return cmd
 }
 

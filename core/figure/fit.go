@@ -46,7 +46,7 @@ func Fit(r, e []float64, curves []FitCurve) (*Figure, error) {
 	f := &Figure{
 		Kind:   "fit",
 		Title:  "Reference data and fitted forms",
-		XLabel: "r [Å]", YLabel: "E − E_min [eV]",
+		XLabel: "", YLabel: "E − E_min [eV]", // the panel below names r
 		XMin: math.Max(rmin-m, 0.5*rmin), XMax: rmax + m,
 		YMin: -0.08 * span, YMax: emin + 1.08*span - emin,
 	}

@@ -14,6 +14,11 @@ import (
 // beyond its main start.
 const DefaultRestarts = 4
 
+// sameMinimum is the relative difference of RSS within which two starts
+// are taken to have reached the same minimum; FitForm stops its restarts
+// there.
+const sameMinimum = 1e-8
+
 // DefaultForceWeight is the weight of a force residual (eV/Å)² relative to
 // an energy residual (eV)², in Å²: 1 Å² (common practice when nothing
 // better is known).
@@ -40,6 +45,9 @@ type Settings struct {
 	// Start, when not nil, replaces the automatic start: parameters in
 	// the model's order and default units.
 	Start []float64
+	// Central makes the Jacobian central differences even for a
+	// potential that implements ParamGradient (for comparisons).
+	Central bool
 	// LM controls the least-squares engine.
 	LM LMSettings
 }
@@ -119,11 +127,15 @@ func (r Result) Converged() bool { return r.Reason.Converged() }
 //
 // with the energy zero as Settings.Offset says. Parameters constrained
 // "> 0" or "≥ 0" are fitted as their logarithm, so every trial set keeps
-// its constraints ("≥ 0" is then reached only as a limit, see Notes).
+// its constraints ("≥ 0" is then reached only as a limit, see Notes; a
+// parameter driven below 1e-12 of its start ends the fit with Reason
+// Boundary).
 // Without Settings.Start, m must implement core.Matcher: the main start is
 // its match to EstimateWell(data); each restart matches a deterministic
 // variation of that target (k ×2, ×½, ×4, depth ×½, …) and the result with
-// the smallest RSS wins (a converged one before an unconverged one).
+// the smallest RSS wins (a converged one before an unconverged one). The
+// restarts stop as soon as two starts reach the same RSS (to 1e-8
+// relative).
 //
 // Standard errors are √diag(C) of C = s²(JᵀJ)⁻¹, J the Jacobian of the
 // weighted residuals with respect to the parameters at the optimum and
@@ -175,8 +187,12 @@ func FitForm(m core.Model, d Data, s Settings) (Result, error) {
 		if i == 0 {
 			mainRSS = r.RSS
 		}
+		same := found && math.Abs(r.RSS-best.RSS) <= sameMinimum*math.Max(r.RSS, best.RSS)
 		if !found || better(r, best) {
 			best, found = r, true
+		}
+		if same {
+			break // two starts agree: the restarts have done their job
 		}
 	}
 	if !found {
@@ -220,11 +236,19 @@ type formProblem struct {
 	notes     []string
 	dataDepth float64 // zero estimate − E_min, for the windows
 	unbounded bool    // the form has no dissociation limit
+	central   bool    // Settings.Central
+	floor     []float64
 }
+
+// constraintFloor bounds a parameter fitted as a logarithm from below, at
+// this fraction of its starting value: a fit that drives a "> 0" parameter
+// towards 0 would otherwise crawl through hundreds of iterations in log p;
+// it stops there with Reason Boundary instead.
+const constraintFloor = 1e-12
 
 func newFormProblem(m core.Model, d Data, w []float64, s Settings) (*formProblem, error) {
 	info := m.Info()
-	p := &formProblem{m: m, info: info, d: d, np: len(info.Params)}
+	p := &formProblem{m: m, info: info, d: d, np: len(info.Params), central: s.Central}
 	emin := math.Inf(1)
 	for _, e := range d.E {
 		emin = math.Min(emin, e)
@@ -345,6 +369,11 @@ func (p *formProblem) theta(params []float64, zero float64) ([]float64, error) {
 
 func (p *formProblem) residuals(theta, dst []float64) error {
 	params, zero := p.params(theta)
+	for j, v := range params {
+		if p.log[j] && v < p.floor[j] {
+			return fmt.Errorf("%w: %s = %g has fallen below %g·(its start): the fit runs into the constraint %s", ErrInfeasible, p.info.Params[j].Name, v, constraintFloor, p.info.Params[j].Constraint)
+		}
+	}
 	p.evals++
 	pot, err := build(p.m, params)
 	if err != nil {
@@ -475,7 +504,7 @@ func (p *formProblem) run(params []float64, ls LMSettings) (Result, error) {
 		return Result{}, fmt.Errorf("%w: %w", ErrInfeasible, err)
 	}
 	pr := Problem{N: p.nres(), P: p.nparams(), Residuals: p.residuals}
-	if p.f == nil {
+	if p.f == nil && !p.central {
 		pot, err := build(p.m, params)
 		if err != nil {
 			return Result{}, err
@@ -486,6 +515,10 @@ func (p *formProblem) run(params []float64, ls LMSettings) (Result, error) {
 		}
 	}
 	p.evals = 0
+	p.floor = make([]float64, p.np)
+	for j, v := range params {
+		p.floor[j] = constraintFloor * v
+	}
 	lm, err := Minimize(pr, theta, ls)
 	if err != nil {
 		return Result{}, err

@@ -147,8 +147,10 @@ func (r LMResult) Converged() bool { return r.Reason.Converged() }
 // functions and does not exploit the least-squares structure); the linear
 // algebra is gonum's.
 //
-// Each iteration scales the parameters by the column norms of the Jacobian
-// (Marquardt's scaling, kept at its running maximum as in MINPACK), takes
+// Each iteration scales the parameters by the column norms of the current
+// Jacobian (Marquardt's scaling; MINPACK keeps their running maximum
+// instead, which makes a parameter whose influence fades — a fit running
+// into a constraint — crawl through hundreds of iterations), takes
 // the singular value decomposition J·D⁻¹ = UΣVᵀ once and solves the damped
 // step δ = −D⁻¹V·diag(σ/(σ² + λ))·Uᵀr for each trial λ from it, which is
 // the least-squares solution of [JD⁻¹; √λ·I]·Dδ = −[r; 0] without forming
@@ -201,9 +203,9 @@ func Minimize(p Problem, start []float64, s LMSettings) (LMResult, error) {
 		if p.Jacobian != nil {
 			return p.Jacobian(theta, jac.RawMatrix().Data)
 		}
-		return centralJacobian(eval, theta, s.Step, jac, rt, make([]float64, n))
+		return centralJacobian(eval, theta, r, s.Step, jac, rt, make([]float64, n))
 	}
-	d := make([]float64, np) // scaling: running maximum of the column norms
+	d := make([]float64, np) // scaling: the column norms of J
 	var svd mat.SVD
 	var u, v mat.Dense
 	sig := make([]float64, np)
@@ -235,9 +237,7 @@ func Minimize(p Problem, start []float64, s LMSettings) (LMResult, error) {
 		}
 		for j := 0; j < np; j++ {
 			cn := mat.Norm(jac.ColView(j), 2)
-			if cn > d[j] {
-				d[j] = cn
-			}
+			d[j] = cn
 			if d[j] == 0 {
 				d[j] = 1
 			}
@@ -444,28 +444,52 @@ func reduced(r, rt []float64) float64 {
 
 // centralJacobian fills jac with central differences of eval at theta:
 // column j is (r(θ + hⱼeⱼ) − r(θ − hⱼeⱼ))/(2hⱼ), hⱼ = step·|θⱼ| (step at 0),
-// the difference taken with the step actually represented in floating point.
-func centralJacobian(eval func(theta, dst []float64) error, theta []float64, step float64, jac *mat.Dense, rp, rm []float64) error {
+// the difference taken with the step actually represented in floating
+// point. Where one side is infeasible (a step across the edge of a form's
+// domain) the one-sided difference with r0 = r(θ) is taken instead.
+func centralJacobian(eval func(theta, dst []float64) error, theta, r0 []float64, step float64, jac *mat.Dense, rp, rm []float64) error {
 	n, np := jac.Dims()
 	t := append([]float64(nil), theta...)
+	j0 := 0
+	side := func(dst []float64, x float64) (float64, bool, error) {
+		t[j0] = x
+		err := eval(t, dst)
+		d := x - theta[j0]
+		t[j0] = theta[j0]
+		if errors.Is(err, ErrInfeasible) {
+			return d, false, nil
+		}
+		return d, err == nil, err
+	}
 	for j := 0; j < np; j++ {
+		j0 = j
 		h := step * math.Abs(theta[j])
 		if h == 0 {
 			h = step
 		}
-		t[j] = theta[j] + h
-		hp := t[j] - theta[j]
-		if err := eval(t, rp); err != nil {
+		hp, okp, err := side(rp, theta[j]+h)
+		if err != nil {
 			return fmt.Errorf("central difference in parameter %d: %w", j, err)
 		}
-		t[j] = theta[j] - h
-		hm := theta[j] - t[j]
-		if err := eval(t, rm); err != nil {
+		hm, okm, err := side(rm, theta[j]-h)
+		if err != nil {
 			return fmt.Errorf("central difference in parameter %d: %w", j, err)
 		}
-		t[j] = theta[j]
-		for i := 0; i < n; i++ {
-			jac.Set(i, j, (rp[i]-rm[i])/(hp+hm))
+		switch {
+		case okp && okm:
+			for i := 0; i < n; i++ {
+				jac.Set(i, j, (rp[i]-rm[i])/(hp-hm))
+			}
+		case okp:
+			for i := 0; i < n; i++ {
+				jac.Set(i, j, (rp[i]-r0[i])/hp)
+			}
+		case okm:
+			for i := 0; i < n; i++ {
+				jac.Set(i, j, (rm[i]-r0[i])/hm)
+			}
+		default:
+			return fmt.Errorf("central difference in parameter %d: %w: both sides of θ = %g ± %g", j, ErrInfeasible, theta[j], h)
 		}
 	}
 	return nil
