@@ -19,6 +19,9 @@ type env struct {
 	files          *fileio.Run // the inputs of the run and its temporary files
 	closers        []func()
 	interrupts     interrupts // what a signal must still do, see signals.go
+	// failedPlugins are the plugins found through the plugin path that
+	// failed to start (a warning, see plugins.go).
+	failedPlugins []error
 }
 
 func newEnv(stdout, stderr io.Writer) *env {

@@ -44,10 +44,10 @@ import (
 	"math"
 	"strconv"
 
-	"github.com/pairwell/pairwell/internal/fileio"
 	"github.com/pairwell/pairwell/core"
 	"github.com/pairwell/pairwell/core/modelset"
 	"github.com/pairwell/pairwell/core/validity"
+	"github.com/pairwell/pairwell/internal/fileio"
 )
 
 // Format and Version identify baseline documents. Version changes when the
