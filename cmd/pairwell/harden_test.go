@@ -142,3 +142,17 @@ func TestInputsBounded(t *testing.T) {
 		assert.Contains(t, errOut, tt.want, "%v", tt.args)
 	}
 }
+
+// TestConflictingPins: two pins for one plugin path are an error (the
+// first used to win silently).
+func TestConflictingPins(t *testing.T) {
+	requirePlugins(t)
+	good := sha256Hex(t, pluginBin.rydberg)
+	other := strings.Repeat("ab", 32)
+	code, _, errOut := runCLI(t, "--plugin", pluginBin.rydberg+"@sha256:"+good, "--plugin", pluginBin.rydberg+"@sha256:"+other, "models")
+	assert.Equal(t, exitUsage, code, errOut)
+	assert.Contains(t, errOut, "pinned twice")
+	// The same pin twice is fine.
+	code, _, errOut = runCLI(t, "--plugin", pluginBin.rydberg+"@sha256:"+good, "--plugin", pluginBin.rydberg+"@sha256:"+good, "models")
+	assert.Equal(t, 0, code, errOut)
+}
