@@ -103,12 +103,15 @@ func (f *pluginFlags) load(e *env) error {
 	}
 
 	set := &pluginSet{}
+	var loading sync.WaitGroup // the Loads in flight
 	ctx, cancel := context.WithCancel(context.Background())
-	// Stop every plugin when the run ends, and on a signal (signals.go):
-	// abandon the starts in flight (each kills its process before it
-	// returns) and stop the running plugins.
+	// Stop every plugin when the run ends, and on a signal (signals.go,
+	// which bounds the wait): abandon the starts in flight and wait for
+	// them (each kills its process before it returns), then stop the
+	// running plugins.
 	stop := func() {
 		cancel()
+		loading.Wait()
 		set.close()
 	}
 	e.onSignal(stop)
@@ -116,7 +119,6 @@ func (f *pluginFlags) load(e *env) error {
 
 	loaded := make([]*plugins.Plugin, len(refs))
 	errs := make([]error, len(refs))
-	var loading sync.WaitGroup
 	for i, r := range refs {
 		e.files.Input(r.Path)
 		loading.Add(1)
