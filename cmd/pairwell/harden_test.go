@@ -3,6 +3,7 @@ package main
 import (
 	"os"
 	"path/filepath"
+	"strconv"
 	"strings"
 	"syscall"
 	"testing"
@@ -155,4 +156,42 @@ func TestConflictingPins(t *testing.T) {
 	// The same pin twice is fine.
 	code, _, errOut = runCLI(t, "--plugin", pluginBin.rydberg+"@sha256:"+good, "--plugin", pluginBin.rydberg+"@sha256:"+good, "models")
 	assert.Equal(t, 0, code, errOut)
+}
+
+// TestPluginFailureRowsExitOne: a command that reports per-row errors
+// prints every row and exits 1 when a plugin failed (period used to exit
+// 0 with its rows "plugin crashed"); a row that is physically out of
+// range stays a row error with exit 0.
+func TestPluginFailureRowsExitOne(t *testing.T) {
+	requirePlugins(t)
+	p := []string{"--plugin", pluginBin.test}
+	// crashlater-morse crashes after N evaluation calls: find an N at which
+	// the well is found and the rows are not (the count depends on the
+	// algorithms, so it is searched rather than hard-coded).
+	found := false
+	for n := 2; n <= 256 && !found; n += 2 {
+		t.Setenv("PAIRWELL_TEST_CRASH_AFTER", strconv.Itoa(n))
+		for _, format := range []string{"table", "json"} {
+			code, out, errOut := runCLI(t, append(p, "period", "crashlater-morse:De=1,a=1,re=1", "--mu", "1",
+				"--amplitudes", "0.1,0.2,0.3", "--format", format)...)
+			if out == "" || !strings.Contains(out, "plugin crashed") {
+				continue // crashed before the rows, or not at all
+			}
+			found = true
+			assert.Equal(t, exitFailure, code, "N = %d: %s", n, errOut)
+			assert.Contains(t, errOut, "rows failed because a plugin failed")
+		}
+	}
+	assert.True(t, found, "no N gave rows with a crash")
+
+	code, out, errOut := runCLI(t, append(p, "compare", "crashing-morse:De=1,a=1,re=1", "morse:De=4.4,a=1.9,re=1.27", "--mu", "1")...)
+	assert.Equal(t, exitFailure, code, errOut)
+	assert.Contains(t, out, "morse", "every row is printed")
+	assert.Contains(t, errOut, "1 of 2 rows failed because a plugin failed")
+
+	// Out of range is not a failure: the pair dissociates.
+	code, out, errOut = runCLI(t, "period", "morse:De=1,a=1,re=1", "--mu", "1", "--amplitudes", "0.1,50")
+	assert.Equal(t, 0, code, errOut)
+	assert.Contains(t, out, "0.1")
+	assert.Contains(t, errOut, "1 of 2 rows have no period")
 }
