@@ -1,6 +1,7 @@
 package main
 
 import (
+	"encoding/json"
 	"os"
 	"path/filepath"
 	"strconv"
@@ -194,4 +195,38 @@ func TestPluginFailureRowsExitOne(t *testing.T) {
 	assert.Equal(t, 0, code, errOut)
 	assert.Contains(t, out, "0.1")
 	assert.Contains(t, errOut, "1 of 2 rows have no period")
+}
+
+// TestTerminalHygiene: control characters in anything pairwell prints —
+// plugin model names, notes and errors, input echoed in messages — are
+// escaped, so they cannot clear the screen or rewrite lines; inside JSON
+// strings the escape is the same character.
+func TestTerminalHygiene(t *testing.T) {
+	var b strings.Builder
+	w := &cleanWriter{w: &b}
+	in := "ok\tcol\nESC\x1b[2J CR\r BEL\x07 DEL\x7f C1\u009b[1m RLO\u202e bad\xff é∞\n"
+	// Written in two parts that split a multi-byte character.
+	split := strings.Index(in, "é") + 1
+	_, err := w.Write([]byte(in[:split]))
+	require.NoError(t, err)
+	_, err = w.Write([]byte(in[split:]))
+	require.NoError(t, err)
+	assert.Equal(t, `ok	col
+ESC\u001b[2J CR\u000d BEL\u0007 DEL\u007f C1\u009b[1m RLO\u202e bad\xff é∞
+`, b.String())
+	var s string
+	require.NoError(t, json.Unmarshal([]byte(`"`+`C1\u009b RLO\u202e`+`"`), &s))
+	assert.Equal(t, "C1\u009b RLO\u202e", s, "the escape is valid JSON for the same character")
+
+	// Through the command line: a spec quoting an escape sequence.
+	code, _, errOut := runCLI(t, "inspect", "morse:De=\x1b[2J\x1b]0;owned\x07")
+	assert.Equal(t, exitUsage, code)
+	assert.NotContains(t, errOut, "\x1b")
+	assert.NotContains(t, errOut, "\x07")
+
+	// A huge message is cut.
+	code, _, errOut = runCLI(t, "inspect", "morse:De="+strings.Repeat("x", 100000))
+	assert.Equal(t, exitUsage, code)
+	assert.Less(t, len(errOut), 3000)
+	assert.Contains(t, errOut, "more characters)")
 }
