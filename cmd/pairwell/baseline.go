@@ -56,9 +56,6 @@ baseline is replaced only by a complete new one.`,
 			if setPath == "" || out == "" {
 				return usageErr(errors.New("baseline record needs --set FILE.toml and -o BASELINE.json"))
 			}
-			if !(tolerance > 0 && tolerance < 1) {
-				return usageErr(fmt.Errorf("--tolerance %g: must be in (0, 1), e.g. 0.01 for 1 %%", tolerance))
-			}
 			set, err := loadSet(setPath)
 			if err != nil {
 				return err
@@ -87,7 +84,7 @@ baseline is replaced only by a complete new one.`,
 	}
 	cmd.Flags().StringVar(&setPath, "set", "", "model-set file (TOML)")
 	cmd.Flags().StringVarP(&out, "output", "o", "", "baseline file to write")
-	cmd.Flags().Float64Var(&tolerance, "tolerance", validity.DefaultTolerance, "relative tolerance of the validity criteria")
+	toleranceVar(cmd.Flags(), &tolerance, "the validity criteria")
 	return cmd
 }
 

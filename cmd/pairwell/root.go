@@ -55,11 +55,13 @@ field: do not base production or safety decisions on its numbers alone.`,
 		SilenceUsage:  true,
 		SilenceErrors: true,
 		PersistentPreRunE: func(cmd *cobra.Command, args []string) error {
-			switch e.format {
-			case "table", "json", "csv":
-				return loadPlugins()
+			warnDeprecated(cmd.Flags(), e.stderr)
+			f, err := choice("format", e.format, formats)
+			if err != nil {
+				return usageErr(err)
 			}
-			return usageErr(fmt.Errorf("--format %q: allowed: table, json, csv", e.format))
+			e.format = f
+			return loadPlugins()
 		},
 	}
 	root.PersistentFlags().StringVar(&e.format, "format", "table", "output format: table, json or csv")
