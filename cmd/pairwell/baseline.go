@@ -4,7 +4,6 @@ import (
 	"errors"
 	"fmt"
 	"math"
-	"runtime/debug"
 
 	"github.com/spf13/cobra"
 
@@ -30,8 +29,10 @@ added to or removed from the set. Run it in CI to catch a change to a form or to
 pairwell that silently moves the physics.`,
 		Example: `  pairwell baseline record --set forms.toml -o forms.baseline.json
   pairwell baseline verify --set forms.toml forms.baseline.json`,
-		Args: exactArgs(0, "a subcommand: record or verify"),
 		RunE: func(cmd *cobra.Command, args []string) error {
+			if len(args) > 0 {
+				return unknownCommand(cmd, args[0])
+			}
 			return usageErr(fmt.Errorf("baseline needs a subcommand: record or verify (see %s --help)", cmd.CommandPath()))
 		},
 	}
@@ -202,32 +203,4 @@ func loadSet(path string) (*modelset.Set, error) {
 		return nil, usageErr(fmt.Errorf("--set: %w", err))
 	}
 	return set, nil
-}
-
-// toolVersion names this build of pairwell for baseline files: the module
-// version, and the VCS revision when the binary was built from a checkout.
-func toolVersion() string {
-	info, ok := debug.ReadBuildInfo()
-	if !ok {
-		return "pairwell"
-	}
-	v := "pairwell " + info.Main.Version
-	var rev, dirty string
-	for _, s := range info.Settings {
-		switch s.Key {
-		case "vcs.revision":
-			rev = s.Value
-		case "vcs.modified":
-			if s.Value == "true" {
-				dirty = "-dirty"
-			}
-		}
-	}
-	if len(rev) > 12 {
-		rev = rev[:12]
-	}
-	if rev != "" {
-		v += " (" + rev + dirty + ")"
-	}
-	return v
 }

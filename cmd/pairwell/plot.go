@@ -55,7 +55,7 @@ range, an amplitude beyond the well), 1 when the file cannot be written.`,
   pairwell plot motion morse:De=4.6,a=1.87,re=1.27 --pair H-Cl --amplitude 0.5 -o motion.png`,
 		RunE: func(cmd *cobra.Command, args []string) error {
 			if len(args) > 0 {
-				return usageErr(fmt.Errorf("unknown plot %q: taylor, period, compare or motion (see %s --help)", args[0], cmd.CommandPath()))
+				return unknownCommand(cmd, args[0])
 			}
 			return usageErr(fmt.Errorf("plot needs a kind: taylor, period, compare or motion (see %s --help)", cmd.CommandPath()))
 		},
@@ -457,6 +457,6 @@ same way. The title gives the measured, exact and harmonic periods.`,
 	f := cmd.Flags()
 	f.StringVar(&amplitude, "amplitude", "", "starting displacement r0 − re at rest, Å unless a unit is given (e.g. 0.2, -0.1, 20pm)")
 	f.StringVar(&method, "method", "dopri", "integrator: heun, rk4, verlet or dopri")
-	f.IntVar(&periods, "periods", figure.DefaultMotionPeriods, "number of periods to integrate")
+	f.IntVar(&periods, "periods", motion.DefaultPeriods, "number of periods to integrate")
 	return cmd
 }

@@ -174,7 +174,7 @@ func TestPlotBadInput(t *testing.T) {
 		{"motion no amplitude", 2, []string{"motion", morse, "--mu", "1", "-o", png}, "--amplitude"},
 		{"motion amplitude beyond the well", 2, []string{"motion", morse, "--mu", "1", "--amplitude", "-5", "-o", png}, "amplitude"},
 		{"motion zero periods", 2, []string{"motion", morse, "--mu", "1", "--amplitude", "0.1", "--periods", "0", "-o", png}, "--periods"},
-		{"unknown kind", 2, []string{"pictures", morse}, "unknown plot"},
+		{"unknown kind", 2, []string{"pictures", morse}, `unknown command "pictures" for "pairwell plot"`},
 	} {
 		code, _, errOut := runCLI(t, append([]string{"plot"}, tc.args...)...)
 		assert.Equal(t, tc.code, code, "%s: %s", tc.name, errOut)
