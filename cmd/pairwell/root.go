@@ -16,7 +16,8 @@ import (
 
 // env is the state one invocation of pairwell shares between its commands.
 type env struct {
-	stdout, stderr io.Writer
+	stdout, stderr io.Writer // escape terminal controls (terminal.go)
+	term           io.Writer // the raw stderr, for the progress bar
 	format         string
 	registry       *core.Registry
 	files          *fileio.Run // the inputs of the run and its temporary files
@@ -27,8 +28,11 @@ type env struct {
 	failedPlugins []error
 }
 
+// newEnv makes the state of one invocation. What it prints goes through
+// cleanWriter (terminal.go); only the progress bar draws on the raw stderr.
 func newEnv(stdout, stderr io.Writer) *env {
-	return &env{stdout: stdout, stderr: stderr, registry: models.NewRegistry(), files: &fileio.Run{}}
+	return &env{stdout: &cleanWriter{w: stdout}, stderr: &cleanWriter{w: stderr}, term: stderr,
+		registry: models.NewRegistry(), files: &fileio.Run{}}
 }
 
 // close releases what the invocation started (plugin processes).
