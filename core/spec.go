@@ -76,7 +76,7 @@ func (r *Registry) Build(spec string) (Instance, error) {
 	}
 	m, err := r.Lookup(s.Model)
 	if err != nil {
-		return Instance{}, fmt.Errorf("%w: %v", ErrSpec, err)
+		return Instance{}, fmt.Errorf("%w: %w", ErrSpec, err)
 	}
 	return BuildSpec(m, s)
 }

@@ -26,6 +26,12 @@ type Well struct {
 	// V(Re + x) ≈ Σ c_n xⁿ. Taylor[0] = Energy and Taylor[1] = 0 to
 	// rounding.
 	Taylor []float64
+	// Series holds c_n = V⁽ⁿ⁾(Re)/n! for n = 0, …, M with M =
+	// min(SeriesOrder, MaxOrder) (shorter where a coefficient is not
+	// finite), for the series of small displacements (see Expansion); it
+	// comes from the same evaluation as Taylor, which it extends. It may
+	// be nil in a Well built by hand: Expansion then uses Taylor.
+	Series []float64
 	// K is the force constant V″(Re) in eV/Å² (Hooke's law k).
 	K float64
 	// Inflection is the stretch-side inflection point in Å, where V″
@@ -59,20 +65,25 @@ func AnalyzeWell(p Potential, s WellSettings) (Well, error) {
 	if err != nil {
 		return Well{}, err
 	}
-	w := Well{Re: re, Taylor: make([]float64, order+1)}
-	if err := p.Derivatives(re, w.Taylor); err != nil {
+	series := make([]float64, max(order, min(SeriesOrder, p.MaxOrder()))+1)
+	if err := p.Derivatives(re, series); err != nil {
 		return Well{}, fmt.Errorf("taylor coefficients at r = %g Å: %w", re, err)
 	}
-	w.Energy = w.Taylor[0]
-	w.K = w.Taylor[2]
 	fact := 1.0
-	for n := 2; n <= order; n++ {
+	for n := 2; n < len(series); n++ {
 		fact *= float64(n)
-		w.Taylor[n] /= fact
-		if math.IsInf(w.Taylor[n], 0) || math.IsNaN(w.Taylor[n]) {
-			return Well{}, fmt.Errorf("taylor coefficient c_%d is not finite: %w", n, ErrOrder)
+		series[n] /= fact
+		if math.IsInf(series[n], 0) || math.IsNaN(series[n]) {
+			if n <= order {
+				return Well{}, fmt.Errorf("taylor coefficient c_%d is not finite: %w", n, ErrOrder)
+			}
+			series = series[:n]
+			break
 		}
 	}
+	w := Well{Re: re, Taylor: series[: order+1 : order+1], Series: series}
+	w.Energy = w.Taylor[0]
+	w.K = 2 * w.Taylor[2] // V″(re) = 2c₂
 	d := p.Domain()
 	w.Depth = math.Inf(1)
 	if d.Bounded() {

@@ -31,7 +31,12 @@ func run(args []string, stdin io.Reader, stdout, stderr io.Writer) int {
 	if err == nil {
 		return 0
 	}
-	msg := strings.Join(strings.Fields(strings.ReplaceAll(err.Error(), "\n", " ")), " ")
-	fmt.Fprintf(stderr, "pairwell: %s\n", msg)
+	err = withPluginFailures(err, env.failedPlugins)
+	fmt.Fprintf(stderr, "pairwell: %s\n", oneLine(err.Error()))
 	return exitCode(err)
+}
+
+// oneLine joins the lines of a message and collapses its white space.
+func oneLine(s string) string {
+	return strings.Join(strings.Fields(strings.ReplaceAll(s, "\n", " ")), " ")
 }

@@ -15,6 +15,7 @@ import (
 	"github.com/spf13/cobra"
 	"github.com/spf13/pflag"
 
+	"github.com/pairwell/pairwell/core"
 	"github.com/pairwell/pairwell/plugins"
 )
 
@@ -94,7 +95,7 @@ func (f *pluginFlags) load(e *env) error {
 	if f.timeout <= 0 {
 		return usageErr(fmt.Errorf("--plugin-timeout %v: must be positive", f.timeout))
 	}
-	refs, err := f.resolve()
+	refs, fromPath, err := f.resolve()
 	if err != nil {
 		return err
 	}
@@ -153,12 +154,26 @@ func (f *pluginFlags) load(e *env) error {
 		}()
 	}
 	loading.Wait()
-	for _, err := range errs {
-		if err != nil {
+	for i, err := range errs {
+		// A plugin named by --plugin, or one that is not the pinned
+		// binary, stops the invocation.
+		if err != nil && (!fromPath[i] || errors.Is(err, plugins.ErrChecksum)) {
 			return pluginErr(err)
 		}
 	}
+	for i, err := range errs {
+		if err != nil {
+			// A plugin found through the path variable that fails is a
+			// warning: its forms are missing, the rest works.
+			fail := fmt.Errorf("plugin %s (found through %s) failed to start: %w", refs[i].Path, envPluginPath, err)
+			e.failedPlugins = append(e.failedPlugins, fail)
+			fmt.Fprintf(e.stderr, "pairwell: warning: %s; its forms are not available\n", oneLine(fail.Error()))
+		}
+	}
 	for _, p := range loaded {
+		if p == nil {
+			continue
+		}
 		for _, m := range p.Models() {
 			if err := e.registry.Add(m); err != nil {
 				return usageErr(fmt.Errorf("plugin %s: %w", p.Path(), err))
@@ -184,19 +199,19 @@ func waitTimeout(wg *sync.WaitGroup, d time.Duration) {
 }
 
 // resolve lists the plugins to load, each once (by absolute path), with
-// their pins: a pin given with --plugin wins over the lock file.
-func (f *pluginFlags) resolve() ([]plugins.Ref, error) {
+// their pins: a pin given with --plugin wins over the lock file. fromPath[i]
+// tells that refs[i] was found only through envPluginPath.
+func (f *pluginFlags) resolve() (refs []plugins.Ref, fromPath []bool, err error) {
 	var lock plugins.Lock
 	if name := os.Getenv(envPluginLock); name != "" {
 		l, err := plugins.ReadLock(name)
 		if err != nil {
-			return nil, usageErr(fmt.Errorf("%s: %w", envPluginLock, err))
+			return nil, nil, usageErr(fmt.Errorf("%s: %w", envPluginLock, err))
 		}
 		lock = l
 	}
-	var refs []plugins.Ref
 	seen := make(map[string]int)
-	add := func(r plugins.Ref, fromPath bool) error {
+	add := func(r plugins.Ref, isPath bool) error {
 		abs, err := filepath.Abs(r.Path)
 		if err != nil {
 			return usageErr(fmt.Errorf("plugin %s: %w", r.Path, err))
@@ -205,7 +220,7 @@ func (f *pluginFlags) resolve() ([]plugins.Ref, error) {
 		if r.SHA256 == nil && lock != nil {
 			if sum, ok := lock.Lookup(abs); ok {
 				r.SHA256 = sum
-			} else if fromPath {
+			} else if isPath {
 				return usageErr(fmt.Errorf("plugin %s (found through %s) is not listed in the lock file %s; add its \"sha256sum\" line to load it",
 					abs, envPluginPath, os.Getenv(envPluginLock)))
 			}
@@ -218,27 +233,38 @@ func (f *pluginFlags) resolve() ([]plugins.Ref, error) {
 		}
 		seen[abs] = len(refs)
 		refs = append(refs, r)
+		fromPath = append(fromPath, isPath)
 		return nil
 	}
 	for _, s := range f.refs {
 		r, err := plugins.ParseRef(s)
 		if err != nil {
-			return nil, usageErr(fmt.Errorf("--plugin: %w", err))
+			return nil, nil, usageErr(fmt.Errorf("--plugin: %w", err))
 		}
 		if err := add(r, false); err != nil {
-			return nil, err
+			return nil, nil, err
 		}
 	}
 	found, err := plugins.Discover(os.Getenv(envPluginPath))
 	if err != nil {
-		return nil, usageErr(fmt.Errorf("%s: %w", envPluginPath, err))
+		return nil, nil, usageErr(fmt.Errorf("%s: %w", envPluginPath, err))
 	}
 	for _, path := range found {
 		if err := add(plugins.Ref{Path: path}, true); err != nil {
-			return nil, err
+			return nil, nil, err
 		}
 	}
-	return refs, nil
+	return refs, fromPath, nil
+}
+
+// withPluginFailures adds to an unknown-form error the plugins found
+// through the path variable that failed to start (any of them may serve the
+// form): the error is then a plugin failure (exit 1), not bad input.
+func withPluginFailures(err error, failed []error) error {
+	if len(failed) == 0 || !errors.Is(err, core.ErrUnknownModel) {
+		return err
+	}
+	return failErr(fmt.Errorf("%w; it may be served by a plugin that failed to start: %w", err, errors.Join(failed...)))
 }
 
 // pluginErr classifies an error of starting a plugin: a file that is not

@@ -16,6 +16,9 @@ type env struct {
 	format         string
 	registry       *core.Registry
 	closers        []func()
+	// failedPlugins are the plugins found through the plugin path that
+	// failed to start (a warning, see plugins.go).
+	failedPlugins []error
 }
 
 func newEnv(stdout, stderr io.Writer) *env {

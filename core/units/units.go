@@ -13,7 +13,11 @@
 // without a space). Exponents are a single digit, optionally signed, written
 // "^2", "^-1", "2", "-1" or as superscripts "²", "⁻¹". Unit names are case
 // sensitive ("meV" is not "MeV"). "mol" stands for N_A particles, so molar
-// energies such as kcal/mol are converted to energies per particle.
+// energies such as kcal/mol are converted to energies per particle. The
+// laboratory-scale units J, kJ, cal, kcal and g are accepted only per mole
+// ("0.238kcal" is refused with "did you mean kcal/mol?"), and "mol" only
+// after one of them ("1eV/mol" is refused): a unit is read exactly as
+// written or not at all.
 //
 // Two spectroscopic equivalences are applied when an energy is requested:
 // a temperature T is read as the energy k_B·T, and a wavenumber ν̃ (any
@@ -344,6 +348,12 @@ type atom struct {
 	dim    dims
 }
 
+// molarAtoms are the laboratory-scale units, accepted only per mole, as in
+// kcal/mol or g/mol: a pair potential's parameter in kcal is almost always
+// a kcal/mol with the "/mol" forgotten, and reading it literally would be
+// wrong by a factor N_A. Read only.
+var molarAtoms = map[string]bool{"J": true, "kJ": true, "cal": true, "kcal": true, "Kcal": true, "g": true}
+
 var (
 	energy1      = dims{baseEnergy: 1}
 	length1      = dims{baseLength: 1}
@@ -371,7 +381,7 @@ var atoms = map[string]atom{
 	"cal":      {4.184 / ElectronVolt, energy1},
 	"kcal":     {4184 / ElectronVolt, energy1},
 	"Kcal":     {4184 / ElectronVolt, energy1}, // common spelling of kcal
-	"mol":      {Avogadro, dims{}},             // a count of N_A particles
+	"mol":      {Avogadro, dims{}},             // a count of N_A particles; only after a molar atom
 	"K":        {1, temperature1},
 	"\u00c5":   {1, length1}, // Å, LATIN CAPITAL LETTER A WITH RING ABOVE
 	"\u212b":   {1, length1}, // Å, ANGSTROM SIGN
@@ -426,7 +436,7 @@ var atomNames = func() []string {
 // factor returns the value of one unit u (non-empty, trimmed) in the default
 // unit of d, which must be valid.
 func factor(u string, d Dimension) (float64, error) {
-	f, v, err := parseUnit(u)
+	f, v, m, err := parseUnit(u)
 	if err != nil {
 		return 0, fmt.Errorf("%w %q: %v; %s", ErrUnknownUnit, u, err, allowed(d))
 	}
@@ -443,10 +453,38 @@ func factor(u string, d Dimension) (float64, error) {
 	default:
 		return 0, fmt.Errorf("%w: unit %q has dimension %s, want %s; %s", ErrWrongDimension, u, v.describe(), d, allowed(d))
 	}
+	if err := m.check(u); err != nil {
+		return 0, fmt.Errorf("%w %q: %v", ErrUnknownUnit, u, err)
+	}
 	if f == 0 || math.IsNaN(f) || math.IsInf(f, 0) {
 		return 0, fmt.Errorf("%w: unit %q is out of range", ErrNotFinite, u)
 	}
 	return f, nil
+}
+
+// molarUse records the molar atoms and "mol" factors of a unit expression.
+type molarUse struct {
+	molar int    // sum of the exponents of molar atoms
+	mol   int    // exponent of mol
+	name  string // the first molar atom, "" if none
+	end   int    // the byte offset just after it and its exponent
+}
+
+// check refuses a unit that uses a molar atom other than once per mole,
+// or "mol" without one: "kcal" (did you mean kcal/mol?), "eV/mol",
+// "kcal/mol²".
+func (m molarUse) check(u string) error {
+	switch {
+	case m.molar == 0 && m.mol == 0:
+		return nil
+	case m.molar == 0:
+		return errors.New(`"mol" is accepted only per mole of a laboratory unit (J, kJ, cal, kcal, g), as in kcal/mol or g/mol`)
+	case m.mol == 0 && m.molar == 1:
+		return fmt.Errorf("%s is a laboratory-scale unit, accepted only per mole: did you mean %s/mol%s?", m.name, u[:m.end], u[m.end:])
+	case m.mol != -m.molar:
+		return fmt.Errorf("%s is accepted only once per mole (as in %s/mol)", m.name, m.name)
+	}
+	return nil
 }
 
 // allowed describes the units accepted for d.
@@ -460,7 +498,7 @@ func allowed(d Dimension) string {
 // parseUnit evaluates a unit expression: a sequence of unit names, each with an
 // optional exponent, joined by "/", a multiplication sign or juxtaposition.
 // A leading "1" is allowed before "/".
-func parseUnit(u string) (f float64, v dims, err error) {
+func parseUnit(u string) (f float64, v dims, m molarUse, err error) {
 	f = 1
 	pos := 0
 	div := false       // the next factor divides
@@ -472,9 +510,9 @@ func parseUnit(u string) (f float64, v dims, err error) {
 		}
 		if pos == len(u) {
 			if expectAtom {
-				return 0, dims{}, errors.New("expression ends with an operator")
+				return 0, dims{}, m, errors.New("expression ends with an operator")
 			}
-			return f, v, nil
+			return f, v, m, nil
 		}
 		rest := u[pos:]
 		if !expectAtom {
@@ -505,20 +543,29 @@ func parseUnit(u string) (f float64, v dims, err error) {
 		if name == "" {
 			r, _ := utf8.DecodeRuneInString(rest)
 			if op, n := operator(rest); n > 0 {
-				return 0, dims{}, fmt.Errorf("unexpected %q", string(op))
+				return 0, dims{}, m, fmt.Errorf("unexpected %q", string(op))
 			}
-			return 0, dims{}, fmt.Errorf("no unit named %q", leadingWord(rest, r))
+			return 0, dims{}, m, fmt.Errorf("no unit named %q", leadingWord(rest, r))
 		}
 		pos += len(name)
 		exp, n, err := exponent(u[pos:])
 		if err != nil {
-			return 0, dims{}, fmt.Errorf("after %q: %v", name, err)
+			return 0, dims{}, m, fmt.Errorf("after %q: %v", name, err)
 		}
 		pos += n
 		if div {
 			exp = -exp
 		}
 		a := atoms[name]
+		switch {
+		case molarAtoms[name]:
+			if m.name == "" {
+				m.name, m.end = name, pos
+			}
+			m.molar += exp
+		case name == "mol":
+			m.mol += exp
+		}
 		f *= math.Pow(a.factor, float64(exp))
 		for i := range v {
 			v[i] += exp * a.dim[i]

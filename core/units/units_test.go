@@ -315,6 +315,19 @@ func TestParseErrors(t *testing.T) {
 		{"3 eV/Å", ForceConstant, ErrWrongDimension, nil},
 		{"3 mol", Energy, ErrWrongDimension, []string{"dimensionless"}},
 		{"3 eV", Dimensionless, ErrWrongDimension, nil},
+		// Laboratory-scale units only per mole: no guessing.
+		{"0.238kcal", Energy, ErrUnknownUnit, []string{"did you mean kcal/mol?"}},
+		{"0.238cal", Energy, ErrUnknownUnit, []string{"did you mean cal/mol?"}},
+		{"1kJ", Energy, ErrUnknownUnit, []string{"did you mean kJ/mol?"}},
+		{"1 J", Energy, ErrUnknownUnit, []string{"did you mean J/mol?"}},
+		{"1 Kcal", Energy, ErrUnknownUnit, []string{"did you mean Kcal/mol?"}},
+		{"1eV/mol", Energy, ErrUnknownUnit, []string{"only per mole"}},
+		{"1 hartree/mol", Energy, ErrUnknownUnit, []string{"only per mole"}},
+		{"1 kcal mol", Energy, ErrUnknownUnit, []string{"once per mole"}},
+		{"1 kcal/mol^2", Energy, ErrUnknownUnit, []string{"once per mole"}},
+		{"1 kcal/Å^2", ForceConstant, ErrUnknownUnit, []string{"did you mean kcal/mol/Å^2?"}},
+		{"1 kJ·Å⁶", Dispersion, ErrUnknownUnit, []string{"did you mean kJ/mol·Å⁶?"}},
+		{"12 g", Mass, ErrUnknownUnit, []string{"did you mean g/mol?"}},
 		{"3 Å/Å", Dimensionless, ErrUnknownUnit, []string{"no unit"}},
 		{"3", Dimension(17), ErrInvalidDimension, nil},
 	}
@@ -393,4 +406,17 @@ func TestErrorsAreDistinct(t *testing.T) {
 		}
 		assert.False(t, strings.Contains(a.Error(), "\n"))
 	}
+}
+
+// TestPerMoleSpacing: a laboratory unit and "mol" written apart are still
+// one per-mole unit. g/N_A is 0.99999999965 u (2019 SI: the molar mass
+// constant M_u = 0.99999999965(30) g/mol, CODATA 2018), while "g/mol" is
+// read by convention as exactly 1 u.
+func TestPerMoleSpacing(t *testing.T) {
+	got, err := Parse("12 g / mol", Mass)
+	require.NoError(t, err)
+	assert.InEpsilon(t, 12, got, 1e-9)
+	got, err = Parse("0.238 kcal mol^-1", Energy)
+	require.NoError(t, err)
+	assert.InEpsilon(t, 0.238*refKcalMolEV, got, 1e-12)
 }
