@@ -95,7 +95,7 @@ func BuildSpec(m Model, s Spec) (Instance, error) {
 		if set[i] {
 			return Instance{}, fmt.Errorf("%w: %s: parameter %s given twice", ErrSpec, info.Key, p.Name)
 		}
-		v, err := units.Parse(a.Value, p.Dimension)
+		v, err := units.ParseIn(a.Value, p.Dimension, p.Unit)
 		if err != nil {
 			return Instance{}, fmt.Errorf("%w: %s: %s: %v", ErrSpec, info.Key, p.Name, err)
 		}

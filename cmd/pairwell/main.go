@@ -21,6 +21,8 @@ func main() {
 // run executes the command line args and returns the exit code.
 func run(args []string, stdin io.Reader, stdout, stderr io.Writer) int {
 	env := newEnv(stdout, stderr)
+	stop := env.handleSignals()
+	defer stop()
 	defer env.close()
 	root := newRootCmd(env)
 	root.SetArgs(args)

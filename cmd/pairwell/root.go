@@ -7,6 +7,7 @@ import (
 	"github.com/spf13/cobra"
 
 	"github.com/pairwell/pairwell/core"
+	"github.com/pairwell/pairwell/internal/fileio"
 	"github.com/pairwell/pairwell/models"
 )
 
@@ -15,14 +16,16 @@ type env struct {
 	stdout, stderr io.Writer
 	format         string
 	registry       *core.Registry
+	files          *fileio.Run // the inputs of the run and its temporary files
 	closers        []func()
+	interrupts     interrupts // what a signal must still do, see signals.go
 	// failedPlugins are the plugins found through the plugin path that
 	// failed to start (a warning, see plugins.go).
 	failedPlugins []error
 }
 
 func newEnv(stdout, stderr io.Writer) *env {
-	return &env{stdout: stdout, stderr: stderr, registry: models.NewRegistry()}
+	return &env{stdout: stdout, stderr: stderr, registry: models.NewRegistry(), files: &fileio.Run{}}
 }
 
 // close releases what the invocation started (plugin processes).
