@@ -61,12 +61,12 @@ type Virial struct {
 	MaxB2      Number `json:"max_b2_temperature_k"`
 	MaxB2Error Number `json:"max_b2_temperature_error_estimate_k"`
 	// SearchLow and SearchHigh bound the search of Boyle and MaxB2.
-	SearchLow  Number         `json:"search_low_k"`
-	SearchHigh Number         `json:"search_high_k"`
-	Rows       []VirialRow    `json:"rows"`
-	Data       *VirialData    `json:"data,omitempty"`
-	Notes      []string       `json:"notes"`
-	Caution    string         `json:"caution"`
+	SearchLow  Number      `json:"search_low_k"`
+	SearchHigh Number      `json:"search_high_k"`
+	Rows       []VirialRow `json:"rows"`
+	Data       *VirialData `json:"data,omitempty"`
+	Notes      []string    `json:"notes"`
+	Caution    string      `json:"caution"`
 	// Points are the full results behind Rows, then behind Data.Rows.
 	Points []virial.Point `json:"-"`
 }
