@@ -43,6 +43,8 @@ func newPlotCmd(e *env) *cobra.Command {
            perturbative, and measured points with --method
   compare  several forms overlaid, in absolute or reduced units
   motion   the displacement against time, with the harmonic motion overlaid
+  virial   B₂(T), classical and with the ħ² correction, measured points overlaid
+  expansion  ⟨r⟩(T): classical, cubic-term estimate and quantum
 
 Every curve has its own colour, dash pattern and marker (colours from the
 Okabe–Ito palette for colour-blind readers), so the pictures stay readable in
@@ -56,12 +58,12 @@ range, an amplitude beyond the well), 1 when the file cannot be written.`,
   pairwell plot motion morse:De=4.6,a=1.87,re=1.27 --pair H-Cl --amplitude 0.5 -o motion.png`,
 		RunE: func(cmd *cobra.Command, args []string) error {
 			if len(args) > 0 {
-				return usageErr(fmt.Errorf("unknown plot %q: taylor, period, compare or motion (see %s --help)", args[0], cmd.CommandPath()))
+				return usageErr(fmt.Errorf("unknown plot %q: taylor, period, compare, motion, virial or expansion (see %s --help)", args[0], cmd.CommandPath()))
 			}
-			return usageErr(fmt.Errorf("plot needs a kind: taylor, period, compare or motion (see %s --help)", cmd.CommandPath()))
+			return usageErr(fmt.Errorf("plot needs a kind: taylor, period, compare, motion, virial or expansion (see %s --help)", cmd.CommandPath()))
 		},
 	}
-	cmd.AddCommand(newPlotTaylorCmd(e), newPlotPeriodCmd(e), newPlotCompareCmd(e), newPlotMotionCmd(e))
+	cmd.AddCommand(newPlotTaylorCmd(e), newPlotPeriodCmd(e), newPlotCompareCmd(e), newPlotMotionCmd(e), newPlotVirialCmd(e), newPlotExpansionCmd(e))
 	return cmd
 }
 

@@ -193,3 +193,17 @@ func FuzzParseTemperatures(f *testing.F) {
 		}
 	})
 }
+
+func TestCompareBoyle(t *testing.T) {
+	var stdout, stderr bytes.Buffer
+	code := run([]string{"compare", argonSpec, "harmonic:k=30,r0=1.2", "--mu", "20", "--format", "json"}, strings.NewReader(""), &stdout, &stderr)
+	require.Equal(t, 0, code, stderr.String())
+	var rows []map[string]any
+	require.NoError(t, json.Unmarshal(stdout.Bytes(), &rows))
+	require.Len(t, rows, 2)
+	// Boyle T* = 3.4179 of Lennard-Jones (Hirschfelder, Curtiss & Bird 1954,
+	// from memory); the harmonic form is unbounded: null.
+	assert.InDelta(t, 3.4179*119.8, rows[0]["boyle_temperature_k"], 1e-4*119.8)
+	require.Contains(t, rows[1], "boyle_temperature_k")
+	assert.Nil(t, rows[1]["boyle_temperature_k"])
+}

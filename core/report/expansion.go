@@ -108,3 +108,7 @@ func edgeLimit(s thermal.Settings) float64 {
 	}
 	return s.MaxEdgePopulation
 }
+
+// WellOf analyses the well of inst (Taylor coefficients up to order 2,
+// and 4 when the form has them), for the default ranges of pictures.
+func WellOf(inst core.Instance) (core.Well, error) { return wellOf(inst, 2) }

@@ -5,6 +5,7 @@ import (
 	"math"
 
 	"github.com/pairwell/pairwell/core"
+	"github.com/pairwell/pairwell/core/units"
 	"github.com/pairwell/pairwell/core/virial"
 )
 
@@ -129,10 +130,15 @@ func NewVirial(inst core.Instance, mu float64, temps []float64, s VirialSettings
 	}
 	if mu > 0 {
 		out.Notes = append(out.Notes, "the Boyle temperature and the maximum are those of the classical B₂")
+		// The size of B₂ is judged against |B₂^cl| and the volume
+		// (2π/3)N_A·re³ (B₂^cl passes through zero at the Boyle
+		// temperature).
+		re, _ := c.Equilibrium()
+		b0 := 2 * math.Pi / 3 * units.Avogadro * 1e-24 * re * re * re
 		for _, p := range pts {
-			if math.Abs(p.QuantumCorrection) > 0.1*math.Abs(p.Classical) {
-				out.Notes = append(out.Notes, fmt.Sprintf("at %.6g K the ħ² correction is %.0f%% of the classical B₂: the expansion in ħ² is not reliable there (higher orders and exchange are left out)",
-					p.Temperature, 100*math.Abs(p.QuantumCorrection/p.Classical)))
+			if s := math.Max(math.Abs(p.Classical), b0); math.Abs(p.QuantumCorrection) > 0.1*s {
+				out.Notes = append(out.Notes, fmt.Sprintf("at %.6g K the ħ² correction is %.0f%% of max(|B₂ classical|, ⅔πN_A·re³): the expansion in ħ² is not reliable there (higher orders and exchange are left out)",
+					p.Temperature, 100*math.Abs(p.QuantumCorrection)/s))
 				break
 			}
 		}
@@ -162,15 +168,16 @@ func NewVirial(inst core.Instance, mu float64, temps []float64, s VirialSettings
 }
 
 // BoyleTemperature returns the Boyle temperature in K of a bounded form's
-// classical B₂, NaN when it has none in the searched range, for compare.
-func BoyleTemperature(p core.Potential) (float64, error) {
+// classical B₂ (Buckingham's barrier a hard core), NaN when it has none in
+// the searched range (see virial.Calculator.Boyle), for compare.
+func BoyleTemperature(p core.Potential) (virial.Temperatures, error) {
 	c, err := virial.New(p, virial.Settings{})
 	if err != nil {
-		return math.NaN(), err
+		return virial.Temperatures{Boyle: math.NaN()}, err
 	}
-	ch, err := c.Characteristic()
+	ch, err := c.Boyle()
 	if err != nil {
-		return math.NaN(), err
+		return virial.Temperatures{Boyle: math.NaN()}, err
 	}
-	return ch.Boyle, nil
+	return ch, nil
 }

@@ -40,7 +40,13 @@ type Temperatures struct {
 // dB₂/dT above it, and refines each by core.Root: Newton steps with the
 // analytic dB₂/dT (or d²B₂/dT²) on the same quadrature nodes, safeguarded by
 // bisection. Errors are those of Points.
-func (c *Calculator) Characteristic() (Temperatures, error) {
+func (c *Calculator) Characteristic() (Temperatures, error) { return c.characteristic(true) }
+
+// Boyle is Characteristic without the maximum (Max and MaxError are NaN):
+// fewer evaluations, for comparisons of many forms.
+func (c *Calculator) Boyle() (Temperatures, error) { return c.characteristic(false) }
+
+func (c *Calculator) characteristic(wantMax bool) (Temperatures, error) {
 	unit := c.depth / units.BoltzmannEV
 	var scan []float64
 	for k := scanLowK; k <= scanHighK; k++ {
@@ -85,7 +91,7 @@ func (c *Calculator) Characteristic() (Temperatures, error) {
 			break
 		}
 	}
-	for k := max(start, 1); k < len(pts); k++ {
+	for k := max(start, 1); wantMax && k < len(pts); k++ {
 		if pts[k-1].Slope > 0 && pts[k].Slope <= 0 {
 			T, err := core.Root(func(T float64) (float64, float64, error) {
 				p, err := at(T)
