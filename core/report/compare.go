@@ -17,8 +17,8 @@ const (
 	// potential V_n whose validity is reported: 2, the harmonic picture.
 	DefaultValidityOrder = 2
 	// DefaultValidityTolerance is the relative tolerance of the validity
-	// criteria, 1 %.
-	DefaultValidityTolerance = 0.01
+	// criteria, validity.DefaultTolerance (1 %).
+	DefaultValidityTolerance = validity.DefaultTolerance
 )
 
 // CompareInput is one form to compare: a named instance with its reduced
