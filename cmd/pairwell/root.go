@@ -108,6 +108,8 @@ field: do not base production or safety decisions on its numbers alone.`,
 		newBaselineCmd(e),
 		newPlotCmd(e),
 		newFitCmd(e),
+		newVirialCmd(e),
+		newExpansionCmd(e),
 		newVersionCmd(e),
 	)
 	root.Version = toolVersion()
