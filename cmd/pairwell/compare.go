@@ -303,6 +303,7 @@ var compareColumns = []column{
 	{Title: "T_n E", Unit: "eV"},
 	{Title: "E/depth"},
 	{Title: "E/k_B", Unit: "K"},
+	{Title: "Boyle T", Unit: "K"},
 	{Title: "notes"},
 }
 
@@ -335,6 +336,7 @@ func compareTable(rows []report.CompareRow, full bool) (*table, []string) {
 		} else {
 			cells = append(cells, "—", "—", "—", "—", "—")
 		}
+		cells = append(cells, f(r.Boyle))
 		var text []string
 		text = append(text, r.Notes...)
 		if r.Err != nil {

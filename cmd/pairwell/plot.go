@@ -43,6 +43,8 @@ func newPlotCmd(e *env) *cobra.Command {
            perturbative, and measured points with --method
   compare  several forms overlaid, in absolute or reduced units
   motion   the displacement against time, with the harmonic motion overlaid
+  virial   B₂(T), classical and with the ħ² correction, measured points overlaid
+  expansion  ⟨r⟩(T): classical, cubic-term estimate and quantum
 
 Every curve has its own colour, dash pattern and marker (colours from the
 Okabe–Ito palette for colour-blind readers), so the pictures stay readable in
@@ -58,10 +60,10 @@ range, an amplitude beyond the well), 1 when the file cannot be written.`,
 			if len(args) > 0 {
 				return unknownCommand(cmd, args[0])
 			}
-			return usageErr(fmt.Errorf("plot needs a kind: taylor, period, compare or motion (see %s --help)", cmd.CommandPath()))
+			return usageErr(fmt.Errorf("plot needs a kind: taylor, period, compare, motion, virial or expansion (see %s --help)", cmd.CommandPath()))
 		},
 	}
-	cmd.AddCommand(newPlotTaylorCmd(e), newPlotPeriodCmd(e), newPlotCompareCmd(e), newPlotMotionCmd(e))
+	cmd.AddCommand(newPlotTaylorCmd(e), newPlotPeriodCmd(e), newPlotCompareCmd(e), newPlotMotionCmd(e), newPlotVirialCmd(e), newPlotExpansionCmd(e))
 	return cmd
 }
 

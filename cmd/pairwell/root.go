@@ -107,6 +107,8 @@ field: do not base production or safety decisions on its numbers alone.`,
 		newCheckCmd(e),
 		newBaselineCmd(e),
 		newPlotCmd(e),
+		newVirialCmd(e),
+		newExpansionCmd(e),
 		newVersionCmd(e),
 	)
 	root.Version = toolVersion()
