@@ -88,7 +88,7 @@ energy read as k_B·T). JSON is in K, Å and 1/K.`,
 // expansionSettings are the settings of the expansion command and its
 // picture.
 func expansionSettings() report.ExpansionSettings {
-	return report.ExpansionSettings{}
+	return report.ExpansionSettings{Levels: report.SolveLevels}
 }
 
 // expansionTable lays out the rows, units in the headers.

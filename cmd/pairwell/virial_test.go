@@ -152,7 +152,10 @@ func TestExpansionJSONContract(t *testing.T) {
 		x := 3 * kT / (4 * 1.87 * 4.6)
 		assert.InDelta(t, 1.27+x, row["mean_r_cubic_estimate_angstrom"], 1e-12)
 		assert.InDelta(t, x, row["mean_r_classical_angstrom"].(float64)-1.27, 3*kT/4.6*x)
+		// The quantum average is above re by the zero-point shift.
+		assert.Greater(t, row["mean_r_quantum_angstrom"], 1.28)
 	}
+	assert.Greater(t, obj["quantum_levels"], 20.0)
 }
 
 func FuzzReadB2Data(f *testing.F) {

@@ -5,7 +5,9 @@ import (
 	"math"
 
 	"github.com/pairwell/pairwell/core"
+	"github.com/pairwell/pairwell/core/levels"
 	"github.com/pairwell/pairwell/core/thermal"
+	"github.com/pairwell/pairwell/core/units"
 )
 
 // ExpansionRow is the thermal expansion of the bond at one temperature.
@@ -57,8 +59,40 @@ type Expansion struct {
 type ExpansionSettings struct {
 	Thermal thermal.Settings
 	// Levels solves the J = 0 vibrational levels of a potential for the
-	// reduced mass mu (u); nil leaves the quantum column out.
-	Levels func(p core.Potential, mu float64) ([]thermal.Level, error)
+	// reduced mass mu (u), enough of them for temperatures up to tmax (K);
+	// nil leaves the quantum column out. SolveLevels is the usual one.
+	Levels func(p core.Potential, mu, tmax float64) ([]thermal.Level, error)
+}
+
+// maxUnboundedLevels caps the levels solved for an unbounded well.
+const maxUnboundedLevels = 400
+
+// SolveLevels returns the J = 0 vibrational levels of p for the reduced
+// mass mu (u) by levels.Solve: every bound level of a bounded well; for an
+// unbounded one (harmonic) the levels up to 60·k_B·tmax above the
+// harmonic zero point (at most 400; thermal refuses temperatures at which
+// the highest one is populated).
+func SolveLevels(p core.Potential, mu, tmax float64) ([]thermal.Level, error) {
+	set := levels.Settings{}
+	if !p.Domain().Bounded() {
+		w, err := core.AnalyzeWell(p, core.WellSettings{Order: 2})
+		if err != nil {
+			return nil, err
+		}
+		hw := units.HbarEVfs * units.AngularFrequency(w.K, mu)
+		set.Count = min(maxUnboundedLevels, int(60*units.BoltzmannEV*tmax/hw)+2)
+	}
+	res, err := levels.Solve(p, mu, set)
+	if err != nil {
+		return nil, err
+	}
+	out := make([]thermal.Level, 0, len(res.Levels))
+	for _, l := range res.Levels {
+		if l.J == 0 {
+			out = append(out, thermal.Level{Energy: l.Energy, MeanR: l.MeanR, MeanSquareR: l.MeanSquareR})
+		}
+	}
+	return out, nil
 }
 
 // NewExpansion computes the thermal expansion of the bond of inst for the
@@ -78,16 +112,20 @@ func NewExpansion(inst core.Instance, mu float64, temps []float64, s ExpansionSe
 		out.Notes = append(out.Notes, fmt.Sprintf("classical averages over the bound region %.6g Å < r < %.6g Å, where V − V(re) < %.6g eV; temperatures at which the population at its edge exceeds %.2g are refused",
 			lo, hi, ecut, edgeLimit(s.Thermal)))
 	}
-	var levels []thermal.Level
+	var lv []thermal.Level
 	if s.Levels != nil {
-		if levels, err = s.Levels(inst.Potential, mu); err != nil {
+		tmax := 0.0
+		for _, T := range temps {
+			tmax = math.Max(tmax, T)
+		}
+		if lv, err = s.Levels(inst.Potential, mu, tmax); err != nil {
 			return Expansion{}, fmt.Errorf("vibrational levels: %w", err)
 		}
-		out.Levels = len(levels)
+		out.Levels = len(lv)
 	} else {
 		out.Notes = append(out.Notes, "the quantum column is not available in this build (no level solver)")
 	}
-	pts, err := e.Points(temps, levels)
+	pts, err := e.Points(temps, lv)
 	if err != nil {
 		return Expansion{}, err
 	}

@@ -351,7 +351,7 @@ func (e *Expansion) Points(temps []float64, levels []Level) ([]Point, error) {
 			ExpansionClassical: cov / T / e.w.Re,
 			RMSClassical:       math.Sqrt(math.Max(mx2-mx*mx, 0)),
 			MeanCubic:          e.w.Re - 3*c3/(beta*4*c2*c2),
-			ExpansionCubic:     -3 * c3 * units.BoltzmannEV / (4 * c2 * c2 * e.w.Re),
+			ExpansionCubic:     -3*c3*units.BoltzmannEV/(4*c2*c2*e.w.Re) + 0, // + 0: no −0 for c₃ = 0
 			RMSHarmonic:        math.Sqrt(1 / (beta * 2 * c2)),
 			MeanQuantum:        math.NaN(),
 			ExpansionQuantum:   math.NaN(),
@@ -387,9 +387,13 @@ func (e *Expansion) quantum(p *Point, beta float64, levels []Level) error {
 	for _, l := range levels {
 		e0 = math.Min(e0, l.Energy)
 	}
-	var z, zr, zr2, ze, zre, ztop float64
+	var z, zr, zr2, ze, zre, ztop, wtop float64
 	used := 0
+	etop := math.Inf(-1)
 	for _, l := range levels {
+		if l.Energy > etop {
+			etop, wtop = l.Energy, math.Exp(-beta*(l.Energy-e0))
+		}
 		de := l.Energy - e0
 		w := math.Exp(-beta * de)
 		if w > 1e-300 {
@@ -407,6 +411,10 @@ func (e *Expansion) quantum(p *Point, beta float64, levels []Level) error {
 	if ztop/z > e.s.MaxEdgePopulation {
 		return fmt.Errorf("thermal: %w: the levels above the cut-off (%.4g eV above the minimum) hold %.2g of the population, more than %.2g: give a lower temperature",
 			core.ErrDomain, e.ecut, ztop/z, e.s.MaxEdgePopulation)
+	}
+	if math.IsInf(e.ecut, 1) && wtop/z > e.s.MaxEdgePopulation {
+		return fmt.Errorf("thermal: %w: the highest of the %d levels given holds %.2g of the population, more than %.2g: more levels are needed at this temperature",
+			core.ErrDomain, len(levels), wtop/z, e.s.MaxEdgePopulation)
 	}
 	mx := zr / z
 	p.MeanQuantum = e.w.Re + mx

@@ -11,6 +11,7 @@ import (
 
 	"github.com/pairwell/pairwell/core"
 	"github.com/pairwell/pairwell/core/coretest"
+	"github.com/pairwell/pairwell/core/levels"
 	"github.com/pairwell/pairwell/core/units"
 	"github.com/pairwell/pairwell/models"
 )
@@ -210,4 +211,43 @@ func TestMorseQuantum(t *testing.T) {
 	pp, err := e.Points([]float64{3000 - h, 3000 + h}, levels)
 	require.NoError(t, err)
 	assert.InDelta(t, (pp[1].MeanQuantum-pp[0].MeanQuantum)/(2*h)/mRe, pts[3].ExpansionQuantum, 1e-5*pts[3].ExpansionQuantum)
+}
+
+func TestLevelSolverAgainstMorseWavefunctions(t *testing.T) {
+	// The level solver (package levels) against our own quadrature of the
+	// Morse wavefunctions and the closed-form Morse energies.
+	mu := 0.9797
+	ref := morseLevels(mu, 1000)
+	res, err := levels.Solve(morse(t), mu, levels.Settings{})
+	require.NoError(t, err)
+	require.GreaterOrEqual(t, len(res.Levels), len(ref)-res.Unresolved-1)
+	var worstE, worstR float64
+	defer func() { t.Logf("worst |ΔE| = %.2e cm⁻¹, |Δ⟨r⟩| = %.2e Å", worstE, worstR) }()
+	for i, l := range res.Levels {
+		if i >= len(ref) || float64(l.V) > 0.8*float64(len(ref)) {
+			break
+		}
+		r := ref[l.V]
+		worstE = math.Max(worstE, math.Abs(r.Energy-l.Energy)/units.WavenumberEV)
+		worstR = math.Max(worstR, math.Abs(r.MeanR-l.MeanR))
+		assert.InDelta(t, r.Energy, l.Energy, 1e-5*units.WavenumberEV, "v = %d", l.V)
+		assert.InDelta(t, r.MeanR, l.MeanR, math.Max(1e-9, 2*l.MeanRAccuracy), "v = %d", l.V)
+		assert.InDelta(t, r.MeanSquareR, l.MeanSquareR, 1e-8, "v = %d", l.V)
+	}
+	// And the thermal average built on them.
+	e, err := New(morse(t), Settings{})
+	require.NoError(t, err)
+	var solved []Level
+	for _, l := range res.Levels {
+		solved = append(solved, Level{Energy: l.Energy, MeanR: l.MeanR, MeanSquareR: l.MeanSquareR})
+	}
+	ts := []float64{10, 300, 1000, 2500}
+	a, err := e.Points(ts, solved)
+	require.NoError(t, err)
+	b, err := e.Points(ts, ref)
+	require.NoError(t, err)
+	for i := range ts {
+		assert.InDelta(t, b[i].MeanQuantum, a[i].MeanQuantum, 1e-9, "%g K", ts[i])
+		assert.InDelta(t, b[i].ExpansionQuantum, a[i].ExpansionQuantum, 1e-6*math.Abs(b[i].ExpansionQuantum)+1e-15, "%g K", ts[i])
+	}
 }
