@@ -6,6 +6,7 @@ import (
 	"strings"
 
 	"github.com/pairwell/pairwell/core/units"
+	"github.com/pairwell/pairwell/internal/suggest"
 )
 
 // ErrSpec means a model spec could not be parsed or does not fit its model.
@@ -52,6 +53,10 @@ func ParseSpec(s string) (Spec, error) {
 		if !ok || name == "" || value == "" {
 			return Spec{}, fmt.Errorf("%w %q: %q is not NAME=VALUE", ErrSpec, s, strings.TrimSpace(part))
 		}
+		if f := strings.Fields(value); len(f) > 1 && strings.Contains(value, "=") {
+			return Spec{}, fmt.Errorf("%w %q: %q: separate the parameters with commas, e.g. %s", ErrSpec, s, strings.TrimSpace(part),
+				name+"="+strings.Join(strings.Fields(strings.ReplaceAll(value, ",", " ")), ","))
+		}
 		spec.Params = append(spec.Params, Assignment{Name: name, Value: value})
 	}
 	return spec, nil
@@ -76,7 +81,7 @@ func (r *Registry) Build(spec string) (Instance, error) {
 	}
 	m, err := r.Lookup(s.Model)
 	if err != nil {
-		return Instance{}, fmt.Errorf("%w: %v", ErrSpec, err)
+		return Instance{}, fmt.Errorf("%w: %w", ErrSpec, err)
 	}
 	return BuildSpec(m, s)
 }
@@ -89,13 +94,17 @@ func BuildSpec(m Model, s Spec) (Instance, error) {
 	for _, a := range s.Params {
 		i := paramIndex(info, a.Name)
 		if i < 0 {
-			return Instance{}, fmt.Errorf("%w: %s has no parameter %q; parameters: %s", ErrSpec, info.Key, a.Name, paramList(info))
+			names := make([]string, len(info.Params))
+			for i, p := range info.Params {
+				names[i] = p.Name
+			}
+			return Instance{}, fmt.Errorf("%w: %s has no parameter %q%s; parameters: %s", ErrSpec, info.Key, a.Name, suggest.Hint(a.Name, names), paramList(info))
 		}
 		p := info.Params[i]
 		if set[i] {
 			return Instance{}, fmt.Errorf("%w: %s: parameter %s given twice", ErrSpec, info.Key, p.Name)
 		}
-		v, err := units.Parse(a.Value, p.Dimension)
+		v, err := units.ParseIn(a.Value, p.Dimension, p.Unit)
 		if err != nil {
 			return Instance{}, fmt.Errorf("%w: %s: %s: %v", ErrSpec, info.Key, p.Name, err)
 		}

@@ -10,7 +10,7 @@
 // left to right, and "/" divides by the single factor that follows it, so
 // "kcal/mol/Å²" is kcal·mol⁻¹·Å⁻² and "kcal/mol·Å⁶" is kcal·mol⁻¹·Å⁶.
 // Multiplication is written "·", "⋅", "*", "." or by juxtaposition (with or
-// without a space). Exponents are a single digit, optionally signed, written
+// without a space). Exponents have one or two digits, optionally signed, written
 // "^2", "^-1", "2", "-1" or as superscripts "²", "⁻¹". Unit names are case
 // sensitive ("meV" is not "MeV"). "mol" stands for N_A particles, so molar
 // energies such as kcal/mol are converted to energies per particle. The
@@ -32,69 +32,202 @@ import (
 	"strconv"
 	"strings"
 	"unicode/utf8"
+
+	"github.com/pairwell/pairwell/internal/suggest"
 )
 
-// Dimension is the physical dimension of a quantity.
+// Dimension is the physical dimension of a quantity: a product of integer
+// powers of the base dimensions energy, length, mass, time and temperature,
+// E^e·L^l·M^m·T^t·Θ^θ. Each exponent lies in −32…31. The named constants
+// below are the dimensions of pairwell's fixed parameters; NewDimension and
+// ParseUnit give any other product, such as energy·length⁸ (a C₈
+// coefficient) or length⁻² (the β of a Varshni form).
+//
+// A Dimension is an integer so that dimensions compare with == and can be
+// constants: the exponents are the digits of its balanced base-64
+// representation, energy lowest, so Dimensionless is 0, Energy is 1 and
+// Length is 64. Use Exponents to read them; do not rely on the encoding.
 type Dimension int
 
-// Dimensions known to Parse. The comment gives the default unit.
+// Dimensions with a name. The comment gives the default unit.
 const (
-	Dimensionless Dimension = iota // no unit
-	Energy                         // eV
-	Length                         // Å
-	InverseLength                  // 1/Å
-	ForceConstant                  // eV/Å²
-	Dispersion                     // eV·Å⁶ (C6-type coefficient)
-	Mass                           // u
-	Time                           // fs
-	Temperature                    // K
-
-	numDimensions
+	Dimensionless Dimension = 0                     // no unit
+	Energy        Dimension = 1                     // eV
+	Length        Dimension = dimBase               // Å
+	InverseLength Dimension = -Length               // 1/Å
+	ForceConstant Dimension = Energy - 2*Length     // eV/Å²
+	Dispersion    Dimension = Energy + 6*Length     // eV·Å⁶ (C6-type coefficient)
+	Mass          Dimension = dimBase * dimBase     // u
+	Time          Dimension = Mass * dimBase        // fs
+	Temperature   Dimension = Time * dimBase        // K
+	dimBase                 = 64                    // radix of the encoding
+	dimDigitMin             = -dimBase / 2          // smallest exponent
+	dimDigitMax             = dimBase/2 - 1         // largest exponent
+	dimLimit                = Temperature * dimBase // |d| < dimLimit/2 for valid d
 )
 
-var dimensionNames = [numDimensions]string{
-	Dimensionless: "dimensionless",
-	Energy:        "energy",
-	Length:        "length",
-	InverseLength: "inverse length",
-	ForceConstant: "force constant",
-	Dispersion:    "dispersion coefficient",
-	Mass:          "mass",
-	Time:          "time",
-	Temperature:   "temperature",
+// namedDimensions lists the dimensions with a name, in the order of the
+// constants. Read only.
+var namedDimensions = [...]Dimension{Dimensionless, Energy, Length, InverseLength, ForceConstant, Dispersion, Mass, Time, Temperature}
+
+// dimensionName returns the name of a named dimension, "" for others.
+func dimensionName(d Dimension) string {
+	switch d {
+	case Dimensionless:
+		return "dimensionless"
+	case Energy:
+		return "energy"
+	case Length:
+		return "length"
+	case InverseLength:
+		return "inverse length"
+	case ForceConstant:
+		return "force constant"
+	case Dispersion:
+		return "dispersion coefficient"
+	case Mass:
+		return "mass"
+	case Time:
+		return "time"
+	case Temperature:
+		return "temperature"
+	}
+	return ""
 }
 
-var defaultUnits = [numDimensions]string{
-	Dimensionless: "",
-	Energy:        "eV",
-	Length:        "Å",
-	InverseLength: "1/Å",
-	ForceConstant: "eV/Å²",
-	Dispersion:    "eV·Å⁶",
-	Mass:          "u",
-	Time:          "fs",
-	Temperature:   "K",
+// namedDefaultUnit returns the default unit of a named dimension and
+// whether d is one.
+func namedDefaultUnit(d Dimension) (string, bool) {
+	switch d {
+	case Dimensionless:
+		return "", true
+	case Energy:
+		return "eV", true
+	case Length:
+		return "Å", true
+	case InverseLength:
+		return "1/Å", true
+	case ForceConstant:
+		return "eV/Å²", true
+	case Dispersion:
+		return "eV·Å⁶", true
+	case Mass:
+		return "u", true
+	case Time:
+		return "fs", true
+	case Temperature:
+		return "K", true
+	}
+	return "", false
 }
 
-func (d Dimension) valid() bool { return d >= 0 && d < numDimensions }
+// NewDimension returns energy^e·length^l·mass^m·time^t·temperature^θ. ok is
+// false when an exponent lies outside −32…31.
+func NewDimension(e, l, m, t, θ int) (d Dimension, ok bool) {
+	var v dims
+	v[baseEnergy], v[baseLength], v[baseMass], v[baseTime], v[baseTemperature] = e, l, m, t, θ
+	return fromDims(v)
+}
 
-// String returns the lower-case name of d, e.g. "energy" or "inverse length".
+// Exponents returns the exponents of energy, length, mass, time and
+// temperature in d. For an invalid d all are 0.
+func (d Dimension) Exponents() (e, l, m, t, θ int) {
+	v, ok := d.dims()
+	if !ok {
+		return 0, 0, 0, 0, 0
+	}
+	return v[baseEnergy], v[baseLength], v[baseMass], v[baseTime], v[baseTemperature]
+}
+
+// valid reports whether d is a dimension: its encoding has no digit beyond
+// the five base dimensions.
+func (d Dimension) valid() bool { _, ok := d.dims(); return ok }
+
+// dims decodes d.
+func (d Dimension) dims() (v dims, ok bool) {
+	x := int64(d)
+	for i := range v {
+		digit := ((x%dimBase)+dimBase-dimDigitMin)%dimBase + dimDigitMin
+		v[i] = int(digit)
+		x = (x - digit) / dimBase
+	}
+	return v, x == 0
+}
+
+// fromDims encodes v; ok is false when an exponent is out of range.
+func fromDims(v dims) (Dimension, bool) {
+	var x int64
+	for i := len(v) - 1; i >= 0; i-- {
+		if v[i] < dimDigitMin || v[i] > dimDigitMax {
+			return 0, false
+		}
+		x = x*dimBase + int64(v[i])
+	}
+	return Dimension(x), true
+}
+
+// String returns the lower-case name of d, e.g. "energy" or "inverse
+// length", or for dimensions without a name the product of the base
+// dimensions, e.g. "energy·length^8" or "length^-2".
 func (d Dimension) String() string {
-	if !d.valid() {
+	if n := dimensionName(d); n != "" {
+		return n
+	}
+	v, ok := d.dims()
+	if !ok {
 		return "Dimension(" + strconv.Itoa(int(d)) + ")"
 	}
-	return dimensionNames[d]
+	var parts []string
+	for i, n := range v {
+		switch n {
+		case 0:
+		case 1:
+			parts = append(parts, baseNames[i])
+		default:
+			parts = append(parts, baseNames[i]+"^"+strconv.Itoa(n))
+		}
+	}
+	return strings.Join(parts, "·")
 }
 
 // DefaultUnit returns the unit in which Parse returns values of dimension d:
-// "eV", "Å", "1/Å", "eV/Å²", "eV·Å⁶", "u", "fs", "K", or "" for Dimensionless
-// and for an invalid dimension.
+// "eV", "Å", "1/Å", "eV/Å²", "eV·Å⁶", "u", "fs", "K" for the named
+// dimensions, the product of eV, Å, u, fs and K otherwise (e.g. "eV·Å⁸",
+// "1/Å²", "eV/Å⁴"), and "" for Dimensionless and for an invalid
+// dimension. Parse and ParseUnit accept the result.
 func (d Dimension) DefaultUnit() string {
-	if !d.valid() {
+	if u, ok := namedDefaultUnit(d); ok {
+		return u
+	}
+	v, ok := d.dims()
+	if !ok {
 		return ""
 	}
-	return defaultUnits[d]
+	var num, den []string
+	for i, n := range v {
+		switch {
+		case n == 1:
+			num = append(num, baseUnits[i])
+		case n > 1:
+			num = append(num, baseUnits[i]+Superscript(n))
+		case n == -1:
+			den = append(den, baseUnits[i])
+		case n < -1:
+			den = append(den, baseUnits[i]+Superscript(-n))
+		}
+	}
+	s := strings.Join(num, "·")
+	if s == "" {
+		s = "1"
+	}
+	for _, u := range den {
+		s += "/" + u
+	}
+	return s
 }
+
+// baseUnits are the default units of the base dimensions.
+var baseUnits = [numBase]string{"eV", "Å", "u", "fs", "K"}
 
 // Sentinel errors returned (wrapped) by Parse and Factor. Use errors.Is to
 // test for them.
@@ -141,6 +274,18 @@ func (e *ParseError) Unwrap() error { return e.Err }
 // The returned error is a *ParseError wrapping ErrMalformedNumber,
 // ErrNotFinite, ErrUnknownUnit, ErrWrongDimension or ErrInvalidDimension.
 func Parse(s string, d Dimension) (float64, error) {
+	return parse(s, d, "")
+}
+
+// ParseIn is Parse with bare numbers read in the unit bare, a unit of
+// dimension d (e.g. "kcal/mol·Å⁶" for a Dispersion value): ParseIn("500",
+// Dispersion, "kcal/mol*A^6") is 500 kcal/mol·Å⁶ in eV·Å⁶. Numbers with a
+// unit suffix are read as by Parse. An empty bare is the default unit.
+func ParseIn(s string, d Dimension, bare string) (float64, error) {
+	return parse(s, d, bare)
+}
+
+func parse(s string, d Dimension, bare string) (float64, error) {
 	fail := func(err error) (float64, error) {
 		return 0, &ParseError{Input: s, Dim: d, Err: err}
 	}
@@ -160,7 +305,10 @@ func Parse(s string, d Dimension) (float64, error) {
 		return fail(fmt.Errorf("%w: %q: %v", ErrMalformedNumber, num, err))
 	}
 	if unit == "" {
-		return v, nil
+		unit = strings.TrimSpace(bare)
+		if unit == "" || unit == "1" && d == Dimensionless {
+			return v, nil
+		}
 	}
 	if strings.HasPrefix(unit, "/") {
 		// "1.9/Å" reads as 1.9 per Å.
@@ -175,6 +323,40 @@ func Parse(s string, d Dimension) (float64, error) {
 		return fail(fmt.Errorf("%w: %s %s is out of range in %s", ErrNotFinite, num, unit, d.DefaultUnit()))
 	}
 	return r, nil
+}
+
+// ErrUnit is wrapped by the errors of ParseUnit.
+var ErrUnit = errors.New("invalid unit")
+
+// ParseUnit reads a unit expression, such as "eV", "kcal/mol*A^6", "1/A^2",
+// "eV*A^8" or "1" (dimensionless), and returns its dimension and its value in
+// the default unit of that dimension (for "kcal/mol*A^6", the value of
+// 1 kcal/mol·Å⁶ in eV·Å⁶). Unlike Parse it applies no equivalence: "K" is a
+// temperature and "cm-1" an inverse length. Errors wrap ErrUnit and
+// ErrUnknownUnit or ErrNotFinite.
+func ParseUnit(u string) (Dimension, float64, error) {
+	t := strings.TrimSpace(u)
+	if t == "1" {
+		return Dimensionless, 1, nil
+	}
+	if t == "" {
+		return 0, 0, fmt.Errorf("%w: empty unit (write 1 for a dimensionless value)", ErrUnit)
+	}
+	f, v, m, err := parseUnit(t)
+	if err == nil {
+		err = m.check(t)
+	}
+	if err != nil {
+		return 0, 0, fmt.Errorf("%w %q: %w: %v", ErrUnit, u, ErrUnknownUnit, err)
+	}
+	d, ok := fromDims(v)
+	if !ok {
+		return 0, 0, fmt.Errorf("%w %q: %w: exponent out of range", ErrUnit, u, ErrUnknownUnit)
+	}
+	if f == 0 || math.IsNaN(f) || math.IsInf(f, 0) {
+		return 0, 0, fmt.Errorf("%w %q: %w", ErrUnit, u, ErrNotFinite)
+	}
+	return d, f, nil
 }
 
 // Factor returns the value of one unit, given by its spelling such as "kcal/mol"
@@ -202,7 +384,13 @@ func Units(d Dimension) []string {
 	if !d.valid() {
 		return nil
 	}
-	return append([]string(nil), unitLists[d]...)
+	if l, ok := unitLists[d]; ok {
+		return append([]string(nil), l...)
+	}
+	if d == Dimensionless {
+		return []string{}
+	}
+	return []string{d.DefaultUnit()}
 }
 
 // Format formats v, a value in the default unit of d, as the shortest decimal
@@ -216,8 +404,9 @@ func Format(v float64, d Dimension) string {
 	return s
 }
 
-// unitLists holds the spellings returned by Units. Read only.
-var unitLists = [numDimensions][]string{
+// unitLists holds the spellings returned by Units for the named
+// dimensions. Read only.
+var unitLists = map[Dimension][]string{
 	Dimensionless: {},
 	Energy: {"eV", "meV", "keV", "MeV", "hartree", "Eh", "Ha", "Ry",
 		"kcal/mol", "kJ/mol", "J/mol", "cm-1", "cm^-1", "cm⁻¹", "1/cm", "K"},
@@ -309,37 +498,13 @@ const (
 
 var baseNames = [numBase]string{"energy", "length", "mass", "time", "temperature"}
 
-// dimensionDims gives the base-dimension exponents of each Dimension.
-var dimensionDims = [numDimensions]dims{
-	Dimensionless: {},
-	Energy:        {baseEnergy: 1},
-	Length:        {baseLength: 1},
-	InverseLength: {baseLength: -1},
-	ForceConstant: {baseEnergy: 1, baseLength: -2},
-	Dispersion:    {baseEnergy: 1, baseLength: 6},
-	Mass:          {baseMass: 1},
-	Time:          {baseTime: 1},
-	Temperature:   {baseTemperature: 1},
-}
-
-// describe names the dimension of v, using a Dimension name where one matches.
+// describe names the dimension of v.
 func (v dims) describe() string {
-	for d, dd := range dimensionDims {
-		if dd == v {
-			return Dimension(d).String()
-		}
+	d, ok := fromDims(v)
+	if !ok {
+		return "out-of-range dimension"
 	}
-	var parts []string
-	for i, n := range v {
-		switch n {
-		case 0:
-		case 1:
-			parts = append(parts, baseNames[i])
-		default:
-			parts = append(parts, baseNames[i]+"^"+strconv.Itoa(n))
-		}
-	}
-	return strings.Join(parts, "·")
+	return d.String()
 }
 
 // atom is a named unit: its value in default units and its dimension.
@@ -440,18 +605,24 @@ func factor(u string, d Dimension) (float64, error) {
 	if err != nil {
 		return 0, fmt.Errorf("%w %q: %v; %s", ErrUnknownUnit, u, err, allowed(d))
 	}
-	want := dimensionDims[d]
+	want, _ := d.dims()
 	switch {
 	case d == Dimensionless && v == want:
 		return 0, fmt.Errorf("%w %q: dimensionless values take no unit", ErrUnknownUnit, u)
 	case v == want:
 		// Exact match.
-	case d == Energy && v == dimensionDims[Temperature]:
+	case d == Energy && v == temperature1:
 		f *= BoltzmannEV // E = k_B·T
-	case d == Energy && v == dimensionDims[InverseLength]:
+	case d == Energy && v == (dims{baseLength: -1}):
 		f *= hcEVAngstrom // E = h·c·ν̃
 	default:
-		return 0, fmt.Errorf("%w: unit %q has dimension %s, want %s; %s", ErrWrongDimension, u, v.describe(), d, allowed(d))
+		hint := ""
+		if w := leadingWord(u, 0); w == u {
+			// One word read as a product of names ("Angstroms" as
+			// Angstrom·s): most likely a misspelt name.
+			hint = suggest.Hint(u, suggestNames)
+		}
+		return 0, fmt.Errorf("%w: unit %q%s has dimension %s, want %s; %s", ErrWrongDimension, u, hint, v.describe(), d, allowed(d))
 	}
 	if err := m.check(u); err != nil {
 		return 0, fmt.Errorf("%w %q: %v", ErrUnknownUnit, u, err)
@@ -492,7 +663,10 @@ func allowed(d Dimension) string {
 	if d == Dimensionless {
 		return "dimensionless values take no unit"
 	}
-	return d.String() + " units: " + strings.Join(unitLists[d], ", ")
+	if l, ok := unitLists[d]; ok {
+		return d.String() + " units: " + strings.Join(l, ", ")
+	}
+	return d.String() + " units: products of energy, length, … units such as " + d.DefaultUnit()
 }
 
 // parseUnit evaluates a unit expression: a sequence of unit names, each with an
@@ -533,21 +707,19 @@ func parseUnit(u string) (f float64, v dims, m molarUse, err error) {
 				continue
 			}
 		}
-		name := ""
-		for _, n := range atomNames {
-			if strings.HasPrefix(rest, n) {
-				name = n
-				break
-			}
+		name, n, err := atomAt(rest)
+		if err != nil {
+			return 0, dims{}, m, err
 		}
 		if name == "" {
 			r, _ := utf8.DecodeRuneInString(rest)
 			if op, n := operator(rest); n > 0 {
 				return 0, dims{}, m, fmt.Errorf("unexpected %q", string(op))
 			}
-			return 0, dims{}, m, fmt.Errorf("no unit named %q", leadingWord(rest, r))
+			w := leadingWord(rest, r)
+			return 0, dims{}, m, fmt.Errorf("no unit named %q%s", w, suggest.Hint(w, suggestNames))
 		}
-		pos += len(name)
+		pos += n
 		exp, n, err := exponent(u[pos:])
 		if err != nil {
 			return 0, dims{}, m, fmt.Errorf("after %q: %v", name, err)
@@ -613,7 +785,8 @@ var superscripts = map[rune]int{
 }
 
 // exponent reads an optional exponent at the start of s: "^n", "^-n", "n",
-// "-n", or superscripts such as "²" and "⁻¹". n is a single non-zero digit.
+// "-n", or superscripts such as "²" and "⁻¹". n has one or two digits and is
+// not zero.
 // It returns the exponent (1 if absent) and the number of bytes read.
 func exponent(s string) (exp, n int, err error) {
 	pos := 0
@@ -644,7 +817,7 @@ func exponent(s string) (exp, n int, err error) {
 		if !ok {
 			break
 		}
-		val = d
+		val = 10*val + d
 		digits++
 		pos += size
 	}
@@ -653,10 +826,100 @@ func exponent(s string) (exp, n int, err error) {
 		return 0, 0, errors.New("exponent without digits")
 	case digits == 0:
 		return 1, 0, nil
-	case digits > 1:
-		return 0, 0, errors.New("exponent must be a single digit")
+	case digits > 2:
+		return 0, 0, errors.New("exponent must have at most two digits")
 	case val == 0:
 		return 0, 0, errors.New("exponent must not be zero")
 	}
 	return sign * val, pos, nil
 }
+
+// atomAt finds the unit name at the start of s and returns the canonical
+// name and the bytes it takes. A word (a run of ASCII letters) that is a
+// name is read as it is. Otherwise a word equal to a name ignoring case is
+// read as that name ("kj" and "KJ" are kJ, "EV" is eV, "ANGSTROM" is
+// angstrom) when all names equal to it ignoring case mean the same unit, and
+// is an error when they do not ("MEV": meV or MeV?); failing that, a word
+// that splits into names written exactly is read as their product ("eVA6"
+// is eV·Å⁶). A non-word name (Å, µs, a₀, g/mol …) must be written exactly.
+// name is "" when nothing matches.
+func atomAt(s string) (name string, n int, err error) {
+	exact := ""
+	for _, a := range atomNames {
+		if strings.HasPrefix(s, a) {
+			exact = a
+			break
+		}
+	}
+	word := asciiWord(s)
+	if len(exact) >= len(word) {
+		// The word is a name, or a name such as "a0" or "g/mol"
+		// extends past it, or there is no word.
+		return exact, len(exact), nil
+	}
+	var found []string
+	for _, a := range atomNames {
+		if strings.EqualFold(a, word) {
+			found = append(found, a)
+		}
+	}
+	if len(found) > 0 {
+		for _, f := range found[1:] {
+			if atoms[f] != atoms[found[0]] {
+				sort.Strings(found)
+				return "", 0, fmt.Errorf("unit %q is ambiguous ignoring case: %s; write it exactly", word, strings.Join(found, " or "))
+			}
+		}
+		return found[0], len(word), nil
+	}
+	if splitsIntoAtoms(word) {
+		return exact, len(exact), nil
+	}
+	return "", 0, fmt.Errorf("no unit named %q%s", word, suggest.Hint(word, suggestNames))
+}
+
+// asciiWord returns the run of ASCII letters at the start of s.
+func asciiWord(s string) string {
+	i := 0
+	for i < len(s) && (s[i] >= 'a' && s[i] <= 'z' || s[i] >= 'A' && s[i] <= 'Z') {
+		i++
+	}
+	return s[:i]
+}
+
+// splitsIntoAtoms reports whether word is a juxtaposition of unit names
+// written exactly, by longest match.
+func splitsIntoAtoms(word string) bool {
+	for word != "" {
+		found := false
+		for _, a := range atomNames {
+			if strings.HasPrefix(word, a) {
+				word, found = word[len(a):], true
+				break
+			}
+		}
+		if !found {
+			return false
+		}
+	}
+	return true
+}
+
+// suggestNames are the unit names offered as near misses: the names of
+// atoms, one per spelling ignoring case (the lower-case one where it
+// exists). Read only.
+var suggestNames = func() []string {
+	byFold := map[string]string{}
+	for n := range atoms {
+		k := strings.ToLower(n)
+		if prev, ok := byFold[k]; !ok || n == k || (prev != k && n < prev) {
+			byFold[k] = n
+		}
+	}
+	names := make([]string, 0, len(byFold))
+	for _, n := range byFold {
+		names = append(names, n)
+	}
+	sort.Strings(names)
+	return names
+}()

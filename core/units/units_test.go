@@ -2,6 +2,7 @@ package units
 
 import (
 	"errors"
+	"fmt"
 	"math"
 	"strings"
 	"testing"
@@ -75,8 +76,16 @@ func TestDimensionStrings(t *testing.T) {
 		{Mass, "mass", "u"},
 		{Time, "time", "fs"},
 		{Temperature, "temperature", "K"},
-		{Dimension(-1), "Dimension(-1)", ""},
-		{Dimension(99), "Dimension(99)", ""},
+		{Dimension(dimLimit), fmt.Sprintf("Dimension(%d)", dimLimit), ""},
+		{Dimension(-dimLimit), fmt.Sprintf("Dimension(%d)", -dimLimit), ""},
+		// Products without a name.
+		{Energy + 8*Length, "energy·length^8", "eV·Å⁸"},
+		{-2 * Length, "length^-2", "1/Å²"},
+		{Energy - 4*Length, "energy·length^-4", "eV/Å⁴"},
+		{Energy + 10*Length, "energy·length^10", "eV·Å¹⁰"},
+		{2 * Energy, "energy^2", "eV²"},
+		{-Energy + Length, "energy^-1·length", "Å/eV"},
+		{Mass - 2*Time, "mass·time^-2", "u/fs²"},
 	}
 	for _, tt := range tests {
 		assert.Equal(t, tt.name, tt.d.String())
@@ -198,6 +207,39 @@ var unitCases = []unitCase{
 	{"K", Temperature, 1}, // definition
 }
 
+// TestParseIgnoringCase: a word that is a unit name ignoring case, and means
+// one unit, is read as that unit (issue 17); factors as in unitCases.
+func TestParseIgnoringCase(t *testing.T) {
+	tests := []struct {
+		in   string
+		d    Dimension
+		want float64
+	}{
+		{"1 ev", Energy, 1},
+		{"1EV", Energy, 1},
+		{"1 kj/mol", Energy, 1e3 / ElectronVolt / Avogadro},
+		{"1 KJ/MOL", Energy, 1e3 / ElectronVolt / Avogadro},
+		{"1 KCAL/MOL", Energy, 4184 / ElectronVolt / Avogadro},
+		{"1 HARTREE", Energy, HartreeEV},
+		{"120k", Energy, 120 * BoltzmannEV},
+		{"1ANGSTROM", Length, 1},
+		{"1 a", Length, 1},
+		{"1 NM", Length, 10},
+		{"1 BOHR", Length, BohrAngstrom},
+		{"1 a0", Length, BohrAngstrom},
+		{"500 n/M", ForceConstant, 500 / ElectronVolt / 1e10 * 1e-10},
+		{"1 DA", Mass, 1},
+		{"1 PS", Time, 1e3},
+		// Exact spellings keep their meaning: eVA6 is eV·Å⁶, Nm stays N·m.
+		{"1 eVA6", Dispersion, 1},
+	}
+	for _, tt := range tests {
+		got, err := Parse(tt.in, tt.d)
+		require.NoError(t, err, tt.in)
+		assert.InEpsilon(t, tt.want, got, 1e-12, tt.in)
+	}
+}
+
 func TestParseUnits(t *testing.T) {
 	for _, tt := range unitCases {
 		forms := []string{"2 " + tt.unit, "  2\t" + tt.unit + " "}
@@ -216,7 +258,7 @@ func TestParseUnits(t *testing.T) {
 }
 
 func TestUnitsListed(t *testing.T) {
-	for d := Dimensionless; d < numDimensions; d++ {
+	for _, d := range namedDimensions {
 		for _, u := range Units(d) {
 			found := false
 			for _, c := range unitCases {
@@ -233,7 +275,8 @@ func TestUnitsListed(t *testing.T) {
 	u[0] = "changed"
 	assert.Equal(t, "eV", Units(Energy)[0])
 	assert.Empty(t, Units(Dimensionless))
-	assert.Nil(t, Units(Dimension(42)))
+	assert.Nil(t, Units(Dimension(dimLimit)))
+	assert.Equal(t, []string{"eV·Å⁸"}, Units(Energy+8*Length))
 }
 
 func TestParseNumbers(t *testing.T) {
@@ -299,12 +342,19 @@ func TestParseErrors(t *testing.T) {
 		{"1e308 hartree", Energy, ErrNotFinite, []string{"out of range"}},
 		{"3 foo", Energy, ErrUnknownUnit, []string{`"foo"`, "energy units: eV, meV"}},
 		{"3 furlong", Length, ErrUnknownUnit, []string{"length units: Å, A"}},
-		{"3 ev", Energy, ErrUnknownUnit, nil}, // case sensitive
+		{"3 MEV", Energy, ErrUnknownUnit, []string{"ambiguous ignoring case: MeV or meV"}},
+		{"3 mEv", Energy, ErrUnknownUnit, []string{"ambiguous"}},
+		{"3.4Angstroms", Length, ErrWrongDimension, []string{"did you mean angstrom?"}},
+		{"3.4 angstrms", Length, ErrUnknownUnit, []string{"did you mean angstrom?"}},
+		{"1 kcall/mol", Energy, ErrUnknownUnit, []string{"did you mean kcal?"}},
+		{"1eVv", Energy, ErrUnknownUnit, []string{`no unit named "eVv" (did you mean eV?)`}},
+		{"1 KCAL", Energy, ErrUnknownUnit, []string{"did you mean KCAL/mol?"}},
 		{"3 eV/", ForceConstant, ErrUnknownUnit, []string{"operator"}},
 		{"3 eV//Å", ForceConstant, ErrUnknownUnit, nil},
 		{"3 //Å", InverseLength, ErrUnknownUnit, []string{"unexpected"}},
 		{"3 Å^", Length, ErrUnknownUnit, []string{"exponent"}},
-		{"3 Å^12", Length, ErrUnknownUnit, []string{"single digit"}},
+		{"3 Å^123", Length, ErrUnknownUnit, []string{"at most two digits"}},
+		{"3 Å^12", Length, ErrWrongDimension, []string{"length^12"}},
 		{"3 Å^0", Length, ErrUnknownUnit, []string{"zero"}},
 		{"3 eV", Length, ErrWrongDimension, []string{`"eV"`, "dimension energy, want length"}},
 		{"3 Å", Energy, ErrWrongDimension, []string{"dimension length, want energy"}},
@@ -329,7 +379,8 @@ func TestParseErrors(t *testing.T) {
 		{"1 kJ·Å⁶", Dispersion, ErrUnknownUnit, []string{"did you mean kJ/mol·Å⁶?"}},
 		{"12 g", Mass, ErrUnknownUnit, []string{"did you mean g/mol?"}},
 		{"3 Å/Å", Dimensionless, ErrUnknownUnit, []string{"no unit"}},
-		{"3", Dimension(17), ErrInvalidDimension, nil},
+		{"3", Dimension(dimLimit), ErrInvalidDimension, nil},
+		{"3 eV/Å^2", Energy + 8*Length, ErrWrongDimension, []string{"energy·length^8 units: products of energy, length, … units such as eV·Å⁸"}},
 	}
 	for _, tt := range tests {
 		_, err := Parse(tt.in, tt.d)
@@ -353,7 +404,7 @@ func TestFactorErrors(t *testing.T) {
 	assert.Equal(t, 1.0, f)
 	_, err = Factor("eV", Mass)
 	assert.ErrorIs(t, err, ErrWrongDimension)
-	_, err = Factor("eV", Dimension(-3))
+	_, err = Factor("eV", Dimension(-dimLimit))
 	assert.ErrorIs(t, err, ErrInvalidDimension)
 }
 
@@ -361,7 +412,7 @@ func TestFormat(t *testing.T) {
 	assert.Equal(t, "4.4 eV", Format(4.4, Energy))
 	assert.Equal(t, "0.5 eV/Å²", Format(0.5, ForceConstant))
 	assert.Equal(t, "3", Format(3, Dimensionless))
-	for d := Dimensionless; d < numDimensions; d++ {
+	for _, d := range append(namedDimensions[:], Energy+8*Length, -2*Length, 2*Energy-3*Length) {
 		v, err := Parse(Format(-1.25e-7, d), d)
 		require.NoError(t, err, d.String())
 		assert.Equal(t, -1.25e-7, v, d.String())
@@ -419,4 +470,75 @@ func TestPerMoleSpacing(t *testing.T) {
 	got, err = Parse("0.238 kcal mol^-1", Energy)
 	require.NoError(t, err)
 	assert.InEpsilon(t, 0.238*refKcalMolEV, got, 1e-12)
+}
+
+func TestDimensionEncoding(t *testing.T) {
+	for _, e := range []int{-32, -3, 0, 1, 31} {
+		for _, l := range []int{-32, -12, -1, 0, 8, 31} {
+			for _, m := range []int{-1, 0, 2} {
+				d, ok := NewDimension(e, l, m, -m, 30-m)
+				require.True(t, ok)
+				ge, gl, gm, gt, gk := d.Exponents()
+				assert.Equal(t, [5]int{e, l, m, -m, 30 - m}, [5]int{ge, gl, gm, gt, gk})
+			}
+		}
+	}
+	_, ok := NewDimension(32, 0, 0, 0, 0)
+	assert.False(t, ok)
+	_, ok = NewDimension(0, -33, 0, 0, 0)
+	assert.False(t, ok)
+	d, ok := NewDimension(1, 6, 0, 0, 0)
+	require.True(t, ok)
+	assert.Equal(t, Dispersion, d)
+	d, _ = NewDimension(1, -2, 0, 0, 0)
+	assert.Equal(t, ForceConstant, d)
+	d, _ = NewDimension(0, 0, 0, 0, 1)
+	assert.Equal(t, Temperature, d)
+}
+
+// ParseUnit and ParseIn, for the units a forms file declares. Factors from
+// the constants tested above (CODATA 2018, SI 2019).
+func TestParseUnit(t *testing.T) {
+	c8, _ := NewDimension(1, 8, 0, 0, 0)
+	tests := []struct {
+		unit string
+		dim  Dimension
+		f    float64
+	}{
+		{"eV", Energy, 1},
+		{"1", Dimensionless, 1},
+		{"kcal/mol*A^6", Dispersion, refKcalMolEV},
+		{"eV*A^8", c8, 1},
+		{"hartree*bohr^8", c8, refHartreeEV * math.Pow(refBohrA, 8)},
+		{"1/A^2", -2 * Length, 1},
+		{"1/nm^2", -2 * Length, 1e-2},
+		{"eV·Å¹⁰", Energy + 10*Length, 1},
+		{"K", Temperature, 1},
+		{"cm-1", InverseLength, 1e-8},
+	}
+	for _, tt := range tests {
+		d, f, err := ParseUnit(tt.unit)
+		require.NoError(t, err, tt.unit)
+		assert.Equal(t, tt.dim, d, tt.unit)
+		assert.InEpsilon(t, tt.f, f, 1e-12, tt.unit)
+	}
+	for _, bad := range []string{"", "furlong", "kcal", "A^123", "eV/", "1/"} {
+		_, _, err := ParseUnit(bad)
+		assert.ErrorIs(t, err, ErrUnit, bad)
+	}
+	// Bare numbers in the declared unit, suffixed ones in their own.
+	v, err := ParseIn("500", Dispersion, "kcal/mol*A^6")
+	require.NoError(t, err)
+	assert.InEpsilon(t, 500*refKcalMolEV, v, 1e-12)
+	v, err = ParseIn("2 eV*A^6", Dispersion, "kcal/mol*A^6")
+	require.NoError(t, err)
+	assert.Equal(t, 2.0, v)
+	v, err = ParseIn("0.5/nm^2", -2*Length, "1/A^2")
+	require.NoError(t, err)
+	assert.InEpsilon(t, 0.5e-2, v, 1e-14)
+	v, err = ParseIn("3", Dimensionless, "1")
+	require.NoError(t, err)
+	assert.Equal(t, 3.0, v)
+	_, err = ParseIn("3 eV", -2*Length, "1/A^2")
+	assert.ErrorIs(t, err, ErrWrongDimension)
 }
