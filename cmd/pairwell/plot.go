@@ -32,7 +32,7 @@ const maxPlotPeriods = 1000
 
 func newPlotCmd(e *env) *cobra.Command {
 	cmd := &cobra.Command{
-		Use:   "plot (taylor | period | compare | motion) ... -o FILE",
+		Use:   "plot (taylor | period | compare | motion | virial | expansion | fit) ... -o FILE",
 		Short: "Draw pictures: the well and its Taylor truncations, period against amplitude, forms overlaid, motion",
 		Long: `plot draws what pairwell computes, as PNG, SVG or PDF (by the extension of
 -o FILE):
@@ -45,6 +45,7 @@ func newPlotCmd(e *env) *cobra.Command {
   motion   the displacement against time, with the harmonic motion overlaid
   virial   B₂(T), classical and with the ħ² correction, measured points overlaid
   expansion  ⟨r⟩(T): classical, cubic-term estimate and quantum
+  fit      reference data with fitted forms overlaid and a residual panel
 
 Every curve has its own colour, dash pattern and marker (colours from the
 Okabe–Ito palette for colour-blind readers), so the pictures stay readable in
@@ -55,15 +56,16 @@ range, an amplitude beyond the well), 1 when the file cannot be written.`,
 		Example: `  pairwell plot taylor morse:De=4.6,a=1.87,re=1.27 -o taylor.png
   pairwell plot period morse:De=4.6,a=1.87,re=1.27 --pair H-Cl --method rk4 -o period.svg
   pairwell plot compare morse:De=4.6,a=1.87,re=1.27 lj:epsilon=120K,sigma=3.4 --reduced -o compare.pdf
-  pairwell plot motion morse:De=4.6,a=1.87,re=1.27 --pair H-Cl --amplitude 0.5 -o motion.png`,
+  pairwell plot motion morse:De=4.6,a=1.87,re=1.27 --pair H-Cl --amplitude 0.5 -o motion.png
+  pairwell plot fit scan.csv -o fit.png`,
 		RunE: func(cmd *cobra.Command, args []string) error {
 			if len(args) > 0 {
 				return unknownCommand(cmd, args[0])
 			}
-			return usageErr(fmt.Errorf("plot needs a kind: taylor, period, compare, motion, virial or expansion (see %s --help)", cmd.CommandPath()))
+			return usageErr(fmt.Errorf("plot needs a kind: taylor, period, compare, motion, virial, expansion or fit (see %s --help)", cmd.CommandPath()))
 		},
 	}
-	cmd.AddCommand(newPlotTaylorCmd(e), newPlotPeriodCmd(e), newPlotCompareCmd(e), newPlotMotionCmd(e), newPlotVirialCmd(e), newPlotExpansionCmd(e))
+	cmd.AddCommand(newPlotTaylorCmd(e), newPlotPeriodCmd(e), newPlotCompareCmd(e), newPlotMotionCmd(e), newPlotVirialCmd(e), newPlotExpansionCmd(e), newPlotFitCmd(e))
 	return cmd
 }
 
