@@ -59,7 +59,7 @@ baseline is replaced only by a complete new one.`,
 			if !(tolerance > 0 && tolerance < 1) {
 				return usageErr(fmt.Errorf("--tolerance %g: must be in (0, 1), e.g. 0.01 for 1 %%", tolerance))
 			}
-			set, err := loadSet(setPath)
+			set, err := e.loadSetFile(setPath)
 			if err != nil {
 				return err
 			}
@@ -148,7 +148,7 @@ removed, 2 bad input (including a corrupt or foreign baseline file).`,
 			if err != nil {
 				return usageErr(err)
 			}
-			set, err := loadSet(setPath)
+			set, err := e.loadSetFile(setPath)
 			if err != nil {
 				return err
 			}
@@ -198,11 +198,15 @@ removed, 2 bad input (including a corrupt or foreign baseline file).`,
 	return cmd
 }
 
-// loadSet reads a model-set file; failures are usage errors.
-func loadSet(path string) (*modelset.Set, error) {
+// loadSet reads a model-set file and registers the forms it declares;
+// failures are usage errors.
+func (e *env) loadSetFile(path string) (*modelset.Set, error) {
 	set, err := modelset.Load(path)
 	if err != nil {
 		return nil, usageErr(fmt.Errorf("--set: %w", err))
+	}
+	if err := e.addForms(set.Forms); err != nil {
+		return nil, err
 	}
 	return set, nil
 }

@@ -33,6 +33,9 @@ func run(args []string, stdin io.Reader, stdout, stderr io.Writer) int {
 	}
 	err = withPluginFailures(err, env.failedPlugins)
 	fmt.Fprintf(stderr, "pairwell: %s\n", oneLine(err.Error()))
+	if c := caretOf(err); c != "" {
+		fmt.Fprintln(stderr, c)
+	}
 	return exitCode(err)
 }
 

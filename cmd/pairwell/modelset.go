@@ -14,6 +14,9 @@ func (e *env) loadSet(path string) ([]modelset.Built, error) {
 	if err != nil {
 		return nil, usageErr(fmt.Errorf("--set: %w", err))
 	}
+	if err := e.addForms(set.Forms); err != nil {
+		return nil, err
+	}
 	built, err := set.Build(e.registry)
 	if err != nil {
 		return nil, computeErr(fmt.Errorf("--set %s: %w", path, err))

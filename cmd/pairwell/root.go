@@ -35,6 +35,7 @@ func (e *env) close() {
 
 func newRootCmd(e *env) *cobra.Command {
 	var loadPlugins func() error // see plugins.go
+	var loadForms func() error   // see forms.go
 	root := &cobra.Command{
 		Use:   "pairwell",
 		Short: "Find, characterise and compare the wells of interatomic pair potentials",
@@ -57,13 +58,17 @@ field: do not base production or safety decisions on its numbers alone.`,
 		PersistentPreRunE: func(cmd *cobra.Command, args []string) error {
 			switch e.format {
 			case "table", "json", "csv":
-				return loadPlugins()
+				if err := loadPlugins(); err != nil {
+					return err
+				}
+				return loadForms()
 			}
 			return usageErr(fmt.Errorf("--format %q: allowed: table, json, csv", e.format))
 		},
 	}
 	root.PersistentFlags().StringVar(&e.format, "format", "table", "output format: table, json or csv")
 	loadPlugins = registerPlugins(root, e)
+	loadForms = registerForms(root, e)
 	root.SetFlagErrorFunc(func(cmd *cobra.Command, err error) error {
 		return usageErr(fmt.Errorf("%s: %w (see %s --help)", cmd.Name(), err, cmd.CommandPath()))
 	})
