@@ -34,7 +34,7 @@ func registerForms(root *cobra.Command, e *env) func() error {
 		paths := append([]string(nil), files...)
 		found, err := discoverForms(os.Getenv(envFormsPath))
 		if err != nil {
-			return failErr(fmt.Errorf("%s: %w", envFormsPath, err))
+			return usageErr(fmt.Errorf("%s: %w", envFormsPath, err))
 		}
 		paths = append(paths, found...)
 		seen := map[string]bool{}
@@ -44,12 +44,13 @@ func registerForms(root *cobra.Command, e *env) func() error {
 				continue
 			}
 			seen[abs] = true
-			decls, err := formsfile.Load(p)
+			data, err := e.readInput("--forms", p, formsfile.MaxSize)
 			if err != nil {
-				if errors.Is(err, formsfile.ErrFormat) {
-					return usageErr(fmt.Errorf("--forms: %w", err))
-				}
-				return failErr(fmt.Errorf("--forms: %w", err))
+				return err
+			}
+			decls, err := formsfile.Parse(data, p)
+			if err != nil {
+				return usageErr(fmt.Errorf("--forms: %w", err))
 			}
 			if err := e.addForms(decls); err != nil {
 				return err

@@ -200,7 +200,7 @@ func TestFormsModelsAndMatch(t *testing.T) {
 }
 
 // Bad forms files: one clear line (plus the caret picture for a formula),
-// exit 2; a missing file exit 1.
+// exit 2, also for a file that cannot be read (as for --set).
 func TestFormsBadInput(t *testing.T) {
 	const head = "[[form]]\nkey = \"%s\"\nformula = \"%s\"\n[[form.param]]\nname = \"epsilon\"\nunit = \"eV\"\n[[form.param]]\nname = \"sigma\"\nunit = \"A\"\n"
 	form := func(key, f string) string {
@@ -233,7 +233,7 @@ func TestFormsBadInput(t *testing.T) {
 		}
 	}
 	code, _, errOut := runCLI(t, "--forms", filepath.Join(t.TempDir(), "none.toml"), "models")
-	assert.Equal(t, exitFailure, code, errOut)
+	assert.Equal(t, exitUsage, code, errOut)
 	// An unused parameter is a warning; the form works.
 	path := writeForms(t, form("w", "epsilon*(2 - exp(-r/r))"))
 	code, out, errOut := runCLI(t, "--forms", path, "models")

@@ -12,29 +12,52 @@ import (
 	"io"
 	"os"
 	"strings"
+	"unicode/utf8"
 )
 
 func main() {
 	os.Exit(run(os.Args[1:], os.Stdin, os.Stdout, os.Stderr))
 }
 
+// maxMessage is the longest error line pairwell prints, in characters: a
+// message quoting hostile input (a huge spec, a plugin's answer) is cut.
+const maxMessage = 2000
+
+// truncateMessage cuts msg to maxMessage characters, saying so.
+func truncateMessage(msg string) string {
+	if utf8.RuneCountInString(msg) <= maxMessage {
+		return msg
+	}
+	r := []rune(msg)
+	return string(r[:maxMessage]) + fmt.Sprintf("… (%d more characters)", len(r)-maxMessage)
+}
+
 // run executes the command line args and returns the exit code.
 func run(args []string, stdin io.Reader, stdout, stderr io.Writer) int {
 	env := newEnv(stdout, stderr)
+	stop := env.handleSignals()
+	defer stop()
 	defer env.close()
 	root := newRootCmd(env)
 	root.SetArgs(args)
 	root.SetIn(stdin)
-	root.SetOut(stdout)
-	root.SetErr(stderr)
+	root.SetOut(env.stdout)
+	root.SetErr(env.stderr)
 	err := root.Execute()
 	if err == nil {
 		return 0
 	}
+	var name string
+	if _, scanErr := fmt.Sscanf(err.Error(), "unknown command %q", &name); scanErr == nil {
+		// cobra's own error for a mistyped command: say it our way.
+		if sub, _, findErr := root.Find(args); findErr == nil || sub == root {
+			err = unknownCommand(sub, name)
+		}
+	}
 	err = withPluginFailures(err, env.failedPlugins)
-	fmt.Fprintf(stderr, "pairwell: %s\n", oneLine(err.Error()))
+	fmt.Fprintf(env.stderr, "pairwell: %s\n", truncateMessage(oneLine(err.Error())))
 	if c := caretOf(err); c != "" {
-		fmt.Fprintln(stderr, c)
+		fmt.Fprintln(env.stderr, c)
 	}
 	return exitCode(err)
 }

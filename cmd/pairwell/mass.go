@@ -17,15 +17,6 @@ type massFlags struct {
 	changed  func(name string) bool // whether a flag was given, even empty
 }
 
-// The accepted range of a reduced mass, in u: from below that of an
-// electron and a proton (5.4e-4 u) to far above that of any pair of atoms
-// (< 150 u). Outside it a value is a typo or an underflow, and numbers
-// derived from it (periods, frequencies) would overflow or be meaningless.
-const (
-	minMu = 1e-4
-	maxMu = 1e6
-)
-
 func (m *massFlags) register(cmd *cobra.Command) {
 	m.changed = func(name string) bool { return cmd.Flags().Changed(name) }
 	cmd.Flags().StringVar(&m.pair, "pair", "", "atom pair A-B giving the reduced mass, e.g. H-Cl, 1H-35Cl, D-D (standard atomic weights for elements, AME2020 masses for isotopes)")
@@ -53,8 +44,8 @@ func (m *massFlags) resolve(required bool) (report.Mass, error) {
 		if err != nil {
 			return report.Mass{}, usageErr(fmt.Errorf("--mu: %w", err))
 		}
-		if !(mu >= minMu && mu <= maxMu) {
-			return report.Mass{}, usageErr(fmt.Errorf("--mu %s: the reduced mass must be from %g u to %g u", m.mu, minMu, maxMu))
+		if err := atoms.CheckReducedMass(mu); err != nil {
+			return report.Mass{}, usageErr(fmt.Errorf("--mu %s: %w", m.mu, err))
 		}
 		return report.Mass{Mu: mu}, nil
 	case required:

@@ -2,6 +2,7 @@ package main
 
 import (
 	"fmt"
+	"io"
 	"os"
 	"path/filepath"
 	"runtime"
@@ -75,6 +76,13 @@ func (d *demoPictures) write(e *env) error {
 		{"motion.png", fmt.Sprintf("%s released at %g Å against the harmonic motion", name, demoMotionAmplitude), func() (*figure.Figure, error) {
 			return figure.Motion(p, figure.MotionOptions{Name: name, Mu: mu, Amplitude: demoMotionAmplitude})
 		}},
+		{"fit.png", "the four forms fitted to the invented scan, with their residuals", func() (*figure.Figure, error) {
+			run, err := demoFitRun(e)
+			if err != nil {
+				return nil, err
+			}
+			return fitFigure(run)
+		}},
 	}
 	if err := os.MkdirAll(d.dir, 0o755); err != nil {
 		return failErr(fmt.Errorf("demo pictures: --out: %w", err))
@@ -94,9 +102,8 @@ func (d *demoPictures) write(e *env) error {
 				errs[i] = computeErr(fmt.Errorf("demo picture %s: %w", pic.file, err))
 				return
 			}
-			if err := f.WriteFile(filepath.Join(d.dir, pic.file)); err != nil {
-				errs[i] = failErr(fmt.Errorf("demo picture: %w", err))
-			}
+			path := filepath.Join(d.dir, pic.file)
+			errs[i] = e.writeOutput("demo picture", path, func(w io.Writer) error { return f.Render(w, figure.PNG) })
 		}()
 	}
 	wg.Wait()

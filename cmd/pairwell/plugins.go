@@ -1,15 +1,14 @@
 package main
 
 import (
+	"bytes"
 	"context"
 	"errors"
 	"fmt"
 	"io/fs"
 	"os"
-	"os/signal"
 	"path/filepath"
 	"sync"
-	"syscall"
 	"time"
 
 	"github.com/spf13/cobra"
@@ -89,13 +88,13 @@ func (s *pluginSet) closeAll() {
 // parallel, and registers their models: those of --plugin first, in flag
 // order, then those found in the path, directory by directory and by name.
 // Every plugin is stopped when the invocation ends (env.close), and on
-// SIGINT, SIGTERM or SIGHUP, after which pairwell dies of that signal as it
-// would without plugins.
+// SIGINT, SIGTERM or SIGHUP (see signals.go), after which pairwell dies of
+// that signal as it would without plugins.
 func (f *pluginFlags) load(e *env) error {
 	if f.timeout <= 0 {
 		return usageErr(fmt.Errorf("--plugin-timeout %v: must be positive", f.timeout))
 	}
-	refs, fromPath, err := f.resolve()
+	refs, fromPath, err := f.resolve(e)
 	if err != nil {
 		return err
 	}
@@ -106,41 +105,22 @@ func (f *pluginFlags) load(e *env) error {
 	set := &pluginSet{}
 	var loading sync.WaitGroup // the Loads in flight
 	ctx, cancel := context.WithCancel(context.Background())
-	sigs := make(chan os.Signal, 1)
-	signal.Notify(sigs, os.Interrupt, syscall.SIGTERM, syscall.SIGHUP)
-	done := make(chan struct{})
-	var stopOnce sync.Once
+	// Stop every plugin when the run ends, and on a signal (signals.go,
+	// which bounds the wait): abandon the starts in flight and wait for
+	// them (each kills its process before it returns), then stop the
+	// running plugins.
 	stop := func() {
-		stopOnce.Do(func() {
-			signal.Stop(sigs)
-			close(done)
-		})
-	}
-	go func() {
-		select {
-		case s := <-sigs:
-			// Abandon the starts in flight (each kills its process
-			// before it returns), then stop the running plugins.
-			cancel()
-			waitTimeout(&loading, f.timeout)
-			set.close()
-			stop()
-			// Die of the signal, as without plugins.
-			if self, err := os.FindProcess(os.Getpid()); err == nil {
-				_ = self.Signal(s)
-			}
-		case <-done:
-		}
-	}()
-	e.closers = append(e.closers, func() {
-		stop()
 		cancel()
+		loading.Wait()
 		set.close()
-	})
+	}
+	e.onSignal(stop)
+	e.closers = append(e.closers, stop)
 
 	loaded := make([]*plugins.Plugin, len(refs))
 	errs := make([]error, len(refs))
 	for i, r := range refs {
+		e.files.Input(r.Path)
 		loading.Add(1)
 		go func() {
 			defer loading.Done()
@@ -183,30 +163,23 @@ func (f *pluginFlags) load(e *env) error {
 	return nil
 }
 
-// waitTimeout waits for wg, at most d.
-func waitTimeout(wg *sync.WaitGroup, d time.Duration) {
-	done := make(chan struct{})
-	go func() {
-		wg.Wait()
-		close(done)
-	}()
-	t := time.NewTimer(d)
-	defer t.Stop()
-	select {
-	case <-done:
-	case <-t.C:
-	}
-}
-
 // resolve lists the plugins to load, each once (by absolute path), with
 // their pins: a pin given with --plugin wins over the lock file. fromPath[i]
 // tells that refs[i] was found only through envPluginPath.
-func (f *pluginFlags) resolve() (refs []plugins.Ref, fromPath []bool, err error) {
+func (f *pluginFlags) resolve(e *env) (refs []plugins.Ref, fromPath []bool, err error) {
 	var lock plugins.Lock
 	if name := os.Getenv(envPluginLock); name != "" {
-		l, err := plugins.ReadLock(name)
+		data, err := e.readInput(envPluginLock, name, plugins.MaxLockSize)
+		if err != nil {
+			return nil, nil, err
+		}
+		abs, err := filepath.Abs(name)
 		if err != nil {
 			return nil, nil, usageErr(fmt.Errorf("%s: %w", envPluginLock, err))
+		}
+		l, err := plugins.ParseLock(bytes.NewReader(data), filepath.Dir(abs))
+		if err != nil {
+			return nil, nil, usageErr(fmt.Errorf("%s: plugin lock file %s: %w", envPluginLock, name, err))
 		}
 		lock = l
 	}
@@ -226,8 +199,12 @@ func (f *pluginFlags) resolve() (refs []plugins.Ref, fromPath []bool, err error)
 			}
 		}
 		if i, ok := seen[abs]; ok {
-			if refs[i].SHA256 == nil {
+			switch {
+			case refs[i].SHA256 == nil:
 				refs[i].SHA256 = r.SHA256
+			case r.SHA256 != nil && !bytes.Equal(refs[i].SHA256, r.SHA256):
+				return usageErr(fmt.Errorf("plugin %s: %w: pinned twice, to sha256:%x and sha256:%x; give one pin",
+					abs, plugins.ErrRef, refs[i].SHA256, r.SHA256))
 			}
 			return nil
 		}

@@ -3,26 +3,36 @@ package main
 import (
 	"fmt"
 	"io"
+	"strings"
 
 	"github.com/spf13/cobra"
+	"github.com/spf13/pflag"
 
 	"github.com/pairwell/pairwell/core"
+	"github.com/pairwell/pairwell/internal/fileio"
+	"github.com/pairwell/pairwell/internal/suggest"
 	"github.com/pairwell/pairwell/models"
 )
 
 // env is the state one invocation of pairwell shares between its commands.
 type env struct {
-	stdout, stderr io.Writer
+	stdout, stderr io.Writer // escape terminal controls (terminal.go)
+	term           io.Writer // the raw stderr, for the progress bar
 	format         string
 	registry       *core.Registry
+	files          *fileio.Run // the inputs of the run and its temporary files
 	closers        []func()
+	interrupts     interrupts // what a signal must still do, see signals.go
 	// failedPlugins are the plugins found through the plugin path that
 	// failed to start (a warning, see plugins.go).
 	failedPlugins []error
 }
 
+// newEnv makes the state of one invocation. What it prints goes through
+// cleanWriter (terminal.go); only the progress bar draws on the raw stderr.
 func newEnv(stdout, stderr io.Writer) *env {
-	return &env{stdout: stdout, stderr: stderr, registry: models.NewRegistry()}
+	return &env{stdout: &cleanWriter{w: stdout}, stderr: &cleanWriter{w: stderr}, term: stderr,
+		registry: models.NewRegistry(), files: &fileio.Run{}}
 }
 
 // close releases what the invocation started (plugin processes).
@@ -56,21 +66,40 @@ field: do not base production or safety decisions on its numbers alone.`,
 		SilenceUsage:  true,
 		SilenceErrors: true,
 		PersistentPreRunE: func(cmd *cobra.Command, args []string) error {
-			switch e.format {
-			case "table", "json", "csv":
-				if err := loadPlugins(); err != nil {
-					return err
-				}
-				return loadForms()
+			warnDeprecated(cmd.Flags(), e.stderr)
+			f, err := choice("format", e.format, formats)
+			if err != nil {
+				return usageErr(err)
 			}
-			return usageErr(fmt.Errorf("--format %q: allowed: table, json, csv", e.format))
+			e.format = f
+			if err := loadPlugins(); err != nil {
+				return err
+			}
+			return loadForms()
 		},
 	}
 	root.PersistentFlags().StringVar(&e.format, "format", "table", "output format: table, json or csv")
 	loadPlugins = registerPlugins(root, e)
 	loadForms = registerForms(root, e)
+	root.DisableSuggestions = true // unknownCommand suggests
 	root.SetFlagErrorFunc(func(cmd *cobra.Command, err error) error {
-		return usageErr(fmt.Errorf("%s: %w (see %s --help)", cmd.Name(), err, cmd.CommandPath()))
+		// "plot taylr -o a.png": the mistyped kind, not the flag, is wrong.
+		if args := cmd.Flags().Args(); cmd.HasAvailableSubCommands() && len(args) > 0 {
+			return unknownCommand(cmd, args[0])
+		}
+		hint := ""
+		if name, ok := strings.CutPrefix(err.Error(), "unknown flag: --"); ok {
+			var names []string
+			visit := func(f *pflag.Flag) {
+				if !f.Hidden {
+					names = append(names, "--"+f.Name)
+				}
+			}
+			cmd.Flags().VisitAll(visit)
+			cmd.InheritedFlags().VisitAll(visit)
+			hint = suggest.Hint("--"+name, names)
+		}
+		return usageErr(fmt.Errorf("%s: %w%s (see %s --help)", cmd.Name(), err, hint, cmd.CommandPath()))
 	})
 	root.AddCommand(
 		newModelsCmd(e),
@@ -83,6 +112,25 @@ field: do not base production or safety decisions on its numbers alone.`,
 		newCheckCmd(e),
 		newBaselineCmd(e),
 		newPlotCmd(e),
+		newFitCmd(e),
+		newVirialCmd(e),
+		newExpansionCmd(e),
+		newVersionCmd(e),
 	)
+	root.Version = toolVersion()
+	root.SetVersionTemplate("{{.Version}}\n")
 	return root
+}
+
+// unknownCommand is the error for name, not a subcommand of cmd, with its
+// near misses.
+func unknownCommand(cmd *cobra.Command, name string) error {
+	var names []string
+	for _, c := range cmd.Commands() {
+		if c.IsAvailableCommand() {
+			names = append(names, c.Name())
+		}
+	}
+	return usageErr(fmt.Errorf("unknown command %q for %q%s; commands: %s (see %s --help)",
+		name, cmd.CommandPath(), suggest.Hint(name, names), strings.Join(names, ", "), cmd.CommandPath()))
 }

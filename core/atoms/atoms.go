@@ -240,3 +240,22 @@ func unknownError(symbol, name string) error {
 		ErrUnknownSymbol, symbol, suggest.Hint(name, known), elements[0].symbol, elements[len(elements)-1].symbol,
 		elements[len(elements)-1].z)
 }
+
+// The accepted range of a reduced mass given directly, in u: from below
+// that of an electron and a proton (5.4·10⁻⁴ u) to far above that of any
+// pair of atoms (< 150 u). Outside it a value is a typo, a denormal or an
+// underflow, and what is derived from it (periods, frequencies) would
+// overflow or mean nothing.
+const (
+	MinReducedMass = 1e-4
+	MaxReducedMass = 1e6
+)
+
+// CheckReducedMass returns an error wrapping ErrInvalidMass unless mu (in u)
+// lies in [MinReducedMass, MaxReducedMass].
+func CheckReducedMass(mu float64) error {
+	if !(mu >= MinReducedMass && mu <= MaxReducedMass) {
+		return fmt.Errorf("%w %v: a reduced mass must be from %g u to %g u", ErrInvalidMass, mu, MinReducedMass, MaxReducedMass)
+	}
+	return nil
+}

@@ -36,6 +36,9 @@ import (
 // ErrFormat means a forms file is malformed.
 var ErrFormat = errors.New("invalid forms file")
 
+// MaxSize is the largest forms file, in bytes.
+const MaxSize = 1 << 20
+
 // Form is one [[form]] table as written.
 type Form struct {
 	Key       string  `toml:"key"`
@@ -74,6 +77,9 @@ func Load(path string) ([]formula.Decl, error) {
 
 // Parse parses a forms document; source names it in errors and origins.
 func Parse(data []byte, source string) ([]formula.Decl, error) {
+	if len(data) > MaxSize {
+		return nil, fmt.Errorf("%w %s: %d bytes, the limit is %d", ErrFormat, source, len(data), MaxSize)
+	}
 	var f file
 	md, err := toml.Decode(string(data), &f)
 	if err != nil {
