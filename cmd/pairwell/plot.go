@@ -33,7 +33,7 @@ const maxPlotPeriods = 1000
 
 func newPlotCmd(e *env) *cobra.Command {
 	cmd := &cobra.Command{
-		Use:   "plot (taylor | period | compare | motion) ... -o FILE",
+		Use:   "plot (taylor | period | compare | motion | virial | expansion | fit) ... -o FILE",
 		Short: "Draw pictures: the well and its Taylor truncations, period against amplitude, forms overlaid, motion",
 		Long: `plot draws what pairwell computes, as PNG, SVG or PDF (by the extension of
 -o FILE):
@@ -46,6 +46,7 @@ func newPlotCmd(e *env) *cobra.Command {
   motion   the displacement against time, with the harmonic motion overlaid
   virial   B₂(T), classical and with the ħ² correction, measured points overlaid
   expansion  ⟨r⟩(T): classical, cubic-term estimate and quantum
+  fit      reference data with fitted forms overlaid and a residual panel
 
 Every curve has its own colour, dash pattern and marker (colours from the
 Okabe–Ito palette for colour-blind readers), so the pictures stay readable in
@@ -56,15 +57,16 @@ range, an amplitude beyond the well), 1 when the file cannot be written.`,
 		Example: `  pairwell plot taylor morse:De=4.6,a=1.87,re=1.27 -o taylor.png
   pairwell plot period morse:De=4.6,a=1.87,re=1.27 --pair H-Cl --method rk4 -o period.svg
   pairwell plot compare morse:De=4.6,a=1.87,re=1.27 lj:epsilon=120K,sigma=3.4 --reduced -o compare.pdf
-  pairwell plot motion morse:De=4.6,a=1.87,re=1.27 --pair H-Cl --amplitude 0.5 -o motion.png`,
+  pairwell plot motion morse:De=4.6,a=1.87,re=1.27 --pair H-Cl --amplitude 0.5 -o motion.png
+  pairwell plot fit scan.csv -o fit.png`,
 		RunE: func(cmd *cobra.Command, args []string) error {
 			if len(args) > 0 {
 				return unknownCommand(cmd, args[0])
 			}
-			return usageErr(fmt.Errorf("plot needs a kind: taylor, period, compare, motion, virial or expansion (see %s --help)", cmd.CommandPath()))
+			return usageErr(fmt.Errorf("plot needs a kind: taylor, period, compare, motion, virial, expansion or fit (see %s --help)", cmd.CommandPath()))
 		},
 	}
-	cmd.AddCommand(newPlotTaylorCmd(e), newPlotPeriodCmd(e), newPlotCompareCmd(e), newPlotMotionCmd(e), newPlotVirialCmd(e), newPlotExpansionCmd(e))
+	cmd.AddCommand(newPlotTaylorCmd(e), newPlotPeriodCmd(e), newPlotCompareCmd(e), newPlotMotionCmd(e), newPlotVirialCmd(e), newPlotExpansionCmd(e), newPlotFitCmd(e))
 	return cmd
 }
 
@@ -79,8 +81,8 @@ type plotOutput struct {
 func (o *plotOutput) register(cmd *cobra.Command) {
 	f := cmd.Flags()
 	f.StringVarP(&o.path, "output", "o", "", "picture file to write: .png, .svg or .pdf (required)")
-	f.Float64Var(&o.width, "width", figure.DefaultWidth, fmt.Sprintf("picture width in inches (%d to %d; PNG has %d pixels per inch)", figure.MinSize, figure.MaxSize, figure.DPI))
-	f.Float64Var(&o.height, "height", figure.DefaultHeight, fmt.Sprintf("picture height in inches (%d to %d)", figure.MinSize, figure.MaxSize))
+	f.Float64Var(&o.width, "width", 0, fmt.Sprintf("picture width in inches, %d to %d (default %d; PNG has %d pixels per inch)", figure.MinSize, figure.MaxSize, figure.DefaultWidth, figure.DPI))
+	f.Float64Var(&o.height, "height", 0, fmt.Sprintf("picture height in inches, %d to %d (default %d, %d with a panel below)", figure.MinSize, figure.MaxSize, figure.DefaultHeight, figure.DefaultHeightTwoPanels))
 	energyUnitVar(f, &o.energyUnit, "the energy axis")
 }
 
@@ -100,7 +102,7 @@ func (o *plotOutput) check(e *env) error {
 		name string
 		v    float64
 	}{{"--width", o.width}, {"--height", o.height}} {
-		if !(v.v >= figure.MinSize && v.v <= figure.MaxSize) {
+		if v.v != 0 && !(v.v >= figure.MinSize && v.v <= figure.MaxSize) {
 			return usageErr(fmt.Errorf("%s %g: must be %d to %d inches", v.name, v.v, figure.MinSize, figure.MaxSize))
 		}
 	}

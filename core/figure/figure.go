@@ -94,7 +94,8 @@ type Mark struct {
 
 // Figure is the data behind one picture.
 type Figure struct {
-	// Kind names the builder: "taylor", "period", "compare" or "motion".
+	// Kind names the builder: "taylor", "period", "compare", "motion" or
+	// "fit".
 	Kind string
 	// Title is drawn above the plot; it may hold a second line after
 	// "\n".
@@ -115,6 +116,11 @@ type Figure struct {
 	// Width and Height are the size of the picture in inches, MinSize to
 	// MaxSize; zero means DefaultWidth × DefaultHeight (10 × 5).
 	Width, Height float64
+	// Below, when not nil, is a second panel drawn under this one with
+	// the same x axis (its XMin and XMax are this figure's), such as the
+	// residuals of a fit. Its series take the style of the series of
+	// the same name above; it has no legend of its own.
+	Below *Figure
 }
 
 // energySuffix ends the label of an axis that holds energies in eV.
@@ -149,6 +155,9 @@ func (f *Figure) ConvertEnergy(name string, perUnit float64) bool {
 		for i := range f.Series {
 			f.Series[i].Y = scaled(f.Series[i].Y, perUnit)
 		}
+	}
+	if f.Below != nil && f.Below.ConvertEnergy(name, perUnit) {
+		found = true
 	}
 	return found
 }
@@ -201,6 +210,12 @@ func (f *Figure) check() error {
 		if len(s.X) != len(s.Y) {
 			return fmt.Errorf("figure %s: %w: series %q has %d x and %d y values", f.Kind, ErrFigure, s.Name, len(s.X), len(s.Y))
 		}
+	}
+	if f.Below != nil {
+		if f.Below.Below != nil || f.Below.XMin != f.XMin || f.Below.XMax != f.XMax {
+			return fmt.Errorf("figure %s: %w: the panel below must share the x range and have no panel of its own", f.Kind, ErrFigure)
+		}
+		return f.Below.check()
 	}
 	return nil
 }

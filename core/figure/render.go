@@ -34,11 +34,14 @@ const (
 // Picture size and resolution.
 const (
 	// DefaultWidth and DefaultHeight are the size of a picture in
-	// inches when Figure.Width and Figure.Height are zero.
-	DefaultWidth  = 10
-	DefaultHeight = 5
+	// inches when Figure.Width and Figure.Height are zero;
+	// DefaultHeightTwoPanels is the default height of a figure with a
+	// panel Below.
+	DefaultWidth           = 10
+	DefaultHeight          = 5
+	DefaultHeightTwoPanels = 7
 	// DPI is the resolution of PNG output: 1500×750 pixels at the
-	// default size.
+	// default size (1500×1050 with a panel below).
 	DPI = 150
 	// MinSize and MaxSize bound Figure.Width and Figure.Height, in
 	// inches.
@@ -54,6 +57,9 @@ func (f *Figure) size() (w, h vg.Length, err error) {
 	}
 	if hi == 0 {
 		hi = DefaultHeight
+		if f.Below != nil {
+			hi = DefaultHeightTwoPanels
+		}
 	}
 	for _, v := range []float64{wi, hi} {
 		if !(v >= MinSize && v <= MaxSize) {
@@ -110,7 +116,7 @@ func (f *Figure) Render(w io.Writer, format Format) error {
 	if err := f.check(); err != nil {
 		return err
 	}
-	width, height, err := f.size()
+	width, h, err := f.size()
 	if err != nil {
 		return err
 	}
@@ -120,13 +126,13 @@ func (f *Figure) Render(w io.Writer, format Format) error {
 	)
 	switch format {
 	case PNG:
-		img := vgimg.NewWith(vgimg.UseWH(width, height), vgimg.UseDPI(DPI), vgimg.UseBackgroundColor(color.White))
+		img := vgimg.NewWith(vgimg.UseWH(width, h), vgimg.UseDPI(DPI), vgimg.UseBackgroundColor(color.White))
 		c, wt = img, pngWriter{img}
 	case SVG:
-		s := vgsvg.New(width, height)
+		s := vgsvg.New(width, h)
 		c, wt = s, s
 	case PDF:
-		p := vgpdf.New(width, height)
+		p := vgpdf.New(width, h)
 		c, wt = p, p
 	default:
 		return fmt.Errorf("%w %q: use png, svg or pdf", ErrFormat, format)
@@ -174,9 +180,74 @@ func (c *countWriter) Write(b []byte) (int, error) {
 var sans = font.Font{Typeface: "Liberation", Variant: "Sans"}
 
 // draw lays the picture out on dc: the plot on the left, the legend in a
-// column on the right, so that the legend never hides a curve.
+// column on the right, so that the legend never hides a curve. A panel
+// Below takes the lower 30 % of the height, its data area aligned with the
+// one above.
 func (f *Figure) draw(dc draw.Canvas) error {
-	p := plot.New()
+	p, leg, styleOf, err := f.plot(nil)
+	if err != nil {
+		return err
+	}
+	gap := vg.Points(14)
+	// Notes go under the plot, across the whole width, so that a form
+	// left out or a limit off the axes is said on the picture itself.
+	noteStyle := p.Title.TextStyle
+	noteStyle.Font = font.From(sans, 9)
+	noteStyle.XAlign, noteStyle.YAlign = draw.XLeft, draw.YBottom
+	var noteLines []string
+	for _, n := range f.Notes {
+		noteLines = append(noteLines, wrapText(noteStyle, "Note: "+n, dc.Max.X-dc.Min.X-2*gap)...)
+	}
+	if len(noteLines) > 0 {
+		r := noteStyle.Rectangle("Ag")
+		lineH := r.Max.Y - r.Min.Y + vg.Points(2)
+		for i, l := range noteLines {
+			y := dc.Min.Y + vg.Points(4) + vg.Length(len(noteLines)-1-i)*lineH
+			dc.FillText(noteStyle, vg.Point{X: dc.Min.X + gap, Y: y}, l)
+		}
+		dc = draw.Crop(dc, 0, 0, vg.Length(len(noteLines))*lineH+vg.Points(8), 0)
+	}
+	lr := leg.Rectangle(dc)
+	lw := lr.Max.X - lr.Min.X
+	// Shrink a title too wide for the plot, down to 8 points.
+	avail := dc.Max.X - dc.Min.X - lw - 2*gap
+	for size := vg.Points(13); size > vg.Points(8); size -= vg.Points(0.5) {
+		p.Title.TextStyle.Font = font.From(sans, size)
+		if r := p.Title.TextStyle.Rectangle(f.Title); r.Max.X-r.Min.X <= avail {
+			break
+		}
+	}
+	area := draw.Crop(dc, 0, -(lw + 2*gap), 0, 0)
+	if f.Below == nil {
+		p.Draw(area)
+	} else {
+		q, _, _, err := f.Below.plot(styleOf)
+		if err != nil {
+			return err
+		}
+		h := area.Max.Y - area.Min.Y
+		top := draw.Crop(area, 0, 0, 0.3*h, 0)
+		bottom := draw.Crop(area, 0, 0, 0, -0.7*h)
+		// Align the left edges of the two data areas.
+		if d := p.DataCanvas(top).Min.X - q.DataCanvas(bottom).Min.X; d > 0 {
+			bottom = draw.Crop(bottom, d, 0, 0, 0)
+		} else if d < 0 {
+			top = draw.Crop(top, -d, 0, 0, 0)
+		}
+		p.Draw(top)
+		q.Draw(bottom)
+	}
+	tr := p.Title.TextStyle.Rectangle(f.Title)
+	top := tr.Max.Y - tr.Min.Y + p.Title.Padding + vg.Points(4)
+	leg.Draw(draw.Crop(dc, dc.Max.X-dc.Min.X-lw-gap, -gap, 0, -top))
+	return nil
+}
+
+// plot builds the gonum plot of f and its legend. inherit, when not nil,
+// gives the style of series by name (a panel below takes the styles of the
+// one above); styleOf returns the style of every series of f by name.
+func (f *Figure) plot(inherit map[string]int) (p *plot.Plot, leg plot.Legend, styleOf map[string]int, err error) {
+	p = plot.New()
 	p.Title.Text = f.Title
 	p.Title.TextStyle.Font = font.From(sans, 13)
 	p.Title.Padding = vg.Points(8)
@@ -191,7 +262,7 @@ func (f *Figure) draw(dc draw.Canvas) error {
 	grid.Horizontal.Color = color.Gray{Y: 0xe0}
 	p.Add(grid)
 
-	leg := plot.NewLegend()
+	leg = plot.NewLegend()
 	leg.TextStyle.Font = font.From(sans, 10.5)
 	leg.Left, leg.Top = true, true
 	leg.ThumbnailWidth = vg.Points(34)
@@ -203,10 +274,15 @@ func (f *Figure) draw(dc draw.Canvas) error {
 		p.Add(mp)
 		marks = append(marks, mp)
 	}
+	styleOf = map[string]int{}
 	for i, idx := range styles(f.Series) {
 		s := f.Series[i]
+		if k, ok := inherit[s.Name]; ok {
+			idx = k
+		}
+		styleOf[s.Name] = idx
 		if err := f.addSeries(p, &leg, s, idx); err != nil {
-			return err
+			return nil, leg, nil, err
 		}
 	}
 	seen := map[string]bool{}
@@ -219,42 +295,7 @@ func (f *Figure) draw(dc draw.Canvas) error {
 	p.X.Tick.Marker, p.Y.Tick.Marker = niceTicks{}, niceTicks{}
 	p.X.Min, p.X.Max = f.XMin, f.XMax
 	p.Y.Min, p.Y.Max = f.YMin, f.YMax
-
-	gap := vg.Points(14)
-	// Notes go under the plot, across the whole width, so that a form
-	// left out or a limit off the axes is said on the picture itself.
-	noteStyle := p.Title.TextStyle
-	noteStyle.Font = font.From(sans, 9)
-	noteStyle.XAlign, noteStyle.YAlign = draw.XLeft, draw.YBottom
-	var noteLines []string
-	for _, n := range f.Notes {
-		noteLines = append(noteLines, wrapText(noteStyle, "Note: "+n, dc.Max.X-dc.Min.X-2*gap)...)
-	}
-	lineH := noteStyle.Rectangle("Ag").Max.Y - noteStyle.Rectangle("Ag").Min.Y + vg.Points(2)
-	notesH := vg.Length(0)
-	if len(noteLines) > 0 {
-		notesH = vg.Length(len(noteLines))*lineH + vg.Points(8)
-		for i, l := range noteLines {
-			y := dc.Min.Y + vg.Points(4) + vg.Length(len(noteLines)-1-i)*lineH
-			dc.FillText(noteStyle, vg.Point{X: dc.Min.X + gap, Y: y}, l)
-		}
-		dc = draw.Crop(dc, 0, 0, notesH, 0)
-	}
-	lr := leg.Rectangle(dc)
-	lw := lr.Max.X - lr.Min.X
-	// Shrink a title too wide for the plot, down to 8 points.
-	avail := dc.Max.X - dc.Min.X - lw - 2*gap
-	for size := vg.Points(13); size > vg.Points(8); size -= vg.Points(0.5) {
-		p.Title.TextStyle.Font = font.From(sans, size)
-		if r := p.Title.TextStyle.Rectangle(f.Title); r.Max.X-r.Min.X <= avail {
-			break
-		}
-	}
-	p.Draw(draw.Crop(dc, 0, -(lw + 2*gap), 0, 0))
-	tr := p.Title.TextStyle.Rectangle(f.Title)
-	top := tr.Max.Y - tr.Min.Y + p.Title.Padding + vg.Points(4)
-	leg.Draw(draw.Crop(dc, dc.Max.X-dc.Min.X-lw-gap, -gap, 0, -top))
-	return nil
+	return p, leg, styleOf, nil
 }
 
 // addSeries adds the visible part of s to p, with style k, and its entry
