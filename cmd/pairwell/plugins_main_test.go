@@ -23,7 +23,7 @@ var pluginBin struct {
 	pairwell     string
 	rydberg, mie string
 	test         string // plugin-morse and the faulty models
-	badproto     string // the test plugin speaking protocol 2
+	oldproto     string // the test plugin speaking protocol 1, the one before this
 	buildErr     error
 }
 
@@ -50,8 +50,8 @@ func buildTestBinaries(dir string) error {
 	pluginBin.rydberg = filepath.Join(dir, "rydberg")
 	pluginBin.mie = filepath.Join(dir, "mie")
 	pluginBin.test = filepath.Join(dir, "testplugin")
-	pluginBin.badproto = filepath.Join(dir, "badproto")
-	return os.Symlink(pluginBin.test, pluginBin.badproto)
+	pluginBin.oldproto = filepath.Join(dir, "oldproto")
+	return os.Symlink(pluginBin.test, pluginBin.oldproto)
 }
 
 // requirePlugins skips nothing: it fails the test if the build failed.
