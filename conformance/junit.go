@@ -9,7 +9,7 @@ import (
 	"strings"
 	"time"
 
-	"github.com/pairwell/pairwell/conformance/internal/atomicfile"
+	"github.com/pairwell/pairwell/internal/fileio"
 )
 
 // JUnit XML, the format CI systems (Jenkins, GitLab, GitHub actions that
@@ -142,5 +142,5 @@ func measured(x Result) string {
 // file in the same directory, renamed over path when complete), so a CI
 // system never reads a half-written report.
 func WriteJUnitFile(path string, r Report, name string) error {
-	return atomicfile.Write(path, 0o644, func(w io.Writer) error { return r.WriteJUnit(w, name) })
+	return fileio.WriteFile(path, func(w io.Writer) error { return r.WriteJUnit(w, name) })
 }

@@ -53,6 +53,10 @@ type Param struct {
 	// Dimension of the value; its default unit is the one the model
 	// expects, see units.Dimension.DefaultUnit.
 	Dimension units.Dimension
+	// Unit is the unit of a bare number in a spec, a unit of Dimension
+	// (e.g. "kcal/mol*A^6"); empty means Dimension.DefaultUnit(). Values
+	// reach Model.New in the default unit whatever Unit says.
+	Unit string
 	// Constraint on the value in the default unit.
 	Constraint Constraint
 	// Meaning is a one-line description.
@@ -63,7 +67,10 @@ type Param struct {
 // "n [dimensionless, > 0]".
 func (p Param) String() string {
 	u := p.Dimension.DefaultUnit()
-	if u == "" {
+	if p.Unit != "" {
+		u = p.Unit
+	}
+	if u == "" || u == "1" {
 		u = "dimensionless"
 	}
 	return fmt.Sprintf("%s [%s, %s]", p.Name, u, p.Constraint)

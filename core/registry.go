@@ -1,10 +1,17 @@
 package core
 
 import (
+	"errors"
 	"fmt"
 	"sort"
 	"strings"
+
+	"github.com/pairwell/pairwell/internal/suggest"
 )
+
+// ErrUnknownModel means no model of the registry has the key or alias
+// asked for. Registry.Build wraps it together with ErrSpec.
+var ErrUnknownModel = errors.New("unknown model")
 
 // Registry is a set of models addressable by key or alias. The zero value
 // is an empty registry ready to use. A Registry is not safe for concurrent
@@ -49,12 +56,18 @@ func (r *Registry) Add(m Model) error {
 	return nil
 }
 
-// Lookup returns the model with the given key or alias.
+// Lookup returns the model with the given key or alias. Its error wraps
+// ErrUnknownModel and names the near misses ("did you mean …?").
 func (r *Registry) Lookup(name string) (Model, error) {
 	if m, ok := r.byName[strings.ToLower(strings.TrimSpace(name))]; ok {
 		return m, nil
 	}
-	return nil, fmt.Errorf("unknown model %q; known: %s", name, strings.Join(r.Keys(), ", "))
+	names := make([]string, 0, len(r.byName))
+	for n := range r.byName {
+		names = append(names, n)
+	}
+	sort.Strings(names)
+	return nil, fmt.Errorf("%w %q%s; known: %s", ErrUnknownModel, name, suggest.Hint(name, names), strings.Join(r.Keys(), ", "))
 }
 
 // Models returns the models in the order they were added.

@@ -76,7 +76,7 @@ func (r *Registry) Build(spec string) (Instance, error) {
 	}
 	m, err := r.Lookup(s.Model)
 	if err != nil {
-		return Instance{}, fmt.Errorf("%w: %v", ErrSpec, err)
+		return Instance{}, fmt.Errorf("%w: %w", ErrSpec, err)
 	}
 	return BuildSpec(m, s)
 }
@@ -95,7 +95,7 @@ func BuildSpec(m Model, s Spec) (Instance, error) {
 		if set[i] {
 			return Instance{}, fmt.Errorf("%w: %s: parameter %s given twice", ErrSpec, info.Key, p.Name)
 		}
-		v, err := units.Parse(a.Value, p.Dimension)
+		v, err := units.ParseIn(a.Value, p.Dimension, p.Unit)
 		if err != nil {
 			return Instance{}, fmt.Errorf("%w: %s: %s: %v", ErrSpec, info.Key, p.Name, err)
 		}

@@ -26,6 +26,12 @@ type Well struct {
 	// V(Re + x) ≈ Σ c_n xⁿ. Taylor[0] = Energy and Taylor[1] = 0 to
 	// rounding.
 	Taylor []float64
+	// Series holds c_n = V⁽ⁿ⁾(Re)/n! for n = 0, …, M with M =
+	// min(SeriesOrder, MaxOrder) (shorter where a coefficient is not
+	// finite), for the series of small displacements (see Expansion); it
+	// comes from the same evaluation as Taylor, which it extends. It may
+	// be nil in a Well built by hand: Expansion then uses Taylor.
+	Series []float64
 	// K is the force constant V″(Re) in eV/Å² (Hooke's law k).
 	K float64
 	// Inflection is the stretch-side inflection point in Å, where V″
@@ -59,12 +65,18 @@ func AnalyzeWell(p Potential, s WellSettings) (Well, error) {
 	if err != nil {
 		return Well{}, err
 	}
-	w := Well{Re: re, Taylor: make([]float64, order+1)}
-	if err := one(p, order, re, w.Taylor); err != nil {
-		return Well{}, fmt.Errorf("taylor coefficients at r = %g Å: %w", re, err)
+	series := make([]float64, max(order, min(SeriesOrder, p.MaxOrder()))+1)
+	if err := one(p, len(series)-1, re, series); err != nil {
+		// The series beyond the requested order is a bonus: when one of
+		// its coefficients overflows, keep the requested ones only.
+		if len(series) == order+1 || one(p, order, re, series[:order+1]) != nil {
+			return Well{}, fmt.Errorf("taylor coefficients at r = %g Å: %w", re, err)
+		}
+		series = series[:order+1]
 	}
+	w := Well{Re: re, Taylor: series[: order+1 : order+1], Series: series}
 	w.Energy = w.Taylor[0]
-	w.K = 2 * w.Taylor[2]
+	w.K = 2 * w.Taylor[2] // V″(re) = 2c₂
 	d := p.Domain()
 	w.Depth = math.Inf(1)
 	if d.Bounded() {

@@ -2,6 +2,7 @@ package plugins
 
 import (
 	"bufio"
+	"bytes"
 	"encoding/hex"
 	"errors"
 	"fmt"
@@ -11,6 +12,8 @@ import (
 	"path/filepath"
 	"sort"
 	"strings"
+
+	"github.com/pairwell/pairwell/internal/fileio"
 )
 
 // ErrRef means a plugin reference, a plugin path list or a lock file is
@@ -104,24 +107,27 @@ func Discover(list string) ([]string, error) {
 	return found, nil
 }
 
+// MaxLockSize is the largest lock file ReadLock reads, in bytes.
+const MaxLockSize = 1 << 20
+
 // Lock pins plugins to their SHA-256 digests, by absolute path.
 type Lock map[string][]byte
 
-// ReadLock reads a lock file in the format sha256sum prints: one
+// ReadLock reads a lock file (a regular file of at most MaxLockSize bytes)
+// in the format sha256sum prints: one
 // "HEX  PATH" line per plugin (a '*' before PATH is allowed). A relative
 // PATH is relative to the lock file's directory. Blank lines and lines
 // starting with '#' are ignored.
 func ReadLock(path string) (Lock, error) {
-	f, err := os.Open(path)
+	data, err := fileio.ReadFile(path, MaxLockSize)
 	if err != nil {
 		return nil, fmt.Errorf("plugin lock file: %w", err)
 	}
-	defer f.Close()
 	abs, err := filepath.Abs(path)
 	if err != nil {
 		return nil, fmt.Errorf("plugin lock file: %w", err)
 	}
-	l, err := ParseLock(f, filepath.Dir(abs))
+	l, err := ParseLock(bytes.NewReader(data), filepath.Dir(abs))
 	if err != nil {
 		return nil, fmt.Errorf("plugin lock file %s: %w", path, err)
 	}

@@ -9,7 +9,6 @@ import (
 	"github.com/spf13/cobra"
 
 	"github.com/pairwell/pairwell/conformance/baseline"
-	"github.com/pairwell/pairwell/core/modelset"
 	"github.com/pairwell/pairwell/core/validity"
 )
 
@@ -59,16 +58,19 @@ baseline is replaced only by a complete new one.`,
 			if !(tolerance > 0 && tolerance < 1) {
 				return usageErr(fmt.Errorf("--tolerance %g: must be in (0, 1), e.g. 0.01 for 1 %%", tolerance))
 			}
-			set, err := loadSet(setPath)
+			set, err := e.readSet(setPath)
 			if err != nil {
+				return err
+			}
+			if err := e.checkOutput("-o", out); err != nil {
 				return err
 			}
 			b, err := baseline.Record(set, e.registry, baseline.Settings{Tool: toolVersion(), Validity: validity.Settings{Tolerance: tolerance}})
 			if err != nil {
 				return computeErr(fmt.Errorf("--set %s: %w", setPath, err))
 			}
-			if err := b.WriteFile(out); err != nil {
-				return failErr(err)
+			if err := e.writeOutput("-o", out, b.Write); err != nil {
+				return err
 			}
 			n := 0
 			for _, en := range b.Entries {
@@ -144,11 +146,15 @@ removed, 2 bad input (including a corrupt or foreign baseline file).`,
 			if !(rtol >= 0) || math.IsInf(rtol, 1) {
 				return usageErr(fmt.Errorf("--rtol %g: must be ≥ 0", rtol))
 			}
-			old, err := baseline.ReadFile(args[0])
+			data, err := e.readInput("baseline", args[0], baseline.MaxSize)
+			if err != nil {
+				return err
+			}
+			old, err := baseline.Read(data, args[0])
 			if err != nil {
 				return usageErr(err)
 			}
-			set, err := loadSet(setPath)
+			set, err := e.readSet(setPath)
 			if err != nil {
 				return err
 			}
@@ -196,15 +202,6 @@ removed, 2 bad input (including a corrupt or foreign baseline file).`,
 	cmd.Flags().StringVar(&setPath, "set", "", "model-set file (TOML) the baseline was recorded from")
 	cmd.Flags().Float64Var(&rtol, "rtol", 1e-9, "largest relative change that is not reported")
 	return cmd
-}
-
-// loadSet reads a model-set file; failures are usage errors.
-func loadSet(path string) (*modelset.Set, error) {
-	set, err := modelset.Load(path)
-	if err != nil {
-		return nil, usageErr(fmt.Errorf("--set: %w", err))
-	}
-	return set, nil
 }
 
 // toolVersion names this build of pairwell for baseline files: the module

@@ -3,6 +3,7 @@ package main
 import (
 	"errors"
 	"fmt"
+	"io"
 	"math"
 	"strings"
 
@@ -67,6 +68,11 @@ Exit status: 0 every check passed, 1 a check failed, 2 bad input.`,
 			if maxOrder < 0 {
 				return usageErr(fmt.Errorf("--max-order %d: must be at least 1 (default %d)", maxOrder, conformance.DefaultMaxOrder))
 			}
+			if junit != "" {
+				if err := e.checkOutput("--junit", junit); err != nil {
+					return err
+				}
+			}
 			settings := conformance.Settings{Points: points, MaxOrder: maxOrder}
 			var rep conformance.Report
 			if setPath == "" && len(args) == 0 {
@@ -84,8 +90,8 @@ Exit status: 0 every check passed, 1 a check failed, 2 bad input.`,
 				return err
 			}
 			if junit != "" {
-				if err := conformance.WriteJUnitFile(junit, rep, "pairwell check"); err != nil {
-					return failErr(fmt.Errorf("--junit: %w", err))
+				if err := e.writeOutput("--junit", junit, func(w io.Writer) error { return rep.WriteJUnit(w, "pairwell check") }); err != nil {
+					return err
 				}
 			}
 			return checkOutcome(e, rep)

@@ -87,7 +87,16 @@ table).`,
 			if err != nil {
 				return err
 			}
-			return e.emitCompare(rows)
+			if err := e.emitCompare(rows); err != nil {
+				return err
+			}
+			errs := make([]error, len(rows))
+			for i, r := range rows {
+				if r.Err != nil {
+					errs[i] = fmt.Errorf("%s: %w", r.Name, r.Err)
+				}
+			}
+			return pluginRowFailure(errs)
 		},
 	}
 	mass.register(cmd)

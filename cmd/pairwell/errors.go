@@ -2,8 +2,10 @@ package main
 
 import (
 	"errors"
+	"fmt"
 
 	"github.com/pairwell/pairwell/core"
+	"github.com/pairwell/pairwell/plugins"
 )
 
 // Exit codes.
@@ -54,6 +56,39 @@ func computeErr(err error) error {
 		}
 	}
 	return failErr(err)
+}
+
+// pluginRowFailure returns, for a command that reports an error per row
+// (and has printed every row), a failure (exit 1) when any row failed
+// because a plugin did — crashed, timed out, answered against the
+// protocol, or was stopped. A row whose input is out of the form's range
+// (the pair dissociates, a start outside the domain) is no failure: nil.
+func pluginRowFailure(rowErrs []error) error {
+	n := 0
+	var first error
+	for _, err := range rowErrs {
+		if err != nil && isPluginFailure(err) {
+			if first == nil {
+				first = err
+			}
+			n++
+		}
+	}
+	if first == nil {
+		return nil
+	}
+	return failErr(fmt.Errorf("%d of %d rows failed because a plugin failed; the first: %w", n, len(rowErrs), first))
+}
+
+// isPluginFailure reports whether err is a plugin's failure rather than
+// an answer about the input.
+func isPluginFailure(err error) bool {
+	for _, target := range []error{plugins.ErrCrashed, plugins.ErrTimeout, plugins.ErrBadOutput, plugins.ErrClosed, plugins.ErrHandshake} {
+		if errors.Is(err, target) {
+			return true
+		}
+	}
+	return false
 }
 
 // exitCode returns the exit code for an error returned by a command.

@@ -82,7 +82,7 @@ func TestBadInput(t *testing.T) {
 		{"wrong dimension", []string{"inspect", "morse:De=4.6nm,a=1.87,re=1.27"}, "energy"},
 		{"constraint", []string{"inspect", "morse:De=4.6,a=-1.87,re=1.27"}, "> 0"},
 		{"unknown element", []string{"inspect", morse, "--pair", "H-Qz"}, "Qz"},
-		{"unknown isotope", []string{"inspect", morse, "--pair", "1H-36Cl"}, "36Cl"},
+		{"unknown isotope", []string{"inspect", morse, "--pair", "1H-38Cl"}, "38Cl"},
 		{"malformed pair", []string{"inspect", morse, "--pair", "HCl"}, "A-B"},
 		{"pair and mu", []string{"inspect", morse, "--pair", "H-Cl", "--mu", "1"}, "--pair and --mu"},
 		{"bad mu", []string{"inspect", morse, "--mu", "-1"}, "--mu"},

@@ -12,26 +12,47 @@ import (
 	"io"
 	"os"
 	"strings"
+	"unicode/utf8"
 )
 
 func main() {
 	os.Exit(run(os.Args[1:], os.Stdin, os.Stdout, os.Stderr))
 }
 
+// maxMessage is the longest error line pairwell prints, in characters: a
+// message quoting hostile input (a huge spec, a plugin's answer) is cut.
+const maxMessage = 2000
+
+// truncateMessage cuts msg to maxMessage characters, saying so.
+func truncateMessage(msg string) string {
+	if utf8.RuneCountInString(msg) <= maxMessage {
+		return msg
+	}
+	r := []rune(msg)
+	return string(r[:maxMessage]) + fmt.Sprintf("… (%d more characters)", len(r)-maxMessage)
+}
+
 // run executes the command line args and returns the exit code.
 func run(args []string, stdin io.Reader, stdout, stderr io.Writer) int {
 	env := newEnv(stdout, stderr)
+	stop := env.handleSignals()
+	defer stop()
 	defer env.close()
 	root := newRootCmd(env)
 	root.SetArgs(args)
 	root.SetIn(stdin)
-	root.SetOut(stdout)
-	root.SetErr(stderr)
+	root.SetOut(env.stdout)
+	root.SetErr(env.stderr)
 	err := root.Execute()
 	if err == nil {
 		return 0
 	}
-	msg := strings.Join(strings.Fields(strings.ReplaceAll(err.Error(), "\n", " ")), " ")
-	fmt.Fprintf(stderr, "pairwell: %s\n", msg)
+	err = withPluginFailures(err, env.failedPlugins)
+	fmt.Fprintf(env.stderr, "pairwell: %s\n", truncateMessage(oneLine(err.Error())))
 	return exitCode(err)
+}
+
+// oneLine joins the lines of a message and collapses its white space.
+func oneLine(s string) string {
+	return strings.Join(strings.Fields(strings.ReplaceAll(s, "\n", " ")), " ")
 }

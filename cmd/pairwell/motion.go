@@ -4,8 +4,7 @@ import (
 	"encoding/csv"
 	"errors"
 	"fmt"
-	"os"
-	"path/filepath"
+	"io"
 	"strconv"
 
 	"github.com/spf13/cobra"
@@ -77,6 +76,9 @@ JSON values are in eV, Å, u and fs, whatever the input units.`,
 				return err
 			}
 			if trajectory != "" {
+				if err := e.checkOutput("--trajectory", trajectory); err != nil {
+					return err
+				}
 				set.Record = 1
 			}
 			inst, err := e.build(args[0])
@@ -106,8 +108,8 @@ JSON values are in eV, Å, u and fs, whatever the input units.`,
 				return computeErr(err)
 			}
 			if trajectory != "" {
-				if err := writeTrajectory(trajectory, tr); err != nil {
-					return failErr(fmt.Errorf("--trajectory %s: %w", trajectory, err))
+				if err := e.writeOutput("--trajectory", trajectory, func(w io.Writer) error { return writeTrajectory(w, tr) }); err != nil {
+					return err
 				}
 				r.Trajectory, r.TrajectorySamples = trajectory, len(tr)
 			}
@@ -199,25 +201,9 @@ func motionTable(r report.Motion) *table {
 	return t
 }
 
-// writeTrajectory writes the samples as CSV to path atomically: to a
-// temporary file in the same directory, renamed over path once complete.
-func writeTrajectory(path string, tr []motion.Sample) (err error) {
-	dir := filepath.Dir(path)
-	f, err := os.CreateTemp(dir, "."+filepath.Base(path)+".*.tmp")
-	if err != nil {
-		var pe *os.PathError
-		if errors.As(err, &pe) {
-			err = pe.Err
-		}
-		return fmt.Errorf("cannot create a file in %s: %w", dir, err)
-	}
-	defer func() {
-		if err != nil {
-			f.Close()
-			os.Remove(f.Name())
-		}
-	}()
-	w := csv.NewWriter(f)
+// writeTrajectory writes the samples as CSV.
+func writeTrajectory(out io.Writer, tr []motion.Sample) error {
+	w := csv.NewWriter(out)
 	if err := w.Write([]string{"t_fs", "r_angstrom", "x_angstrom", "v_angstrom_per_fs", "energy_ev"}); err != nil {
 		return err
 	}
@@ -228,14 +214,5 @@ func writeTrajectory(path string, tr []motion.Sample) (err error) {
 		}
 	}
 	w.Flush()
-	if err := w.Error(); err != nil {
-		return err
-	}
-	if err := f.Chmod(0o644); err != nil {
-		return err
-	}
-	if err := f.Close(); err != nil {
-		return err
-	}
-	return os.Rename(f.Name(), path)
+	return w.Error()
 }

@@ -168,7 +168,14 @@ JSON values are in eV, Å, u and fs, whatever the input units.`,
 			if failed > 0 {
 				fmt.Fprintf(e.stderr, "pairwell: %d of %d rows have no period (see their error)\n", failed, len(rows))
 			}
-			return e.emit(rows, periodTable(rows, set.Measure))
+			if err := e.emit(rows, periodTable(rows, set.Measure)); err != nil {
+				return err
+			}
+			errs := make([]error, len(rows))
+			for i, r := range rows {
+				errs[i] = r.Err
+			}
+			return pluginRowFailure(errs)
 		},
 	}
 	mass.register(cmd)

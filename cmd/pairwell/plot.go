@@ -3,6 +3,7 @@ package main
 import (
 	"errors"
 	"fmt"
+	"io"
 	"os"
 	"path/filepath"
 	"strings"
@@ -83,6 +84,9 @@ func (o *plotOutput) check(e *env) error {
 	if _, err := figure.FormatFor(o.path); err != nil {
 		return usageErr(fmt.Errorf("-o: %w", err))
 	}
+	if err := e.checkOutput("-o", o.path); err != nil {
+		return err
+	}
 	dir := filepath.Dir(o.path)
 	st, err := os.Stat(dir)
 	if err != nil {
@@ -106,13 +110,16 @@ func unwrapPath(err error) error {
 
 // writePlot writes f to the output file and reports it.
 func (e *env) writePlot(f *figure.Figure, path string) error {
-	if err := f.WriteFile(path); err != nil {
-		if errors.Is(err, figure.ErrFormat) {
-			return usageErr(err)
-		}
-		return failErr(err)
+	format, err := figure.FormatFor(path)
+	if err != nil {
+		return usageErr(err)
 	}
-	format, _ := figure.FormatFor(path)
+	if err := e.writeOutput("-o", path, func(w io.Writer) error { return f.Render(w, format) }); err != nil {
+		if errors.Is(err, figure.ErrFigure) {
+			return computeErr(err)
+		}
+		return err
+	}
 	r := plotReport{File: path, Kind: f.Kind, Format: string(format), Notes: f.Notes}
 	for _, s := range f.Series {
 		r.Series = append(r.Series, s.Name)

@@ -2,6 +2,7 @@ package main
 
 import (
 	"fmt"
+	"io"
 	"os"
 	"path/filepath"
 	"runtime"
@@ -94,9 +95,8 @@ func (d *demoPictures) write(e *env) error {
 				errs[i] = computeErr(fmt.Errorf("demo picture %s: %w", pic.file, err))
 				return
 			}
-			if err := f.WriteFile(filepath.Join(d.dir, pic.file)); err != nil {
-				errs[i] = failErr(fmt.Errorf("demo picture: %w", err))
-			}
+			path := filepath.Join(d.dir, pic.file)
+			errs[i] = e.writeOutput("demo picture", path, func(w io.Writer) error { return f.Render(w, figure.PNG) })
 		}()
 	}
 	wg.Wait()

@@ -1,20 +1,20 @@
 package main
 
 import (
+	"bytes"
 	"context"
 	"errors"
 	"fmt"
 	"io/fs"
 	"os"
-	"os/signal"
 	"path/filepath"
 	"sync"
-	"syscall"
 	"time"
 
 	"github.com/spf13/cobra"
 	"github.com/spf13/pflag"
 
+	"github.com/pairwell/pairwell/core"
 	"github.com/pairwell/pairwell/plugins"
 )
 
@@ -88,13 +88,13 @@ func (s *pluginSet) closeAll() {
 // parallel, and registers their models: those of --plugin first, in flag
 // order, then those found in the path, directory by directory and by name.
 // Every plugin is stopped when the invocation ends (env.close), and on
-// SIGINT, SIGTERM or SIGHUP, after which pairwell dies of that signal as it
-// would without plugins.
+// SIGINT, SIGTERM or SIGHUP (see signals.go), after which pairwell dies of
+// that signal as it would without plugins.
 func (f *pluginFlags) load(e *env) error {
 	if f.timeout <= 0 {
 		return usageErr(fmt.Errorf("--plugin-timeout %v: must be positive", f.timeout))
 	}
-	refs, err := f.resolve()
+	refs, fromPath, err := f.resolve(e)
 	if err != nil {
 		return err
 	}
@@ -105,41 +105,22 @@ func (f *pluginFlags) load(e *env) error {
 	set := &pluginSet{}
 	var loading sync.WaitGroup // the Loads in flight
 	ctx, cancel := context.WithCancel(context.Background())
-	sigs := make(chan os.Signal, 1)
-	signal.Notify(sigs, os.Interrupt, syscall.SIGTERM, syscall.SIGHUP)
-	done := make(chan struct{})
-	var stopOnce sync.Once
+	// Stop every plugin when the run ends, and on a signal (signals.go,
+	// which bounds the wait): abandon the starts in flight and wait for
+	// them (each kills its process before it returns), then stop the
+	// running plugins.
 	stop := func() {
-		stopOnce.Do(func() {
-			signal.Stop(sigs)
-			close(done)
-		})
-	}
-	go func() {
-		select {
-		case s := <-sigs:
-			// Abandon the starts in flight (each kills its process
-			// before it returns), then stop the running plugins.
-			cancel()
-			waitTimeout(&loading, f.timeout)
-			set.close()
-			stop()
-			// Die of the signal, as without plugins.
-			if self, err := os.FindProcess(os.Getpid()); err == nil {
-				_ = self.Signal(s)
-			}
-		case <-done:
-		}
-	}()
-	e.closers = append(e.closers, func() {
-		stop()
 		cancel()
+		loading.Wait()
 		set.close()
-	})
+	}
+	e.onSignal(stop)
+	e.closers = append(e.closers, stop)
 
 	loaded := make([]*plugins.Plugin, len(refs))
 	errs := make([]error, len(refs))
 	for i, r := range refs {
+		e.files.Input(r.Path)
 		loading.Add(1)
 		go func() {
 			defer loading.Done()
@@ -153,12 +134,26 @@ func (f *pluginFlags) load(e *env) error {
 		}()
 	}
 	loading.Wait()
-	for _, err := range errs {
-		if err != nil {
+	for i, err := range errs {
+		// A plugin named by --plugin, or one that is not the pinned
+		// binary, stops the invocation.
+		if err != nil && (!fromPath[i] || errors.Is(err, plugins.ErrChecksum)) {
 			return pluginErr(err)
 		}
 	}
+	for i, err := range errs {
+		if err != nil {
+			// A plugin found through the path variable that fails is a
+			// warning: its forms are missing, the rest works.
+			fail := fmt.Errorf("plugin %s (found through %s) failed to start: %w", refs[i].Path, envPluginPath, err)
+			e.failedPlugins = append(e.failedPlugins, fail)
+			fmt.Fprintf(e.stderr, "pairwell: warning: %s; its forms are not available\n", oneLine(fail.Error()))
+		}
+	}
 	for _, p := range loaded {
+		if p == nil {
+			continue
+		}
 		for _, m := range p.Models() {
 			if err := e.registry.Add(m); err != nil {
 				return usageErr(fmt.Errorf("plugin %s: %w", p.Path(), err))
@@ -168,35 +163,28 @@ func (f *pluginFlags) load(e *env) error {
 	return nil
 }
 
-// waitTimeout waits for wg, at most d.
-func waitTimeout(wg *sync.WaitGroup, d time.Duration) {
-	done := make(chan struct{})
-	go func() {
-		wg.Wait()
-		close(done)
-	}()
-	t := time.NewTimer(d)
-	defer t.Stop()
-	select {
-	case <-done:
-	case <-t.C:
-	}
-}
-
 // resolve lists the plugins to load, each once (by absolute path), with
-// their pins: a pin given with --plugin wins over the lock file.
-func (f *pluginFlags) resolve() ([]plugins.Ref, error) {
+// their pins: a pin given with --plugin wins over the lock file. fromPath[i]
+// tells that refs[i] was found only through envPluginPath.
+func (f *pluginFlags) resolve(e *env) (refs []plugins.Ref, fromPath []bool, err error) {
 	var lock plugins.Lock
 	if name := os.Getenv(envPluginLock); name != "" {
-		l, err := plugins.ReadLock(name)
+		data, err := e.readInput(envPluginLock, name, plugins.MaxLockSize)
 		if err != nil {
-			return nil, usageErr(fmt.Errorf("%s: %w", envPluginLock, err))
+			return nil, nil, err
+		}
+		abs, err := filepath.Abs(name)
+		if err != nil {
+			return nil, nil, usageErr(fmt.Errorf("%s: %w", envPluginLock, err))
+		}
+		l, err := plugins.ParseLock(bytes.NewReader(data), filepath.Dir(abs))
+		if err != nil {
+			return nil, nil, usageErr(fmt.Errorf("%s: plugin lock file %s: %w", envPluginLock, name, err))
 		}
 		lock = l
 	}
-	var refs []plugins.Ref
 	seen := make(map[string]int)
-	add := func(r plugins.Ref, fromPath bool) error {
+	add := func(r plugins.Ref, isPath bool) error {
 		abs, err := filepath.Abs(r.Path)
 		if err != nil {
 			return usageErr(fmt.Errorf("plugin %s: %w", r.Path, err))
@@ -205,40 +193,55 @@ func (f *pluginFlags) resolve() ([]plugins.Ref, error) {
 		if r.SHA256 == nil && lock != nil {
 			if sum, ok := lock.Lookup(abs); ok {
 				r.SHA256 = sum
-			} else if fromPath {
+			} else if isPath {
 				return usageErr(fmt.Errorf("plugin %s (found through %s) is not listed in the lock file %s; add its \"sha256sum\" line to load it",
 					abs, envPluginPath, os.Getenv(envPluginLock)))
 			}
 		}
 		if i, ok := seen[abs]; ok {
-			if refs[i].SHA256 == nil {
+			switch {
+			case refs[i].SHA256 == nil:
 				refs[i].SHA256 = r.SHA256
+			case r.SHA256 != nil && !bytes.Equal(refs[i].SHA256, r.SHA256):
+				return usageErr(fmt.Errorf("plugin %s: %w: pinned twice, to sha256:%x and sha256:%x; give one pin",
+					abs, plugins.ErrRef, refs[i].SHA256, r.SHA256))
 			}
 			return nil
 		}
 		seen[abs] = len(refs)
 		refs = append(refs, r)
+		fromPath = append(fromPath, isPath)
 		return nil
 	}
 	for _, s := range f.refs {
 		r, err := plugins.ParseRef(s)
 		if err != nil {
-			return nil, usageErr(fmt.Errorf("--plugin: %w", err))
+			return nil, nil, usageErr(fmt.Errorf("--plugin: %w", err))
 		}
 		if err := add(r, false); err != nil {
-			return nil, err
+			return nil, nil, err
 		}
 	}
 	found, err := plugins.Discover(os.Getenv(envPluginPath))
 	if err != nil {
-		return nil, usageErr(fmt.Errorf("%s: %w", envPluginPath, err))
+		return nil, nil, usageErr(fmt.Errorf("%s: %w", envPluginPath, err))
 	}
 	for _, path := range found {
 		if err := add(plugins.Ref{Path: path}, true); err != nil {
-			return nil, err
+			return nil, nil, err
 		}
 	}
-	return refs, nil
+	return refs, fromPath, nil
+}
+
+// withPluginFailures adds to an unknown-form error the plugins found
+// through the path variable that failed to start (any of them may serve the
+// form): the error is then a plugin failure (exit 1), not bad input.
+func withPluginFailures(err error, failed []error) error {
+	if len(failed) == 0 || !errors.Is(err, core.ErrUnknownModel) {
+		return err
+	}
+	return failErr(fmt.Errorf("%w; it may be served by a plugin that failed to start: %w", err, errors.Join(failed...)))
 }
 
 // pluginErr classifies an error of starting a plugin: a file that is not

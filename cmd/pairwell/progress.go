@@ -21,7 +21,7 @@ import (
 // callback of the form func(done, total int), such as the progress argument
 // of period.Sweep, wrap it: func(int, int) { step() }.
 func (e *env) progress(total int, what string) (step func(), done func()) {
-	return newProgress(e.stderr, os.Getenv, total, what)
+	return newProgress(e.term, os.Getenv, total, what)
 }
 
 // newProgress is env.progress with the writer and the environment lookup

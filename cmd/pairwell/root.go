@@ -7,19 +7,29 @@ import (
 	"github.com/spf13/cobra"
 
 	"github.com/pairwell/pairwell/core"
+	"github.com/pairwell/pairwell/internal/fileio"
 	"github.com/pairwell/pairwell/models"
 )
 
 // env is the state one invocation of pairwell shares between its commands.
 type env struct {
-	stdout, stderr io.Writer
+	stdout, stderr io.Writer // escape terminal controls (terminal.go)
+	term           io.Writer // the raw stderr, for the progress bar
 	format         string
 	registry       *core.Registry
+	files          *fileio.Run // the inputs of the run and its temporary files
 	closers        []func()
+	interrupts     interrupts // what a signal must still do, see signals.go
+	// failedPlugins are the plugins found through the plugin path that
+	// failed to start (a warning, see plugins.go).
+	failedPlugins []error
 }
 
+// newEnv makes the state of one invocation. What it prints goes through
+// cleanWriter (terminal.go); only the progress bar draws on the raw stderr.
 func newEnv(stdout, stderr io.Writer) *env {
-	return &env{stdout: stdout, stderr: stderr, registry: models.NewRegistry()}
+	return &env{stdout: &cleanWriter{w: stdout}, stderr: &cleanWriter{w: stderr}, term: stderr,
+		registry: models.NewRegistry(), files: &fileio.Run{}}
 }
 
 // close releases what the invocation started (plugin processes).

@@ -42,13 +42,12 @@ import (
 	"fmt"
 	"io"
 	"math"
-	"os"
 	"strconv"
 
-	"github.com/pairwell/pairwell/conformance/internal/atomicfile"
 	"github.com/pairwell/pairwell/core"
 	"github.com/pairwell/pairwell/core/modelset"
 	"github.com/pairwell/pairwell/core/validity"
+	"github.com/pairwell/pairwell/internal/fileio"
 )
 
 // Format and Version identify baseline documents. Version changes when the
@@ -212,11 +211,13 @@ func (b *Baseline) Write(w io.Writer) error {
 	return enc.Encode(b)
 }
 
-// WriteFile writes b to path atomically: a temporary file in the same
+// WriteFile writes b to path under pairwell's output-file policy
+// (internal/fileio): atomically, through a temporary file in the same
 // directory, synced and renamed over path, so that path never holds a
-// half-written baseline.
+// half-written baseline; a symbolic link, device, FIFO or directory is
+// refused, and a replaced file keeps its mode.
 func (b *Baseline) WriteFile(path string) error {
-	return atomicfile.Write(path, 0o644, b.Write)
+	return fileio.WriteFile(path, b.Write)
 }
 
 // Read parses a baseline; source names it in errors. Anything but a
@@ -271,9 +272,13 @@ func Read(data []byte, source string) (*Baseline, error) {
 	return &b, nil
 }
 
+// MaxSize is the largest baseline file ReadFile reads, in bytes (a
+// baseline of a thousand entries is about 2 MB).
+const MaxSize = 64 << 20
+
 // ReadFile reads the baseline at path; see Read.
 func ReadFile(path string) (*Baseline, error) {
-	data, err := os.ReadFile(path)
+	data, err := fileio.ReadFile(path, MaxSize)
 	if err != nil {
 		return nil, fmt.Errorf("baseline: %w", err)
 	}

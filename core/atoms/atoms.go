@@ -5,7 +5,9 @@
 // standard atomic weight (IUPAC/CIAAW 2021, abridged), appropriate for
 // natural isotopic composition; isotope symbols such as "2H" or "35Cl", and the
 // aliases "D" (²H) and "T" (³H), give AME2020 atomic masses (neutral atoms).
-// Elements H (Z = 1) to Xe (Z = 54) are known.
+// Every element, H (Z = 1) to Og (Z = 118), is known; symbols are read
+// ignoring case ("CL", "cl" and "Cl" are chlorine), since element symbols are
+// distinct ignoring case.
 package atoms
 
 import (
@@ -14,6 +16,8 @@ import (
 	"math"
 	"strconv"
 	"strings"
+
+	"github.com/pairwell/pairwell/internal/suggest"
 )
 
 // Sentinel errors, wrapped by the errors of this package; use errors.Is.
@@ -21,7 +25,8 @@ var (
 	// ErrUnknownSymbol reports an unknown element or isotope symbol.
 	ErrUnknownSymbol = errors.New("unknown element or isotope")
 	// ErrNoStandardWeight reports an element without a standard atomic
-	// weight (technetium, which has no stable isotope).
+	// weight (Tc, Pm, Po to Ac, Np to Og: no stable isotope and no
+	// characteristic terrestrial isotopic composition).
 	ErrNoStandardWeight = errors.New("no standard atomic weight")
 	// ErrMalformedPair reports a pair not of the form A-B.
 	ErrMalformedPair = errors.New("malformed pair")
@@ -46,8 +51,9 @@ func (p Pair) String() string { return p.A + "-" + p.B }
 // An isotope symbol is a mass number followed by an element symbol, e.g.
 // "1H", "13C" or "35Cl" (superscript digits as in "³⁵Cl" are accepted), and
 // gives the AME2020 atomic mass; "D" and "T" stand for "2H" and "3H".
-// Symbols are case sensitive, except that an all-lower-case element symbol
-// such as "cl" is accepted. Surrounding white space is ignored.
+// Symbols are read ignoring case ("CL" is "Cl", "35cl" is "35Cl", "d" is
+// "D"). Surrounding white space is ignored. An unknown symbol's error names
+// the near misses ("did you mean …?").
 func Mass(symbol string) (float64, error) {
 	_, m, err := lookup(symbol)
 	if err != nil {
@@ -58,13 +64,17 @@ func Mass(symbol string) (float64, error) {
 
 // ParsePair parses a pair of atoms written "A-B", such as "H-Cl", "1H-35Cl",
 // "D-D", "C-O" or "12C-16O", where A and B are symbols accepted by Mass.
-// White space around A and B is ignored; an en dash "–" may replace the hyphen.
+// White space around A and B is ignored; an en dash "–" may replace the hyphen;
+// symbols are read ignoring case. A pair written without the hyphen, such as
+// "HCl", is refused with the readings that would be valid ("did you mean
+// H-Cl?").
 func ParsePair(s string) (Pair, error) {
 	in := strings.ReplaceAll(s, "–", "-")
 	a, b, ok := strings.Cut(in, "-")
 	a, b = strings.TrimSpace(a), strings.TrimSpace(b)
 	if !ok || a == "" || b == "" || strings.Contains(b, "-") {
-		return Pair{}, fmt.Errorf("atoms: %w %q: expected form A-B, e.g. H-Cl or 1H-35Cl", ErrMalformedPair, s)
+		return Pair{}, fmt.Errorf("atoms: %w %q: expected form A-B, e.g. H-Cl or 1H-35Cl%s",
+			ErrMalformedPair, s, suggest.Phrase(splits(strings.TrimSpace(in))))
 	}
 	ca, ma, err := lookup(a)
 	if err != nil {
@@ -107,7 +117,24 @@ func reducedMass(m1, m2 float64) (float64, error) {
 	return mu, nil
 }
 
-// Symbols returns the known element symbols, H to Xe, in order of atomic
+// splits returns the readings "A-B" of a pair written without a hyphen, such
+// as "HCl" or "1H35Cl", in which both A and B are known symbols.
+func splits(s string) []string {
+	if strings.Contains(s, "-") || len(s) > 16 {
+		return nil
+	}
+	var out []string
+	for i := 1; i < len(s); i++ {
+		ca, _, errA := lookup(s[:i])
+		cb, _, errB := lookup(s[i:])
+		if errA == nil && errB == nil {
+			out = append(out, ca+"-"+cb)
+		}
+	}
+	return out
+}
+
+// Symbols returns the known element symbols, H to Og, in order of atomic
 // number. The returned slice is a fresh copy.
 func Symbols() []string {
 	s := make([]string, len(elements))
@@ -127,17 +154,9 @@ func Isotopes() []string {
 	return s
 }
 
-// bySymbol indexes elements by symbol. Read only.
-var bySymbol = func() map[string]element {
-	m := make(map[string]element, len(elements))
-	for _, e := range elements {
-		m[e.symbol] = e
-	}
-	return m
-}()
-
 // byLowerSymbol indexes elements by lower-case symbol. Element symbols are
-// distinct ignoring case, so this is unambiguous. Read only.
+// distinct ignoring case, so this is unambiguous (TestTables checks it).
+// Read only.
 var byLowerSymbol = func() map[string]element {
 	m := make(map[string]element, len(elements))
 	for _, e := range elements {
@@ -167,11 +186,12 @@ var superscriptDigits = strings.NewReplacer(
 )
 
 // lookup returns the canonical spelling and mass of symbol. Its errors carry
-// no package prefix.
+// no package prefix. A symbol with no standard atomic weight is an error
+// wrapping ErrNoStandardWeight, returned with the canonical spelling.
 func lookup(symbol string) (canonical string, mass float64, err error) {
 	s := strings.TrimSpace(symbol)
-	if a, ok := isotopeAliases[s]; ok {
-		return s, byIsotope[isotopeKey{"H", a}], nil
+	if a, ok := isotopeAliases[strings.ToUpper(s)]; ok {
+		return strings.ToUpper(s), byIsotope[isotopeKey{"H", a}], nil
 	}
 	s = superscriptDigits.Replace(s)
 	i := 0
@@ -179,40 +199,63 @@ func lookup(symbol string) (canonical string, mass float64, err error) {
 		i++
 	}
 	digits, name := s[:i], s[i:]
-	e, ok := bySymbol[name]
-	if !ok && name == strings.ToLower(name) {
-		e, ok = byLowerSymbol[name]
-	}
+	e, ok := byLowerSymbol[strings.ToLower(name)]
 	if !ok {
-		return "", 0, unknownError(symbol)
+		return "", 0, unknownError(symbol, name)
 	}
 	if digits == "" {
 		if e.weight == 0 {
-			return "", 0, fmt.Errorf("%w for %s (no stable isotope); give an isotope mass explicitly", ErrNoStandardWeight, e.symbol)
+			return e.symbol, 0, fmt.Errorf("%w for %s (no stable isotope); give an isotope such as %s, or the mass explicitly",
+				ErrNoStandardWeight, e.symbol, isotopeList(e.symbol, "none known: give the mass explicitly"))
 		}
 		return e.symbol, e.weight, nil
 	}
 	a, err := strconv.Atoi(digits)
 	m, known := byIsotope[isotopeKey{e.symbol, a}]
 	if err != nil || digits[0] == '0' || !known {
-		var list []string
-		for _, iso := range isotopes {
-			if iso.symbol == e.symbol {
-				list = append(list, strconv.Itoa(iso.a)+iso.symbol)
-			}
-		}
-		known := "none"
-		if len(list) > 0 {
-			known = strings.Join(list, ", ")
-		}
-		return "", 0, fmt.Errorf("%w %q: known isotopes of %s: %s", ErrUnknownSymbol, symbol, e.symbol, known)
+		return "", 0, fmt.Errorf("%w %q: known isotopes of %s: %s", ErrUnknownSymbol, symbol, e.symbol,
+			isotopeList(e.symbol, "none (give the mass explicitly)"))
 	}
 	return digits + e.symbol, m, nil
 }
 
-// unknownError describes an unknown symbol, listing the known ones.
-func unknownError(symbol string) error {
-	return fmt.Errorf("%w %q; known elements: %s–%s (Z = 1–%d); isotopes: %s, D, T",
-		ErrUnknownSymbol, symbol, elements[0].symbol, elements[len(elements)-1].symbol,
-		elements[len(elements)-1].z, strings.Join(Isotopes(), ", "))
+// isotopeList lists the known isotopes of an element, or returns none.
+func isotopeList(symbol, none string) string {
+	var list []string
+	for _, iso := range isotopes {
+		if iso.symbol == symbol {
+			list = append(list, strconv.Itoa(iso.a)+iso.symbol)
+		}
+	}
+	if len(list) == 0 {
+		return none
+	}
+	return strings.Join(list, ", ")
+}
+
+// unknownError describes an unknown symbol with its near misses.
+func unknownError(symbol, name string) error {
+	known := append(Symbols(), "D", "T")
+	return fmt.Errorf("%w %q%s; known elements: %s–%s (Z = 1–%d), isotopes such as 35Cl, D, T",
+		ErrUnknownSymbol, symbol, suggest.Hint(name, known), elements[0].symbol, elements[len(elements)-1].symbol,
+		elements[len(elements)-1].z)
+}
+
+// The accepted range of a reduced mass given directly, in u: from below
+// that of an electron and a proton (5.4·10⁻⁴ u) to far above that of any
+// pair of atoms (< 150 u). Outside it a value is a typo, a denormal or an
+// underflow, and what is derived from it (periods, frequencies) would
+// overflow or mean nothing.
+const (
+	MinReducedMass = 1e-4
+	MaxReducedMass = 1e6
+)
+
+// CheckReducedMass returns an error wrapping ErrInvalidMass unless mu (in u)
+// lies in [MinReducedMass, MaxReducedMass].
+func CheckReducedMass(mu float64) error {
+	if !(mu >= MinReducedMass && mu <= MaxReducedMass) {
+		return fmt.Errorf("%w %v: a reduced mass must be from %g u to %g u", ErrInvalidMass, mu, MinReducedMass, MaxReducedMass)
+	}
+	return nil
 }

@@ -37,30 +37,39 @@ func TestMassIsotopes(t *testing.T) {
 		symbol string
 		want   float64
 	}{
-		{"1H", ame1H},      // AME2020, from memory
-		{"2H", ame2H},      // AME2020, from memory
-		{"D", ame2H},       // AME2020, from memory
-		{"3H", ame3H},      // AME2020, from memory
-		{"T", ame3H},       // AME2020, from memory
-		{"12C", ame12C},    // definition of u
-		{"13C", ame13C},    // AME2020, from memory
-		{"14N", ame14N},    // AME2020, from memory
-		{"15N", ame15N},    // AME2020, from memory
-		{"16O", ame16O},    // AME2020, from memory
-		{"17O", ame17O},    // AME2020, from memory
-		{"18O", ame18O},    // AME2020, from memory
-		{"19F", ame19F},    // AME2020, from memory
-		{"35Cl", ame35Cl},  // AME2020, from memory
-		{"³⁵Cl", ame35Cl},  // AME2020, from memory
-		{"35cl", ame35Cl},  // AME2020, from memory
-		{"37Cl", ame37Cl},  // AME2020, from memory
-		{"79Br", ame79Br},  // AME2020, from memory
-		{"81Br", ame81Br},  // AME2020, from memory
-		{"127I", ame127I},  // AME2020, from memory
-		{"40Ar", ame40Ar},  // AME2020, from memory
-		{"84Kr", ame84Kr},  // AME2020, from memory
-		{"132Xe", ame132X}, // AME2020, from memory
-		{" 13C ", ame13C},  // AME2020, from memory
+		{"1H", ame1H},            // AME2020, from memory
+		{"2H", ame2H},            // AME2020, from memory
+		{"D", ame2H},             // AME2020, from memory
+		{"3H", ame3H},            // AME2020, from memory
+		{"T", ame3H},             // AME2020, from memory
+		{"12C", ame12C},          // definition of u
+		{"13C", ame13C},          // AME2020, from memory
+		{"14N", ame14N},          // AME2020, from memory
+		{"15N", ame15N},          // AME2020, from memory
+		{"16O", ame16O},          // AME2020, from memory
+		{"17O", ame17O},          // AME2020, from memory
+		{"18O", ame18O},          // AME2020, from memory
+		{"19F", ame19F},          // AME2020, from memory
+		{"35Cl", ame35Cl},        // AME2020, from memory
+		{"³⁵Cl", ame35Cl},        // AME2020, from memory
+		{"35cl", ame35Cl},        // AME2020, from memory
+		{"37Cl", ame37Cl},        // AME2020, from memory
+		{"79Br", ame79Br},        // AME2020, from memory
+		{"81Br", ame81Br},        // AME2020, from memory
+		{"127I", ame127I},        // AME2020, from memory
+		{"40Ar", ame40Ar},        // AME2020, from memory
+		{"84Kr", ame84Kr},        // AME2020, from memory
+		{"132Xe", ame132X},       // AME2020, from memory
+		{" 13C ", ame13C},        // AME2020, from memory
+		{"14C", 14.0032419884},   // AME2020, from memory
+		{"63Cu", 62.92959772},    // AME2020, from memory
+		{"63CU", 62.92959772},    // AME2020, from memory
+		{"197Au", 196.96656879},  // AME2020, from memory
+		{"208Pb", 207.9766525},   // AME2020, from memory
+		{"133Cs", 132.905451961}, // AME2020, from memory
+		{"238U", 238.0507884},    // AME2020, from memory
+		{"99Tc", 98.9062508},     // AME2020, from memory
+		{"d", ame2H},             // AME2020, from memory
 	}
 	for _, tt := range tests {
 		got, err := Mass(tt.symbol)
@@ -91,6 +100,20 @@ func TestMassElements(t *testing.T) {
 		{"I", 126.90},
 		{"Xe", 131.29},
 		{"xe", 131.29},
+		{"XE", 131.29},
+		{"CL", 35.45},
+		{"Cs", 132.91}, // IUPAC 2021 abridged, from memory
+		{"Au", 196.97}, // IUPAC 2021 abridged, from memory
+		{"Pt", 195.08}, // IUPAC 2021 abridged, from memory
+		{"Pb", 207.2},  // IUPAC 2021 conventional (interval [206.14, 207.94]), from memory
+		{"Tl", 204.38}, // IUPAC 2021 conventional (interval [204.38, 204.39]), from memory
+		{"Hg", 200.59}, // IUPAC 2021 abridged, from memory
+		{"U", 238.03},  // IUPAC 2021 abridged, from memory
+		{"Th", 232.04}, // IUPAC 2021 abridged, from memory
+		{"Pa", 231.04}, // IUPAC 2021 abridged, from memory
+		{"Bi", 208.98}, // IUPAC 2021 abridged, from memory
+		{"Yb", 173.05}, // IUPAC 2021 abridged, from memory
+		{"Zn", 65.38},  // IUPAC 2021 abridged, from memory
 	}
 	for _, tt := range tests {
 		got, err := Mass(tt.symbol)
@@ -101,35 +124,69 @@ func TestMassElements(t *testing.T) {
 
 func TestTables(t *testing.T) {
 	syms := Symbols()
-	require.Len(t, syms, 54) // H (Z = 1) to Xe (Z = 54)
+	require.Len(t, syms, 118) // H (Z = 1) to Og (Z = 118)
 	assert.Equal(t, "H", syms[0])
 	assert.Equal(t, "Xe", syms[53])
-	prev := 0.0
+	assert.Equal(t, "Og", syms[117])
+	lower := map[string]bool{}
 	for i, e := range elements {
 		assert.Equal(t, i+1, e.z, e.symbol)
-		if e.symbol == "Tc" {
-			continue
+		// Symbols are distinct ignoring case: case-insensitive lookup is unambiguous.
+		assert.False(t, lower[strings.ToLower(e.symbol)], e.symbol)
+		lower[strings.ToLower(e.symbol)] = true
+		// Standard weights exist exactly for the elements with a stable
+		// isotope, plus Bi, Th, Pa and U (IUPAC 2021, from memory).
+		hasStable := false
+		for _, iso := range isotopes {
+			if iso.symbol == e.symbol && iso.a > 0 && math.Abs(iso.mass-e.weight) < 5 {
+				hasStable = true
+			}
 		}
-		// Weights grow with Z in this range except for the known
-		// inversions Ar/K, Co/Ni and Te/I.
-		switch e.symbol {
-		case "K", "Ni", "I":
-		default:
-			assert.Greater(t, e.weight, prev, e.symbol)
+		if e.weight > 0 {
+			assert.True(t, hasStable, "%s: weight %v far from every isotope", e.symbol, e.weight)
 		}
-		prev = e.weight
 	}
+	noWeight := 0
+	for _, e := range elements {
+		if e.weight == 0 {
+			noWeight++
+		}
+	}
+	// Tc, Pm, Po, At, Rn, Fr, Ra, Ac and Np–Og (26) have none.
+	assert.Equal(t, 8+26, noWeight)
 	// Sanity check of the isotope table: |m − A| < 0.1 u for these nuclides,
-	// and each belongs to a known element.
-	for _, iso := range isotopes {
+	// order by Z then A, and each belongs to a known element.
+	z := func(sym string) int { return byLowerSymbol[strings.ToLower(sym)].z }
+	for i, iso := range isotopes {
 		assert.InDelta(t, float64(iso.a), iso.mass, 0.1, "%d%s", iso.a, iso.symbol)
-		_, ok := bySymbol[iso.symbol]
+		_, ok := byLowerSymbol[strings.ToLower(iso.symbol)]
 		assert.True(t, ok, iso.symbol)
+		if i > 0 {
+			p := isotopes[i-1]
+			assert.True(t, z(p.symbol) < z(iso.symbol) || (p.symbol == iso.symbol && p.a < iso.a), "%d%s", iso.a, iso.symbol)
+		}
 	}
 	// Symbols returns a copy.
 	syms[0] = "changed"
 	assert.Equal(t, "H", Symbols()[0])
 	assert.Contains(t, Isotopes(), "35Cl")
+}
+
+// TestStandardWeightsFromIsotopes checks the weights of a few mononuclidic
+// elements against their single isotope: the abridged value is the AME2020
+// mass rounded (IUPAC 2021 and AME2020, from memory).
+func TestStandardWeightsFromIsotopes(t *testing.T) {
+	for _, tt := range []struct {
+		el  string
+		iso string
+		tol float64
+	}{{"F", "19F", 1e-3}, {"Na", "23Na", 1e-3}, {"Au", "197Au", 1e-2}, {"Bi", "209Bi", 1e-2}, {"Cs", "133Cs", 1e-2}, {"I", "127I", 1e-2}} {
+		w, err := Mass(tt.el)
+		require.NoError(t, err)
+		m, err := Mass(tt.iso)
+		require.NoError(t, err)
+		assert.InDelta(t, m, w, tt.tol, tt.el)
+	}
 }
 
 func TestMassErrors(t *testing.T) {
@@ -138,17 +195,18 @@ func TestMassErrors(t *testing.T) {
 		want    error
 		contain []string
 	}{
-		{"Xx", ErrUnknownSymbol, []string{`"Xx"`, "known elements: H–Xe", "isotopes: 1H, 2H"}},
+		{"Xx", ErrUnknownSymbol, []string{`"Xx"`, "known elements: H–Og (Z = 1–118)", "did you mean"}},
 		{"", ErrUnknownSymbol, nil},
-		{"CL", ErrUnknownSymbol, nil},
-		{"Cs", ErrUnknownSymbol, nil}, // beyond Xe
-		{"14C", ErrUnknownSymbol, []string{"known isotopes of C: 12C, 13C"}},
+		{"Clx", ErrUnknownSymbol, []string{"did you mean Cl"}},
+		{"Aux", ErrUnknownSymbol, []string{"did you mean Au"}},
+		{"15C", ErrUnknownSymbol, []string{"known isotopes of C: 12C, 13C, 14C"}},
 		{"035Cl", ErrUnknownSymbol, nil},
 		{"99999999999999999999999H", ErrUnknownSymbol, nil},
 		{"35", ErrUnknownSymbol, nil},
-		{"d", ErrUnknownSymbol, nil},
-		{"Tc", ErrNoStandardWeight, []string{"Tc"}},
-		{"99Tc", ErrUnknownSymbol, []string{"none"}},
+		{"Tc", ErrNoStandardWeight, []string{"Tc", "97Tc, 98Tc, 99Tc"}},
+		{"Og", ErrNoStandardWeight, []string{"Og", "give the mass explicitly"}},
+		{"300Og", ErrUnknownSymbol, []string{"none (give the mass explicitly)"}},
+		{"13Tc", ErrUnknownSymbol, []string{"97Tc"}},
 	}
 	for _, tt := range tests {
 		_, err := Mass(tt.symbol)
@@ -188,15 +246,20 @@ func TestParsePair(t *testing.T) {
 		a, b         string
 		massA, massB float64
 	}{
-		{"H-Cl", "H", "Cl", 1.008, 35.45},             // IUPAC 2021 conventional, from memory
-		{"1H-35Cl", "1H", "35Cl", ame1H, ame35Cl},     // AME2020, from memory
-		{" 1H - 35Cl ", "1H", "35Cl", ame1H, ame35Cl}, // AME2020, from memory
-		{"1H–37Cl", "1H", "37Cl", ame1H, ame37Cl},     // AME2020, from memory (en dash)
-		{"D-D", "D", "D", ame2H, ame2H},               // AME2020, from memory
-		{"C-O", "C", "O", 12.011, 15.999},             // IUPAC 2021 conventional, from memory
-		{"12C-16O", "12C", "16O", ame12C, ame16O},     // AME2020, from memory
-		{"h-cl", "H", "Cl", 1.008, 35.45},             // IUPAC 2021 conventional, from memory
-		{"Ar-Ar", "Ar", "Ar", 39.95, 39.95},           // IUPAC 2021 conventional, from memory
+		{"H-Cl", "H", "Cl", 1.008, 35.45},                       // IUPAC 2021 conventional, from memory
+		{"1H-35Cl", "1H", "35Cl", ame1H, ame35Cl},               // AME2020, from memory
+		{" 1H - 35Cl ", "1H", "35Cl", ame1H, ame35Cl},           // AME2020, from memory
+		{"1H–37Cl", "1H", "37Cl", ame1H, ame37Cl},               // AME2020, from memory (en dash)
+		{"D-D", "D", "D", ame2H, ame2H},                         // AME2020, from memory
+		{"C-O", "C", "O", 12.011, 15.999},                       // IUPAC 2021 conventional, from memory
+		{"12C-16O", "12C", "16O", ame12C, ame16O},               // AME2020, from memory
+		{"h-cl", "H", "Cl", 1.008, 35.45},                       // IUPAC 2021 conventional, from memory
+		{"Ar-Ar", "Ar", "Ar", 39.95, 39.95},                     // IUPAC 2021 conventional, from memory
+		{"H-CL", "H", "Cl", 1.008, 35.45},                       // IUPAC 2021 conventional, from memory
+		{"Au-Au", "Au", "Au", 196.97, 196.97},                   // IUPAC 2021 abridged, from memory
+		{"Pt-O", "Pt", "O", 195.08, 15.999},                     // IUPAC 2021 abridged, from memory
+		{"Cs-Cl", "Cs", "Cl", 132.91, 35.45},                    // IUPAC 2021 abridged, from memory
+		{"63Cu-63Cu", "63Cu", "63Cu", 62.92959772, 62.92959772}, // AME2020, from memory
 	}
 	for _, tt := range tests {
 		p, err := ParsePair(tt.in)
@@ -220,7 +283,11 @@ func TestParsePairErrors(t *testing.T) {
 		want    error
 		contain []string
 	}{
-		{"HCl", ErrMalformedPair, []string{`"HCl"`, "expected form A-B, e.g. H-Cl or 1H-35Cl"}},
+		{"HCl", ErrMalformedPair, []string{`"HCl"`, "expected form A-B, e.g. H-Cl or 1H-35Cl", "(did you mean H-Cl?)"}},
+		{"HCL", ErrMalformedPair, []string{"(did you mean H-Cl?)"}},
+		{"1H35Cl", ErrMalformedPair, []string{"(did you mean 1H-35Cl?)"}},
+		{"CO", ErrMalformedPair, []string{"(did you mean C-O?)"}},
+		{"NaCl", ErrMalformedPair, []string{"(did you mean Na-Cl?)"}},
 		{"", ErrMalformedPair, nil},
 		{"-", ErrMalformedPair, nil},
 		{"H-", ErrMalformedPair, nil},

@@ -144,8 +144,10 @@ func Period(p core.Potential, o PeriodOptions) (*Figure, error) {
 			return nil, fmt.Errorf("figure: energies of the amplitudes: %w", err)
 		}
 		es = make([]float64, len(xs))
+		ex := core.NewExpansion(w) // the series at re near re, without cancellation
 		for i, v := range vs {
-			es[i] = math.Max(0, v-w.Energy) // rounding can make it −0 near re
+			e, _ := ex.Energy(xs[i], v, w.Energy)
+			es[i] = math.Max(0, e)
 			if xs[i] == 0 {
 				es[i] = 0
 			}

@@ -2,13 +2,12 @@ package figure
 
 import (
 	"bytes"
-	"errors"
 	"fmt"
+	"github.com/pairwell/pairwell/internal/fileio"
 	"image/color"
 	"image/png"
 	"io"
 	"math"
-	"os"
 	"path/filepath"
 	"strings"
 
@@ -73,37 +72,13 @@ func (f *Figure) WriteFile(path string) error {
 	return writeAtomic(path, buf.Bytes())
 }
 
-// writeAtomic writes data to a temporary file next to path and renames it
-// to path.
-func writeAtomic(path string, data []byte) (err error) {
-	dir := filepath.Dir(path)
-	tmp, err := os.CreateTemp(dir, "."+filepath.Base(path)+".*.tmp")
-	if err != nil {
-		var pe *os.PathError
-		if errors.As(err, &pe) {
-			err = pe.Err
-		}
-		return fmt.Errorf("writing %s: cannot create a file in %s: %w", path, dir, err)
-	}
-	defer func() {
-		if err != nil {
-			tmp.Close()
-			os.Remove(tmp.Name())
-		}
-	}()
-	if _, err = tmp.Write(data); err != nil {
-		return fmt.Errorf("writing %s: %w", path, err)
-	}
-	if err = tmp.Chmod(0o644); err != nil {
-		return fmt.Errorf("writing %s: %w", path, err)
-	}
-	if err = tmp.Close(); err != nil {
-		return fmt.Errorf("writing %s: %w", path, err)
-	}
-	if err = os.Rename(tmp.Name(), path); err != nil {
-		return fmt.Errorf("writing %s: %w", path, err)
-	}
-	return nil
+// writeAtomic writes data to path under pairwell's output-file policy
+// (internal/fileio).
+func writeAtomic(path string, data []byte) error {
+	return fileio.WriteFile(path, func(w io.Writer) error {
+		_, err := w.Write(data)
+		return err
+	})
 }
 
 // Render draws f in the given format to w.

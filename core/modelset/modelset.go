@@ -30,17 +30,18 @@ package modelset
 import (
 	"errors"
 	"fmt"
-	"os"
 	"regexp"
 	"sort"
 	"strconv"
 	"strings"
+	"unicode/utf8"
 
 	"github.com/BurntSushi/toml"
 
 	"github.com/pairwell/pairwell/core"
 	"github.com/pairwell/pairwell/core/atoms"
 	"github.com/pairwell/pairwell/core/units"
+	"github.com/pairwell/pairwell/internal/fileio"
 )
 
 // ErrFormat means a model-set file is malformed.
@@ -89,21 +90,43 @@ type file struct {
 
 var validName = regexp.MustCompile(`^[A-Za-z0-9][A-Za-z0-9._-]*$`)
 
+// Limits of a model-set document, checked before it is decoded: a model
+// set is a short hand-written file, and without them a small hostile one
+// (tens of KB of nested inline tables) keeps the TOML decoder busy for
+// minutes and gigabytes.
+const (
+	// MaxSize is the largest model-set file, in bytes.
+	MaxSize = 1 << 20
+	// MaxDepth is the deepest nesting of tables and arrays ("[", "{");
+	// a model set needs 3 (entry, params, an inline table).
+	MaxDepth = 8
+	// maxMessage is the longest decoder message quoted in an error.
+	maxMessage = 300
+)
+
 // Load reads and parses the model-set file at path.
 func Load(path string) (*Set, error) {
-	data, err := os.ReadFile(path)
+	data, err := fileio.ReadFile(path, MaxSize)
 	if err != nil {
 		return nil, fmt.Errorf("model set: %w", err)
 	}
 	return Parse(data, path)
 }
 
-// Parse parses a model-set document; source names it in errors.
+// Parse parses a model-set document; source names it in errors. A document
+// larger than MaxSize or nested deeper than MaxDepth is refused before
+// decoding.
 func Parse(data []byte, source string) (*Set, error) {
+	if len(data) > MaxSize {
+		return nil, fmt.Errorf("%w %s: %d bytes, the limit is %d", ErrFormat, source, len(data), MaxSize)
+	}
+	if line, ok := checkDepth(data, MaxDepth); !ok {
+		return nil, fmt.Errorf("%w %s: line %d: tables and arrays nested deeper than %d", ErrFormat, source, line, MaxDepth)
+	}
 	var f file
 	md, err := toml.Decode(string(data), &f)
 	if err != nil {
-		return nil, fmt.Errorf("%w %s: %s", ErrFormat, source, oneLine(err.Error()))
+		return nil, fmt.Errorf("%w %s: %s", ErrFormat, source, truncate(oneLine(err.Error()), maxMessage))
 	}
 	if und := md.Undecoded(); len(und) > 0 {
 		var keys []string
@@ -208,8 +231,8 @@ func (s *Set) Build(reg *core.Registry) ([]Built, error) {
 			if err != nil {
 				return nil, fmt.Errorf("entry %q: mu: %w", e.Name, err)
 			}
-			if err := core.Positive.Check("mu", mu); err != nil {
-				return nil, fmt.Errorf("entry %q: %w", e.Name, err)
+			if err := atoms.CheckReducedMass(mu); err != nil {
+				return nil, fmt.Errorf("entry %q: mu: %w: %w", e.Name, core.ErrParam, err)
 			}
 			b.Mu = mu
 		}
@@ -243,3 +266,71 @@ func massText(v any) (string, error) {
 }
 
 func oneLine(s string) string { return strings.Join(strings.Fields(s), " ") }
+
+// truncate cuts s to at most n runes, marking the cut with "…".
+func truncate(s string, n int) string {
+	if utf8.RuneCountInString(s) <= n {
+		return s
+	}
+	r := []rune(s)
+	return string(r[:n]) + "…"
+}
+
+// checkDepth scans a TOML document for the nesting of "[" and "{" outside
+// strings and comments, and reports the line where it first exceeds max.
+// It is a bound, not a parser: brackets of malformed documents are
+// counted the same way, and the decoder reports what is malformed.
+func checkDepth(data []byte, max int) (line int, ok bool) {
+	depth := 0
+	line = 1
+	for i := 0; i < len(data); i++ {
+		switch c := data[i]; c {
+		case '\n':
+			line++
+		case '#':
+			for i < len(data) && data[i] != '\n' {
+				i++
+			}
+			i-- // the newline is counted by the loop
+		case '"', '\'':
+			// A string: basic ("…", escapes) or literal ('…'), single or
+			// triple quoted (multi-line).
+			q := string([]byte{c, c, c})
+			multi := i+3 <= len(data) && string(data[i:i+3]) == q
+			if multi {
+				i += 3
+			} else {
+				i++
+			}
+			for ; i < len(data); i++ {
+				d := data[i]
+				if d == '\n' {
+					line++
+					if !multi {
+						break // unterminated: let the decoder say so
+					}
+				}
+				if d == '\\' && c == '"' {
+					i++
+					continue
+				}
+				if d == c && (!multi || (i+3 <= len(data) && string(data[i:i+3]) == q)) {
+					if multi {
+						i += 2
+					}
+					break
+				}
+			}
+		case '[', '{':
+			depth++
+			if depth > max {
+				return line, false
+			}
+		case ']', '}':
+			if depth > 0 {
+				depth--
+			}
+		}
+	}
+	return line, true
+}

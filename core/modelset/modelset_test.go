@@ -1,6 +1,7 @@
 package modelset_test
 
 import (
+	"fmt"
 	"strings"
 	"testing"
 
@@ -118,4 +119,46 @@ func FuzzParse(f *testing.F) {
 		}
 		_, _ = s.Build(reg) // must not panic
 	})
+}
+
+// TestLimits: a hostile model set is refused before the TOML decoder sees
+// it, and messages stay short.
+func TestLimits(t *testing.T) {
+	entry := "[[entry]]\nname = \"a\"\nspec = \"morse:De=4.6,a=1.87,re=1.27\"\n"
+	nested := func(n int) string {
+		return "x = " + strings.Repeat("{a = ", n) + "1" + strings.Repeat("}", n) + "\n"
+	}
+	// 40 KB of nested inline tables took the decoder 33 s and 4.6 GB.
+	_, err := modelset.Parse([]byte(nested(8000)+entry), "deep.toml")
+	require.ErrorIs(t, err, modelset.ErrFormat)
+	assert.ErrorContains(t, err, "line 1: tables and arrays nested deeper than 8")
+	_, err = modelset.Parse([]byte("x = "+strings.Repeat("[", 9)+strings.Repeat("]", 9)+"\n"+entry), "deep.toml")
+	assert.ErrorContains(t, err, "nested deeper")
+	// Depth 8 is allowed (and then rejected as an unknown key, by the decoder).
+	_, err = modelset.Parse([]byte(nested(7)+entry), "ok.toml")
+	assert.ErrorContains(t, err, "unknown key x")
+	// Brackets in strings and comments do not count.
+	brackets := strings.Repeat("[{", 20)
+	doc := "title = \"" + brackets + "\" # " + brackets + "\n" +
+		"[defaults]\npair = '" + brackets + "'\n" + `
+[[entry]]
+name = "a"
+spec = """morse:De=4.6,a=1.87,re=1.27"""
+`
+	_, err = modelset.Parse([]byte(doc), "strings.toml")
+	assert.NotContains(t, fmt.Sprint(err), "nested")
+	// Size.
+	big := entry + "# " + strings.Repeat("x", modelset.MaxSize) + "\n"
+	_, err = modelset.Parse([]byte(big), "big.toml")
+	assert.ErrorContains(t, err, "the limit is 1048576")
+	// A long decoder message is cut.
+	_, err = modelset.Parse([]byte("title = \""+strings.Repeat("é", 5000)), "long.toml")
+	require.Error(t, err)
+	assert.Less(t, len([]rune(err.Error())), 400)
+	// A denormal mass is invalid.
+	s, err := modelset.Parse([]byte(entry+"mu = 5e-324\n"), "mu.toml")
+	require.NoError(t, err)
+	_, err = s.Build(models.NewRegistry())
+	assert.ErrorIs(t, err, core.ErrParam)
+	assert.ErrorContains(t, err, "from 0.0001 u")
 }

@@ -361,10 +361,12 @@ func (o *Oscillator) checkEnergy(e float64, what string) error {
 }
 
 // FromDisplacement returns the start at rest at r0 = re + x0 (Å; positive
-// stretches, negative compresses). It is an error wrapping core.ErrDomain
+// stretches, negative compresses). Its energy V(r0) − V(re) comes from the
+// Taylor series at re where that is more accurate than the difference
+// (core.Expansion.Energy). It is an error wrapping core.ErrDomain
 // when r0 is outside the potential's domain or the energy V(r0) − V(re)
 // reaches the depth or an inner barrier, and core.ErrParam when x0 is not
-// finite or too small for V(r0) − V(re) to exceed rounding.
+// finite or so small that re + x0 rounds to re.
 func (o *Oscillator) FromDisplacement(x0 float64) (Start, error) {
 	what := fmt.Sprintf("displacement %g Å", x0)
 	if math.IsNaN(x0) || math.IsInf(x0, 0) {
@@ -381,9 +383,9 @@ func (o *Oscillator) FromDisplacement(x0 float64) (Start, error) {
 	if err != nil {
 		return Start{}, fmt.Errorf("motion: %s: %w", what, err)
 	}
-	e := v - o.well.Energy
-	if !(e > 0) {
-		return Start{}, fmt.Errorf("motion: %w: %s is too small: V(re + x0) − V(re) = %g eV does not exceed rounding", core.ErrParam, what, e)
+	e, _ := core.NewExpansion(o.well).Energy(x0, v, o.well.Energy)
+	if r0 == o.well.Re || !(e > 0) {
+		return Start{}, fmt.Errorf("motion: %w: %s is too small: re + x0 rounds to re = %g Å", core.ErrParam, what, o.well.Re)
 	}
 	if err := o.checkEnergy(e, what); err != nil {
 		return Start{}, fmt.Errorf("motion: %w", err)
@@ -394,7 +396,9 @@ func (o *Oscillator) FromDisplacement(x0 float64) (Start, error) {
 // FromEnergy returns the start at rest at the stretch-side turning point
 // of oscillation energy e (eV above V(re)): the root r0 > re of
 // V(r) − V(re) − e, bracketed by doubling the harmonic estimate √(2e/k)
-// and refined by core.Root. It is an error wrapping core.ErrParam unless
+// and refined by core.Root; for small e, where the Taylor series at re is
+// more accurate, the root of the series (core.Expansion.Displacement). It
+// is an error wrapping core.ErrParam unless
 // e > 0 is finite, and core.ErrDomain when e reaches the depth or an inner
 // barrier.
 func (o *Oscillator) FromEnergy(e float64) (Start, error) {
@@ -406,6 +410,9 @@ func (o *Oscillator) FromEnergy(e float64) (Start, error) {
 		return Start{}, fmt.Errorf("motion: %w", err)
 	}
 	re, v0 := o.well.Re, o.well.Energy
+	if x, ok := core.NewExpansion(o.well).Displacement(e, +1); ok {
+		return Start{X0: x, R0: re + x, Energy: e}, nil
+	}
 	var buf [2]float64 // V and V′ (c₀ and c₁)
 	rr := make([]float64, 1)
 	g := func(r float64) (float64, float64, error) {

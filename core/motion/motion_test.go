@@ -441,7 +441,7 @@ func TestErrors(t *testing.T) {
 		{"zero mass", func() error { _, err := motion.New(bp, 0); return err }, core.ErrParam, "reduced mass"},
 		{"NaN displacement", func() error { _, err := o.FromDisplacement(math.NaN()); return err }, core.ErrParam, "not finite"},
 		{"zero displacement", func() error { _, err := o.FromDisplacement(0); return err }, core.ErrParam, "zero displacement"},
-		{"tiny displacement", func() error { _, err := o.FromDisplacement(1e-12); return err }, core.ErrParam, "too small"},
+		{"tiny displacement", func() error { _, err := o.FromDisplacement(1e-17); return err }, core.ErrParam, "too small"},
 		{"r ≤ 0", func() error { _, err := o.FromDisplacement(-morseRe); return err }, core.ErrDomain, "outside the domain"},
 		{"compressed beyond the depth", func() error { _, err := o.FromDisplacement(-0.5); return err }, core.ErrDomain, "dissociates"},
 		{"energy at the depth", func() error { _, err := o.FromEnergy(morseDe); return err }, core.ErrDomain, "dissociates"},

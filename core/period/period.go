@@ -92,6 +92,12 @@ type Result struct {
 	// Inner and Outer are the turning points r₋ and r₊ in Å.
 	Inner, Outer float64
 
+	// Compression and Stretch are re − r₋ and r₊ − re in Å, computed
+	// without the cancellation of the differences of Inner and Outer
+	// with re where they come from the Taylor series at re (see
+	// TurningPoints).
+	Compression, Stretch float64
+
 	// Nodes is the number of Gauss–Legendre nodes of the rule whose value
 	// is returned; 0 for the small-amplitude limit.
 	Nodes int
@@ -241,6 +247,7 @@ type scratch struct {
 	errs       []error
 	idx        []int
 	es, in, on []float64
+	xin, xon   []float64
 	terrs      []error
 	jobs       []job
 	roots      core.RootWorkspace
@@ -380,7 +387,9 @@ func (in *Integrator) pass(p core.Potential, w core.Well, mu float64, energies [
 	}
 	sc.in, sc.on, sc.terrs = grow(sc.in, len(es)), grow(sc.on, len(es)), grows(sc.terrs, len(es))
 	inner, outer, terrs := sc.in, sc.on, sc.terrs
-	turningPoints(p, w, es, inner, outer, terrs, sc)
+	sc.xin, sc.xon = grow(sc.xin, len(es)), grow(sc.xon, len(es))
+	xin, xon := sc.xin, sc.xon
+	seriesTurningPoints(p, w, es, inner, outer, xin, xon, terrs, sc)
 	if cap(sc.jobs) < len(es) {
 		sc.jobs = make([]job, 0, len(es))
 	}
@@ -391,7 +400,7 @@ func (in *Integrator) pass(p core.Potential, w core.Well, mu float64, energies [
 			continue
 		}
 		E := es[k]
-		res[i] = Result{Inner: inner[k], Outer: outer[k]}
+		res[i] = Result{Inner: inner[k], Outer: outer[k], Compression: -xin[k], Stretch: xon[k]}
 		round := roundingEstimate(w, E)
 		if len(w.Taylor) > 4 {
 			if d, err := PerturbativeShift(w, E); err == nil && round > smallRounding && d*d < round && 1+d > 0 {

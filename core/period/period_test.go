@@ -49,6 +49,34 @@ func TestMorseClosedForm(t *testing.T) {
 	}
 }
 
+// TestMorseSmallEnergyDisplacements: the displacements r± − re of the
+// turning points (Result.Compression and Stretch) keep 1e-14 relative
+// down to the tiniest energies, against x± = −ln(1 ∓ √(E/De))/a (closed
+// form as above, with log1p).
+func TestMorseSmallEnergyDisplacements(t *testing.T) {
+	const de, a = 4.7, 2.0
+	f := modelstest.NewForm(t, "morse", models.Morse{}, []float64{de, a, 0.74})
+	var es []float64
+	for lg := -30.0; lg < -0.01; lg += 0.25 {
+		es = append(es, de*math.Pow(10, lg))
+	}
+	res, errs := Sweep(f.P, f.W, mu, es, Settings{}, nil)
+	worst := 0.0
+	for i, E := range es {
+		require.NoError(t, errs[i], "E = %g", E)
+		s := math.Sqrt(E / de)
+		stretch, compression := -math.Log1p(-s)/a, math.Log1p(s)/a
+		for _, c := range []struct{ got, want float64 }{{res[i].Stretch, stretch}, {res[i].Compression, compression}} {
+			rel := math.Abs(c.got/c.want - 1)
+			// Above 1e-2·De the displacement is solved directly, to
+			// ε·|V(re)|/(2E) ≈ 1e-14.
+			assert.LessOrEqual(t, rel, 2e-14, "E/De = %g", E/de)
+			worst = math.Max(worst, rel)
+		}
+	}
+	t.Logf("worst relative error of the displacements: %.2g", worst)
+}
+
 // TestHarmonicForm: in V = ½k(r − r0)² the period is 2π√(μ/k) at every
 // amplitude (the isochronous oscillator).
 func TestHarmonicForm(t *testing.T) {

@@ -57,6 +57,12 @@ func gridDisp(k int) float64 {
 // of p: the roots of V(r) − V(re) − E on either side of re. For E = 0 both
 // are re.
 //
+// For small E, where the Taylor series of V at re (core.Expansion, from
+// w.Series) has a smaller error bound at both turning points than the
+// direct difference V(r) − V(re), the turning points are the roots of the
+// series instead, found by Newton iterations on it without calling p; the
+// direct roots would carry a relative error ≈ ε·|V(re)|/(2E) in r± − re.
+//
 // Each root is bracketed by a scan outward from re on the grid of
 // displacements s₀·2^(k/4) (s₀ = √(E/c₂) the harmonic amplitude), from s₀/2
 // on the compression side and from s₀ on the stretch side, the spacing
@@ -86,12 +92,12 @@ func TurningPoints(p core.Potential, w core.Well, E float64) (inner, outer float
 		return w.Re, w.Re, nil
 	}
 	var (
-		in, out [1]float64
-		errs    [1]error
-		sc      scratch
-		es      = [1]float64{E}
+		in, out, xin, xon [1]float64
+		errs              [1]error
+		sc                scratch
+		es                = [1]float64{E}
 	)
-	turningPoints(p, w, es[:], in[:], out[:], errs[:], &sc)
+	seriesTurningPoints(p, w, es[:], in[:], out[:], xin[:], xon[:], errs[:], &sc)
 	return in[0], out[0], errs[0]
 }
 
@@ -504,4 +510,47 @@ func (e *unboundError) Unwrap() error { return core.ErrDomain }
 // unbound returns an *unboundError with a formatted message.
 func unbound(format string, args ...any) error {
 	return &unboundError{fmt.Sprintf(format, args...)}
+}
+
+// seriesTurningPoints computes the turning points of every energy in Es
+// (all checked and > 0) into inner and outer, and the displacements
+// xin = r₋ − re < 0 and xon = r₊ − re > 0. Where the Taylor series at re
+// is more accurate than solving V(r) − V(re) = E directly (small E, see
+// core.Expansion.Displacement) both come from Newton iterations on the
+// series, with no potential call; the other energies are solved by
+// turningPoints, in one batched solve.
+func seriesTurningPoints(p core.Potential, w core.Well, Es, inner, outer, xin, xon []float64, errs []error, sc *scratch) {
+	ex := core.NewExpansion(w)
+	var rest []int
+	for i, E := range Es {
+		xo, oko := ex.Displacement(E, +1)
+		xi, oki := ex.Displacement(E, -1)
+		if oko && oki {
+			xin[i], xon[i] = xi, xo
+			inner[i], outer[i], errs[i] = w.Re+xi, w.Re+xo, nil
+			continue
+		}
+		rest = append(rest, i)
+	}
+	if len(rest) == 0 {
+		return
+	}
+	if len(rest) == len(Es) {
+		turningPoints(p, w, Es, inner, outer, errs, sc)
+		for i := range Es {
+			xin[i], xon[i] = inner[i]-w.Re, outer[i]-w.Re
+		}
+		return
+	}
+	es := make([]float64, len(rest))
+	in, on := make([]float64, len(rest)), make([]float64, len(rest))
+	terrs := make([]error, len(rest))
+	for k, i := range rest {
+		es[k] = Es[i]
+	}
+	turningPoints(p, w, es, in, on, terrs, sc)
+	for k, i := range rest {
+		inner[i], outer[i], errs[i] = in[k], on[k], terrs[k]
+		xin[i], xon[i] = in[k]-w.Re, on[k]-w.Re
+	}
 }

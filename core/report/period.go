@@ -156,7 +156,7 @@ func PeriodSweep(inst core.Instance, mu float64, amplitudes, energies []float64,
 		r.ExactPeriod, r.ExactPeriodError = Number(x.Period), Number(x.ErrorEstimate)
 		r.Inner, r.Outer = Number(x.Inner), Number(x.Outer)
 		if i >= len(amplitudes) {
-			r.Amplitude = Number(x.Outer - w.Re)
+			r.Amplitude = Number(x.Stretch)
 		}
 	}
 	if s.Measure {
@@ -169,7 +169,8 @@ func PeriodSweep(inst core.Instance, mu float64, amplitudes, energies []float64,
 }
 
 // amplitudeEnergies sets energy[i] = V(re + xs[i]) − V(re), with one Batch
-// call over the separations inside the domain; a row outside it, or whose
+// call over the separations inside the domain, or from the Taylor series
+// at re where that is more accurate (core.Expansion.Energy); a row outside it, or whose
 // value the potential cannot give, gets its error in rowErr[i] and NaN.
 func amplitudeEnergies(p core.Potential, w core.Well, xs []float64, energy []float64, rowErr []error) {
 	d := p.Domain()
@@ -197,9 +198,11 @@ func amplitudeEnergies(p core.Potential, w core.Well, xs []float64, energy []flo
 			vs[k] = v
 		}
 	}
+	ex := core.NewExpansion(w)
 	for k, i := range idx {
 		if rowErr[i] == nil {
-			energy[i] = max(vs[k]-w.Energy, 0)
+			e, _ := ex.Energy(xs[i], vs[k], w.Energy)
+			energy[i] = max(e, 0)
 		}
 	}
 }

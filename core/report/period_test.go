@@ -270,3 +270,19 @@ func TestPeriodTableErrors(t *testing.T) {
 	_, ok := tab.PerturbativeReach(10)
 	assert.False(t, ok, "rows with an error are skipped")
 }
+
+// The energies of tiny amplitudes come from the series at re: right to
+// 1e-14 relative against the Morse closed form E = De·expm1(−ax)²
+// (P. M. Morse, Phys. Rev. 34, 57 (1929)), and ±x differ as they should.
+// The parameters are those of the reproduction (illustrative).
+func TestPeriodSweepTinyAmplitudes(t *testing.T) {
+	const de, a = 4.7, 2.0
+	xs := []float64{1e-5, 1e-6, -1e-6, 1e-7, -1e-9, 1e-3, -0.1, 0.3}
+	rows, _, err := PeriodSweep(build(t, "morse:De=4.7,a=2.0,re=0.74"), 4.0282, xs, nil, PeriodSettings{})
+	require.NoError(t, err)
+	for i, x := range xs {
+		u := math.Expm1(-a * x)
+		assert.InEpsilon(t, de*u*u, float64(rows[i].Energy), 1e-14, "x = %g", x)
+	}
+	assert.NotEqual(t, rows[1].Energy, rows[2].Energy)
+}

@@ -10,10 +10,14 @@
 // left to right, and "/" divides by the single factor that follows it, so
 // "kcal/mol/Å²" is kcal·mol⁻¹·Å⁻² and "kcal/mol·Å⁶" is kcal·mol⁻¹·Å⁶.
 // Multiplication is written "·", "⋅", "*", "." or by juxtaposition (with or
-// without a space). Exponents are a single digit, optionally signed, written
+// without a space). Exponents have one or two digits, optionally signed, written
 // "^2", "^-1", "2", "-1" or as superscripts "²", "⁻¹". Unit names are case
 // sensitive ("meV" is not "MeV"). "mol" stands for N_A particles, so molar
-// energies such as kcal/mol are converted to energies per particle.
+// energies such as kcal/mol are converted to energies per particle. The
+// laboratory-scale units J, kJ, cal, kcal and g are accepted only per mole
+// ("0.238kcal" is refused with "did you mean kcal/mol?"), and "mol" only
+// after one of them ("1eV/mol" is refused): a unit is read exactly as
+// written or not at all.
 //
 // Two spectroscopic equivalences are applied when an energy is requested:
 // a temperature T is read as the energy k_B·T, and a wavenumber ν̃ (any
@@ -30,67 +34,198 @@ import (
 	"unicode/utf8"
 )
 
-// Dimension is the physical dimension of a quantity.
+// Dimension is the physical dimension of a quantity: a product of integer
+// powers of the base dimensions energy, length, mass, time and temperature,
+// E^e·L^l·M^m·T^t·Θ^θ. Each exponent lies in −32…31. The named constants
+// below are the dimensions of pairwell's fixed parameters; NewDimension and
+// ParseUnit give any other product, such as energy·length⁸ (a C₈
+// coefficient) or length⁻² (the β of a Varshni form).
+//
+// A Dimension is an integer so that dimensions compare with == and can be
+// constants: the exponents are the digits of its balanced base-64
+// representation, energy lowest, so Dimensionless is 0, Energy is 1 and
+// Length is 64. Use Exponents to read them; do not rely on the encoding.
 type Dimension int
 
-// Dimensions known to Parse. The comment gives the default unit.
+// Dimensions with a name. The comment gives the default unit.
 const (
-	Dimensionless Dimension = iota // no unit
-	Energy                         // eV
-	Length                         // Å
-	InverseLength                  // 1/Å
-	ForceConstant                  // eV/Å²
-	Dispersion                     // eV·Å⁶ (C6-type coefficient)
-	Mass                           // u
-	Time                           // fs
-	Temperature                    // K
-
-	numDimensions
+	Dimensionless Dimension = 0                     // no unit
+	Energy        Dimension = 1                     // eV
+	Length        Dimension = dimBase               // Å
+	InverseLength Dimension = -Length               // 1/Å
+	ForceConstant Dimension = Energy - 2*Length     // eV/Å²
+	Dispersion    Dimension = Energy + 6*Length     // eV·Å⁶ (C6-type coefficient)
+	Mass          Dimension = dimBase * dimBase     // u
+	Time          Dimension = Mass * dimBase        // fs
+	Temperature   Dimension = Time * dimBase        // K
+	dimBase                 = 64                    // radix of the encoding
+	dimDigitMin             = -dimBase / 2          // smallest exponent
+	dimDigitMax             = dimBase/2 - 1         // largest exponent
+	dimLimit                = Temperature * dimBase // |d| < dimLimit/2 for valid d
 )
 
-var dimensionNames = [numDimensions]string{
-	Dimensionless: "dimensionless",
-	Energy:        "energy",
-	Length:        "length",
-	InverseLength: "inverse length",
-	ForceConstant: "force constant",
-	Dispersion:    "dispersion coefficient",
-	Mass:          "mass",
-	Time:          "time",
-	Temperature:   "temperature",
+// namedDimensions lists the dimensions with a name, in the order of the
+// constants. Read only.
+var namedDimensions = [...]Dimension{Dimensionless, Energy, Length, InverseLength, ForceConstant, Dispersion, Mass, Time, Temperature}
+
+// dimensionName returns the name of a named dimension, "" for others.
+func dimensionName(d Dimension) string {
+	switch d {
+	case Dimensionless:
+		return "dimensionless"
+	case Energy:
+		return "energy"
+	case Length:
+		return "length"
+	case InverseLength:
+		return "inverse length"
+	case ForceConstant:
+		return "force constant"
+	case Dispersion:
+		return "dispersion coefficient"
+	case Mass:
+		return "mass"
+	case Time:
+		return "time"
+	case Temperature:
+		return "temperature"
+	}
+	return ""
 }
 
-var defaultUnits = [numDimensions]string{
-	Dimensionless: "",
-	Energy:        "eV",
-	Length:        "Å",
-	InverseLength: "1/Å",
-	ForceConstant: "eV/Å²",
-	Dispersion:    "eV·Å⁶",
-	Mass:          "u",
-	Time:          "fs",
-	Temperature:   "K",
+// namedDefaultUnit returns the default unit of a named dimension and
+// whether d is one.
+func namedDefaultUnit(d Dimension) (string, bool) {
+	switch d {
+	case Dimensionless:
+		return "", true
+	case Energy:
+		return "eV", true
+	case Length:
+		return "Å", true
+	case InverseLength:
+		return "1/Å", true
+	case ForceConstant:
+		return "eV/Å²", true
+	case Dispersion:
+		return "eV·Å⁶", true
+	case Mass:
+		return "u", true
+	case Time:
+		return "fs", true
+	case Temperature:
+		return "K", true
+	}
+	return "", false
 }
 
-func (d Dimension) valid() bool { return d >= 0 && d < numDimensions }
+// NewDimension returns energy^e·length^l·mass^m·time^t·temperature^θ. ok is
+// false when an exponent lies outside −32…31.
+func NewDimension(e, l, m, t, θ int) (d Dimension, ok bool) {
+	var v dims
+	v[baseEnergy], v[baseLength], v[baseMass], v[baseTime], v[baseTemperature] = e, l, m, t, θ
+	return fromDims(v)
+}
 
-// String returns the lower-case name of d, e.g. "energy" or "inverse length".
+// Exponents returns the exponents of energy, length, mass, time and
+// temperature in d. For an invalid d all are 0.
+func (d Dimension) Exponents() (e, l, m, t, θ int) {
+	v, ok := d.dims()
+	if !ok {
+		return 0, 0, 0, 0, 0
+	}
+	return v[baseEnergy], v[baseLength], v[baseMass], v[baseTime], v[baseTemperature]
+}
+
+// valid reports whether d is a dimension: its encoding has no digit beyond
+// the five base dimensions.
+func (d Dimension) valid() bool { _, ok := d.dims(); return ok }
+
+// dims decodes d.
+func (d Dimension) dims() (v dims, ok bool) {
+	x := int64(d)
+	for i := range v {
+		digit := ((x%dimBase)+dimBase-dimDigitMin)%dimBase + dimDigitMin
+		v[i] = int(digit)
+		x = (x - digit) / dimBase
+	}
+	return v, x == 0
+}
+
+// fromDims encodes v; ok is false when an exponent is out of range.
+func fromDims(v dims) (Dimension, bool) {
+	var x int64
+	for i := len(v) - 1; i >= 0; i-- {
+		if v[i] < dimDigitMin || v[i] > dimDigitMax {
+			return 0, false
+		}
+		x = x*dimBase + int64(v[i])
+	}
+	return Dimension(x), true
+}
+
+// String returns the lower-case name of d, e.g. "energy" or "inverse
+// length", or for dimensions without a name the product of the base
+// dimensions, e.g. "energy·length^8" or "length^-2".
 func (d Dimension) String() string {
-	if !d.valid() {
+	if n := dimensionName(d); n != "" {
+		return n
+	}
+	v, ok := d.dims()
+	if !ok {
 		return "Dimension(" + strconv.Itoa(int(d)) + ")"
 	}
-	return dimensionNames[d]
+	var parts []string
+	for i, n := range v {
+		switch n {
+		case 0:
+		case 1:
+			parts = append(parts, baseNames[i])
+		default:
+			parts = append(parts, baseNames[i]+"^"+strconv.Itoa(n))
+		}
+	}
+	return strings.Join(parts, "·")
 }
 
 // DefaultUnit returns the unit in which Parse returns values of dimension d:
-// "eV", "Å", "1/Å", "eV/Å²", "eV·Å⁶", "u", "fs", "K", or "" for Dimensionless
-// and for an invalid dimension.
+// "eV", "Å", "1/Å", "eV/Å²", "eV·Å⁶", "u", "fs", "K" for the named
+// dimensions, the product of eV, Å, u, fs and K otherwise (e.g. "eV·Å⁸",
+// "1/Å²", "eV/Å⁴"), and "" for Dimensionless and for an invalid
+// dimension. Parse and ParseUnit accept the result.
 func (d Dimension) DefaultUnit() string {
-	if !d.valid() {
+	if u, ok := namedDefaultUnit(d); ok {
+		return u
+	}
+	v, ok := d.dims()
+	if !ok {
 		return ""
 	}
-	return defaultUnits[d]
+	var num, den []string
+	for i, n := range v {
+		switch {
+		case n == 1:
+			num = append(num, baseUnits[i])
+		case n > 1:
+			num = append(num, baseUnits[i]+Superscript(n))
+		case n == -1:
+			den = append(den, baseUnits[i])
+		case n < -1:
+			den = append(den, baseUnits[i]+Superscript(-n))
+		}
+	}
+	s := strings.Join(num, "·")
+	if s == "" {
+		s = "1"
+	}
+	for _, u := range den {
+		s += "/" + u
+	}
+	return s
 }
+
+// baseUnits are the default units of the base dimensions.
+var baseUnits = [numBase]string{"eV", "Å", "u", "fs", "K"}
 
 // Sentinel errors returned (wrapped) by Parse and Factor. Use errors.Is to
 // test for them.
@@ -137,6 +272,18 @@ func (e *ParseError) Unwrap() error { return e.Err }
 // The returned error is a *ParseError wrapping ErrMalformedNumber,
 // ErrNotFinite, ErrUnknownUnit, ErrWrongDimension or ErrInvalidDimension.
 func Parse(s string, d Dimension) (float64, error) {
+	return parse(s, d, "")
+}
+
+// ParseIn is Parse with bare numbers read in the unit bare, a unit of
+// dimension d (e.g. "kcal/mol·Å⁶" for a Dispersion value): ParseIn("500",
+// Dispersion, "kcal/mol*A^6") is 500 kcal/mol·Å⁶ in eV·Å⁶. Numbers with a
+// unit suffix are read as by Parse. An empty bare is the default unit.
+func ParseIn(s string, d Dimension, bare string) (float64, error) {
+	return parse(s, d, bare)
+}
+
+func parse(s string, d Dimension, bare string) (float64, error) {
 	fail := func(err error) (float64, error) {
 		return 0, &ParseError{Input: s, Dim: d, Err: err}
 	}
@@ -156,7 +303,10 @@ func Parse(s string, d Dimension) (float64, error) {
 		return fail(fmt.Errorf("%w: %q: %v", ErrMalformedNumber, num, err))
 	}
 	if unit == "" {
-		return v, nil
+		unit = strings.TrimSpace(bare)
+		if unit == "" || unit == "1" && d == Dimensionless {
+			return v, nil
+		}
 	}
 	if strings.HasPrefix(unit, "/") {
 		// "1.9/Å" reads as 1.9 per Å.
@@ -171,6 +321,40 @@ func Parse(s string, d Dimension) (float64, error) {
 		return fail(fmt.Errorf("%w: %s %s is out of range in %s", ErrNotFinite, num, unit, d.DefaultUnit()))
 	}
 	return r, nil
+}
+
+// ErrUnit is wrapped by the errors of ParseUnit.
+var ErrUnit = errors.New("invalid unit")
+
+// ParseUnit reads a unit expression, such as "eV", "kcal/mol*A^6", "1/A^2",
+// "eV*A^8" or "1" (dimensionless), and returns its dimension and its value in
+// the default unit of that dimension (for "kcal/mol*A^6", the value of
+// 1 kcal/mol·Å⁶ in eV·Å⁶). Unlike Parse it applies no equivalence: "K" is a
+// temperature and "cm-1" an inverse length. Errors wrap ErrUnit and
+// ErrUnknownUnit or ErrNotFinite.
+func ParseUnit(u string) (Dimension, float64, error) {
+	t := strings.TrimSpace(u)
+	if t == "1" {
+		return Dimensionless, 1, nil
+	}
+	if t == "" {
+		return 0, 0, fmt.Errorf("%w: empty unit (write 1 for a dimensionless value)", ErrUnit)
+	}
+	f, v, m, err := parseUnit(t)
+	if err == nil {
+		err = m.check(t)
+	}
+	if err != nil {
+		return 0, 0, fmt.Errorf("%w %q: %w: %v", ErrUnit, u, ErrUnknownUnit, err)
+	}
+	d, ok := fromDims(v)
+	if !ok {
+		return 0, 0, fmt.Errorf("%w %q: %w: exponent out of range", ErrUnit, u, ErrUnknownUnit)
+	}
+	if f == 0 || math.IsNaN(f) || math.IsInf(f, 0) {
+		return 0, 0, fmt.Errorf("%w %q: %w", ErrUnit, u, ErrNotFinite)
+	}
+	return d, f, nil
 }
 
 // Factor returns the value of one unit, given by its spelling such as "kcal/mol"
@@ -198,7 +382,13 @@ func Units(d Dimension) []string {
 	if !d.valid() {
 		return nil
 	}
-	return append([]string(nil), unitLists[d]...)
+	if l, ok := unitLists[d]; ok {
+		return append([]string(nil), l...)
+	}
+	if d == Dimensionless {
+		return []string{}
+	}
+	return []string{d.DefaultUnit()}
 }
 
 // Format formats v, a value in the default unit of d, as the shortest decimal
@@ -212,8 +402,9 @@ func Format(v float64, d Dimension) string {
 	return s
 }
 
-// unitLists holds the spellings returned by Units. Read only.
-var unitLists = [numDimensions][]string{
+// unitLists holds the spellings returned by Units for the named
+// dimensions. Read only.
+var unitLists = map[Dimension][]string{
 	Dimensionless: {},
 	Energy: {"eV", "meV", "keV", "MeV", "hartree", "Eh", "Ha", "Ry",
 		"kcal/mol", "kJ/mol", "J/mol", "cm-1", "cm^-1", "cm⁻¹", "1/cm", "K"},
@@ -305,37 +496,13 @@ const (
 
 var baseNames = [numBase]string{"energy", "length", "mass", "time", "temperature"}
 
-// dimensionDims gives the base-dimension exponents of each Dimension.
-var dimensionDims = [numDimensions]dims{
-	Dimensionless: {},
-	Energy:        {baseEnergy: 1},
-	Length:        {baseLength: 1},
-	InverseLength: {baseLength: -1},
-	ForceConstant: {baseEnergy: 1, baseLength: -2},
-	Dispersion:    {baseEnergy: 1, baseLength: 6},
-	Mass:          {baseMass: 1},
-	Time:          {baseTime: 1},
-	Temperature:   {baseTemperature: 1},
-}
-
-// describe names the dimension of v, using a Dimension name where one matches.
+// describe names the dimension of v.
 func (v dims) describe() string {
-	for d, dd := range dimensionDims {
-		if dd == v {
-			return Dimension(d).String()
-		}
+	d, ok := fromDims(v)
+	if !ok {
+		return "out-of-range dimension"
 	}
-	var parts []string
-	for i, n := range v {
-		switch n {
-		case 0:
-		case 1:
-			parts = append(parts, baseNames[i])
-		default:
-			parts = append(parts, baseNames[i]+"^"+strconv.Itoa(n))
-		}
-	}
-	return strings.Join(parts, "·")
+	return d.String()
 }
 
 // atom is a named unit: its value in default units and its dimension.
@@ -343,6 +510,12 @@ type atom struct {
 	factor float64
 	dim    dims
 }
+
+// molarAtoms are the laboratory-scale units, accepted only per mole, as in
+// kcal/mol or g/mol: a pair potential's parameter in kcal is almost always
+// a kcal/mol with the "/mol" forgotten, and reading it literally would be
+// wrong by a factor N_A. Read only.
+var molarAtoms = map[string]bool{"J": true, "kJ": true, "cal": true, "kcal": true, "Kcal": true, "g": true}
 
 var (
 	energy1      = dims{baseEnergy: 1}
@@ -371,7 +544,7 @@ var atoms = map[string]atom{
 	"cal":      {4.184 / ElectronVolt, energy1},
 	"kcal":     {4184 / ElectronVolt, energy1},
 	"Kcal":     {4184 / ElectronVolt, energy1}, // common spelling of kcal
-	"mol":      {Avogadro, dims{}},             // a count of N_A particles
+	"mol":      {Avogadro, dims{}},             // a count of N_A particles; only after a molar atom
 	"K":        {1, temperature1},
 	"\u00c5":   {1, length1}, // Å, LATIN CAPITAL LETTER A WITH RING ABOVE
 	"\u212b":   {1, length1}, // Å, ANGSTROM SIGN
@@ -426,22 +599,25 @@ var atomNames = func() []string {
 // factor returns the value of one unit u (non-empty, trimmed) in the default
 // unit of d, which must be valid.
 func factor(u string, d Dimension) (float64, error) {
-	f, v, err := parseUnit(u)
+	f, v, m, err := parseUnit(u)
 	if err != nil {
 		return 0, fmt.Errorf("%w %q: %v; %s", ErrUnknownUnit, u, err, allowed(d))
 	}
-	want := dimensionDims[d]
+	want, _ := d.dims()
 	switch {
 	case d == Dimensionless && v == want:
 		return 0, fmt.Errorf("%w %q: dimensionless values take no unit", ErrUnknownUnit, u)
 	case v == want:
 		// Exact match.
-	case d == Energy && v == dimensionDims[Temperature]:
+	case d == Energy && v == temperature1:
 		f *= BoltzmannEV // E = k_B·T
-	case d == Energy && v == dimensionDims[InverseLength]:
+	case d == Energy && v == (dims{baseLength: -1}):
 		f *= hcEVAngstrom // E = h·c·ν̃
 	default:
 		return 0, fmt.Errorf("%w: unit %q has dimension %s, want %s; %s", ErrWrongDimension, u, v.describe(), d, allowed(d))
+	}
+	if err := m.check(u); err != nil {
+		return 0, fmt.Errorf("%w %q: %v", ErrUnknownUnit, u, err)
 	}
 	if f == 0 || math.IsNaN(f) || math.IsInf(f, 0) {
 		return 0, fmt.Errorf("%w: unit %q is out of range", ErrNotFinite, u)
@@ -449,18 +625,46 @@ func factor(u string, d Dimension) (float64, error) {
 	return f, nil
 }
 
+// molarUse records the molar atoms and "mol" factors of a unit expression.
+type molarUse struct {
+	molar int    // sum of the exponents of molar atoms
+	mol   int    // exponent of mol
+	name  string // the first molar atom, "" if none
+	end   int    // the byte offset just after it and its exponent
+}
+
+// check refuses a unit that uses a molar atom other than once per mole,
+// or "mol" without one: "kcal" (did you mean kcal/mol?), "eV/mol",
+// "kcal/mol²".
+func (m molarUse) check(u string) error {
+	switch {
+	case m.molar == 0 && m.mol == 0:
+		return nil
+	case m.molar == 0:
+		return errors.New(`"mol" is accepted only per mole of a laboratory unit (J, kJ, cal, kcal, g), as in kcal/mol or g/mol`)
+	case m.mol == 0 && m.molar == 1:
+		return fmt.Errorf("%s is a laboratory-scale unit, accepted only per mole: did you mean %s/mol%s?", m.name, u[:m.end], u[m.end:])
+	case m.mol != -m.molar:
+		return fmt.Errorf("%s is accepted only once per mole (as in %s/mol)", m.name, m.name)
+	}
+	return nil
+}
+
 // allowed describes the units accepted for d.
 func allowed(d Dimension) string {
 	if d == Dimensionless {
 		return "dimensionless values take no unit"
 	}
-	return d.String() + " units: " + strings.Join(unitLists[d], ", ")
+	if l, ok := unitLists[d]; ok {
+		return d.String() + " units: " + strings.Join(l, ", ")
+	}
+	return d.String() + " units: products of energy, length, … units such as " + d.DefaultUnit()
 }
 
 // parseUnit evaluates a unit expression: a sequence of unit names, each with an
 // optional exponent, joined by "/", a multiplication sign or juxtaposition.
 // A leading "1" is allowed before "/".
-func parseUnit(u string) (f float64, v dims, err error) {
+func parseUnit(u string) (f float64, v dims, m molarUse, err error) {
 	f = 1
 	pos := 0
 	div := false       // the next factor divides
@@ -472,9 +676,9 @@ func parseUnit(u string) (f float64, v dims, err error) {
 		}
 		if pos == len(u) {
 			if expectAtom {
-				return 0, dims{}, errors.New("expression ends with an operator")
+				return 0, dims{}, m, errors.New("expression ends with an operator")
 			}
-			return f, v, nil
+			return f, v, m, nil
 		}
 		rest := u[pos:]
 		if !expectAtom {
@@ -505,20 +709,29 @@ func parseUnit(u string) (f float64, v dims, err error) {
 		if name == "" {
 			r, _ := utf8.DecodeRuneInString(rest)
 			if op, n := operator(rest); n > 0 {
-				return 0, dims{}, fmt.Errorf("unexpected %q", string(op))
+				return 0, dims{}, m, fmt.Errorf("unexpected %q", string(op))
 			}
-			return 0, dims{}, fmt.Errorf("no unit named %q", leadingWord(rest, r))
+			return 0, dims{}, m, fmt.Errorf("no unit named %q", leadingWord(rest, r))
 		}
 		pos += len(name)
 		exp, n, err := exponent(u[pos:])
 		if err != nil {
-			return 0, dims{}, fmt.Errorf("after %q: %v", name, err)
+			return 0, dims{}, m, fmt.Errorf("after %q: %v", name, err)
 		}
 		pos += n
 		if div {
 			exp = -exp
 		}
 		a := atoms[name]
+		switch {
+		case molarAtoms[name]:
+			if m.name == "" {
+				m.name, m.end = name, pos
+			}
+			m.molar += exp
+		case name == "mol":
+			m.mol += exp
+		}
 		f *= math.Pow(a.factor, float64(exp))
 		for i := range v {
 			v[i] += exp * a.dim[i]
@@ -566,7 +779,8 @@ var superscripts = map[rune]int{
 }
 
 // exponent reads an optional exponent at the start of s: "^n", "^-n", "n",
-// "-n", or superscripts such as "²" and "⁻¹". n is a single non-zero digit.
+// "-n", or superscripts such as "²" and "⁻¹". n has one or two digits and is
+// not zero.
 // It returns the exponent (1 if absent) and the number of bytes read.
 func exponent(s string) (exp, n int, err error) {
 	pos := 0
@@ -597,7 +811,7 @@ func exponent(s string) (exp, n int, err error) {
 		if !ok {
 			break
 		}
-		val = d
+		val = 10*val + d
 		digits++
 		pos += size
 	}
@@ -606,8 +820,8 @@ func exponent(s string) (exp, n int, err error) {
 		return 0, 0, errors.New("exponent without digits")
 	case digits == 0:
 		return 1, 0, nil
-	case digits > 1:
-		return 0, 0, errors.New("exponent must be a single digit")
+	case digits > 2:
+		return 0, 0, errors.New("exponent must have at most two digits")
 	case val == 0:
 		return 0, 0, errors.New("exponent must not be zero")
 	}

@@ -2,6 +2,7 @@ package units
 
 import (
 	"errors"
+	"fmt"
 	"math"
 	"strings"
 	"testing"
@@ -75,8 +76,16 @@ func TestDimensionStrings(t *testing.T) {
 		{Mass, "mass", "u"},
 		{Time, "time", "fs"},
 		{Temperature, "temperature", "K"},
-		{Dimension(-1), "Dimension(-1)", ""},
-		{Dimension(99), "Dimension(99)", ""},
+		{Dimension(dimLimit), fmt.Sprintf("Dimension(%d)", dimLimit), ""},
+		{Dimension(-dimLimit), fmt.Sprintf("Dimension(%d)", -dimLimit), ""},
+		// Products without a name.
+		{Energy + 8*Length, "energy·length^8", "eV·Å⁸"},
+		{-2 * Length, "length^-2", "1/Å²"},
+		{Energy - 4*Length, "energy·length^-4", "eV/Å⁴"},
+		{Energy + 10*Length, "energy·length^10", "eV·Å¹⁰"},
+		{2 * Energy, "energy^2", "eV²"},
+		{-Energy + Length, "energy^-1·length", "Å/eV"},
+		{Mass - 2*Time, "mass·time^-2", "u/fs²"},
 	}
 	for _, tt := range tests {
 		assert.Equal(t, tt.name, tt.d.String())
@@ -216,7 +225,7 @@ func TestParseUnits(t *testing.T) {
 }
 
 func TestUnitsListed(t *testing.T) {
-	for d := Dimensionless; d < numDimensions; d++ {
+	for _, d := range namedDimensions {
 		for _, u := range Units(d) {
 			found := false
 			for _, c := range unitCases {
@@ -233,7 +242,8 @@ func TestUnitsListed(t *testing.T) {
 	u[0] = "changed"
 	assert.Equal(t, "eV", Units(Energy)[0])
 	assert.Empty(t, Units(Dimensionless))
-	assert.Nil(t, Units(Dimension(42)))
+	assert.Nil(t, Units(Dimension(dimLimit)))
+	assert.Equal(t, []string{"eV·Å⁸"}, Units(Energy+8*Length))
 }
 
 func TestParseNumbers(t *testing.T) {
@@ -304,7 +314,8 @@ func TestParseErrors(t *testing.T) {
 		{"3 eV//Å", ForceConstant, ErrUnknownUnit, nil},
 		{"3 //Å", InverseLength, ErrUnknownUnit, []string{"unexpected"}},
 		{"3 Å^", Length, ErrUnknownUnit, []string{"exponent"}},
-		{"3 Å^12", Length, ErrUnknownUnit, []string{"single digit"}},
+		{"3 Å^123", Length, ErrUnknownUnit, []string{"at most two digits"}},
+		{"3 Å^12", Length, ErrWrongDimension, []string{"length^12"}},
 		{"3 Å^0", Length, ErrUnknownUnit, []string{"zero"}},
 		{"3 eV", Length, ErrWrongDimension, []string{`"eV"`, "dimension energy, want length"}},
 		{"3 Å", Energy, ErrWrongDimension, []string{"dimension length, want energy"}},
@@ -315,8 +326,22 @@ func TestParseErrors(t *testing.T) {
 		{"3 eV/Å", ForceConstant, ErrWrongDimension, nil},
 		{"3 mol", Energy, ErrWrongDimension, []string{"dimensionless"}},
 		{"3 eV", Dimensionless, ErrWrongDimension, nil},
+		// Laboratory-scale units only per mole: no guessing.
+		{"0.238kcal", Energy, ErrUnknownUnit, []string{"did you mean kcal/mol?"}},
+		{"0.238cal", Energy, ErrUnknownUnit, []string{"did you mean cal/mol?"}},
+		{"1kJ", Energy, ErrUnknownUnit, []string{"did you mean kJ/mol?"}},
+		{"1 J", Energy, ErrUnknownUnit, []string{"did you mean J/mol?"}},
+		{"1 Kcal", Energy, ErrUnknownUnit, []string{"did you mean Kcal/mol?"}},
+		{"1eV/mol", Energy, ErrUnknownUnit, []string{"only per mole"}},
+		{"1 hartree/mol", Energy, ErrUnknownUnit, []string{"only per mole"}},
+		{"1 kcal mol", Energy, ErrUnknownUnit, []string{"once per mole"}},
+		{"1 kcal/mol^2", Energy, ErrUnknownUnit, []string{"once per mole"}},
+		{"1 kcal/Å^2", ForceConstant, ErrUnknownUnit, []string{"did you mean kcal/mol/Å^2?"}},
+		{"1 kJ·Å⁶", Dispersion, ErrUnknownUnit, []string{"did you mean kJ/mol·Å⁶?"}},
+		{"12 g", Mass, ErrUnknownUnit, []string{"did you mean g/mol?"}},
 		{"3 Å/Å", Dimensionless, ErrUnknownUnit, []string{"no unit"}},
-		{"3", Dimension(17), ErrInvalidDimension, nil},
+		{"3", Dimension(dimLimit), ErrInvalidDimension, nil},
+		{"3 eV/Å^2", Energy + 8*Length, ErrWrongDimension, []string{"energy·length^8 units: products of energy, length, … units such as eV·Å⁸"}},
 	}
 	for _, tt := range tests {
 		_, err := Parse(tt.in, tt.d)
@@ -340,7 +365,7 @@ func TestFactorErrors(t *testing.T) {
 	assert.Equal(t, 1.0, f)
 	_, err = Factor("eV", Mass)
 	assert.ErrorIs(t, err, ErrWrongDimension)
-	_, err = Factor("eV", Dimension(-3))
+	_, err = Factor("eV", Dimension(-dimLimit))
 	assert.ErrorIs(t, err, ErrInvalidDimension)
 }
 
@@ -348,7 +373,7 @@ func TestFormat(t *testing.T) {
 	assert.Equal(t, "4.4 eV", Format(4.4, Energy))
 	assert.Equal(t, "0.5 eV/Å²", Format(0.5, ForceConstant))
 	assert.Equal(t, "3", Format(3, Dimensionless))
-	for d := Dimensionless; d < numDimensions; d++ {
+	for _, d := range append(namedDimensions[:], Energy+8*Length, -2*Length, 2*Energy-3*Length) {
 		v, err := Parse(Format(-1.25e-7, d), d)
 		require.NoError(t, err, d.String())
 		assert.Equal(t, -1.25e-7, v, d.String())
@@ -393,4 +418,88 @@ func TestErrorsAreDistinct(t *testing.T) {
 		}
 		assert.False(t, strings.Contains(a.Error(), "\n"))
 	}
+}
+
+// TestPerMoleSpacing: a laboratory unit and "mol" written apart are still
+// one per-mole unit. g/N_A is 0.99999999965 u (2019 SI: the molar mass
+// constant M_u = 0.99999999965(30) g/mol, CODATA 2018), while "g/mol" is
+// read by convention as exactly 1 u.
+func TestPerMoleSpacing(t *testing.T) {
+	got, err := Parse("12 g / mol", Mass)
+	require.NoError(t, err)
+	assert.InEpsilon(t, 12, got, 1e-9)
+	got, err = Parse("0.238 kcal mol^-1", Energy)
+	require.NoError(t, err)
+	assert.InEpsilon(t, 0.238*refKcalMolEV, got, 1e-12)
+}
+
+func TestDimensionEncoding(t *testing.T) {
+	for _, e := range []int{-32, -3, 0, 1, 31} {
+		for _, l := range []int{-32, -12, -1, 0, 8, 31} {
+			for _, m := range []int{-1, 0, 2} {
+				d, ok := NewDimension(e, l, m, -m, 30-m)
+				require.True(t, ok)
+				ge, gl, gm, gt, gk := d.Exponents()
+				assert.Equal(t, [5]int{e, l, m, -m, 30 - m}, [5]int{ge, gl, gm, gt, gk})
+			}
+		}
+	}
+	_, ok := NewDimension(32, 0, 0, 0, 0)
+	assert.False(t, ok)
+	_, ok = NewDimension(0, -33, 0, 0, 0)
+	assert.False(t, ok)
+	d, ok := NewDimension(1, 6, 0, 0, 0)
+	require.True(t, ok)
+	assert.Equal(t, Dispersion, d)
+	d, _ = NewDimension(1, -2, 0, 0, 0)
+	assert.Equal(t, ForceConstant, d)
+	d, _ = NewDimension(0, 0, 0, 0, 1)
+	assert.Equal(t, Temperature, d)
+}
+
+// ParseUnit and ParseIn, for the units a forms file declares. Factors from
+// the constants tested above (CODATA 2018, SI 2019).
+func TestParseUnit(t *testing.T) {
+	c8, _ := NewDimension(1, 8, 0, 0, 0)
+	tests := []struct {
+		unit string
+		dim  Dimension
+		f    float64
+	}{
+		{"eV", Energy, 1},
+		{"1", Dimensionless, 1},
+		{"kcal/mol*A^6", Dispersion, refKcalMolEV},
+		{"eV*A^8", c8, 1},
+		{"hartree*bohr^8", c8, refHartreeEV * math.Pow(refBohrA, 8)},
+		{"1/A^2", -2 * Length, 1},
+		{"1/nm^2", -2 * Length, 1e-2},
+		{"eV·Å¹⁰", Energy + 10*Length, 1},
+		{"K", Temperature, 1},
+		{"cm-1", InverseLength, 1e-8},
+	}
+	for _, tt := range tests {
+		d, f, err := ParseUnit(tt.unit)
+		require.NoError(t, err, tt.unit)
+		assert.Equal(t, tt.dim, d, tt.unit)
+		assert.InEpsilon(t, tt.f, f, 1e-12, tt.unit)
+	}
+	for _, bad := range []string{"", "furlong", "kcal", "A^123", "eV/", "1/"} {
+		_, _, err := ParseUnit(bad)
+		assert.ErrorIs(t, err, ErrUnit, bad)
+	}
+	// Bare numbers in the declared unit, suffixed ones in their own.
+	v, err := ParseIn("500", Dispersion, "kcal/mol*A^6")
+	require.NoError(t, err)
+	assert.InEpsilon(t, 500*refKcalMolEV, v, 1e-12)
+	v, err = ParseIn("2 eV*A^6", Dispersion, "kcal/mol*A^6")
+	require.NoError(t, err)
+	assert.Equal(t, 2.0, v)
+	v, err = ParseIn("0.5/nm^2", -2*Length, "1/A^2")
+	require.NoError(t, err)
+	assert.InEpsilon(t, 0.5e-2, v, 1e-14)
+	v, err = ParseIn("3", Dimensionless, "1")
+	require.NoError(t, err)
+	assert.Equal(t, 3.0, v)
+	_, err = ParseIn("3 eV", -2*Length, "1/A^2")
+	assert.ErrorIs(t, err, ErrWrongDimension)
 }

@@ -9,6 +9,9 @@
 //	panicking-morse  an evaluation panics
 //	morse-bad3       V‴ is 10 % too large (its identities are Morse's)
 //	morse-badforce   V′ has the wrong sign (its identities are Morse's)
+//	crashlater-morse works for the first $PAIRWELL_TEST_CRASH_AFTER
+//	                 evaluation calls (default 1000), then the process
+//	                 exits with status 3: a crash in the middle of a run
 //
 // and the built-in Buckingham form as "plugin-buckingham", whose inner
 // barrier (core.Domain.BarrierEnergy) travels through the protocol.
@@ -24,7 +27,9 @@ import (
 	"fmt"
 	"os"
 	"path/filepath"
+	"strconv"
 	"strings"
+	"sync/atomic"
 
 	plugin "github.com/hashicorp/go-plugin"
 
@@ -52,6 +57,19 @@ func (m renamed) Match(t core.Target) ([]float64, []string, error) {
 	return core.Match(m.Model, t)
 }
 
+// crashLater is a model whose potentials the evaluation filter counts.
+type crashLater struct{ core.Model }
+
+type crashLaterPotential struct{ core.Potential }
+
+func (m crashLater) New(params []float64) (core.Potential, error) {
+	p, err := m.Model.New(params)
+	if err != nil {
+		return nil, err
+	}
+	return crashLaterPotential{p}, nil
+}
+
 func main() {
 	srv, err := wire.NewServer("0.1.0-test", []core.Model{
 		morse.Model{Key: "plugin-morse"},
@@ -63,13 +81,25 @@ func main() {
 		morse.Model{Key: "morse-bad3", Fault: morse.Third},
 		morse.Model{Key: "morse-badforce", Fault: morse.ForceSign},
 		renamed{models.Buckingham{}, "plugin-buckingham"},
+		crashLater{morse.Model{Key: "crashlater-morse"}},
 	})
 	if err != nil {
 		fmt.Fprintln(os.Stderr, err)
 		os.Exit(1)
 	}
 	// badlen-morse: one value too few, on either transport.
+	crashAfter := int64(1000)
+	if n, err := strconv.ParseInt(os.Getenv("PAIRWELL_TEST_CRASH_AFTER"), 10, 64); err == nil {
+		crashAfter = n
+	}
+	var calls atomic.Int64
 	srv.Filter = func(handle uint64, values []float64) []float64 {
+		if p, ok := srv.Potential(handle); ok {
+			if _, later := p.(crashLaterPotential); later && calls.Add(1) > crashAfter {
+				fmt.Fprintln(os.Stderr, "crash test plugin: exiting after", crashAfter, "calls")
+				os.Exit(3)
+			}
+		}
 		if p, ok := srv.Potential(handle); ok && len(values) > 0 {
 			if mp, ok := p.(*morse.Potential); ok && mp.Fault() == morse.BadLength {
 				return values[:len(values)-1]

@@ -1,0 +1,183 @@
+package core
+
+import "math"
+
+// SeriesOrder is the highest order of the Taylor coefficients that
+// AnalyzeWell keeps in Well.Series (and fewer when the form's MaxOrder is
+// lower). 24 terms resolve V(re + x) − V(re) to rounding out to where the
+// direct difference takes over, for every built-in form (see Expansion).
+const SeriesOrder = 24
+
+// Expansion is the Taylor series of a potential about its minimum,
+//
+//	V(re + x) − V(re) = Σ_{k=2}^{M} c_k x^k + R_M(x),  c_k = V⁽ᵏ⁾(re)/k!,
+//
+// for displacements x (Å) too small for the direct difference of two
+// values of V, whose absolute rounding error ≈ ε·|V(re)| is a relative
+// error ε·|V(re)|/(c₂x²) that grows without bound as x → 0 (ε = 2⁻⁵²).
+// c₁ is taken as 0 (re is the minimum). The coefficients are those of
+// Well.Series, or of Well.Taylor when that is longer.
+//
+// Error bound. The remainder is bounded under the assumption that the
+// coefficients beyond M decay at least like those observed:
+// |c_k| ≤ c₂·β^{k−2} for k > M, with β 1.25 times the largest
+// (|c_k|/c₂)^{1/(k−2)} of the last four coefficients. Then, with q = β|x| < 1,
+//
+//	|R_M(x)| ≤ c₂x²·q^{M−1}/(1 − q),
+//
+// and the rounding of the sum by Horner's scheme is bounded by
+// 4ε·Σ|c_k x^k| (the c_k themselves carrying a few ulp). The direct
+// difference is charged 4ε·(|V(re)| + |V(re + x)|): each value of V within
+// 2 ulp. Energy uses whichever of the two has the smaller bound; this is
+// the switch point, and its bound is returned with the value. The bound of
+// the series is checked in the tests against the Morse closed form
+// E(x) = De·expm1(−ax)² and against values computed with mpmath at 40
+// digits for Lennard-Jones and Buckingham.
+//
+// An Expansion is immutable; the zero value has no terms and always defers
+// to the direct difference.
+type Expansion struct {
+	c    []float64 // c_0, …, c_M with c_1 = 0
+	v0   float64   // |V(re)|
+	beta float64   // the decay rate β of the coefficients, 1/Å
+}
+
+// NewExpansion returns the expansion of the well w: its coefficients come
+// from w.Series, or w.Taylor when that is longer, and need c₂ > 0.
+func NewExpansion(w Well) Expansion {
+	c := w.Series
+	if len(w.Taylor) > len(c) {
+		c = w.Taylor
+	}
+	if len(c) < 3 || !(c[2] > 0) || math.IsInf(c[2], 1) {
+		return Expansion{}
+	}
+	c = append([]float64(nil), c...)
+	c[1] = 0
+	m := len(c) - 1
+	for m > 2 && (math.IsNaN(c[m]) || math.IsInf(c[m], 0)) {
+		m-- // defensive: AnalyzeWell keeps only finite coefficients
+	}
+	c = c[:m+1]
+	beta := 0.0
+	for k := max(3, m-3); k <= m; k++ {
+		if c[k] != 0 {
+			beta = math.Max(beta, math.Pow(math.Abs(c[k])/c[2], 1/float64(k-2)))
+		}
+	}
+	return Expansion{c: c, v0: math.Abs(w.Energy), beta: 1.25 * beta}
+}
+
+// Order returns M, the highest order of the series (0 for the zero value).
+func (e Expansion) Order() int {
+	if len(e.c) == 0 {
+		return 0
+	}
+	return len(e.c) - 1
+}
+
+// Sum returns Σ_{k=from}^{M} c_k x^k (from ≥ 2) and a bound on its error
+// as a value of Σ_{k≥from} c_k x^k: the remainder bound plus the
+// rounding bound (see Expansion). The bound is +Inf where the series does
+// not converge fast enough (q ≥ 1/2) or the expansion has no terms.
+func (e Expansion) Sum(x float64, from int) (s, bound float64) {
+	m := len(e.c) - 1
+	if m < 2 || from > m {
+		return 0, math.Inf(1)
+	}
+	from = max(from, 2)
+	abs := 0.0
+	for k := m; k >= from; k-- {
+		s = s*x + e.c[k]
+		abs = abs*math.Abs(x) + math.Abs(e.c[k])
+	}
+	xf := math.Pow(x, float64(from))
+	s *= xf
+	abs *= math.Abs(xf)
+	q := e.beta * math.Abs(x)
+	tail := 0.0
+	if e.beta > 0 {
+		if !(q < 0.5) {
+			return s, math.Inf(1)
+		}
+		tail = e.c[2] * x * x * math.Pow(q, float64(m-1)) / (1 - q)
+	}
+	return s, tail + 4*eps*abs
+}
+
+// DirectBound is the bound 4ε·(|V(re)| + |v|) on the rounding error of
+// the direct difference v − V(re), v = V(re + x).
+func (e Expansion) DirectBound(v float64) float64 {
+	return 4 * eps * (e.v0 + math.Abs(v))
+}
+
+// Energy returns V(re + x) − V(re) in eV and a bound on its error: the
+// series when its bound is below that of the direct difference v − v0,
+// v = V(re + x) and v0 = V(re) (pass NaN for v when it is not known; then
+// the series is always used, with its bound), else the direct difference.
+func (e Expansion) Energy(x, v, v0 float64) (E, bound float64) {
+	s, sb := e.Sum(x, 2)
+	if math.IsNaN(v) {
+		return s, sb
+	}
+	if db := e.DirectBound(v); db <= sb {
+		return v - v0, db
+	}
+	return s, sb
+}
+
+// UseSeries reports whether at displacement x the series is more accurate
+// than a direct difference with V(re + x) ≈ V(re) + c₂x², and returns the
+// series' value and bound there.
+func (e Expansion) UseSeries(x float64) (ok bool, s, bound float64) {
+	s, bound = e.Sum(x, 2)
+	if math.IsInf(bound, 1) {
+		return false, s, bound
+	}
+	v := e.v0 + math.Abs(s)
+	return bound < e.DirectBound(v), s, bound
+}
+
+// Displacement returns the displacement x (Å) on the side dir (+1
+// stretch, −1 compression) where the series equals E > 0, by Newton
+// iterations on the series from the harmonic estimate dir·√(E/c₂), and
+// whether the series is more accurate there than a direct solve of
+// V(re + x) − V(re) = E (see UseSeries). It returns ok = false when the
+// iteration does not settle within 50 steps or leaves the range where the
+// series converges.
+func (e Expansion) Displacement(E, dir float64) (x float64, ok bool) {
+	if len(e.c) < 3 || !(E > 0) {
+		return 0, false
+	}
+	x = dir * math.Sqrt(E/e.c[2])
+	for range 50 {
+		if e.beta > 0 && !(e.beta*math.Abs(x) < 0.5) {
+			return 0, false
+		}
+		f, df := e.poly(x)
+		f -= E
+		if !(df*dir > 0) {
+			return 0, false
+		}
+		step := f / df
+		x -= step
+		if math.Abs(step) <= 2*eps*math.Abs(x) {
+			use, _, _ := e.UseSeries(x)
+			return x, use
+		}
+	}
+	return 0, false
+}
+
+// poly returns Σ_{k≥2} c_k x^k and its derivative.
+func (e Expansion) poly(x float64) (f, df float64) {
+	for k := len(e.c) - 1; k >= 2; k-- {
+		df = df*x + f
+		f = f*x + e.c[k]
+	}
+	// f = Σ c_k x^{k−2}, df = d/dx of it; scale to the full sum.
+	return f * x * x, df*x*x + 2*x*f
+}
+
+// eps is the float64 machine epsilon 2⁻⁵².
+const eps = 0x1p-52
