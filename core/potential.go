@@ -152,15 +152,20 @@ func CheckOrder(n, max int) error {
 
 // CheckTaylor checks the arguments of a Taylor call: 0 ≤ n ≤ max (else
 // ErrOrder) and nd = (n+1)·nr (else ErrLength), for nr separations and a
-// destination of nd values. It is a helper for implementations.
+// destination of nd values; max is a MaxOrder, ≥ 0. It is a helper for
+// implementations, cheap enough to be inlined.
 func CheckTaylor(n, max, nr, nd int) error {
+	if uint(n) <= uint(max) && nd == (n+1)*nr {
+		return nil // the fast path, small enough to be inlined
+	}
+	return taylorArgsError(n, max, nr, nd)
+}
+
+func taylorArgsError(n, max, nr, nd int) error {
 	if err := CheckOrder(n, max); err != nil {
 		return err
 	}
-	if nr < 0 || nd != (n+1)*nr {
-		return fmt.Errorf("%w: %d separations at order %d need %d values, dst has %d", ErrLength, nr, n, (n+1)*nr, nd)
-	}
-	return nil
+	return fmt.Errorf("%w: %d separations at order %d need %d values, dst has %d", ErrLength, nr, n, (n+1)*nr, nd)
 }
 
 // OverflowError is the error of an implementation whose coefficient c_k at

@@ -105,10 +105,18 @@ func (p *Potential) Identities() []conformance.Identity {
 
 // Taylor stores c_k(r[i]) = De·y·[2ᵏ·q_k·y − 2q_k] at dst[i·(n+1)+k], with
 // y = e^{−a(r−re)} and q_k = (−a)ᵏ/k! (so that (−2a)ᵏ/k! = 2ᵏq_k), the
-// fault applied to its order.
+// fault applied to its order. It uses math.Exp and its own arrangement of
+// the terms, independently of the built-in.
 func (p *Potential) Taylor(n int, r, dst []float64) error {
 	if err := core.CheckTaylor(n, maxOrder, len(r), len(dst)); err != nil {
 		return fmt.Errorf("%s: %w", p.key, err)
+	}
+	// q[k] = (−a)ᵏ/k! and q2[k] = 2ᵏq[k] = (−2a)ᵏ/k!, once per call.
+	var q, q2 [maxOrder + 1]float64
+	q[0], q2[0] = 1, 1
+	for k := 1; k <= n; k++ {
+		q[k] = q[k-1] * -p.a / float64(k)
+		q2[k] = math.Ldexp(q[k], k)
 	}
 	for i, x := range r {
 		if !(x > 0 && x <= math.MaxFloat64) {
@@ -125,12 +133,10 @@ func (p *Potential) Taylor(n int, r, dst []float64) error {
 			panic("panic test plugin")
 		}
 		y := math.Exp(-p.a * (x - p.re))
-		q := 1.0
-		for k := 0; k <= n; k++ {
-			if k > 0 {
-				q *= -p.a / float64(k)
-			}
-			v := float64(p.de*y) * (float64(math.Ldexp(q, k)*y) - 2*q)
+		dy := p.de * y
+		row := dst[i*(n+1) : (i+1)*(n+1)]
+		for k := range row {
+			v := dy * (q2[k]*y - 2*q[k])
 			switch {
 			case p.fault == NaN && k >= 2:
 				v = math.NaN()
@@ -142,7 +148,7 @@ func (p *Potential) Taylor(n int, r, dst []float64) error {
 			if v-v != 0 && !math.IsNaN(v) {
 				return &core.PointError{Index: i, R: x, Err: fmt.Errorf("%s: %w", p.key, core.OverflowError(x, k))}
 			}
-			dst[i*(n+1)+k] = v
+			row[k] = v
 		}
 	}
 	return nil
