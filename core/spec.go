@@ -6,6 +6,7 @@ import (
 	"strings"
 
 	"github.com/pairwell/pairwell/core/units"
+	"github.com/pairwell/pairwell/internal/suggest"
 )
 
 // ErrSpec means a model spec could not be parsed or does not fit its model.
@@ -52,6 +53,10 @@ func ParseSpec(s string) (Spec, error) {
 		if !ok || name == "" || value == "" {
 			return Spec{}, fmt.Errorf("%w %q: %q is not NAME=VALUE", ErrSpec, s, strings.TrimSpace(part))
 		}
+		if f := strings.Fields(value); len(f) > 1 && strings.Contains(value, "=") {
+			return Spec{}, fmt.Errorf("%w %q: %q: separate the parameters with commas, e.g. %s", ErrSpec, s, strings.TrimSpace(part),
+				name+"="+strings.Join(strings.Fields(strings.ReplaceAll(value, ",", " ")), ","))
+		}
 		spec.Params = append(spec.Params, Assignment{Name: name, Value: value})
 	}
 	return spec, nil
@@ -89,7 +94,11 @@ func BuildSpec(m Model, s Spec) (Instance, error) {
 	for _, a := range s.Params {
 		i := paramIndex(info, a.Name)
 		if i < 0 {
-			return Instance{}, fmt.Errorf("%w: %s has no parameter %q; parameters: %s", ErrSpec, info.Key, a.Name, paramList(info))
+			names := make([]string, len(info.Params))
+			for i, p := range info.Params {
+				names[i] = p.Name
+			}
+			return Instance{}, fmt.Errorf("%w: %s has no parameter %q%s; parameters: %s", ErrSpec, info.Key, a.Name, suggest.Hint(a.Name, names), paramList(info))
 		}
 		p := info.Params[i]
 		if set[i] {

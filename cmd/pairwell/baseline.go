@@ -4,7 +4,6 @@ import (
 	"errors"
 	"fmt"
 	"math"
-	"runtime/debug"
 
 	"github.com/spf13/cobra"
 
@@ -29,8 +28,10 @@ added to or removed from the set. Run it in CI to catch a change to a form or to
 pairwell that silently moves the physics.`,
 		Example: `  pairwell baseline record --set forms.toml -o forms.baseline.json
   pairwell baseline verify --set forms.toml forms.baseline.json`,
-		Args: exactArgs(0, "a subcommand: record or verify"),
 		RunE: func(cmd *cobra.Command, args []string) error {
+			if len(args) > 0 {
+				return unknownCommand(cmd, args[0])
+			}
 			return usageErr(fmt.Errorf("baseline needs a subcommand: record or verify (see %s --help)", cmd.CommandPath()))
 		},
 	}
@@ -54,9 +55,6 @@ baseline is replaced only by a complete new one.`,
 		RunE: func(cmd *cobra.Command, args []string) error {
 			if setPath == "" || out == "" {
 				return usageErr(errors.New("baseline record needs --set FILE.toml and -o BASELINE.json"))
-			}
-			if !(tolerance > 0 && tolerance < 1) {
-				return usageErr(fmt.Errorf("--tolerance %g: must be in (0, 1), e.g. 0.01 for 1 %%", tolerance))
 			}
 			set, err := e.readSet(setPath)
 			if err != nil {
@@ -89,7 +87,7 @@ baseline is replaced only by a complete new one.`,
 	}
 	cmd.Flags().StringVar(&setPath, "set", "", "model-set file (TOML)")
 	cmd.Flags().StringVarP(&out, "output", "o", "", "baseline file to write")
-	cmd.Flags().Float64Var(&tolerance, "tolerance", validity.DefaultTolerance, "relative tolerance of the validity criteria")
+	toleranceVar(cmd.Flags(), &tolerance, "the validity criteria")
 	return cmd
 }
 
@@ -202,32 +200,4 @@ removed, 2 bad input (including a corrupt or foreign baseline file).`,
 	cmd.Flags().StringVar(&setPath, "set", "", "model-set file (TOML) the baseline was recorded from")
 	cmd.Flags().Float64Var(&rtol, "rtol", 1e-9, "largest relative change that is not reported")
 	return cmd
-}
-
-// toolVersion names this build of pairwell for baseline files: the module
-// version, and the VCS revision when the binary was built from a checkout.
-func toolVersion() string {
-	info, ok := debug.ReadBuildInfo()
-	if !ok {
-		return "pairwell"
-	}
-	v := "pairwell " + info.Main.Version
-	var rev, dirty string
-	for _, s := range info.Settings {
-		switch s.Key {
-		case "vcs.revision":
-			rev = s.Value
-		case "vcs.modified":
-			if s.Value == "true" {
-				dirty = "-dirty"
-			}
-		}
-	}
-	if len(rev) > 12 {
-		rev = rev[:12]
-	}
-	if rev != "" {
-		v += " (" + rev + dirty + ")"
-	}
-	return v
 }

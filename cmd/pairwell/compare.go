@@ -73,9 +73,6 @@ table).`,
 			if err := checkTruncationOrder(order); err != nil {
 				return err
 			}
-			if !(tolerance > 0 && tolerance < 1) {
-				return usageErr(fmt.Errorf("--tolerance %g: must be in (0, 1), e.g. 0.01 for 1 %%", tolerance))
-			}
 			if len(args) == 0 && setPath == "" && match == "" {
 				return usageErr(fmt.Errorf("compare needs SPEC arguments, --set FILE.toml or --match re=R,De=D,k=K (see %s --help)", cmd.CommandPath()))
 			}
@@ -103,8 +100,8 @@ table).`,
 	f := cmd.Flags()
 	f.StringVar(&setPath, "set", "", "model-set file (TOML) naming the forms to compare")
 	f.StringVar(&match, "match", "", "match every built-in form to a target well: re=R,De=D,k=K (any subset, units allowed)")
-	f.IntVar(&order, "order", report.DefaultValidityOrder, "truncation order n of the Taylor potential V_n whose validity is reported (2, 3 or 4)")
-	f.Float64Var(&tolerance, "tolerance", report.DefaultValidityTolerance, "relative tolerance of the validity criteria")
+	truncationVar(f, &order, report.DefaultValidityOrder, "order N of the truncated Taylor potential V_N whose validity is reported (2, 3 or 4)")
+	toleranceVar(f, &tolerance, "the validity criteria")
 	return cmd
 }
 
@@ -307,6 +304,7 @@ var compareColumns = []column{
 	{Title: "T_n E", Unit: "eV"},
 	{Title: "E/depth"},
 	{Title: "E/k_B", Unit: "K"},
+	{Title: "Boyle T", Unit: "K"},
 	{Title: "notes"},
 }
 
@@ -339,6 +337,7 @@ func compareTable(rows []report.CompareRow, full bool) (*table, []string) {
 		} else {
 			cells = append(cells, "—", "—", "—", "—", "—")
 		}
+		cells = append(cells, f(r.Boyle))
 		var text []string
 		text = append(text, r.Notes...)
 		if r.Err != nil {

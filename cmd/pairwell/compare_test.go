@@ -80,8 +80,8 @@ func TestCompareSpecsJSON(t *testing.T) {
 	assert.Nil(t, h["period"].(map[string]any)["energy_ev"])
 	assert.Nil(t, h["potential"].(map[string]any)["stretch_angstrom"])
 
-	// --order and --tolerance reach the validity object.
-	rows = compareJSON(t, fourSpecs[0], "--mu", "1", "--order", "4", "--tolerance", "0.001")
+	// --truncation and --tolerance reach the validity object.
+	rows = compareJSON(t, fourSpecs[0], "--mu", "1", "--truncation", "4", "--tolerance", "0.001")
 	v := rows[0]["validity"].(map[string]any)
 	assert.EqualValues(t, 4, v["order"])
 	assert.EqualValues(t, 0.001, v["tolerance"])
@@ -263,7 +263,7 @@ func TestCompareBadInput(t *testing.T) {
 		{"nothing to compare", []string{"compare", "--mu", "1"}, 2, "SPEC"},
 		{"no mass", []string{"compare", m}, 2, "reduced mass"},
 		{"bad spec", []string{"compare", "morse:De=1", "--mu", "1"}, 2, "missing"},
-		{"order", []string{"compare", m, "--mu", "1", "--order", "5"}, 2, "--order"},
+		{"order", []string{"compare", m, "--mu", "1", "--truncation", "5"}, 2, "--truncation"},
 		{"tolerance", []string{"compare", m, "--mu", "1", "--tolerance", "0"}, 2, "--tolerance"},
 		{"tolerance ≥ 1", []string{"compare", m, "--mu", "1", "--tolerance", "1"}, 2, "--tolerance"},
 		{"match syntax", []string{"compare", "--match", "re:1.2", "--mu", "1"}, 2, "NAME=VALUE"},

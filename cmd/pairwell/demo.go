@@ -46,6 +46,7 @@ type demoReport struct {
 	Scenario       demoScenario        `json:"scenario"`
 	Compare        []report.CompareRow `json:"compare"`
 	Period         report.PeriodTable  `json:"period"`
+	Fit            *demoFit            `json:"fit"`
 	Interpretation string              `json:"interpretation"`
 	Caution        string              `json:"caution"`
 }
@@ -77,11 +78,15 @@ k = %g eV/Å², μ = %g u — made-up numbers, not a real molecule):
     perturbative one at a handful of amplitudes;
  3. a paragraph saying in plain words what the numbers mean, computed from
     them;
- 4. pictures of the Morse well and its Taylor truncations, of the period
-    against amplitude, of the four forms and of the motion, written to the
+ 4. every built-in form fitted to an INVENTED energy scan of the bond
+    (pairwell fit), ranked by RMSE;
+ 5. pictures of the Morse well and its Taylor truncations, of the period
+    against amplitude, of the four forms, of the motion and of the fits,
+    written to the
     folder --out (default ./pairwell-demo/; --no-pictures for none).
 
---format json emits one object with the keys scenario, compare, period,
+--format json emits one object with the keys scenario, compare, period, fit
+(invented, description, data, n_points, fits: the objects of pairwell fit),
 interpretation and caution; the pictures are then listed on stderr.`, demoBond.target.Re, demoBond.target.Depth, demoBond.target.K, demoBond.mu),
 		Example: `  pairwell demo
   pairwell demo --out /tmp/pictures
@@ -132,6 +137,9 @@ func runDemo(e *env) (demoReport, error) {
 	r.Period, err = report.NewPeriodTable(src.Name, src.Instance, demoBond.mu, demoAmplitudes)
 	if err != nil {
 		return r, computeErr(err)
+	}
+	if r.Fit, err = demoFitSection(e); err != nil {
+		return r, err
 	}
 	r.Interpretation = demoInterpretation(r)
 	return r, nil
@@ -240,7 +248,7 @@ func periodSentence(p report.PeriodTable, tol float64) string {
 // writeDemo renders every section as text.
 func writeDemo(w io.Writer, r demoReport) error {
 	for _, f := range []func(io.Writer, demoReport) error{
-		writeDemoScenario, writeDemoCompare, writeDemoPeriod, writeDemoInterpretation,
+		writeDemoScenario, writeDemoCompare, writeDemoPeriod, writeDemoFit, writeDemoInterpretation,
 	} {
 		if err := f(w, r); err != nil {
 			return err

@@ -42,6 +42,12 @@ func TestDemoJSON(t *testing.T) {
 				Perturbative *float64 `json:"perturbative_period_fs"`
 			} `json:"rows"`
 		} `json:"period"`
+		Fit struct {
+			Invented bool             `json:"invented"`
+			Data     string           `json:"data"`
+			Points   int              `json:"n_points"`
+			Fits     []map[string]any `json:"fits"`
+		} `json:"fit"`
 		Interpretation string `json:"interpretation"`
 		Caution        string `json:"caution"`
 	}
@@ -70,6 +76,15 @@ func TestDemoJSON(t *testing.T) {
 		assert.Contains(t, r.Interpretation, s)
 	}
 	assert.Contains(t, r.Caution, "not a validated force field")
+	// the fit section: the four built-ins fitted to the invented scan,
+	// Morse first (the scan is an extended-Rydberg curve of the demo bond)
+	assert.True(t, r.Fit.Invented)
+	assert.Equal(t, 44, r.Fit.Points)
+	require.Len(t, r.Fit.Fits, 4)
+	assert.Equal(t, "morse", r.Fit.Fits[0]["form"])
+	well := r.Fit.Fits[0]["well"].(map[string]any)
+	assert.InDelta(t, 1.20, well["equilibrium_r_angstrom"], 0.01, "the curve's re")
+	assert.InDelta(t, 4.00, well["well_depth_ev"], 0.01, "the curve's De")
 }
 
 func TestDemoBadInput(t *testing.T) {

@@ -1,8 +1,10 @@
 package main
 
 import (
+	"encoding/json"
 	"os"
 	"path/filepath"
+	"runtime"
 	"strings"
 	"testing"
 
@@ -53,4 +55,129 @@ func TestBrokenPathPluginIsAWarning(t *testing.T) {
 	assert.Equal(t, exitFailure, code)
 	assert.Contains(t, errOut, broken)
 	assert.NotContains(t, errOut, "warning")
+}
+
+// TestTolerancesEverywhere: every --tolerance takes a fraction or a
+// percentage, with the same message for a bad one.
+func TestTolerancesEverywhere(t *testing.T) {
+	morse := "morse:De=4.6,a=1.87,re=1.27" // invented, HCl-sized
+	dir := t.TempDir()
+	set := filepath.Join(dir, "set.toml")
+	require.NoError(t, os.WriteFile(set, []byte("[[entry]]\nname = \"a\"\nspec = \""+morse+"\"\n"), 0o644))
+	cmds := map[string][]string{
+		"validity": {"validity", morse},
+		"compare":  {"compare", morse, "--mu", "1"},
+		"plot":     {"plot", "taylor", morse, "-o", filepath.Join(dir, "t.png")},
+		"baseline": {"baseline", "record", "--set", set, "-o", filepath.Join(dir, "b.json")},
+	}
+	for name, args := range cmds {
+		for _, tol := range []string{"0.01", "1%", "0.5 %"} {
+			code, _, errOut := runCLI(t, append(args, "--tolerance", tol)...)
+			assert.Equal(t, 0, code, "%s --tolerance %s: %s", name, tol, errOut)
+		}
+		code, _, errOut := runCLI(t, append(args, "--tolerance", "1x")...)
+		assert.Equal(t, 2, code, name)
+		assert.Contains(t, errOut, `"1x" is not a number (e.g. 0.01 or 1%)`, name)
+		assert.NotContains(t, errOut, "strconv", name)
+		code, _, errOut = runCLI(t, append(args, "--tolerance", "150%")...)
+		assert.Equal(t, 2, code, name)
+		assert.Contains(t, errOut, "must be between 0 and 1", name)
+	}
+	// The percentage reaches the computation: compare's JSON echoes it.
+	code, out, errOut := runCLI(t, "compare", morse, "--mu", "1", "--tolerance", "0.1%", "--format", "json")
+	require.Equal(t, 0, code, errOut)
+	assert.Contains(t, out, `"tolerance": 0.001`)
+}
+
+// TestOrderFlags: --coefficients is what inspect shows, --truncation the
+// order of a truncated Taylor potential; the old --order still works with
+// a warning on stderr, never on stdout.
+func TestOrderFlags(t *testing.T) {
+	morse := "morse:De=4.6,a=1.87,re=1.27" // invented, HCl-sized
+	code, out, errOut := runCLI(t, "inspect", morse, "--coefficients", "6", "--format", "json")
+	require.Equal(t, 0, code, errOut)
+	assert.Contains(t, out, "16.938176888346682") // c6, seven coefficients
+	code, out2, errOut := runCLI(t, "inspect", morse, "--order", "6", "--format", "json")
+	require.Equal(t, 0, code, errOut)
+	assert.Equal(t, out, out2)
+	assert.Contains(t, errOut, "warning: --order is deprecated: use --coefficients")
+	for _, args := range [][]string{{"validity", morse}, {"compare", morse, "--mu", "1"}} {
+		code, _, errOut := runCLI(t, append(args, "--truncation", "3")...)
+		assert.Equal(t, 0, code, "%v: %s", args, errOut)
+		code, _, errOut = runCLI(t, append(args, "--order", "3")...)
+		assert.Equal(t, 0, code, "%v: %s", args, errOut)
+		assert.Contains(t, errOut, "use --truncation", args)
+	}
+	code, _, errOut = runCLI(t, "inspect", morse, "--truncation", "3")
+	assert.Equal(t, 2, code)
+	assert.Contains(t, errOut, "unknown flag: --truncation")
+}
+
+// TestCaseInsensitive: formats, methods, element symbols and unambiguous
+// unit names ignoring case.
+func TestCaseInsensitive(t *testing.T) {
+	morse := "morse:De=4.6,a=1.87,re=1.27" // invented, HCl-sized
+	code, out, errOut := runCLI(t, "inspect", morse, "--format", "JSON", "--pair", "H-CL")
+	require.Equal(t, 0, code, errOut)
+	assert.True(t, strings.HasPrefix(out, "{"))
+	code, _, errOut = runCLI(t, "motion", morse, "--pair", "h-cl", "--amplitude", "0.1", "--method", "Verlet", "--periods", "2")
+	assert.Equal(t, 0, code, errOut)
+	// 120 K·k_B in kJ/mol and in kj/mol are the same ε.
+	_, a, _ := runCLI(t, "inspect", "lj:epsilon=0.9977kJ/mol,sigma=3.4", "--format", "json")
+	_, b, errOut := runCLI(t, "inspect", "lj:epsilon=0.9977kj/mol,sigma=3.4", "--format", "json")
+	assert.Equal(t, a, b, errOut)
+	code, _, errOut = runCLI(t, "inspect", "lj:epsilon=10MEV,sigma=3.4")
+	assert.Equal(t, 2, code)
+	assert.Contains(t, errOut, "MeV or meV")
+	code, _, errOut = runCLI(t, "inspect", morse, "--format", "jsn")
+	assert.Equal(t, 2, code)
+	assert.Contains(t, errOut, `--format "jsn" (did you mean json?): allowed: table, json, csv`)
+}
+
+// TestMessagesDoNotMislead: the examples of issue 17.
+func TestMessagesDoNotMislead(t *testing.T) {
+	tests := []struct {
+		args    []string
+		contain string
+		not     string
+	}{
+		{[]string{"inspect", "lj:epsilon=0.01,sigma=3.4Angstroms"}, "did you mean angstrom?", ""},
+		{[]string{"inspect", "morse:De=4.6 a=1.87 re=1.27"}, "separate the parameters with commas, e.g. De=4.6,a=1.87,re=1.27", "unknown unit"},
+		{[]string{"plot", "taylr", "x", "-o", "a.png"}, `unknown command "taylr" for "pairwell plot" (did you mean taylor?)`, "shorthand"},
+		{[]string{"inspct", "x"}, `unknown command "inspct" for "pairwell" (did you mean inspect?)`, "\n\n"},
+		{[]string{"inspect", "mrose:De=1,a=1,re=1"}, `unknown model "mrose" (did you mean morse?)`, ""},
+		{[]string{"inspect", "morse:De=4.6,a=1.87,r0=1.27"}, `no parameter "r0" (did you mean re?)`, ""},
+		{[]string{"inspect", "morse:De=4.6,a=1.87,re=1.27", "--pair", "HCl"}, "did you mean H-Cl?", ""},
+		{[]string{"inspect", "morse:De=4.6,a=1.87,re=1.27", "--pair", "H-Clx"}, "did you mean Cl?", ""},
+		{[]string{"validity", "morse:De=4.6,a=1.87,re=1.27", "--tolerence", "1%"}, "did you mean --tolerance?", ""},
+		{[]string{"baseline", "recrd"}, "did you mean record?", ""},
+	}
+	for _, tt := range tests {
+		code, _, errOut := runCLI(t, tt.args...)
+		assert.Equal(t, 2, code, "%v", tt.args)
+		assert.Contains(t, errOut, tt.contain, "%v", tt.args)
+		if tt.not != "" {
+			assert.NotContains(t, errOut, tt.not, "%v", tt.args)
+		}
+		assert.Equal(t, 1, strings.Count(errOut, "\n"), "one line: %q", errOut)
+	}
+}
+
+func TestVersion(t *testing.T) {
+	code, out, errOut := runCLI(t, "version", "--format", "json")
+	require.Equal(t, 0, code, errOut)
+	var v map[string]any
+	require.NoError(t, json.Unmarshal([]byte(out), &v))
+	for _, k := range []string{"module", "version", "commit", "modified", "go"} {
+		assert.Contains(t, v, k)
+	}
+	assert.Equal(t, "github.com/pairwell/pairwell", v["module"])
+	assert.Equal(t, runtime.Version(), v["go"])
+	code, out, _ = runCLI(t, "--version")
+	assert.Equal(t, 0, code)
+	assert.True(t, strings.HasPrefix(out, "pairwell "), out)
+	code, out, _ = runCLI(t, "version", "--format", "csv")
+	assert.Equal(t, 0, code)
+	assert.True(t, strings.HasPrefix(out, "module,version,commit,modified,go\n"), out)
+	assert.Equal(t, 2, strings.Count(out, "\n"))
 }

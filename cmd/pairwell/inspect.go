@@ -20,14 +20,15 @@ func newInspectCmd(e *env) *cobra.Command {
 		Short: "Find the well of one potential: re, depth, Taylor coefficients, force constant, frequency",
 		Long: `inspect finds the minimum of the potential SPEC and reports the equilibrium
 distance re, V(re), the well depth V(∞) − V(re) (unbounded for harmonic), the
-Taylor coefficients c_n = V⁽ⁿ⁾(re)/n! for n = 0…ORDER, the force constant
+Taylor coefficients c_n = V⁽ⁿ⁾(re)/n! for n = 0…N (--coefficients N, default
+4; --order is its deprecated old name), the force constant
 k = V″(re), and the stretch-side inflection point where the restoring force is
 largest. With --pair or --mu it adds the harmonic vibration ω = √(k/μ) as a
 wavenumber, frequency and period.
 
 JSON values are always in eV, Å, u, fs and cm⁻¹, whatever the input units.`,
 		Example: `  pairwell inspect morse:De=4.6,a=1.87,re=1.27 --pair H-Cl
-  pairwell inspect lj:epsilon=120K,sigma=3.4 --pair Ar-Ar --order 8 --format json
+  pairwell inspect lj:epsilon=120K,sigma=3.4 --pair Ar-Ar --coefficients 8 --format json
   pairwell inspect buckingham:A=1500,rho=0.3,C=25 --mu 20`,
 		Args: exactArgs(1, "SPEC"),
 		RunE: func(cmd *cobra.Command, args []string) error {
@@ -36,7 +37,7 @@ JSON values are always in eV, Å, u, fs and cm⁻¹, whatever the input units.`,
 				return err
 			}
 			if order < 2 {
-				return usageErr(fmt.Errorf("--order %d: must be at least 2", order))
+				return usageErr(fmt.Errorf("--%s %d: must be at least 2", coefficientsFlag, order))
 			}
 			inst, err := e.build(args[0])
 			if err != nil {
@@ -50,7 +51,7 @@ JSON values are always in eV, Å, u, fs and cm⁻¹, whatever the input units.`,
 		},
 	}
 	mass.register(cmd)
-	cmd.Flags().IntVar(&order, "order", 4, "highest Taylor coefficient c_n to report (≥ 2)")
+	coefficientsVar(cmd.Flags(), &order, 4, "highest Taylor coefficient c_N to show (≥ 2)")
 	return cmd
 }
 

@@ -30,7 +30,7 @@ func TestInspectJSONKeys(t *testing.T) {
 		"harmonic:k=30,r0=1.2",
 	}
 	for _, spec := range specs {
-		code, out, errOut := runCLI(t, "inspect", spec, "--pair", "H-Cl", "--order", "6", "--format", "json")
+		code, out, errOut := runCLI(t, "inspect", spec, "--pair", "H-Cl", "--coefficients", "6", "--format", "json")
 		require.Equal(t, 0, code, "%s: %s", spec, errOut)
 		var obj map[string]any
 		require.NoError(t, json.Unmarshal([]byte(out), &obj), spec)
@@ -87,7 +87,7 @@ func TestBadInput(t *testing.T) {
 		{"pair and mu", []string{"inspect", morse, "--pair", "H-Cl", "--mu", "1"}, "--pair and --mu"},
 		{"bad mu", []string{"inspect", morse, "--mu", "-1"}, "--mu"},
 		{"no minimum", []string{"inspect", "buckingham:A=1000,rho=0.3,C=0"}, "minimum"},
-		{"order too small", []string{"inspect", morse, "--order", "1"}, "--order"},
+		{"order too small", []string{"inspect", morse, "--coefficients", "1"}, "--coefficients"},
 		{"bad format", []string{"inspect", morse, "--format", "xml"}, "--format"},
 		{"no spec", []string{"inspect"}, "SPEC"},
 		{"unknown flag", []string{"inspect", morse, "--colour"}, "colour"},

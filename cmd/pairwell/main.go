@@ -47,6 +47,13 @@ func run(args []string, stdin io.Reader, stdout, stderr io.Writer) int {
 	if err == nil {
 		return 0
 	}
+	var name string
+	if _, scanErr := fmt.Sscanf(err.Error(), "unknown command %q", &name); scanErr == nil {
+		// cobra's own error for a mistyped command: say it our way.
+		if sub, _, findErr := root.Find(args); findErr == nil || sub == root {
+			err = unknownCommand(sub, name)
+		}
+	}
 	err = withPluginFailures(err, env.failedPlugins)
 	fmt.Fprintf(env.stderr, "pairwell: %s\n", truncateMessage(oneLine(err.Error())))
 	return exitCode(err)

@@ -134,7 +134,7 @@ func quantityTable(model string, p report.Params) *table {
 // checkTruncationOrder checks --order of the truncated Taylor potential.
 func checkTruncationOrder(order int) error {
 	if order < 2 || order > 4 {
-		return usageErr(fmt.Errorf("--order %d: must be 2, 3 or 4", order))
+		return usageErr(fmt.Errorf("--truncation %d: must be 2, 3 or 4", order))
 	}
 	return nil
 }

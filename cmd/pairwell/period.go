@@ -22,6 +22,11 @@ const maxSweepCount = 1_000_000
 // with an optional unit (units.Parse). COUNT is an integer from 1 to
 // maxSweepCount; with COUNT = 1, FROM and TO must be equal.
 func parseSweep(s string, d units.Dimension) ([]float64, error) {
+	return parseSweepWith(s, func(v string) (float64, error) { return units.Parse(v, d) })
+}
+
+// parseSweepWith is parseSweep with each value read by parse.
+func parseSweepWith(s string, parse func(string) (float64, error)) ([]float64, error) {
 	s = strings.TrimSpace(s)
 	if s == "" {
 		return nil, errors.New("empty: give a list V1,V2,... or a range FROM:TO:COUNT")
@@ -31,11 +36,11 @@ func parseSweep(s string, d units.Dimension) ([]float64, error) {
 		if len(parts) != 3 {
 			return nil, fmt.Errorf("range %q: want FROM:TO:COUNT", s)
 		}
-		from, err := units.Parse(parts[0], d)
+		from, err := parse(parts[0])
 		if err != nil {
 			return nil, fmt.Errorf("range %q: FROM: %w", s, err)
 		}
-		to, err := units.Parse(parts[1], d)
+		to, err := parse(parts[1])
 		if err != nil {
 			return nil, fmt.Errorf("range %q: TO: %w", s, err)
 		}
@@ -61,7 +66,7 @@ func parseSweep(s string, d units.Dimension) ([]float64, error) {
 	}
 	var out []float64
 	for _, f := range strings.Split(s, ",") {
-		v, err := units.Parse(f, d)
+		v, err := parse(f)
 		if err != nil {
 			return nil, fmt.Errorf("list %q: %w", s, err)
 		}

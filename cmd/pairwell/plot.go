@@ -32,7 +32,7 @@ const maxPlotPeriods = 1000
 
 func newPlotCmd(e *env) *cobra.Command {
 	cmd := &cobra.Command{
-		Use:   "plot (taylor | period | compare | motion) ... -o FILE",
+		Use:   "plot (taylor | period | compare | motion | virial | expansion | fit) ... -o FILE",
 		Short: "Draw pictures: the well and its Taylor truncations, period against amplitude, forms overlaid, motion",
 		Long: `plot draws what pairwell computes, as PNG, SVG or PDF (by the extension of
 -o FILE):
@@ -43,6 +43,9 @@ func newPlotCmd(e *env) *cobra.Command {
            perturbative, and measured points with --method
   compare  several forms overlaid, in absolute or reduced units
   motion   the displacement against time, with the harmonic motion overlaid
+  virial   B₂(T), classical and with the ħ² correction, measured points overlaid
+  expansion  ⟨r⟩(T): classical, cubic-term estimate and quantum
+  fit      reference data with fitted forms overlaid and a residual panel
 
 Every curve has its own colour, dash pattern and marker (colours from the
 Okabe–Ito palette for colour-blind readers), so the pictures stay readable in
@@ -53,15 +56,16 @@ range, an amplitude beyond the well), 1 when the file cannot be written.`,
 		Example: `  pairwell plot taylor morse:De=4.6,a=1.87,re=1.27 -o taylor.png
   pairwell plot period morse:De=4.6,a=1.87,re=1.27 --pair H-Cl --method rk4 -o period.svg
   pairwell plot compare morse:De=4.6,a=1.87,re=1.27 lj:epsilon=120K,sigma=3.4 --reduced -o compare.pdf
-  pairwell plot motion morse:De=4.6,a=1.87,re=1.27 --pair H-Cl --amplitude 0.5 -o motion.png`,
+  pairwell plot motion morse:De=4.6,a=1.87,re=1.27 --pair H-Cl --amplitude 0.5 -o motion.png
+  pairwell plot fit scan.csv -o fit.png`,
 		RunE: func(cmd *cobra.Command, args []string) error {
 			if len(args) > 0 {
-				return usageErr(fmt.Errorf("unknown plot %q: taylor, period, compare or motion (see %s --help)", args[0], cmd.CommandPath()))
+				return unknownCommand(cmd, args[0])
 			}
-			return usageErr(fmt.Errorf("plot needs a kind: taylor, period, compare or motion (see %s --help)", cmd.CommandPath()))
+			return usageErr(fmt.Errorf("plot needs a kind: taylor, period, compare, motion, virial, expansion or fit (see %s --help)", cmd.CommandPath()))
 		},
 	}
-	cmd.AddCommand(newPlotTaylorCmd(e), newPlotPeriodCmd(e), newPlotCompareCmd(e), newPlotMotionCmd(e))
+	cmd.AddCommand(newPlotTaylorCmd(e), newPlotPeriodCmd(e), newPlotCompareCmd(e), newPlotMotionCmd(e), newPlotVirialCmd(e), newPlotExpansionCmd(e), newPlotFitCmd(e))
 	return cmd
 }
 
@@ -183,14 +187,14 @@ func newPlotTaylorCmd(e *env) *cobra.Command {
 		tolerance float64
 	)
 	cmd := &cobra.Command{
-		Use:   "taylor SPEC [--order N] [--range RMIN:RMAX] -o FILE",
+		Use:   "taylor SPEC [--truncation N] [--range RMIN:RMAX] -o FILE",
 		Short: "Draw V(r) and its Taylor truncations of order 0…N about re",
 		Long: `taylor draws the exact V(r) of SPEC (black, solid) and its Taylor truncations
 about the minimum,
 
   V_n(r) = Σ c_k (r − re)ᵏ over k = 0 … n,   c_k = V⁽ᵏ⁾(re)/k!,
 
-for n = 0 … N (--order, default 4; orders 0 and 1 are one curve, c₁ = V′(re) = 0).
+for n = 0 … N (--truncation, default 4; orders 0 and 1 are one curve, c₁ = V′(re) = 0).
 A shaded band marks where the harmonic truncation V₂ satisfies the potential
 criterion |V₂ − V| ≤ tol·(V − V(re)) (--tolerance, default 1 %), and dotted
 lines the turning points up to which its period is within tol of the exact one
@@ -202,7 +206,7 @@ an inner barrier) to where it reaches 95 % of the depth (between 1.5 and 4 re);
 energies from V(re) − 0.2·depth to at most V(re) + 2.5·depth. --range sets the
 separations, RMIN:RMAX with optional units; it must overlap the domain.`,
 		Example: `  pairwell plot taylor morse:De=4.6,a=1.87,re=1.27 -o taylor.png
-  pairwell plot taylor lj:epsilon=120K,sigma=3.4 --order 6 --range 3.3:6 -o lj.svg
+  pairwell plot taylor lj:epsilon=120K,sigma=3.4 --truncation 6 --range 3.3:6 -o lj.svg
   pairwell plot taylor buckingham:A=1500,rho=0.3,C=25 --range 250pm:700pm -o bk.pdf`,
 		Args: exactArgs(1, "SPEC"),
 		RunE: func(cmd *cobra.Command, args []string) error {
@@ -211,10 +215,7 @@ separations, RMIN:RMAX with optional units; it must overlap the domain.`,
 			}
 			o := figure.TaylorOptions{Order: order, Tolerance: tolerance}
 			if order < 2 || order > figure.MaxTaylorOrder {
-				return usageErr(fmt.Errorf("--order %d: must be 2 to %d", order, figure.MaxTaylorOrder))
-			}
-			if !(tolerance > 0 && tolerance < 1) {
-				return usageErr(fmt.Errorf("--tolerance %g: must be in (0, 1), e.g. 0.01 for 1 %%", tolerance))
+				return usageErr(fmt.Errorf("--truncation %d: must be 2 to %d", order, figure.MaxTaylorOrder))
 			}
 			if rng != "" {
 				var err error
@@ -237,9 +238,9 @@ separations, RMIN:RMAX with optional units; it must overlap the domain.`,
 	}
 	out.register(cmd)
 	f := cmd.Flags()
-	f.IntVar(&order, "order", figure.DefaultTaylorOrder, fmt.Sprintf("highest truncation order N (2 to %d)", figure.MaxTaylorOrder))
+	truncationVar(f, &order, figure.DefaultTaylorOrder, fmt.Sprintf("highest order N of the truncated Taylor potentials drawn (2 to %d)", figure.MaxTaylorOrder))
 	f.StringVar(&rng, "range", "", "separations RMIN:RMAX, Å unless a unit is given (default: from the well's shape)")
-	f.Float64Var(&tolerance, "tolerance", 0.01, "relative tolerance of the validity marks")
+	toleranceVar(f, &tolerance, "the validity marks")
 	return cmd
 }
 
@@ -467,6 +468,6 @@ same way. The title gives the measured, exact and harmonic periods.`,
 	f := cmd.Flags()
 	f.StringVar(&amplitude, "amplitude", "", "starting displacement r0 − re at rest, Å unless a unit is given (e.g. 0.2, -0.1, 20pm)")
 	f.StringVar(&method, "method", "dopri", "integrator: heun, rk4, verlet or dopri")
-	f.IntVar(&periods, "periods", figure.DefaultMotionPeriods, "number of periods to integrate")
+	f.IntVar(&periods, "periods", motion.DefaultPeriods, "number of periods to integrate")
 	return cmd
 }

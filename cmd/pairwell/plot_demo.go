@@ -76,6 +76,13 @@ func (d *demoPictures) write(e *env) error {
 		{"motion.png", fmt.Sprintf("%s released at %g Å against the harmonic motion", name, demoMotionAmplitude), func() (*figure.Figure, error) {
 			return figure.Motion(p, figure.MotionOptions{Name: name, Mu: mu, Amplitude: demoMotionAmplitude})
 		}},
+		{"fit.png", "the four forms fitted to the invented scan, with their residuals", func() (*figure.Figure, error) {
+			run, err := demoFitRun(e)
+			if err != nil {
+				return nil, err
+			}
+			return fitFigure(run)
+		}},
 	}
 	if err := os.MkdirAll(d.dir, 0o755); err != nil {
 		return failErr(fmt.Errorf("demo pictures: --out: %w", err))

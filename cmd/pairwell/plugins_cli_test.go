@@ -135,11 +135,11 @@ func TestPluginFormsEverywhere(t *testing.T) {
 	p := []string{"--plugin", pluginBin.rydberg, "--plugin", pluginBin.mie}
 	for _, args := range [][]string{
 		{"inspect", rydbergSpec, "--pair", "H-Cl"},
-		{"inspect", mieSpec, "--pair", "Ar-Ar", "--order", "8"},
+		{"inspect", mieSpec, "--pair", "Ar-Ar", "--coefficients", "8"},
 		{"compare", rydbergSpec, "morse:De=4.6,a=1.87,re=1.27", mieSpec, "lj:epsilon=120K,sigma=3.4", "--pair", "H-Cl"},
 		{"motion", rydbergSpec, "--pair", "H-Cl", "--amplitude", "0.1", "--periods", "2"},
 		{"period", mieSpec, "--pair", "Ar-Ar", "--amplitudes", "0.05,0.2"},
-		{"validity", rydbergSpec, "--order", "4"},
+		{"validity", rydbergSpec, "--truncation", "4"},
 		{"validity", mieSpec},
 	} {
 		code, out, errOut := runPlugins(t, append(p, args...)...)
@@ -248,7 +248,7 @@ func TestPluginBadInput(t *testing.T) {
 	code, _, errOut = runPlugins(t, append(p, "inspect", "rydberg:De=-1,a=2.5,re=1.27")...)
 	assert.Equal(t, exitUsage, code)
 	assert.Contains(t, errOut, "De")
-	code, _, _ = runPlugins(t, append(p, "inspect", rydbergSpec, "--order", "200")...)
+	code, _, _ = runPlugins(t, append(p, "inspect", rydbergSpec, "--coefficients", "200")...)
 	assert.Equal(t, exitUsage, code)
 }
 

@@ -3,11 +3,14 @@ package main
 import (
 	"fmt"
 	"io"
+	"strings"
 
 	"github.com/spf13/cobra"
+	"github.com/spf13/pflag"
 
 	"github.com/pairwell/pairwell/core"
 	"github.com/pairwell/pairwell/internal/fileio"
+	"github.com/pairwell/pairwell/internal/suggest"
 	"github.com/pairwell/pairwell/models"
 )
 
@@ -62,17 +65,36 @@ field: do not base production or safety decisions on its numbers alone.`,
 		SilenceUsage:  true,
 		SilenceErrors: true,
 		PersistentPreRunE: func(cmd *cobra.Command, args []string) error {
-			switch e.format {
-			case "table", "json", "csv":
-				return loadPlugins()
+			warnDeprecated(cmd.Flags(), e.stderr)
+			f, err := choice("format", e.format, formats)
+			if err != nil {
+				return usageErr(err)
 			}
-			return usageErr(fmt.Errorf("--format %q: allowed: table, json, csv", e.format))
+			e.format = f
+			return loadPlugins()
 		},
 	}
 	root.PersistentFlags().StringVar(&e.format, "format", "table", "output format: table, json or csv")
 	loadPlugins = registerPlugins(root, e)
+	root.DisableSuggestions = true // unknownCommand suggests
 	root.SetFlagErrorFunc(func(cmd *cobra.Command, err error) error {
-		return usageErr(fmt.Errorf("%s: %w (see %s --help)", cmd.Name(), err, cmd.CommandPath()))
+		// "plot taylr -o a.png": the mistyped kind, not the flag, is wrong.
+		if args := cmd.Flags().Args(); cmd.HasAvailableSubCommands() && len(args) > 0 {
+			return unknownCommand(cmd, args[0])
+		}
+		hint := ""
+		if name, ok := strings.CutPrefix(err.Error(), "unknown flag: --"); ok {
+			var names []string
+			visit := func(f *pflag.Flag) {
+				if !f.Hidden {
+					names = append(names, "--"+f.Name)
+				}
+			}
+			cmd.Flags().VisitAll(visit)
+			cmd.InheritedFlags().VisitAll(visit)
+			hint = suggest.Hint("--"+name, names)
+		}
+		return usageErr(fmt.Errorf("%s: %w%s (see %s --help)", cmd.Name(), err, hint, cmd.CommandPath()))
 	})
 	root.AddCommand(
 		newModelsCmd(e),
@@ -85,6 +107,25 @@ field: do not base production or safety decisions on its numbers alone.`,
 		newCheckCmd(e),
 		newBaselineCmd(e),
 		newPlotCmd(e),
+		newFitCmd(e),
+		newVirialCmd(e),
+		newExpansionCmd(e),
+		newVersionCmd(e),
 	)
+	root.Version = toolVersion()
+	root.SetVersionTemplate("{{.Version}}\n")
 	return root
+}
+
+// unknownCommand is the error for name, not a subcommand of cmd, with its
+// near misses.
+func unknownCommand(cmd *cobra.Command, name string) error {
+	var names []string
+	for _, c := range cmd.Commands() {
+		if c.IsAvailableCommand() {
+			names = append(names, c.Name())
+		}
+	}
+	return usageErr(fmt.Errorf("unknown command %q for %q%s; commands: %s (see %s --help)",
+		name, cmd.CommandPath(), suggest.Hint(name, names), strings.Join(names, ", "), cmd.CommandPath()))
 }

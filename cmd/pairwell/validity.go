@@ -4,31 +4,11 @@ import (
 	"fmt"
 	"math"
 	"strconv"
-	"strings"
 
 	"github.com/spf13/cobra"
 
 	"github.com/pairwell/pairwell/core/report"
 )
-
-// validityTolerance reads a relative tolerance: a fraction (0.01) or a
-// percentage (1%).
-func validityTolerance(s string) (float64, error) {
-	t := strings.TrimSpace(s)
-	scale := 1.0
-	if strings.HasSuffix(t, "%") {
-		t, scale = strings.TrimSpace(strings.TrimSuffix(t, "%")), 0.01
-	}
-	v, err := strconv.ParseFloat(t, 64)
-	if err != nil {
-		return 0, fmt.Errorf("%q is not a number (e.g. 0.01 or 1%%)", s)
-	}
-	v *= scale
-	if !(v > 0 && v < 1) {
-		return 0, fmt.Errorf("%q: must be between 0 and 1 (0%% and 100%%), exclusive", s)
-	}
-	return v, nil
-}
 
 // validityCaution is printed under tables that show temperatures.
 const validityCaution = "Caution: these are ranges of a classical model potential, not of a validated force field; do not base safety decisions on them."
@@ -37,7 +17,7 @@ func newValidityCmd(e *env) *cobra.Command {
 	var (
 		mass      massFlags
 		order     int
-		tolerance string
+		tolerance float64
 	)
 	cmd := &cobra.Command{
 		Use:   "validity SPEC [--order N] [--tolerance T] [--pair A-B | --mu M]",
@@ -66,8 +46,8 @@ The ratio T_N/T does not depend on the mass, so neither criterion does:
 
 JSON values are in eV, Å and K, whatever the input units.`,
 		Example: `  pairwell validity morse:De=4.6,a=1.87,re=1.27
-  pairwell validity lj:epsilon=120K,sigma=3.4 --order 4 --tolerance 0.1% --format json
-  pairwell validity buckingham:A=1500,rho=0.3,C=25 --order 3 --tolerance 0.05`,
+  pairwell validity lj:epsilon=120K,sigma=3.4 --truncation 4 --tolerance 0.1% --format json
+  pairwell validity buckingham:A=1500,rho=0.3,C=25 --truncation 3 --tolerance 0.05`,
 		Args: exactArgs(1, "SPEC"),
 		RunE: func(cmd *cobra.Command, args []string) error {
 			m, err := mass.resolve(false)
@@ -77,17 +57,14 @@ JSON values are in eV, Å and K, whatever the input units.`,
 			if err := checkTruncationOrder(order); err != nil {
 				return err
 			}
-			tol, err := validityTolerance(tolerance)
-			if err != nil {
-				return usageErr(fmt.Errorf("--tolerance: %w", err))
-			}
+			tol := tolerance
 			inst, err := e.build(args[0])
 			if err != nil {
 				return err
 			}
 			info := inst.Model.Info()
 			if mo := inst.Potential.MaxOrder(); mo < order {
-				return usageErr(fmt.Errorf("%s: --order %d needs derivatives up to order %d, the form has up to %d", info.Key, order, order, mo))
+				return usageErr(fmt.Errorf("%s: --truncation %d needs derivatives up to order %d, the form has up to %d", info.Key, order, order, mo))
 			}
 			r, err := report.NewValidity(inst, order, tol, m)
 			if err != nil {
@@ -108,8 +85,8 @@ JSON values are in eV, Å and K, whatever the input units.`,
 		},
 	}
 	mass.register(cmd)
-	cmd.Flags().IntVar(&order, "order", 2, "order N of the truncated Taylor expansion: 2 (harmonic), 3 (cubic) or 4 (quartic)")
-	cmd.Flags().StringVar(&tolerance, "tolerance", "0.01", "relative tolerance of both criteria, a fraction (0.01) or a percentage (1%)")
+	truncationVar(cmd.Flags(), &order, report.DefaultValidityOrder, "order N of the truncated Taylor potential V_N: 2 (harmonic), 3 (cubic) or 4 (quartic)")
+	toleranceVar(cmd.Flags(), &tolerance, "both criteria")
 	return cmd
 }
 

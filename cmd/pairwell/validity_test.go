@@ -25,7 +25,7 @@ func validityJSON(t *testing.T, args ...string) map[string]any {
 func TestValidityJSONContract(t *testing.T) {
 	for _, spec := range []string{"morse:De=4.6,a=1.87,re=1.27", "lj:epsilon=120K,sigma=3.4", "buckingham:A=1500,rho=0.3,C=25", "harmonic:k=30,r0=1.2"} {
 		for _, order := range []string{"2", "3", "4"} {
-			obj := validityJSON(t, spec, "--order", order)
+			obj := validityJSON(t, spec, "--truncation", order)
 			for _, k := range []string{"order", "tolerance", "potential", "period"} {
 				require.Contains(t, obj, k, "%s: key %s", spec, k)
 			}
@@ -78,7 +78,7 @@ func TestValidityTable(t *testing.T) {
 		assert.Contains(t, out, s)
 	}
 	stdout.Reset()
-	code = run([]string{"validity", "morse:De=4.6,a=1.87,re=1.27", "--format", "csv", "--order", "4"}, strings.NewReader(""), &stdout, &stderr)
+	code = run([]string{"validity", "morse:De=4.6,a=1.87,re=1.27", "--format", "csv", "--truncation", "4"}, strings.NewReader(""), &stdout, &stderr)
 	require.Equal(t, 0, code, stderr.String())
 	lines := strings.Split(strings.TrimSpace(stdout.String()), "\n")
 	assert.Equal(t, "criterion,quantity,value,unit", lines[0])
@@ -91,8 +91,8 @@ func TestValidityBadInput(t *testing.T) {
 		args []string
 		text string
 	}{
-		{"order 5", []string{"morse:De=4.6,a=1.87,re=1.27", "--order", "5"}, "--order"},
-		{"order 1", []string{"morse:De=4.6,a=1.87,re=1.27", "--order", "1"}, "--order"},
+		{"order 5", []string{"morse:De=4.6,a=1.87,re=1.27", "--truncation", "5"}, "--truncation"},
+		{"order 1", []string{"morse:De=4.6,a=1.87,re=1.27", "--truncation", "1"}, "--truncation"},
 		{"tolerance 0", []string{"morse:De=4.6,a=1.87,re=1.27", "--tolerance", "0"}, "--tolerance"},
 		{"tolerance 150%", []string{"morse:De=4.6,a=1.87,re=1.27", "--tolerance", "150%"}, "--tolerance"},
 		{"tolerance text", []string{"morse:De=4.6,a=1.87,re=1.27", "--tolerance", "tight"}, "--tolerance"},

@@ -93,7 +93,8 @@ type Mark struct {
 
 // Figure is the data behind one picture.
 type Figure struct {
-	// Kind names the builder: "taylor", "period", "compare" or "motion".
+	// Kind names the builder: "taylor", "period", "compare", "motion" or
+	// "fit".
 	Kind string
 	// Title is drawn above the plot; it may hold a second line after
 	// "\n".
@@ -110,6 +111,11 @@ type Figure struct {
 	// Notes are facts a reader needs that the picture does not show,
 	// for the caller to print (a form left out, a limit off the axes).
 	Notes []string
+	// Below, when not nil, is a second panel drawn under this one with
+	// the same x axis (its XMin and XMax are this figure's), such as the
+	// residuals of a fit. Its series take the style of the series of
+	// the same name above; it has no legend of its own.
+	Below *Figure
 }
 
 // SeriesByName returns the series called name, or nil.
@@ -151,6 +157,12 @@ func (f *Figure) check() error {
 		if len(s.X) != len(s.Y) {
 			return fmt.Errorf("figure %s: %w: series %q has %d x and %d y values", f.Kind, ErrFigure, s.Name, len(s.X), len(s.Y))
 		}
+	}
+	if f.Below != nil {
+		if f.Below.Below != nil || f.Below.XMin != f.XMin || f.Below.XMax != f.XMax {
+			return fmt.Errorf("figure %s: %w: the panel below must share the x range and have no panel of its own", f.Kind, ErrFigure)
+		}
+		return f.Below.check()
 	}
 	return nil
 }

@@ -9,10 +9,6 @@ import (
 	"github.com/pairwell/pairwell/core/period"
 )
 
-// DefaultMotionPeriods is the number of periods Motion integrates when
-// MotionOptions.Periods is zero.
-const DefaultMotionPeriods = 3
-
 // harmonicPoints is the number of points per harmonic period of the
 // harmonic motion drawn by Motion.
 const harmonicPoints = 200
@@ -29,7 +25,7 @@ type MotionOptions struct {
 	// Method is the integrator (zero: Dormand–Prince).
 	Method motion.Method
 	// Periods is the number of periods integrated, measured between
-	// stretch-side turning points; zero means DefaultMotionPeriods.
+	// stretch-side turning points; zero means motion.DefaultPeriods, as for "pairwell motion".
 	Periods int
 }
 
@@ -52,7 +48,7 @@ func Motion(p core.Potential, o MotionOptions) (*Figure, error) {
 	}
 	periods := o.Periods
 	if periods == 0 {
-		periods = DefaultMotionPeriods
+		periods = motion.DefaultPeriods
 	}
 	w, osc, err := oscillator(p, o.Mu)
 	if err != nil {

@@ -35,7 +35,10 @@ const (
 const (
 	width  = 10 * vg.Inch
 	height = 5 * vg.Inch
-	// dpi is the resolution of PNG output: 1500×750 pixels.
+	// heightTwoPanels is the height of a figure with a panel below.
+	heightTwoPanels = 7 * vg.Inch
+	// dpi is the resolution of PNG output: 1500×750 pixels (1500×1050
+	// with a panel below).
 	dpi = 150
 )
 
@@ -90,15 +93,19 @@ func (f *Figure) Render(w io.Writer, format Format) error {
 		c  vg.CanvasSizer
 		wt io.WriterTo
 	)
+	h := height
+	if f.Below != nil {
+		h = heightTwoPanels
+	}
 	switch format {
 	case PNG:
-		img := vgimg.NewWith(vgimg.UseWH(width, height), vgimg.UseDPI(dpi), vgimg.UseBackgroundColor(color.White))
+		img := vgimg.NewWith(vgimg.UseWH(width, h), vgimg.UseDPI(dpi), vgimg.UseBackgroundColor(color.White))
 		c, wt = img, pngWriter{img}
 	case SVG:
-		s := vgsvg.New(width, height)
+		s := vgsvg.New(width, h)
 		c, wt = s, s
 	case PDF:
-		p := vgpdf.New(width, height)
+		p := vgpdf.New(width, h)
 		c, wt = p, p
 	default:
 		return fmt.Errorf("%w %q: use png, svg or pdf", ErrFormat, format)
@@ -146,9 +153,56 @@ func (c *countWriter) Write(b []byte) (int, error) {
 var sans = font.Font{Typeface: "Liberation", Variant: "Sans"}
 
 // draw lays the picture out on dc: the plot on the left, the legend in a
-// column on the right, so that the legend never hides a curve.
+// column on the right, so that the legend never hides a curve. A panel
+// Below takes the lower 30 % of the height, its data area aligned with the
+// one above.
 func (f *Figure) draw(dc draw.Canvas) error {
-	p := plot.New()
+	p, leg, styleOf, err := f.plot(nil)
+	if err != nil {
+		return err
+	}
+	gap := vg.Points(14)
+	lr := leg.Rectangle(dc)
+	lw := lr.Max.X - lr.Min.X
+	// Shrink a title too wide for the plot, down to 8 points.
+	avail := dc.Max.X - dc.Min.X - lw - 2*gap
+	for size := vg.Points(13); size > vg.Points(8); size -= vg.Points(0.5) {
+		p.Title.TextStyle.Font = font.From(sans, size)
+		if r := p.Title.TextStyle.Rectangle(f.Title); r.Max.X-r.Min.X <= avail {
+			break
+		}
+	}
+	area := draw.Crop(dc, 0, -(lw + 2*gap), 0, 0)
+	if f.Below == nil {
+		p.Draw(area)
+	} else {
+		q, _, _, err := f.Below.plot(styleOf)
+		if err != nil {
+			return err
+		}
+		h := area.Max.Y - area.Min.Y
+		top := draw.Crop(area, 0, 0, 0.3*h, 0)
+		bottom := draw.Crop(area, 0, 0, 0, -0.7*h)
+		// Align the left edges of the two data areas.
+		if d := p.DataCanvas(top).Min.X - q.DataCanvas(bottom).Min.X; d > 0 {
+			bottom = draw.Crop(bottom, d, 0, 0, 0)
+		} else if d < 0 {
+			top = draw.Crop(top, -d, 0, 0, 0)
+		}
+		p.Draw(top)
+		q.Draw(bottom)
+	}
+	tr := p.Title.TextStyle.Rectangle(f.Title)
+	top := tr.Max.Y - tr.Min.Y + p.Title.Padding + vg.Points(4)
+	leg.Draw(draw.Crop(dc, dc.Max.X-dc.Min.X-lw-gap, -gap, 0, -top))
+	return nil
+}
+
+// plot builds the gonum plot of f and its legend. inherit, when not nil,
+// gives the style of series by name (a panel below takes the styles of the
+// one above); styleOf returns the style of every series of f by name.
+func (f *Figure) plot(inherit map[string]int) (p *plot.Plot, leg plot.Legend, styleOf map[string]int, err error) {
+	p = plot.New()
 	p.Title.Text = f.Title
 	p.Title.TextStyle.Font = font.From(sans, 13)
 	p.Title.Padding = vg.Points(8)
@@ -163,7 +217,7 @@ func (f *Figure) draw(dc draw.Canvas) error {
 	grid.Horizontal.Color = color.Gray{Y: 0xe0}
 	p.Add(grid)
 
-	leg := plot.NewLegend()
+	leg = plot.NewLegend()
 	leg.TextStyle.Font = font.From(sans, 10.5)
 	leg.Left, leg.Top = true, true
 	leg.ThumbnailWidth = vg.Points(34)
@@ -175,10 +229,15 @@ func (f *Figure) draw(dc draw.Canvas) error {
 		p.Add(mp)
 		marks = append(marks, mp)
 	}
+	styleOf = map[string]int{}
 	for i, idx := range styles(f.Series) {
 		s := f.Series[i]
+		if k, ok := inherit[s.Name]; ok {
+			idx = k
+		}
+		styleOf[s.Name] = idx
 		if err := f.addSeries(p, &leg, s, idx); err != nil {
-			return err
+			return nil, leg, nil, err
 		}
 	}
 	seen := map[string]bool{}
@@ -191,23 +250,7 @@ func (f *Figure) draw(dc draw.Canvas) error {
 	p.X.Tick.Marker, p.Y.Tick.Marker = niceTicks{}, niceTicks{}
 	p.X.Min, p.X.Max = f.XMin, f.XMax
 	p.Y.Min, p.Y.Max = f.YMin, f.YMax
-
-	gap := vg.Points(14)
-	lr := leg.Rectangle(dc)
-	lw := lr.Max.X - lr.Min.X
-	// Shrink a title too wide for the plot, down to 8 points.
-	avail := dc.Max.X - dc.Min.X - lw - 2*gap
-	for size := vg.Points(13); size > vg.Points(8); size -= vg.Points(0.5) {
-		p.Title.TextStyle.Font = font.From(sans, size)
-		if r := p.Title.TextStyle.Rectangle(f.Title); r.Max.X-r.Min.X <= avail {
-			break
-		}
-	}
-	p.Draw(draw.Crop(dc, 0, -(lw + 2*gap), 0, 0))
-	tr := p.Title.TextStyle.Rectangle(f.Title)
-	top := tr.Max.Y - tr.Min.Y + p.Title.Padding + vg.Points(4)
-	leg.Draw(draw.Crop(dc, dc.Max.X-dc.Min.X-lw-gap, -gap, 0, -top))
-	return nil
+	return p, leg, styleOf, nil
 }
 
 // addSeries adds the visible part of s to p, with style k, and its entry

@@ -4,6 +4,7 @@ import (
 	"encoding/json"
 	"errors"
 	"fmt"
+	"math"
 	"runtime"
 
 	"github.com/pairwell/pairwell/core"
@@ -16,8 +17,8 @@ const (
 	// potential V_n whose validity is reported: 2, the harmonic picture.
 	DefaultValidityOrder = 2
 	// DefaultValidityTolerance is the relative tolerance of the validity
-	// criteria, 1 %.
-	DefaultValidityTolerance = 0.01
+	// criteria, validity.DefaultTolerance (1 %).
+	DefaultValidityTolerance = validity.DefaultTolerance
 )
 
 // CompareInput is one form to compare: a named instance with its reduced
@@ -50,8 +51,12 @@ type CompareRow struct {
 	// Validity is nil when it could not be computed; Err then says why.
 	// It encodes as the validity command's JSON object.
 	Validity *validity.Result
-	Notes    []string
-	Err      error
+	// Boyle is the Boyle temperature in K of the classical B₂ of a
+	// bounded form (BoyleTemperature); NaN (null) for an unbounded form,
+	// or when there is none or it cannot be computed (a note says why).
+	Boyle float64
+	Notes []string
+	Err   error
 }
 
 // compareJSON is the encoding of CompareRow. The outer name and model
@@ -61,6 +66,7 @@ type compareJSON struct {
 	Model string `json:"model"`
 	*Inspect
 	Validity *validity.Result `json:"validity,omitempty"`
+	Boyle    *Number          `json:"boyle_temperature_k,omitempty"`
 	Notes    []string         `json:"notes,omitempty"`
 	Error    string           `json:"error,omitempty"`
 }
@@ -68,6 +74,10 @@ type compareJSON struct {
 // MarshalJSON implements json.Marshaler.
 func (r CompareRow) MarshalJSON() ([]byte, error) {
 	j := compareJSON{Name: r.Name, Model: r.Model, Inspect: r.Inspect, Validity: r.Validity, Notes: r.Notes}
+	if r.Inspect != nil {
+		b := Number(r.Boyle)
+		j.Boyle = &b
+	}
 	if r.Err != nil {
 		j.Error = r.Err.Error()
 	}
@@ -140,7 +150,7 @@ func Compare(inputs []CompareInput, s CompareSettings) ([]CompareRow, error) {
 
 // compareOne analyses one input.
 func compareOne(in CompareInput, s CompareSettings) CompareRow {
-	row := CompareRow{Name: in.Name, Model: in.Model, Notes: in.Notes, Err: in.Err}
+	row := CompareRow{Name: in.Name, Model: in.Model, Notes: in.Notes, Err: in.Err, Boyle: math.NaN()}
 	if in.Err != nil {
 		return row
 	}
@@ -161,6 +171,16 @@ func compareOne(in CompareInput, s CompareSettings) CompareRow {
 		return row
 	}
 	row.Validity = &v
+	if w.Bounded() {
+		b, err := BoyleTemperature(in.Instance.Potential)
+		switch {
+		case err != nil:
+			row.Notes = append(row.Notes, "no Boyle temperature: "+err.Error())
+		case math.IsNaN(b.Boyle):
+			row.Notes = append(row.Notes, fmt.Sprintf("no Boyle temperature: B₂ does not change sign between %.4g K and %.4g K", b.Low, b.High))
+		}
+		row.Boyle = b.Boyle
+	}
 	return row
 }
 

@@ -32,6 +32,8 @@ import (
 	"strconv"
 	"strings"
 	"unicode/utf8"
+
+	"github.com/pairwell/pairwell/internal/suggest"
 )
 
 // Dimension is the physical dimension of a quantity: a product of integer
@@ -614,7 +616,13 @@ func factor(u string, d Dimension) (float64, error) {
 	case d == Energy && v == (dims{baseLength: -1}):
 		f *= hcEVAngstrom // E = h·c·ν̃
 	default:
-		return 0, fmt.Errorf("%w: unit %q has dimension %s, want %s; %s", ErrWrongDimension, u, v.describe(), d, allowed(d))
+		hint := ""
+		if w := leadingWord(u, 0); w == u {
+			// One word read as a product of names ("Angstroms" as
+			// Angstrom·s): most likely a misspelt name.
+			hint = suggest.Hint(u, suggestNames)
+		}
+		return 0, fmt.Errorf("%w: unit %q%s has dimension %s, want %s; %s", ErrWrongDimension, u, hint, v.describe(), d, allowed(d))
 	}
 	if err := m.check(u); err != nil {
 		return 0, fmt.Errorf("%w %q: %v", ErrUnknownUnit, u, err)
@@ -699,21 +707,19 @@ func parseUnit(u string) (f float64, v dims, m molarUse, err error) {
 				continue
 			}
 		}
-		name := ""
-		for _, n := range atomNames {
-			if strings.HasPrefix(rest, n) {
-				name = n
-				break
-			}
+		name, n, err := atomAt(rest)
+		if err != nil {
+			return 0, dims{}, m, err
 		}
 		if name == "" {
 			r, _ := utf8.DecodeRuneInString(rest)
 			if op, n := operator(rest); n > 0 {
 				return 0, dims{}, m, fmt.Errorf("unexpected %q", string(op))
 			}
-			return 0, dims{}, m, fmt.Errorf("no unit named %q", leadingWord(rest, r))
+			w := leadingWord(rest, r)
+			return 0, dims{}, m, fmt.Errorf("no unit named %q%s", w, suggest.Hint(w, suggestNames))
 		}
-		pos += len(name)
+		pos += n
 		exp, n, err := exponent(u[pos:])
 		if err != nil {
 			return 0, dims{}, m, fmt.Errorf("after %q: %v", name, err)
@@ -827,3 +833,93 @@ func exponent(s string) (exp, n int, err error) {
 	}
 	return sign * val, pos, nil
 }
+
+// atomAt finds the unit name at the start of s and returns the canonical
+// name and the bytes it takes. A word (a run of ASCII letters) that is a
+// name is read as it is. Otherwise a word equal to a name ignoring case is
+// read as that name ("kj" and "KJ" are kJ, "EV" is eV, "ANGSTROM" is
+// angstrom) when all names equal to it ignoring case mean the same unit, and
+// is an error when they do not ("MEV": meV or MeV?); failing that, a word
+// that splits into names written exactly is read as their product ("eVA6"
+// is eV·Å⁶). A non-word name (Å, µs, a₀, g/mol …) must be written exactly.
+// name is "" when nothing matches.
+func atomAt(s string) (name string, n int, err error) {
+	exact := ""
+	for _, a := range atomNames {
+		if strings.HasPrefix(s, a) {
+			exact = a
+			break
+		}
+	}
+	word := asciiWord(s)
+	if len(exact) >= len(word) {
+		// The word is a name, or a name such as "a0" or "g/mol"
+		// extends past it, or there is no word.
+		return exact, len(exact), nil
+	}
+	var found []string
+	for _, a := range atomNames {
+		if strings.EqualFold(a, word) {
+			found = append(found, a)
+		}
+	}
+	if len(found) > 0 {
+		for _, f := range found[1:] {
+			if atoms[f] != atoms[found[0]] {
+				sort.Strings(found)
+				return "", 0, fmt.Errorf("unit %q is ambiguous ignoring case: %s; write it exactly", word, strings.Join(found, " or "))
+			}
+		}
+		return found[0], len(word), nil
+	}
+	if splitsIntoAtoms(word) {
+		return exact, len(exact), nil
+	}
+	return "", 0, fmt.Errorf("no unit named %q%s", word, suggest.Hint(word, suggestNames))
+}
+
+// asciiWord returns the run of ASCII letters at the start of s.
+func asciiWord(s string) string {
+	i := 0
+	for i < len(s) && (s[i] >= 'a' && s[i] <= 'z' || s[i] >= 'A' && s[i] <= 'Z') {
+		i++
+	}
+	return s[:i]
+}
+
+// splitsIntoAtoms reports whether word is a juxtaposition of unit names
+// written exactly, by longest match.
+func splitsIntoAtoms(word string) bool {
+	for word != "" {
+		found := false
+		for _, a := range atomNames {
+			if strings.HasPrefix(word, a) {
+				word, found = word[len(a):], true
+				break
+			}
+		}
+		if !found {
+			return false
+		}
+	}
+	return true
+}
+
+// suggestNames are the unit names offered as near misses: the names of
+// atoms, one per spelling ignoring case (the lower-case one where it
+// exists). Read only.
+var suggestNames = func() []string {
+	byFold := map[string]string{}
+	for n := range atoms {
+		k := strings.ToLower(n)
+		if prev, ok := byFold[k]; !ok || n == k || (prev != k && n < prev) {
+			byFold[k] = n
+		}
+	}
+	names := make([]string, 0, len(byFold))
+	for _, n := range byFold {
+		names = append(names, n)
+	}
+	sort.Strings(names)
+	return names
+}()

@@ -207,6 +207,39 @@ var unitCases = []unitCase{
 	{"K", Temperature, 1}, // definition
 }
 
+// TestParseIgnoringCase: a word that is a unit name ignoring case, and means
+// one unit, is read as that unit (issue 17); factors as in unitCases.
+func TestParseIgnoringCase(t *testing.T) {
+	tests := []struct {
+		in   string
+		d    Dimension
+		want float64
+	}{
+		{"1 ev", Energy, 1},
+		{"1EV", Energy, 1},
+		{"1 kj/mol", Energy, 1e3 / ElectronVolt / Avogadro},
+		{"1 KJ/MOL", Energy, 1e3 / ElectronVolt / Avogadro},
+		{"1 KCAL/MOL", Energy, 4184 / ElectronVolt / Avogadro},
+		{"1 HARTREE", Energy, HartreeEV},
+		{"120k", Energy, 120 * BoltzmannEV},
+		{"1ANGSTROM", Length, 1},
+		{"1 a", Length, 1},
+		{"1 NM", Length, 10},
+		{"1 BOHR", Length, BohrAngstrom},
+		{"1 a0", Length, BohrAngstrom},
+		{"500 n/M", ForceConstant, 500 / ElectronVolt / 1e10 * 1e-10},
+		{"1 DA", Mass, 1},
+		{"1 PS", Time, 1e3},
+		// Exact spellings keep their meaning: eVA6 is eV·Å⁶, Nm stays N·m.
+		{"1 eVA6", Dispersion, 1},
+	}
+	for _, tt := range tests {
+		got, err := Parse(tt.in, tt.d)
+		require.NoError(t, err, tt.in)
+		assert.InEpsilon(t, tt.want, got, 1e-12, tt.in)
+	}
+}
+
 func TestParseUnits(t *testing.T) {
 	for _, tt := range unitCases {
 		forms := []string{"2 " + tt.unit, "  2\t" + tt.unit + " "}
@@ -309,7 +342,13 @@ func TestParseErrors(t *testing.T) {
 		{"1e308 hartree", Energy, ErrNotFinite, []string{"out of range"}},
 		{"3 foo", Energy, ErrUnknownUnit, []string{`"foo"`, "energy units: eV, meV"}},
 		{"3 furlong", Length, ErrUnknownUnit, []string{"length units: Å, A"}},
-		{"3 ev", Energy, ErrUnknownUnit, nil}, // case sensitive
+		{"3 MEV", Energy, ErrUnknownUnit, []string{"ambiguous ignoring case: MeV or meV"}},
+		{"3 mEv", Energy, ErrUnknownUnit, []string{"ambiguous"}},
+		{"3.4Angstroms", Length, ErrWrongDimension, []string{"did you mean angstrom?"}},
+		{"3.4 angstrms", Length, ErrUnknownUnit, []string{"did you mean angstrom?"}},
+		{"1 kcall/mol", Energy, ErrUnknownUnit, []string{"did you mean kcal?"}},
+		{"1eVv", Energy, ErrUnknownUnit, []string{`no unit named "eVv" (did you mean eV?)`}},
+		{"1 KCAL", Energy, ErrUnknownUnit, []string{"did you mean KCAL/mol?"}},
 		{"3 eV/", ForceConstant, ErrUnknownUnit, []string{"operator"}},
 		{"3 eV//Å", ForceConstant, ErrUnknownUnit, nil},
 		{"3 //Å", InverseLength, ErrUnknownUnit, []string{"unexpected"}},

@@ -12,7 +12,8 @@ import (
 // Names are compared ignoring case. A known name is near when its
 // Damerau–Levenshtein distance (optimal string alignment: insertions,
 // deletions, substitutions and transpositions of adjacent runes each count 1)
-// from name is at most max(1, len/3) runes, or when one is a prefix of the
+// from name is at most max(1, len/3) runes and less than the length of name
+// (a single rune is never replaced by another), or when one is a prefix of the
 // other and the shorter has at least 2 runes. An exact match (ignoring case)
 // is returned alone. The result is nil when nothing is near.
 func Near(name string, known []string) []string {
@@ -37,7 +38,7 @@ func Near(name string, known []string) []string {
 			short, long = long, short
 		}
 		prefix := len(short) >= 2 && slices.Equal(long[:len(short)], short)
-		if d <= limit || prefix {
+		if (d <= limit && d < len(in)) || prefix {
 			if prefix {
 				d = min(d, 1)
 			}

@@ -1,0 +1,197 @@
+package main
+
+import (
+	"encoding/json"
+	"fmt"
+	"math"
+	"os"
+	"path/filepath"
+	"strings"
+	"testing"
+
+	"github.com/stretchr/testify/assert"
+	"github.com/stretchr/testify/require"
+
+	"github.com/pairwell/pairwell/core"
+	"github.com/pairwell/pairwell/models"
+)
+
+// fitKeys are the JSON keys of every fitted form (README, "pairwell fit").
+var fitKeys = []string{
+	"rank", "form", "name", "origin", "params", "standard_errors", "correlation", "spec",
+	"energy_zero_ev", "energy_zero_fitted", "energy_zero_standard_error_ev", "rmse_ev", "mae_ev",
+	"max_abs_error_ev", "windows", "n_points", "n_fitted", "weighted_rss_ev2", "iterations",
+	"evaluations", "converged", "reason", "gradient_norm", "jacobian", "well",
+}
+
+// writeMorseScan writes exact Morse data (De = 4.6 eV, a = 1.87 1/Å,
+// re = 1.27 Å) in bohr and hartree shifted by −460 hartree, 40 points.
+func writeMorseScan(t *testing.T) string {
+	t.Helper()
+	pot, err := models.NewMorse(4.6, 1.87, 1.27)
+	require.NoError(t, err)
+	var b strings.Builder
+	b.WriteString("# exact Morse data for the tests\nr_bohr,energy_hartree\n")
+	for i := 0; i < 40; i++ {
+		r := 0.95 + 0.08*float64(i)
+		v, err := core.Value(pot, r)
+		require.NoError(t, err)
+		// bohr and hartree, CODATA 2018
+		fmt.Fprintf(&b, "%.17g,%.17g\n", r/0.529177210903, -460+v/27.211386245988)
+	}
+	path := filepath.Join(t.TempDir(), "scan.csv")
+	require.NoError(t, os.WriteFile(path, []byte(b.String()), 0o644))
+	return path
+}
+
+func fitJSON(t *testing.T, args ...string) []map[string]any {
+	t.Helper()
+	code, out, errOut := runCLI(t, append([]string{"fit", "--format", "json"}, args...)...)
+	require.Equal(t, 0, code, errOut)
+	var rows []map[string]any
+	require.NoError(t, json.Unmarshal([]byte(out), &rows), out)
+	return rows
+}
+
+func TestFitJSON(t *testing.T) {
+	path := writeMorseScan(t)
+	rows := fitJSON(t, path, "--offset", "fit", "--pair", "1H-35Cl")
+	require.Len(t, rows, 4, "every built-in form")
+	for i, row := range rows {
+		for _, k := range fitKeys {
+			assert.Contains(t, row, k, "%v", row["form"])
+		}
+		assert.Equal(t, float64(i+1), row["rank"])
+		w := row["windows"].([]any)
+		require.Len(t, w, 2)
+		for _, k := range []string{"depth_fraction", "bound_ev", "n_points", "rmse_ev", "mae_ev", "max_abs_error_ev"} {
+			assert.Contains(t, w[0], k)
+		}
+	}
+	best := rows[0]
+	assert.Equal(t, "morse", best["form"])
+	p := best["params"].(map[string]any)
+	assert.InDelta(t, 4.6, p["De"], 1e-8*4.6)
+	assert.InDelta(t, 1.87, p["a"], 1e-8*1.87)
+	assert.InDelta(t, 1.27, p["re"], 1e-8*1.27)
+	// the zero: −460 hartree in eV (CODATA 2018)
+	assert.InDelta(t, -460*27.211386245988, best["energy_zero_ev"], 1e-6)
+	assert.Equal(t, true, best["converged"])
+	well := best["well"].(map[string]any)
+	assert.Contains(t, well, "harmonic_wavenumber_per_cm")
+	// the spec is accepted by inspect and gives the same well
+	code, out, errOut := runCLI(t, "inspect", best["spec"].(string), "--format", "json")
+	require.Equal(t, 0, code, errOut)
+	var ins map[string]any
+	require.NoError(t, json.Unmarshal([]byte(out), &ins))
+	assert.InDelta(t, well["equilibrium_r_angstrom"], ins["equilibrium_r_angstrom"], 1e-12)
+}
+
+func TestFitModelSet(t *testing.T) {
+	path := writeMorseScan(t)
+	set := filepath.Join(t.TempDir(), "fitted.toml")
+	code, out, errOut := runCLI(t, "fit", path, "--form", "morse", "--form", "lj", "--offset", "fit", "--mu", "0.98", "-o", set)
+	require.Equal(t, 0, code, errOut)
+	assert.Contains(t, out, "1. morse")
+	assert.Contains(t, out, "not a validated force field")
+	data, err := os.ReadFile(set)
+	require.NoError(t, err)
+	assert.Contains(t, string(data), "# Written by pairwell fit")
+	// compare and plot read the model set
+	rows := compareJSON(t, "--set", set)
+	require.Len(t, rows, 2)
+	assert.Equal(t, "morse-fit", rows[0]["name"])
+	assert.InDelta(t, 1.27, rows[0]["equilibrium_r_angstrom"], 1e-8)
+	pic := filepath.Join(t.TempDir(), "forms.svg")
+	code, _, errOut = runCLI(t, "plot", "compare", "--set", set, "-o", pic)
+	require.Equal(t, 0, code, errOut)
+}
+
+func TestFitCSVAndPlot(t *testing.T) {
+	path := writeMorseScan(t)
+	code, out, errOut := runCLI(t, "fit", path, "--form", "morse", "--offset", "fit", "--format", "csv")
+	require.Equal(t, 0, code, errOut)
+	assert.True(t, strings.HasPrefix(out, "rank,form,RMSE [eV]"), out)
+	assert.Contains(t, out, "morse:De=")
+	pic := filepath.Join(t.TempDir(), "fit.png")
+	code, out, errOut = runCLI(t, "plot", "fit", path, "--offset", "fit", "-o", pic, "--format", "json")
+	require.Equal(t, 0, code, errOut)
+	var rep plotReport
+	require.NoError(t, json.Unmarshal([]byte(out), &rep))
+	assert.Equal(t, "fit", rep.Kind)
+	assert.Equal(t, "data", rep.Series[0])
+	st, err := os.Stat(pic)
+	require.NoError(t, err)
+	assert.NotZero(t, st.Size())
+}
+
+func TestFitWeightsAndRank(t *testing.T) {
+	path := writeMorseScan(t)
+	for _, w := range []string{"uniform", "boltzmann:3000K", "window:1eV", "window:8000cm-1"} {
+		rows := fitJSON(t, path, "--form", "morse", "--offset", "fit", "--weights", w, "--rank", "rmse10")
+		assert.InDelta(t, 4.6, rows[0]["params"].(map[string]any)["De"], 1e-7, w)
+	}
+	rows := fitJSON(t, path, "--form", "morse", "--form", "harmonic", "--weights", "window:0.5eV", "--rank", "max")
+	require.Len(t, rows, 2)
+	assert.Less(t, rows[0]["n_fitted"], rows[0]["n_points"])
+}
+
+// TestFitErrors: bad files and options are one line with exit 2.
+func TestFitErrors(t *testing.T) {
+	dir := t.TempDir()
+	write := func(name, body string) string {
+		p := filepath.Join(dir, name)
+		require.NoError(t, os.WriteFile(p, []byte(body), 0o644))
+		return p
+	}
+	good := writeMorseScan(t)
+	for _, c := range []struct {
+		args []string
+		want string
+	}{
+		{[]string{"fit", write("a.csv", "r_angstrom,energy_stone\n1,2\n")}, `line 1: unknown column "energy_stone"`},
+		{[]string{"fit", write("b.csv", "r_angstrom,energy_ev\n1,2\n2,nan\n")}, "line 3"},
+		{[]string{"fit", write("c.csv", "r_angstrom,energy_ev\n1,2\n1,3\n")}, "line 3: r = 1 Å given twice"},
+		{[]string{"fit", write("d.csv", "energy_ev\n1\n")}, "no separation column"},
+		{[]string{"fit", write("e.csv", "r_angstrom,energy_ev\n1,2\n2,1\n3,2\n"), "--form", "morse", "--offset", "fit"}, "fewer than the 4 parameters"},
+		{[]string{"fit", write("f.csv", "r_angstrom,energy_ev\n1,3\n2,2\n3,1\n4,0.5\n"), "--form", "morse"}, "do not enclose a minimum"},
+		{[]string{"fit", good, "--weights", "boltzmann:-3K"}, "--weights"},
+		{[]string{"fit", good, "--weights", "gaussian"}, "--weights"},
+		{[]string{"fit", good, "--offset", "lots"}, "--offset"},
+		{[]string{"fit", good, "--rank", "best"}, "--rank"},
+		{[]string{"fit", good, "--restarts", "9"}, "--restarts"},
+		{[]string{"fit", good, "--form", "nosuchform"}, "nosuchform"},
+		{[]string{"fit"}, "one DATA.csv"},
+	} {
+		code, _, errOut := runCLI(t, c.args...)
+		assert.Equal(t, 2, code, "%v: %s", c.args, errOut)
+		assert.Contains(t, errOut, c.want, "%v", c.args)
+		assert.Equal(t, 1, strings.Count(strings.TrimSpace(errOut), "\n")+1, "one line: %q", errOut)
+	}
+	code, _, _ := runCLI(t, "fit", filepath.Join(dir, "missing.csv"))
+	assert.Equal(t, 1, code, "a file that cannot be read")
+}
+
+// TestFitPluginRecovery fits the test plugin's Morse (an independent
+// implementation, central differences in the parameters) to exact built-in
+// Morse data and recovers the parameters to 1e-8 relative; a plugin form is
+// ranked with the built-in ones.
+func TestFitPluginRecovery(t *testing.T) {
+	path := writeMorseScan(t)
+	code, out, errOut := runPlugins(t, "--plugin", pluginBin.test, "fit", path, "--form", "plugin-morse", "--form", "morse", "--offset", "fit", "--format", "json")
+	require.Equal(t, 0, code, errOut)
+	var rows []map[string]any
+	require.NoError(t, json.Unmarshal([]byte(out), &rows), out)
+	require.Len(t, rows, 2)
+	for _, row := range rows {
+		p := row["params"].(map[string]any)
+		for name, want := range map[string]float64{"De": 4.6, "a": 1.87, "re": 1.27} {
+			assert.InDelta(t, 1, p[name].(float64)/want, 1e-8, "%v %s", row["form"], name)
+		}
+		if row["form"] == "plugin-morse" {
+			assert.Equal(t, "central differences", row["jacobian"])
+		}
+		assert.Less(t, row["rmse_ev"].(float64), 1e-8)
+		assert.False(t, math.IsNaN(row["rmse_ev"].(float64)))
+	}
+}

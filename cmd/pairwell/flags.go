@@ -1,0 +1,120 @@
+package main
+
+import (
+	"fmt"
+	"io"
+	"strconv"
+	"strings"
+
+	"github.com/spf13/pflag"
+
+	"github.com/pairwell/pairwell/core/validity"
+	"github.com/pairwell/pairwell/internal/suggest"
+)
+
+// The flags whose meaning is shared by several commands are defined here,
+// once: one parser per quantity, one meaning per flag name, one default per
+// constant.
+
+// Flag names for the two kinds of Taylor order.
+const (
+	// coefficientsFlag is the highest Taylor coefficient c_N shown (inspect).
+	coefficientsFlag = "coefficients"
+	// truncationFlag is the order N of a truncated Taylor potential V_N
+	// (validity, compare, baseline record, plot taylor).
+	truncationFlag = "truncation"
+)
+
+// parseTolerance reads a relative tolerance written as a fraction ("0.01")
+// or a percentage ("1%"); it must lie strictly between 0 and 1.
+func parseTolerance(s string) (float64, error) {
+	t := strings.TrimSpace(s)
+	scale := 1.0
+	if strings.HasSuffix(t, "%") {
+		t, scale = strings.TrimSpace(strings.TrimSuffix(t, "%")), 0.01
+	}
+	v, err := strconv.ParseFloat(t, 64)
+	if err != nil {
+		return 0, fmt.Errorf("%q is not a number (e.g. 0.01 or 1%%)", s)
+	}
+	v *= scale
+	if !(v > 0 && v < 1) {
+		return 0, fmt.Errorf("%q: must be between 0 and 1 (0%% and 100%%), exclusive", s)
+	}
+	return v, nil
+}
+
+// toleranceValue is a --tolerance flag: a fraction or a percentage.
+type toleranceValue struct{ v *float64 }
+
+func (t toleranceValue) String() string {
+	if t.v == nil {
+		return ""
+	}
+	return strconv.FormatFloat(*t.v, 'g', -1, 64)
+}
+
+func (t toleranceValue) Set(s string) error {
+	v, err := parseTolerance(s)
+	if err != nil {
+		return err
+	}
+	*t.v = v
+	return nil
+}
+
+func (toleranceValue) Type() string { return "TOL" }
+
+// toleranceVar registers --tolerance with the default of the validity
+// criteria.
+func toleranceVar(f *pflag.FlagSet, v *float64, what string) {
+	*v = validity.DefaultTolerance
+	f.Var(toleranceValue{v}, "tolerance", "relative tolerance of "+what+", a fraction (0.01) or a percentage (1%)")
+}
+
+// truncationVar registers --truncation N, and the deprecated --order as its
+// alias.
+func truncationVar(f *pflag.FlagSet, v *int, def int, usage string) {
+	f.IntVar(v, truncationFlag, def, usage)
+	deprecatedOrder(f, v, def, "--"+truncationFlag+" (the order of the truncated Taylor potential)")
+}
+
+// coefficientsVar registers --coefficients N, and the deprecated --order as
+// its alias.
+func coefficientsVar(f *pflag.FlagSet, v *int, def int, usage string) {
+	f.IntVar(v, coefficientsFlag, def, usage)
+	deprecatedOrder(f, v, def, "--"+coefficientsFlag+" (the highest Taylor coefficient shown)")
+}
+
+// deprecatedOrder registers the old --order, hidden, as an alias of the
+// flag named by use; warnDeprecated reports its use on stderr.
+func deprecatedOrder(f *pflag.FlagSet, v *int, def int, use string) {
+	f.IntVar(v, "order", def, "deprecated: use "+use)
+	_ = f.MarkHidden("order")
+	_ = f.SetAnnotation("order", "deprecated", []string{use})
+}
+
+// warnDeprecated writes a warning for every deprecated flag given.
+func warnDeprecated(f *pflag.FlagSet, stderr io.Writer) {
+	f.Visit(func(fl *pflag.Flag) {
+		if use, ok := fl.Annotations["deprecated"]; ok {
+			fmt.Fprintf(stderr, "pairwell: warning: --%s is deprecated: use %s\n", fl.Name, use[0])
+		}
+	})
+}
+
+// formats are the output formats of --format.
+var formats = []string{"table", "json", "csv"}
+
+// choice returns the element of allowed equal to s ignoring case and
+// surrounding space, or an error naming the allowed values and the near
+// misses.
+func choice(flag, s string, allowed []string) (string, error) {
+	t := strings.ToLower(strings.TrimSpace(s))
+	for _, a := range allowed {
+		if t == a {
+			return a, nil
+		}
+	}
+	return "", fmt.Errorf("--%s %q%s: allowed: %s", flag, s, suggest.Hint(t, allowed), strings.Join(allowed, ", "))
+}

@@ -1,0 +1,78 @@
+package fit
+
+import (
+	"errors"
+	"fmt"
+
+	"github.com/pairwell/pairwell/core"
+)
+
+// This file holds every evaluation of a potential that the package makes:
+// each is one batched call for all points, since a potential may live in
+// another process.
+
+// ParamGradient is implemented by potentials that evaluate the derivatives
+// of V with respect to their own parameters analytically. FitForm then
+// uses them for the Jacobian instead of central differences.
+type ParamGradient interface {
+	// ParamGradient stores ∂V(r[i])/∂pⱼ in dst[i·P+j] (row-major), P the
+	// number of parameters, in the order and default units of the
+	// model's Info().Params: eV per unit of pⱼ. len(dst) must be
+	// len(r)·P.
+	ParamGradient(r, dst []float64) error
+}
+
+// build makes the potential of params, an error wrapping ErrInfeasible
+// when the model refuses the set (constraints, no minimum).
+func build(m core.Model, params []float64) (core.Potential, error) {
+	p, err := m.New(params)
+	if err != nil {
+		return nil, infeasible(err)
+	}
+	return p, nil
+}
+
+// energies stores V(r[i]) in dst: one call for all points.
+func energies(p core.Potential, r, dst []float64) error {
+	return infeasible(p.Batch(0, r, dst))
+}
+
+// forces stores −V′(r[i]) in dst: one call for all points.
+func forces(p core.Potential, r, dst []float64) error {
+	if err := p.Batch(1, r, dst); err != nil {
+		return infeasible(err)
+	}
+	for i, v := range dst {
+		dst[i] = -v
+	}
+	return nil
+}
+
+// equilibrium returns the position of the minimum of p.
+func equilibrium(p core.Potential) (float64, error) { return core.Equilibrium(p) }
+
+// paramGradient stores ∂V(r[i])/∂pⱼ in dst when p evaluates it
+// analytically; ok is false when it does not.
+func paramGradient(p core.Potential, r, dst []float64) (ok bool, err error) {
+	g, ok := p.(ParamGradient)
+	if !ok {
+		return false, nil
+	}
+	return true, infeasible(g.ParamGradient(r, dst))
+}
+
+// infeasible wraps errors that mean "this parameter set cannot describe
+// the data" (outside the domain, invalid parameters, no minimum) in
+// ErrInfeasible, so that the engine rejects the trial point; other errors
+// (a crashed plugin) pass unchanged and stop the fit.
+func infeasible(err error) error {
+	if err == nil {
+		return nil
+	}
+	for _, e := range []error{core.ErrDomain, core.ErrParam, core.ErrNoMinimum} {
+		if errors.Is(err, e) {
+			return fmt.Errorf("%w: %w", ErrInfeasible, err)
+		}
+	}
+	return err
+}

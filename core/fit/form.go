@@ -1,0 +1,660 @@
+package fit
+
+import (
+	"errors"
+	"fmt"
+	"math"
+
+	"gonum.org/v1/gonum/mat"
+
+	"github.com/pairwell/pairwell/core"
+)
+
+// DefaultRestarts is the number of deterministic restarts of FitForm
+// beyond its main start.
+const DefaultRestarts = 4
+
+// sameMinimum is the relative difference of RSS within which two starts
+// are taken to have reached the same minimum; FitForm stops its restarts
+// there.
+const sameMinimum = 1e-8
+
+// DefaultForceWeight is the weight of a force residual (eV/Å)² relative to
+// an energy residual (eV)², in Å²: 1 Å² (common practice when nothing
+// better is known).
+const DefaultForceWeight = 1.0
+
+// WindowFractions are the energy windows of Result.Windows, as fractions
+// of the data's depth above its minimum.
+var WindowFractions = [2]float64{0.1, 0.5}
+
+// Settings controls FitForm. The zero value is ready to use: energy zero
+// at the largest r, the data's own weights or uniform ones, forces (when
+// present) with weight DefaultForceWeight, DefaultRestarts restarts and the
+// engine's defaults.
+type Settings struct {
+	Offset  Offset
+	Weights Weights
+	// ForceWeight is the weight w_F in Å² of the force residuals: the
+	// fit minimises Σ wᵢ(V(rᵢ) − Eᵢ)² + w_F·Σ wᵢ(−V′(rᵢ) − Fᵢ)². Zero
+	// means DefaultForceWeight; ignored when the data have no forces.
+	ForceWeight float64
+	// Restarts is the number of restarts beyond the main start; zero
+	// means DefaultRestarts, a negative value none.
+	Restarts int
+	// Start, when not nil, replaces the automatic start: parameters in
+	// the model's order and default units.
+	Start []float64
+	// Central makes the Jacobian central differences even for a
+	// potential that implements ParamGradient (for comparisons).
+	Central bool
+	// LM controls the least-squares engine.
+	LM LMSettings
+}
+
+// Errors summarises the energy errors V(rᵢ) + zero − Eᵢ of a set of points,
+// unweighted, in eV.
+type Errors struct {
+	N    int     // number of points
+	RMSE float64 // root mean square
+	MAE  float64 // mean absolute
+	Max  float64 // largest absolute
+}
+
+// WindowErrors are the errors of the points in an energy window.
+type WindowErrors struct {
+	// Fraction of the data's depth (WindowFractions).
+	Fraction float64
+	// Bound is the window's top above the data's minimum, eV: the points
+	// with Eᵢ − E_min ≤ Bound.
+	Bound float64
+	Errors
+}
+
+// Result is the fit of one form.
+type Result struct {
+	// Instance is the fitted form: model, parameters (default units) and
+	// potential.
+	Instance core.Instance
+	// StdErr holds the standard errors of the parameters, NaN where they
+	// are not determined (as many points as parameters, or a
+	// rank-deficient Jacobian). Correlation is their correlation matrix,
+	// nil when not determined.
+	StdErr      []float64
+	Correlation [][]float64
+	// Zero is the energy zero of the data in eV (fitted, given or the
+	// energy at the largest r), ZeroFitted whether it was fitted and
+	// ZeroErr its standard error (NaN when not fitted or not
+	// determined).
+	Zero       float64
+	ZeroFitted bool
+	ZeroErr    float64
+	// RSS is the weighted residual sum of squares at the optimum, eV².
+	RSS float64
+	// Iterations, Evaluations (potential builds with one batched call
+	// each) and the engine's stopping reason; GradNorm is the norm of
+	// the gradient of ½RSS with respect to the internal parameters (log p
+	// for constrained ones, p otherwise, the zero last) in eV².
+	Iterations, Evaluations int
+	Reason                  Reason
+	GradNorm                float64
+	// Start is the starting parameter set that led to the result, and
+	// StartIndex its number (0 the main start, 1… the restarts).
+	Start      []float64
+	StartIndex int
+	// Fitted is the number of points with non-zero weight.
+	Fitted int
+	// All are the errors over every point of the data; Windows those in
+	// the energy windows of WindowFractions (absent when the data have no
+	// positive depth).
+	All     Errors
+	Windows []WindowErrors
+	// Analytic reports that the Jacobian came from ParamGradient rather
+	// than from central differences.
+	Analytic bool
+	// Notes say what the reader must know (a fitted zero for a form with
+	// no dissociation limit, an undetermined error, a restart that won).
+	Notes []string
+}
+
+// Converged reports whether the engine met a convergence test.
+func (r Result) Converged() bool { return r.Reason.Converged() }
+
+// FitForm fits the model m to the data by weighted least squares in the
+// energies (and forces, when present):
+//
+//	RSS = Σᵢ wᵢ (V(rᵢ) + zero − Eᵢ)² [+ w_F Σᵢ wᵢ (−V′(rᵢ) − Fᵢ)²],
+//
+// with the energy zero as Settings.Offset says. Parameters constrained
+// "> 0" or "≥ 0" are fitted as their logarithm, so every trial set keeps
+// its constraints ("≥ 0" is then reached only as a limit, see Notes; a
+// parameter driven below 1e-12 of its start ends the fit with Reason
+// Boundary).
+// Without Settings.Start, m must implement core.Matcher: the main start is
+// its match to EstimateWell(data); each restart matches a deterministic
+// variation of that target (k ×2, ×½, ×4, depth ×½, …) and the result with
+// the smallest RSS wins (a converged one before an unconverged one). The
+// restarts stop as soon as two starts reach the same RSS (to 1e-8
+// relative).
+//
+// Standard errors are √diag(C) of C = s²(JᵀJ)⁻¹, J the Jacobian of the
+// weighted residuals with respect to the parameters at the optimum and
+// s² = RSS/(n − P) with n the points of non-zero weight (residual rows)
+// and P the fitted parameters (the zero included when fitted).
+//
+// Errors wrap core.ErrParam for invalid data or settings (fewer points than
+// parameters included), core.ErrNoMinimum when no start can be made, and
+// whatever a potential returns otherwise (a plugin failure).
+func FitForm(m core.Model, d Data, s Settings) (Result, error) {
+	info := m.Info()
+	if err := d.Validate(); err != nil {
+		return Result{}, err
+	}
+	w, err := s.Weights.weights(d)
+	if err != nil {
+		return Result{}, err
+	}
+	pr, err := newFormProblem(m, d, w, s)
+	if err != nil {
+		return Result{}, err
+	}
+	starts, err := pr.starts(s)
+	if err != nil {
+		return Result{}, err
+	}
+	var best Result
+	var bestErr error
+	found := false
+	mainRSS := math.Inf(1)
+	for i, st := range starts {
+		if st.err != nil {
+			if bestErr == nil {
+				bestErr = st.err
+			}
+			continue
+		}
+		r, err := pr.run(st.params, s.LM)
+		if err != nil {
+			if !errors.Is(err, ErrInfeasible) {
+				return Result{}, fmt.Errorf("%s: %w", info.Key, err)
+			}
+			if bestErr == nil {
+				bestErr = err
+			}
+			continue
+		}
+		r.StartIndex = i
+		if i == 0 {
+			mainRSS = r.RSS
+		}
+		same := found && math.Abs(r.RSS-best.RSS) <= sameMinimum*math.Max(r.RSS, best.RSS)
+		if !found || better(r, best) {
+			best, found = r, true
+		}
+		if same {
+			break // two starts agree: the restarts have done their job
+		}
+	}
+	if !found {
+		return Result{}, fmt.Errorf("%s: %w: no start led to a fit: %v", info.Key, ErrInfeasible, bestErr)
+	}
+	if best.StartIndex > 0 && !(mainRSS <= 1.01*best.RSS+1e-24) {
+		best.Notes = append(best.Notes, fmt.Sprintf("restart %d (%s) gave the lowest RSS", best.StartIndex, starts[best.StartIndex].what))
+	}
+	if err := pr.finish(&best); err != nil {
+		return Result{}, fmt.Errorf("%s: %w", info.Key, err)
+	}
+	return best, nil
+}
+
+// better reports whether a should replace b as the best fit.
+func better(a, b Result) bool {
+	if a.Converged() != b.Converged() {
+		return a.Converged()
+	}
+	return a.RSS < b.RSS
+}
+
+// formProblem is the least-squares problem of one form and data set.
+type formProblem struct {
+	m         core.Model
+	info      core.ModelInfo
+	d         Data
+	rows      []int     // indices of the points with non-zero weight
+	r         []float64 // their separations
+	e         []float64 // their energies
+	f         []float64 // their forces, nil when none
+	sw        []float64 // √wᵢ
+	swf       []float64 // √(w_F wᵢ)
+	np        int       // model parameters
+	fitZero   bool
+	zero      float64 // the zero when not fitted; the estimate when fitted
+	log       []bool  // parameter j fitted as its logarithm
+	v, g      []float64
+	analytic  bool
+	evals     int
+	notes     []string
+	dataDepth float64 // zero estimate − E_min, for the windows
+	unbounded bool    // the form has no dissociation limit
+	central   bool    // Settings.Central
+	floor     []float64
+}
+
+// constraintFloor bounds a parameter fitted as a logarithm from below, at
+// this fraction of its starting value: a fit that drives a "> 0" parameter
+// towards 0 would otherwise crawl through hundreds of iterations in log p;
+// it stops there with Reason Boundary instead.
+const constraintFloor = 1e-12
+
+func newFormProblem(m core.Model, d Data, w []float64, s Settings) (*formProblem, error) {
+	info := m.Info()
+	p := &formProblem{m: m, info: info, d: d, np: len(info.Params), central: s.Central}
+	emin := math.Inf(1)
+	for _, e := range d.E {
+		emin = math.Min(emin, e)
+	}
+	top := d.E[len(d.E)-1]
+	switch s.Offset.Mode {
+	case OffsetAuto:
+		p.zero = top
+	case OffsetFit:
+		p.zero, p.fitZero = top, true
+	case OffsetValue:
+		if !finite(s.Offset.Value) {
+			return nil, fmt.Errorf("%w: energy zero %g eV is not finite", core.ErrParam, s.Offset.Value)
+		}
+		p.zero = s.Offset.Value
+	default:
+		return nil, fmt.Errorf("%w: unknown offset mode %d", core.ErrParam, s.Offset.Mode)
+	}
+	p.dataDepth = p.zero - emin
+	pot, err := probe(m)
+	p.unbounded = err == nil && !pot.Domain().Bounded()
+	if p.unbounded && !p.fitZero {
+		p.fitZero = true
+		p.notes = append(p.notes, fmt.Sprintf("%s has no dissociation limit (its zero is at its minimum): its energy zero is fitted", info.Key))
+	}
+	fw := s.ForceWeight
+	if fw == 0 {
+		fw = DefaultForceWeight
+	}
+	if !(fw > 0) || math.IsInf(fw, 0) {
+		return nil, fmt.Errorf("%w: force weight %g Å² must be > 0", core.ErrParam, fw)
+	}
+	for i := range d.R {
+		if w[i] > 0 {
+			p.rows = append(p.rows, i)
+			p.r = append(p.r, d.R[i])
+			p.e = append(p.e, d.E[i])
+			p.sw = append(p.sw, math.Sqrt(w[i]))
+			if d.F != nil {
+				p.f = append(p.f, d.F[i])
+				p.swf = append(p.swf, math.Sqrt(fw*w[i]))
+			}
+		}
+	}
+	if n, np := p.nres(), p.nparams(); n < np {
+		what := ""
+		if p.fitZero {
+			what = " and the energy zero"
+		}
+		return nil, fmt.Errorf("%w: %s: %d data points with non-zero weight, fewer than the %d parameters (%d of the form%s)", core.ErrParam, info.Key, len(p.rows), np, p.np, what)
+	}
+	p.log = make([]bool, p.np)
+	for j, q := range info.Params {
+		p.log[j] = q.Constraint == core.Positive || q.Constraint == core.NonNegative
+	}
+	p.v = make([]float64, len(p.r))
+	p.g = make([]float64, len(p.r)*p.np)
+	return p, nil
+}
+
+// probe builds the model at a start it can make, to learn its domain.
+func probe(m core.Model) (core.Potential, error) {
+	if matcher, ok := m.(core.Matcher); ok {
+		if params, _, err := matcher.Match(core.Target{Re: 1, Depth: 1, K: 10}); err == nil {
+			return m.New(params)
+		}
+	}
+	return nil, errors.New("no probe")
+}
+
+func (p *formProblem) nres() int {
+	if p.f != nil {
+		return 2 * len(p.r)
+	}
+	return len(p.r)
+}
+
+func (p *formProblem) nparams() int {
+	if p.fitZero {
+		return p.np + 1
+	}
+	return p.np
+}
+
+// params converts internal parameters θ to the model's (and the zero).
+func (p *formProblem) params(theta []float64) ([]float64, float64) {
+	out := make([]float64, p.np)
+	for j := range out {
+		out[j] = theta[j]
+		if p.log[j] {
+			out[j] = math.Exp(theta[j])
+		}
+	}
+	zero := p.zero
+	if p.fitZero {
+		zero = theta[p.np]
+	}
+	return out, zero
+}
+
+// theta converts model parameters and a zero to internal ones.
+func (p *formProblem) theta(params []float64, zero float64) ([]float64, error) {
+	out := make([]float64, p.nparams())
+	for j, v := range params {
+		out[j] = v
+		if p.log[j] {
+			if !(v > 0) {
+				return nil, fmt.Errorf("%w: start %s = %g: a start on the boundary of %s cannot be fitted as a logarithm", core.ErrParam, p.info.Params[j].Name, v, p.info.Params[j].Constraint)
+			}
+			out[j] = math.Log(v)
+		}
+	}
+	if p.fitZero {
+		out[p.np] = zero
+	}
+	return out, nil
+}
+
+func (p *formProblem) residuals(theta, dst []float64) error {
+	params, zero := p.params(theta)
+	for j, v := range params {
+		if p.log[j] && v < p.floor[j] {
+			return fmt.Errorf("%w: %s = %g has fallen below %g·(its start): the fit runs into the constraint %s", ErrInfeasible, p.info.Params[j].Name, v, constraintFloor, p.info.Params[j].Constraint)
+		}
+	}
+	p.evals++
+	pot, err := build(p.m, params)
+	if err != nil {
+		return err
+	}
+	if err := energies(pot, p.r, p.v); err != nil {
+		return err
+	}
+	for i, v := range p.v {
+		dst[i] = p.sw[i] * (v + zero - p.e[i])
+	}
+	if p.f != nil {
+		fd := dst[len(p.r):]
+		if err := forces(pot, p.r, fd); err != nil {
+			return err
+		}
+		for i := range fd {
+			fd[i] = p.swf[i] * (fd[i] - p.f[i])
+		}
+	}
+	return nil
+}
+
+// jacobian is the analytic Jacobian of the residuals in θ, available when
+// the potential implements ParamGradient and the data have no forces.
+func (p *formProblem) jacobian(theta, dst []float64) error {
+	params, _ := p.params(theta)
+	pot, err := build(p.m, params)
+	if err != nil {
+		return err
+	}
+	ok, err := paramGradient(pot, p.r, p.g)
+	if err != nil {
+		return err
+	}
+	if !ok {
+		return fmt.Errorf("%s: analytic parameter gradient vanished", p.info.Key)
+	}
+	np, npt := p.np, p.nparams()
+	for i := range p.r {
+		for j := 0; j < np; j++ {
+			dv := p.g[i*np+j]
+			if p.log[j] {
+				dv *= params[j] // ∂/∂ log p = p ∂/∂p
+			}
+			dst[i*npt+j] = p.sw[i] * dv
+		}
+		if p.fitZero {
+			dst[i*npt+np] = p.sw[i]
+		}
+	}
+	return nil
+}
+
+// start is one starting point, or why it could not be made.
+type start struct {
+	params []float64
+	what   string
+	err    error
+}
+
+// restartTargets are the variations of the estimated well tried after the
+// main start, in order.
+var restartTargets = []struct {
+	what         string
+	k, depth, re float64
+}{
+	{"k ×2", 2, 1, 1},
+	{"k ×½", 0.5, 1, 1},
+	{"k ×4", 4, 1, 1}, // moves an inner barrier (Buckingham) far inwards
+	{"depth ×½", 1, 0.5, 1},
+	{"depth ×2", 1, 2, 1},
+	{"re ×0.95", 1, 1, 0.95},
+	{"re ×1.05", 1, 1, 1.05},
+}
+
+func (p *formProblem) starts(s Settings) ([]start, error) {
+	if s.Start != nil {
+		if err := core.CheckParams(p.info, s.Start); err != nil {
+			return nil, err
+		}
+		return []start{{params: append([]float64(nil), s.Start...), what: "given start"}}, nil
+	}
+	matcher, ok := p.m.(core.Matcher)
+	if !ok {
+		return nil, fmt.Errorf("%w: %s cannot be started automatically: it has no Match (give a start)", core.ErrParam, p.info.Key)
+	}
+	zero := p.zero
+	if p.unbounded {
+		zero = math.Inf(1) // its depth is not a property of the form
+	}
+	t, err := EstimateWell(Data{R: p.r, E: p.e}, zero)
+	if err != nil {
+		return nil, fmt.Errorf("%s: automatic start: %w", p.info.Key, err)
+	}
+	n := s.Restarts
+	switch {
+	case n == 0:
+		n = DefaultRestarts
+	case n < 0:
+		n = 0
+	}
+	n = min(n, len(restartTargets))
+	var out []start
+	seen := map[string]bool{}
+	add := func(tt core.Target, what string) {
+		params, _, err := matcher.Match(tt)
+		if err == nil {
+			key := fmt.Sprint(params)
+			if seen[key] {
+				return // the form ignores what was varied
+			}
+			seen[key] = true
+		}
+		out = append(out, start{params: params, what: what, err: err})
+	}
+	add(t, "main start")
+	for _, v := range restartTargets[:n] {
+		add(core.Target{Re: t.Re * v.re, Depth: t.Depth * v.depth, K: t.K * v.k}, v.what)
+	}
+	return out, nil
+}
+
+// run minimises from one start.
+func (p *formProblem) run(params []float64, ls LMSettings) (Result, error) {
+	theta, err := p.theta(params, p.zeroStart())
+	if err != nil {
+		return Result{}, fmt.Errorf("%w: %w", ErrInfeasible, err)
+	}
+	pr := Problem{N: p.nres(), P: p.nparams(), Residuals: p.residuals}
+	if p.f == nil && !p.central {
+		pot, err := build(p.m, params)
+		if err != nil {
+			return Result{}, err
+		}
+		if _, ok := pot.(ParamGradient); ok {
+			pr.Jacobian = p.jacobian
+			p.analytic = true
+		}
+	}
+	p.evals = 0
+	p.floor = make([]float64, p.np)
+	for j, v := range params {
+		p.floor[j] = constraintFloor * v
+	}
+	lm, err := Minimize(pr, theta, ls)
+	if err != nil {
+		return Result{}, err
+	}
+	fitted, zero := p.params(lm.Theta)
+	r := Result{
+		Instance:    core.Instance{Model: p.m, Params: fitted},
+		Zero:        zero,
+		ZeroFitted:  p.fitZero,
+		RSS:         lm.RSS,
+		Iterations:  lm.Iterations,
+		Evaluations: p.evals,
+		Reason:      lm.Reason,
+		GradNorm:    lm.GradNorm,
+		Start:       append([]float64(nil), params...),
+		Fitted:      len(p.r),
+		Analytic:    p.analytic,
+	}
+	// Standard errors from the Jacobian in the model's parameters:
+	// ∂r/∂p = ∂r/∂θ · dθ/dp, dθ/dp = 1/p for a logarithm.
+	jp := mat.DenseCopyOf(lm.Jacobian)
+	nr, _ := jp.Dims()
+	for j := 0; j < p.np; j++ {
+		if p.log[j] {
+			for i := 0; i < nr; i++ {
+				jp.Set(i, j, jp.At(i, j)/fitted[j])
+			}
+		}
+	}
+	r.StdErr = make([]float64, p.np)
+	r.ZeroErr = math.NaN()
+	cov := Covariance(jp, lm.RSS)
+	if cov == nil {
+		for j := range r.StdErr {
+			r.StdErr[j] = math.NaN()
+		}
+		why := "as many residuals as parameters"
+		if nr > p.nparams() {
+			why = "the Jacobian is rank deficient: some parameter combination is not determined by the data"
+		}
+		r.Notes = append(r.Notes, "standard errors not determined: "+why)
+		return r, nil
+	}
+	for j := 0; j < p.np; j++ {
+		r.StdErr[j] = math.Sqrt(cov.At(j, j))
+	}
+	if p.fitZero {
+		r.ZeroErr = math.Sqrt(cov.At(p.np, p.np))
+	}
+	r.Correlation = make([][]float64, p.np)
+	for a := 0; a < p.np; a++ {
+		r.Correlation[a] = make([]float64, p.np)
+		for b := 0; b < p.np; b++ {
+			r.Correlation[a][b] = cov.At(a, b) / math.Sqrt(cov.At(a, a)*cov.At(b, b))
+		}
+	}
+	return r, nil
+}
+
+// zeroStart is the starting value of a fitted zero: the energy at the
+// largest r for a form with a dissociation limit; for one without, the
+// lowest energy (its zero is at its minimum).
+func (p *formProblem) zeroStart() float64 {
+	if !p.fitZero {
+		return p.zero
+	}
+	if p.unbounded {
+		emin := math.Inf(1)
+		for _, e := range p.e {
+			emin = math.Min(emin, e)
+		}
+		return emin
+	}
+	return p.zero
+}
+
+// finish builds the fitted potential and measures its errors over all
+// points and in the windows.
+func (p *formProblem) finish(r *Result) error {
+	pot, err := p.m.New(r.Instance.Params)
+	if err != nil {
+		return fmt.Errorf("fitted parameters: %w", err)
+	}
+	r.Instance.Potential = pot
+	r.Notes = append(p.notes, r.Notes...)
+	for j, q := range p.info.Params {
+		if q.Constraint == core.NonNegative && r.Instance.Params[j] < 1e-12*math.Max(1, math.Abs(r.StdErr[j])) {
+			r.Notes = append(r.Notes, fmt.Sprintf("%s tends to 0, the boundary of its constraint (≥ 0): fitted as a logarithm it can only approach it", q.Name))
+		}
+	}
+	if re, err := equilibrium(pot); err == nil && (re < p.d.R[0] || re > p.d.R[len(p.d.R)-1]) {
+		r.Notes = append(r.Notes, fmt.Sprintf("the fitted form's minimum, r = %.4g Å, lies outside the data (%.4g to %.4g Å): the form does not describe this well", re, p.d.R[0], p.d.R[len(p.d.R)-1]))
+	}
+	v := make([]float64, len(p.d.R))
+	if err := energies(pot, p.d.R, v); err != nil {
+		r.All = Errors{N: len(v), RMSE: math.NaN(), MAE: math.NaN(), Max: math.NaN()}
+		r.Notes = append(r.Notes, fmt.Sprintf("the fitted form cannot be evaluated at every point of the data (%v): errors over all points not given", err))
+		return nil
+	}
+	emin := math.Inf(1)
+	for _, e := range p.d.E {
+		emin = math.Min(emin, e)
+	}
+	errs := make([]float64, len(v))
+	for i := range v {
+		errs[i] = v[i] + r.Zero - p.d.E[i]
+	}
+	r.All = summarise(errs, func(int) bool { return true })
+	if p.dataDepth > 0 {
+		for _, f := range WindowFractions {
+			bound := f * p.dataDepth
+			r.Windows = append(r.Windows, WindowErrors{Fraction: f, Bound: bound,
+				Errors: summarise(errs, func(i int) bool { return p.d.E[i]-emin <= bound })})
+		}
+	}
+	return nil
+}
+
+// summarise returns the errors of the points i with in(i).
+func summarise(errs []float64, in func(int) bool) Errors {
+	var e Errors
+	var ss float64
+	for i, v := range errs {
+		if !in(i) {
+			continue
+		}
+		e.N++
+		a := math.Abs(v)
+		ss += v * v
+		e.MAE += a
+		e.Max = math.Max(e.Max, a)
+	}
+	if e.N == 0 {
+		return Errors{RMSE: math.NaN(), MAE: math.NaN(), Max: math.NaN()}
+	}
+	e.RMSE = math.Sqrt(ss / float64(e.N))
+	e.MAE /= float64(e.N)
+	return e
+}
