@@ -268,7 +268,7 @@ func TestBatched(t *testing.T) {
 	_, err := Solve(p, m.mu, Settings{JMax: 2})
 	require.NoError(t, err)
 	assert.Less(t, c.Calls(), int64(200), "potential calls")
-	t.Logf("%d single-point and %d batched calls", c.Derivs.Load(), c.Batches.Load())
+	t.Logf("%d single-point and %d batched calls", c.Singles.Load(), c.Batches.Load())
 }
 
 // TestBadInput checks that every invalid request is refused with the right
