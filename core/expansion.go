@@ -26,7 +26,11 @@ const SeriesOrder = 24
 //	|R_M(x)| ≤ c₂x²·q^{M−1}/(1 − q),
 //
 // and the rounding of the sum by Horner's scheme is bounded by
-// 4ε·Σ|c_k x^k| (the c_k themselves carrying a few ulp). The direct
+// 4ε·Σ|c_k x^k| (the c_k themselves carrying a few ulp). The coefficients
+// are those at re as located, which is uncertain by δ = Well.ReError (the
+// rounding of V′ there): c_k moves by (k+1)c_{k+1}δ, which adds
+// δ·Σ(k+1)|c_{k+1}x^k| to the bound (the shift of c₁, 2c₂δ, is not
+// counted: it moves the origin of x, not the energy of a given E). The direct
 // difference is charged 4ε·(|V(re)| + |V(re + x)|): each value of V within
 // 2 ulp. Energy uses whichever of the two has the smaller bound; this is
 // the switch point, and its bound is returned with the value. The bound of
@@ -40,6 +44,7 @@ type Expansion struct {
 	c    []float64 // c_0, …, c_M with c_1 = 0
 	v0   float64   // |V(re)|
 	beta float64   // the decay rate β of the coefficients, 1/Å
+	dre  float64   // the uncertainty of re, Å (Well.ReError)
 }
 
 // NewExpansion returns the expansion of the well w: its coefficients come
@@ -65,7 +70,7 @@ func NewExpansion(w Well) Expansion {
 			beta = math.Max(beta, math.Pow(math.Abs(c[k])/c[2], 1/float64(k-2)))
 		}
 	}
-	return Expansion{c: c, v0: math.Abs(w.Energy), beta: 1.25 * beta}
+	return Expansion{c: c, v0: math.Abs(w.Energy), beta: 1.25 * beta, dre: w.ReError}
 }
 
 // Order returns M, the highest order of the series (0 for the zero value).
@@ -86,23 +91,27 @@ func (e Expansion) Sum(x float64, from int) (s, bound float64) {
 		return 0, math.Inf(1)
 	}
 	from = max(from, 2)
-	abs := 0.0
+	abs, shift := 0.0, 0.0
 	for k := m; k >= from; k-- {
 		s = s*x + e.c[k]
 		abs = abs*math.Abs(x) + math.Abs(e.c[k])
+		if k < m {
+			shift = shift*math.Abs(x) + float64(k+1)*math.Abs(e.c[k+1])
+		}
 	}
-	xf := math.Pow(x, float64(from))
+	xf := ipow(x, from)
 	s *= xf
 	abs *= math.Abs(xf)
+	shift *= math.Abs(xf) * e.dre
 	q := e.beta * math.Abs(x)
 	tail := 0.0
 	if e.beta > 0 {
 		if !(q < 0.5) {
 			return s, math.Inf(1)
 		}
-		tail = e.c[2] * x * x * math.Pow(q, float64(m-1)) / (1 - q)
+		tail = e.c[2] * x * x * ipow(q, m-1) / (1 - q)
 	}
-	return s, tail + 4*eps*abs
+	return s, tail + 4*eps*abs + shift
 }
 
 // DirectBound is the bound 4ε·(|V(re)| + |v|) on the rounding error of
@@ -167,6 +176,50 @@ func (e Expansion) Displacement(E, dir float64) (x float64, ok bool) {
 		}
 	}
 	return 0, false
+}
+
+// Shift stores in dst[j], j = 0, …, len(dst)−1, the normalized Taylor
+// coefficients about the displacement x0 of the series S(x) = Σ_{k≥2} c_k x^k
+// (the energy above the minimum): dst[j] = S⁽ʲ⁾(x0)/j!, by repeated
+// synthetic division (Horner's scheme), with no cancellation against
+// V(re). Orders beyond M are 0.
+func (e Expansion) Shift(x0 float64, dst []float64) {
+	clear(dst)
+	m := len(e.c) - 1
+	if m < 2 {
+		return
+	}
+	var buf [SeriesOrder + 1]float64
+	a := buf[:0]
+	if m > SeriesOrder {
+		a = make([]float64, 0, m+1)
+	}
+	a = append(a, e.c...)
+	a[0] = 0
+	for j := 0; j < len(dst) && j <= m; j++ {
+		for k := m - 1; k >= j; k-- {
+			a[k] += x0 * a[k+1]
+		}
+		dst[j] = a[j]
+	}
+}
+
+// Value returns Σ_{k≥2} c_k x^k alone, without its bound (see Sum).
+func (e Expansion) Value(x float64) float64 {
+	f, _ := e.poly(x)
+	return f
+}
+
+// ipow returns x^n for n ≥ 0 by repeated squaring.
+func ipow(x float64, n int) float64 {
+	r := 1.0
+	for ; n > 0; n >>= 1 {
+		if n&1 == 1 {
+			r *= x
+		}
+		x *= x
+	}
+	return r
 }
 
 // poly returns Σ_{k≥2} c_k x^k and its derivative.

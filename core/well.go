@@ -32,6 +32,12 @@ type Well struct {
 	// comes from the same evaluation as Taylor, which it extends. It may
 	// be nil in a Well built by hand: Expansion then uses Taylor.
 	Series []float64
+	// ReError is the uncertainty of Re in Å set by the rounding of V′:
+	// the largest deviation of V′ from a straight line at 16 points
+	// within 2¹¹ ulp of Re, divided by V″(Re), plus an ulp of Re. A
+	// Taylor coefficient at Re is uncertain by about (k+1)|c_{k+1}|·ReError
+	// (see Expansion).
+	ReError float64
 	// K is the force constant V″(Re) in eV/Å² (Hooke's law k).
 	K float64
 	// Inflection is the stretch-side inflection point in Å, where V″
@@ -77,6 +83,9 @@ func AnalyzeWell(p Potential, s WellSettings) (Well, error) {
 	w := Well{Re: re, Taylor: series[: order+1 : order+1], Series: series}
 	w.Energy = w.Taylor[0]
 	w.K = 2 * w.Taylor[2] // V″(re) = 2c₂
+	if w.ReError, err = reError(p, re, w.K); err != nil {
+		return Well{}, err
+	}
 	d := p.Domain()
 	w.Depth = math.Inf(1)
 	if d.Bounded() {
@@ -261,4 +270,43 @@ func inflection(p Potential, re float64) (r, force float64, err error) {
 		prev = rs[i]
 	}
 	return math.NaN(), math.NaN(), nil
+}
+
+// reError estimates the uncertainty of the minimum re from the rounding of
+// V′ (see Well.ReError), with one batched call.
+func reError(p Potential, re, k float64) (float64, error) {
+	const n = 16
+	var rs, xs, v [n]float64
+	var c [2 * n]float64
+	step := 128 * ulp(re)
+	for j := range n {
+		x := float64(j-n/2) * step
+		if j >= n/2 {
+			x += step
+		}
+		rs[j] = re + x
+		xs[j] = rs[j] - re
+	}
+	if err := p.Taylor(1, rs[:], c[:]); err != nil {
+		return 0, fmt.Errorf("rounding of V′ at the minimum: %w", err)
+	}
+	for j := range n {
+		v[j] = c[2*j+1] // V′ = c₁
+	}
+	// Least-squares line through (x, V′).
+	var sx, sy, sxx, sxy float64
+	for j := range n {
+		sx += xs[j]
+		sy += v[j]
+		sxx += xs[j] * xs[j]
+		sxy += xs[j] * v[j]
+	}
+	den := n*sxx - sx*sx
+	b := (n*sxy - sx*sy) / den
+	a := (sy - b*sx) / n
+	dev := 0.0
+	for j := range n {
+		dev = math.Max(dev, math.Abs(v[j]-a-b*xs[j]))
+	}
+	return dev/k + ulp(re), nil
 }

@@ -75,11 +75,20 @@ func parseSum(s string) ([]byte, error) {
 // file (or symbolic link to one) whose name starts with Prefix, directory
 // by directory in list order and by name within a directory. Empty entries
 // and missing directories are skipped; an unreadable directory is an error.
+//
+// Only directories nobody else can write to are trusted: a relative entry
+// (such as "." — it would depend on where pairwell is run), and a
+// directory or plugin that others may write to (see Untrusted), are errors
+// wrapping ErrUntrusted. Symbolic links are followed, and the checks apply
+// to what they lead to.
 func Discover(list string) ([]string, error) {
 	var found []string
 	for _, dir := range filepath.SplitList(list) {
 		if dir == "" {
 			continue
+		}
+		if !filepath.IsAbs(dir) {
+			return nil, fmt.Errorf("plugin directory %q: %w: it is relative, so what it holds depends on where pairwell runs; give an absolute path", dir, ErrUntrusted)
 		}
 		entries, err := os.ReadDir(dir)
 		if errors.Is(err, fs.ErrNotExist) {
@@ -88,14 +97,21 @@ func Discover(list string) ([]string, error) {
 		if err != nil {
 			return nil, fmt.Errorf("plugin directory %s: %w", dir, err)
 		}
+		if err := untrustedDir(dir); err != nil {
+			return nil, fmt.Errorf("plugin directory %s: %w", dir, err)
+		}
 		var names []string
 		for _, e := range entries {
 			if !strings.HasPrefix(e.Name(), Prefix) {
 				continue
 			}
-			st, err := os.Stat(filepath.Join(dir, e.Name()))
+			path := filepath.Join(dir, e.Name())
+			st, err := os.Stat(path)
 			if err != nil || !st.Mode().IsRegular() || st.Mode().Perm()&0o111 == 0 {
 				continue
+			}
+			if err := Untrusted(path); err != nil {
+				return nil, err
 			}
 			names = append(names, e.Name())
 		}
@@ -105,6 +121,56 @@ func Discover(list string) ([]string, error) {
 		}
 	}
 	return found, nil
+}
+
+// ErrUntrusted means a plugin, or a directory it is found in, could be
+// replaced by other users.
+var ErrUntrusted = errors.New("not trusted")
+
+// Untrusted returns an error wrapping ErrUntrusted if other users could
+// replace the plugin executable at path: if the file (symbolic links
+// resolved) is writable by others, or the directory of path or of the file
+// it leads to, or any directory above them, is writable by others — unless that directory has the sticky bit (as /tmp
+// does) and is not the plugin's own directory. It returns nil for a file
+// it cannot inspect (Load reports those).
+func Untrusted(path string) error {
+	real, err := filepath.EvalSymlinks(path)
+	if err != nil {
+		return nil
+	}
+	st, err := os.Stat(real)
+	if err != nil {
+		return nil
+	}
+	if st.Mode().Perm()&0o002 != 0 {
+		return fmt.Errorf("plugin %s: %w: the file is writable by everyone (mode %v)", path, ErrUntrusted, st.Mode().Perm())
+	}
+	// The directory of the name given (a link there can be replaced) and
+	// that of the file it leads to.
+	for _, d := range []string{filepath.Dir(path), filepath.Dir(real)} {
+		if err := untrustedDir(d); err != nil {
+			return fmt.Errorf("plugin %s: %w", path, err)
+		}
+	}
+	return nil
+}
+
+// untrustedDir checks dir (symbolic links resolved) and the directories
+// above it.
+func untrustedDir(dir string) error {
+	real, err := filepath.EvalSymlinks(dir)
+	if err != nil {
+		return nil
+	}
+	for d, own := real, true; ; d, own = filepath.Dir(d), false {
+		st, err := os.Stat(d)
+		if err == nil && st.Mode().Perm()&0o002 != 0 && (own || st.Mode()&fs.ModeSticky == 0) {
+			return fmt.Errorf("%w: %s is writable by everyone (mode %v), so anyone could put a plugin there", ErrUntrusted, d, st.Mode()&(fs.ModePerm|fs.ModeSticky))
+		}
+		if parent := filepath.Dir(d); parent == d {
+			return nil
+		}
+	}
 }
 
 // MaxLockSize is the largest lock file ReadLock reads, in bytes.

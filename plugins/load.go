@@ -13,8 +13,10 @@ import (
 	"os/exec"
 	"path/filepath"
 	"regexp"
+	"strconv"
 	"strings"
 	"sync"
+	"syscall"
 	"time"
 
 	hclog "github.com/hashicorp/go-hclog"
@@ -72,8 +74,9 @@ type Options struct {
 
 	// SHA256, when not nil, pins the executable: Load refuses, before
 	// running it, a file whose SHA-256 digest differs. It must be 32
-	// bytes. (The file is hashed just before it is started; whoever can
-	// replace it in between can also change a pin.)
+	// bytes. On Linux the file is copied while it is hashed into a
+	// sealed anonymous file, and that copy runs, so that no swap of the
+	// file after the check can run other bytes.
 	SHA256 []byte
 
 	// Stderr, when not nil, receives the plugin's standard error as it
@@ -101,6 +104,7 @@ type Plugin struct {
 	mu   sync.Mutex
 	dead error    // why the plugin is no longer usable; nil while it runs
 	proc *process // the process, once go-plugin asked for it
+	dir  string   // the private directory of the plugin's sockets
 
 	killMu sync.Mutex // serialises kill
 }
@@ -114,16 +118,26 @@ func Load(ctx context.Context, path string, opts Options) (*Plugin, error) {
 	if err != nil {
 		return nil, fmt.Errorf("plugin %s: %w", path, err)
 	}
-	if err := checkFile(abs, opts.SHA256); err != nil {
+	exe, err := checkFile(abs, opts.SHA256)
+	if err != nil {
 		return nil, err
 	}
 	timeout := opts.Timeout
 	if timeout <= 0 {
 		timeout = DefaultTimeout
 	}
-	p := &Plugin{path: abs, timeout: timeout, stderr: &tail{fwd: opts.Stderr}}
+	sweepSocketDirs()
+	dir, err := os.MkdirTemp("", socketDirPrefix())
+	if err != nil {
+		if exe != nil {
+			exe.Close()
+		}
+		return nil, fmt.Errorf("plugin %s: %w", abs, err)
+	}
+	p := &Plugin{path: abs, timeout: timeout, stderr: &tail{fwd: opts.Stderr}, dir: dir}
 	p.ctx, p.cancel = context.WithCancel(context.Background())
 	p.client = plugin.NewClient(&plugin.ClientConfig{
+		UnixSocketConfig: &plugin.UnixSocketConfig{TempDir: dir},
 		HandshakeConfig:  wire.Handshake(wire.ProtocolVersion),
 		Plugins:          plugin.PluginSet{wire.PluginName: &wire.GRPCPlugin{}},
 		AllowedProtocols: []plugin.Protocol{plugin.ProtocolGRPC},
@@ -133,7 +147,8 @@ func Load(ctx context.Context, path string, opts Options) (*Plugin, error) {
 			if p.dead != nil {
 				return nil, p.dead
 			}
-			proc, err := newProcess(abs, cmd)
+			proc, err := newProcess(abs, exe, cmd)
+			exe = nil // the process owns it now
 			if err != nil {
 				return nil, err
 			}
@@ -159,36 +174,67 @@ func Load(ctx context.Context, path string, opts Options) (*Plugin, error) {
 
 	if err := p.start(ctx); err != nil {
 		p.kill(err)
+		if exe != nil {
+			exe.Close()
+		}
 		return nil, err
 	}
 	return p, nil
 }
 
 // checkFile checks that path is an executable regular file with the pinned
-// digest, if any.
-func checkFile(path string, pin []byte) error {
-	st, err := os.Stat(path)
+// digest, if any. A pinned file is opened once, copied while it is hashed
+// into a sealed anonymous file, and that copy is what runs (returned, on
+// Linux): a swap or an overwrite of path after the check cannot run
+// unpinned bytes. Elsewhere the file is hashed through the same open
+// descriptor and then run by path (nil).
+func checkFile(path string, pin []byte) (*os.File, error) {
+	if pin != nil && len(pin) != sha256.Size {
+		return nil, fmt.Errorf("plugin %s: %w: the pin has %d bytes, a SHA-256 digest has %d", path, ErrChecksum, len(pin), sha256.Size)
+	}
+	f, err := os.Open(path)
 	if err != nil {
-		return fmt.Errorf("plugin %s: %w", path, err)
+		return nil, fmt.Errorf("plugin %s: %w", path, err)
+	}
+	defer f.Close()
+	st, err := f.Stat()
+	if err != nil {
+		return nil, fmt.Errorf("plugin %s: %w", path, err)
 	}
 	if !st.Mode().IsRegular() || st.Mode().Perm()&0o111 == 0 {
-		return fmt.Errorf("plugin %s: %w (mode %v)", path, ErrNotExecutable, st.Mode())
+		return nil, fmt.Errorf("plugin %s: %w (mode %v)", path, ErrNotExecutable, st.Mode())
 	}
 	if pin == nil {
-		return nil
+		return nil, nil
 	}
-	if len(pin) != sha256.Size {
-		return fmt.Errorf("plugin %s: %w: the pin has %d bytes, a SHA-256 digest has %d", path, ErrChecksum, len(pin), sha256.Size)
+	h := sha256.New()
+	var dst io.Writer = h
+	cp, err := sealedCopy(filepath.Base(path))
+	if err == nil {
+		dst = io.MultiWriter(h, cp)
 	}
-	sum, err := FileSHA256(path)
-	if err != nil {
-		return fmt.Errorf("plugin %s: %w", path, err)
+	if _, err := io.Copy(dst, f); err != nil {
+		if cp != nil {
+			cp.Close()
+		}
+		return nil, fmt.Errorf("plugin %s: %w", path, err)
 	}
+	sum := h.Sum(nil)
 	if !bytes.Equal(sum, pin) {
-		return fmt.Errorf("plugin %s: %w: its SHA-256 is %s, pinned %s; refusing to run it",
+		if cp != nil {
+			cp.Close()
+		}
+		return nil, fmt.Errorf("plugin %s: %w: its SHA-256 is %s, pinned %s; refusing to run it",
 			path, ErrChecksum, hex.EncodeToString(sum), hex.EncodeToString(pin))
 	}
-	return nil
+	if cp == nil {
+		return nil, nil
+	}
+	if err := seal(cp); err != nil {
+		cp.Close()
+		return nil, fmt.Errorf("plugin %s: sealing the copy to run: %w", path, err)
+	}
+	return cp, nil
 }
 
 // FileSHA256 returns the SHA-256 digest of the file at path.
@@ -341,7 +387,55 @@ func (p *Plugin) kill(reason error) {
 	if proc != nil {
 		_ = proc.Kill(context.Background())
 	}
-	p.client.Kill()
+	// go-plugin's cleanup waits for the process and its pipes, which the
+	// process bounds (pipeGrace); the deadline bounds the rest.
+	done := make(chan struct{})
+	go func() {
+		defer close(done)
+		p.client.Kill()
+	}()
+	t := time.NewTimer(closeDeadline)
+	defer t.Stop()
+	select {
+	case <-done:
+	case <-t.C:
+	}
+	_ = os.RemoveAll(p.dir)
+}
+
+// closeDeadline bounds the cleanup after a plugin's process is killed.
+const closeDeadline = 2 * time.Second
+
+// socketDirPrefix names the private socket directories of this process's
+// plugins: "pairwell-sockets-PID-".
+func socketDirPrefix() string { return fmt.Sprintf("pairwell-sockets-%d-", os.Getpid()) }
+
+// sweepSocketDirs removes the socket directories left in the temporary
+// directory by pairwell processes that no longer run (killed with
+// SIGKILL, which nothing can clean up after).
+func sweepSocketDirs() {
+	tmp := os.TempDir()
+	matches, _ := filepath.Glob(filepath.Join(tmp, "pairwell-sockets-*-*"))
+	for _, m := range matches {
+		rest := strings.TrimPrefix(filepath.Base(m), "pairwell-sockets-")
+		pidText, _, ok := strings.Cut(rest, "-")
+		pid, err := strconv.Atoi(pidText)
+		if !ok || err != nil || pid <= 0 || pid == os.Getpid() {
+			continue
+		}
+		if st, err := os.Lstat(m); err != nil || !st.IsDir() || !ownedByMe(st) {
+			continue
+		}
+		if err := syscall.Kill(pid, 0); errors.Is(err, syscall.ESRCH) {
+			_ = os.RemoveAll(m)
+		}
+	}
+}
+
+// ownedByMe reports whether the file belongs to this process's user.
+func ownedByMe(st os.FileInfo) bool {
+	s, ok := st.Sys().(*syscall.Stat_t)
+	return ok && int(s.Uid) == os.Geteuid()
 }
 
 // deadErr returns why the plugin stopped, nil while it runs.

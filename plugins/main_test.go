@@ -15,6 +15,10 @@ var bin struct {
 	test         string // testdata/testplugin: plugin-morse and the faulty models
 	oldproto     string // testplugin under a name that makes it speak protocol 1
 	grpconly     string // testplugin without the direct evaluation channel
+	holdpipes    string // testplugin with a child holding its pipes
+	setsid       string // testplugin with such a child in its own session
+	nosdk        string // testdata/nosdk: not built with the SDK, never answers
+	dir          string // where they all are
 }
 
 // transports are the test plugin with and without the direct evaluation
@@ -34,7 +38,7 @@ func testMain(m *testing.M) int {
 		return 1
 	}
 	defer os.RemoveAll(dir)
-	if err := plugintest.Build(dir, append(plugintest.Examples, plugintest.TestPlugin)...); err != nil {
+	if err := plugintest.Build(dir, append(plugintest.Examples, plugintest.TestPlugin, plugintest.NoSDK)...); err != nil {
 		fmt.Fprintln(os.Stderr, err)
 		return 1
 	}
@@ -43,7 +47,11 @@ func testMain(m *testing.M) int {
 	bin.test = filepath.Join(dir, "testplugin")
 	bin.oldproto = filepath.Join(dir, "oldproto")
 	bin.grpconly = filepath.Join(dir, "grpconly")
-	for _, link := range []string{bin.oldproto, bin.grpconly} {
+	bin.holdpipes = filepath.Join(dir, "holdpipes")
+	bin.setsid = filepath.Join(dir, "setsid")
+	bin.nosdk = filepath.Join(dir, "nosdk")
+	bin.dir = dir
+	for _, link := range []string{bin.oldproto, bin.grpconly, bin.holdpipes, bin.setsid} {
 		if err := os.Symlink(bin.test, link); err != nil {
 			fmt.Fprintln(os.Stderr, err)
 			return 1

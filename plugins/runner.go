@@ -17,55 +17,85 @@ import (
 
 // process runs a plugin executable for go-plugin and lets the host kill it
 // at once and learn how it ended. It implements runner.Runner.
+//
+// The plugin runs in its own process group and, on Linux, dies with
+// pairwell (PR_SET_PDEATHSIG). Killing it kills its whole process tree,
+// also children that left the group (setsid), and pairwell never waits on
+// its pipes longer than pipeGrace after it ended: a child that inherited
+// the pipes and keeps them open cannot hold pairwell.
 type process struct {
 	cmd    *exec.Cmd
 	path   string
-	stdout io.ReadCloser
-	stderr io.ReadCloser
+	stdout *os.File // read ends of the plugin's standard output and error
+	stderr *os.File
+	outW   *os.File // their write ends, closed once the process started
+	errW   *os.File
+	exe    *os.File // the sealed copy executed, if pinned (see pinnedCopy)
 
 	mu     sync.Mutex
 	pid    int  // set by Start
 	killed bool // Kill was called: Start must not start
 
-	exited chan struct{} // closed when Wait has returned
-	state  string        // how the process ended, set before exited closes
+	exited  chan struct{} // closed when the process has ended
+	state   string        // how the process ended, set before exited closes
+	waitErr error
 }
 
 var _ runner.Runner = (*process)(nil)
 
+// pipeGrace is how long the plugin's pipes are read after its process
+// ended (for its last words on stderr) before they are closed, whoever
+// else holds them.
+const pipeGrace = 200 * time.Millisecond
+
 // newProcess prepares path with the environment go-plugin built in cmd
 // (the handshake cookie and protocol versions). The plugin's standard
-// input is /dev/null: it has no business with pairwell's.
-func newProcess(path string, cmd *exec.Cmd) (*process, error) {
+// input is /dev/null: it has no business with pairwell's. If exe is not
+// nil it is the file executed (a sealed copy of path, see pinnedCopy);
+// the plugin still sees path as its argv[0].
+func newProcess(path string, exe *os.File, cmd *exec.Cmd) (*process, error) {
 	c := exec.Command(path)
 	c.Env = cmd.Env
-	stdout, err := c.StdoutPipe()
-	if err != nil {
+	c.SysProcAttr = sysProcAttr()
+	if exe != nil {
+		c.Path = execPath(exe, c)
+	}
+	p := &process{cmd: c, path: path, exe: exe, exited: make(chan struct{})}
+	var err error
+	if p.stdout, p.outW, err = os.Pipe(); err != nil {
 		return nil, err
 	}
-	stderr, err := c.StderrPipe()
-	if err != nil {
+	if p.stderr, p.errW, err = os.Pipe(); err != nil {
+		p.stdout.Close()
+		p.outW.Close()
 		return nil, err
 	}
-	return &process{cmd: c, path: path, stdout: stdout, stderr: stderr, exited: make(chan struct{})}, nil
+	c.Stdout, c.Stderr = p.outW, p.errW
+	return p, nil
 }
 
 func (p *process) Start(context.Context) error {
 	p.mu.Lock()
 	defer p.mu.Unlock()
 	if p.killed {
+		p.closePipes()
 		return errors.New("stopped before it started")
 	}
-	if err := p.cmd.Start(); err != nil {
+	err := p.cmd.Start()
+	p.outW.Close()
+	p.errW.Close()
+	if err != nil {
+		p.closePipes()
 		return err
 	}
 	p.pid = p.cmd.Process.Pid
+	go p.reap()
 	return nil
 }
 
-// Wait waits for the process to end and records how it did. go-plugin
-// calls it once, from its own goroutine.
-func (p *process) Wait(context.Context) error {
+// reap waits for the process to end, records how, and closes the pipes
+// pipeGrace later.
+func (p *process) reap() {
 	err := p.cmd.Wait()
 	st := "exited"
 	if ps := p.cmd.ProcessState; ps != nil {
@@ -73,13 +103,30 @@ func (p *process) Wait(context.Context) error {
 	} else if err != nil {
 		st = err.Error()
 	}
-	p.state = st
+	p.state, p.waitErr = st, err
 	close(p.exited)
-	return err
+	time.Sleep(pipeGrace)
+	p.closePipes()
 }
 
-// Kill sends SIGKILL (on Windows, TerminateProcess). It may be called any
-// number of times, also after the process ended.
+func (p *process) closePipes() {
+	p.stdout.Close()
+	p.stderr.Close()
+	if p.exe != nil {
+		p.exe.Close()
+	}
+}
+
+// Wait waits for the process to end and returns how it did. go-plugin
+// calls it once, from its own goroutine, after the pipes are closed.
+func (p *process) Wait(context.Context) error {
+	<-p.exited
+	return p.waitErr
+}
+
+// Kill kills the plugin's process tree with SIGKILL (on Windows,
+// TerminateProcess on the process). It may be called any number of times,
+// also after the process ended.
 func (p *process) Kill(context.Context) error {
 	p.mu.Lock()
 	defer p.mu.Unlock()
@@ -87,6 +134,14 @@ func (p *process) Kill(context.Context) error {
 	if p.pid == 0 {
 		return nil
 	}
+	select {
+	case <-p.exited:
+		// Its process group may live on.
+		killGroup(p.pid)
+		return nil
+	default:
+	}
+	killTree(p.pid)
 	if err := p.cmd.Process.Kill(); err != nil && !errors.Is(err, os.ErrProcessDone) {
 		return err
 	}

@@ -2,12 +2,16 @@ package main
 
 import (
 	"encoding/json"
+	"io"
 	"os"
+	"os/exec"
 	"path/filepath"
+	"runtime"
 	"strconv"
 	"strings"
 	"syscall"
 	"testing"
+	"time"
 
 	"github.com/stretchr/testify/assert"
 	"github.com/stretchr/testify/require"
@@ -154,6 +158,16 @@ func TestConflictingPins(t *testing.T) {
 	code, _, errOut := runCLI(t, "--plugin", pluginBin.rydberg+"@sha256:"+good, "--plugin", pluginBin.rydberg+"@sha256:"+other, "models")
 	assert.Equal(t, exitUsage, code, errOut)
 	assert.Contains(t, errOut, "pinned twice")
+	// A --plugin pin that differs from the lock file's.
+	lock := filepath.Join(t.TempDir(), "plugins.lock")
+	require.NoError(t, os.WriteFile(lock, []byte(good+"  "+pluginBin.rydberg+"\n"), 0o644))
+	t.Setenv(envPluginLock, lock)
+	code, _, errOut = runCLI(t, "--plugin", pluginBin.rydberg+"@sha256:"+other, "models")
+	assert.Equal(t, exitUsage, code, errOut)
+	assert.Contains(t, errOut, "the lock file "+lock+" pins")
+	code, _, errOut = runCLI(t, "--plugin", pluginBin.rydberg+"@sha256:"+good, "models")
+	assert.Equal(t, 0, code, errOut)
+	t.Setenv(envPluginLock, "")
 	// The same pin twice is fine.
 	code, _, errOut = runCLI(t, "--plugin", pluginBin.rydberg+"@sha256:"+good, "--plugin", pluginBin.rydberg+"@sha256:"+good, "models")
 	assert.Equal(t, 0, code, errOut)
@@ -229,4 +243,238 @@ ESC\u001b[2J CR\u000d BEL\u0007 DEL\u007f C1\u009b[1m RLO\u202e bad\xff é∞
 	assert.Equal(t, exitUsage, code)
 	assert.Less(t, len(errOut), 3000)
 	assert.Contains(t, errOut, "more characters)")
+}
+
+// TestSecondSignalEndsAtOnce: the clean-up after a signal is bounded by
+// its deadline, and a second signal ends it at once.
+func TestSecondSignalEndsAtOnce(t *testing.T) {
+	e := newEnv(io.Discard, io.Discard)
+	block := make(chan struct{})
+	defer close(block)
+	e.onSignal(func() { <-block }) // a clean-up that never ends
+	sigs := make(chan os.Signal, 2)
+	ended := make(chan os.Signal, 1)
+	stop := e.watchSignals(sigs, time.Hour, func(s os.Signal) { ended <- s })
+	sigs <- syscall.SIGINT
+	select {
+	case <-ended:
+		t.Fatal("ended before the clean-up or a second signal")
+	case <-time.After(50 * time.Millisecond):
+	}
+	sigs <- syscall.SIGINT
+	select {
+	case s := <-ended:
+		assert.Equal(t, syscall.SIGINT, s, "dies of the first signal")
+	case <-time.After(2 * time.Second):
+		t.Fatal("a second signal did not end the clean-up")
+	}
+	stop()
+
+	// The deadline alone ends it too.
+	e = newEnv(io.Discard, io.Discard)
+	e.onSignal(func() { <-block })
+	sigs = make(chan os.Signal, 1)
+	stop = e.watchSignals(sigs, 20*time.Millisecond, func(s os.Signal) { ended <- s })
+	sigs <- syscall.SIGTERM
+	select {
+	case s := <-ended:
+		assert.Equal(t, syscall.SIGTERM, s)
+	case <-time.After(2 * time.Second):
+		t.Fatal("the deadline did not end the clean-up")
+	}
+	stop()
+}
+
+// startPairwell starts the pairwell binary with args and returns it, with
+// a channel that receives its exit.
+func startPairwell(t *testing.T, env []string, args ...string) (*exec.Cmd, <-chan error, *lockedBuffer) {
+	t.Helper()
+	cmd := exec.Command(pluginBin.pairwell, args...)
+	cmd.Env = append(os.Environ(), env...)
+	var stderr lockedBuffer
+	cmd.Stderr = &stderr
+	require.NoError(t, cmd.Start())
+	done := make(chan error, 1)
+	go func() { done <- cmd.Wait() }()
+	t.Cleanup(func() { cmd.Process.Kill() })
+	return cmd, done, &stderr
+}
+
+// waitExit waits up to d for pairwell to end.
+func waitExit(t *testing.T, done <-chan error, d time.Duration) error {
+	t.Helper()
+	select {
+	case err := <-done:
+		return err
+	case <-time.After(d):
+		t.Fatalf("pairwell did not exit within %v", d)
+		return nil
+	}
+}
+
+// waitProcs waits until at least n plugin processes run.
+func waitProcs(t *testing.T, n int, stderr *lockedBuffer) {
+	t.Helper()
+	deadline := time.Now().Add(10 * time.Second)
+	for len(pluginProcs(t)) < n && time.Now().Before(deadline) {
+		time.Sleep(2 * time.Millisecond)
+	}
+	require.GreaterOrEqual(t, len(pluginProcs(t)), n, "plugins did not start; stderr: %s", stderr.String())
+}
+
+// requireNoPluginProcs fails unless every plugin process is gone within
+// two seconds.
+func requireNoPluginProcs(t *testing.T) {
+	t.Helper()
+	deadline := time.Now().Add(2 * time.Second)
+	for len(pluginProcs(t)) > 0 && time.Now().Before(deadline) {
+		time.Sleep(10 * time.Millisecond)
+	}
+	require.Empty(t, pluginProcs(t), "plugin processes left behind")
+}
+
+// TestNothingSurvivesPairwell ends pairwell each way it can end, with
+// plugins whose children hold their pipes (also from another session) and
+// with one not built with the SDK, and checks that no plugin process
+// survives and that pairwell does not hang.
+func TestNothingSurvivesPairwell(t *testing.T) {
+	if runtime.GOOS != "linux" {
+		t.Skip("reads /proc")
+	}
+	requirePlugins(t)
+	morse := "plugin-morse:De=4.6,a=1.87,re=1.27"
+	for _, p := range []string{pluginBin.holdpipes, pluginBin.setsid} {
+		t.Run("success "+filepath.Base(p), func(t *testing.T) {
+			// Used to print its result and never exit.
+			_, done, stderr := startPairwell(t, nil, "--plugin", p, "inspect", morse)
+			require.NoError(t, waitExit(t, done, 10*time.Second), stderr.String())
+			requireNoPluginProcs(t)
+		})
+	}
+	t.Run("bad input", func(t *testing.T) {
+		_, done, _ := startPairwell(t, nil, "--plugin", pluginBin.setsid, "inspect", "plugin-morse:De=-1,a=1,re=1")
+		var exit *exec.ExitError
+		require.ErrorAs(t, waitExit(t, done, 10*time.Second), &exit)
+		assert.Equal(t, exitUsage, exit.ExitCode())
+		requireNoPluginProcs(t)
+	})
+	t.Run("start timeout of a plugin not built with the SDK", func(t *testing.T) {
+		_, done, _ := startPairwell(t, nil, "--plugin", pluginBin.nosdk, "--plugin-timeout", "300ms", "models")
+		var exit *exec.ExitError
+		require.ErrorAs(t, waitExit(t, done, 10*time.Second), &exit)
+		assert.Equal(t, exitFailure, exit.ExitCode())
+		requireNoPluginProcs(t)
+	})
+	for _, sig := range []syscall.Signal{syscall.SIGINT, syscall.SIGTERM, syscall.SIGHUP} {
+		t.Run(sig.String()+" in a hanging call", func(t *testing.T) {
+			cmd, done, stderr := startPairwell(t, nil, "--plugin", pluginBin.holdpipes, "--plugin-timeout", "1m", "inspect", "hanging-morse:De=1,a=1,re=1")
+			waitProcs(t, 2, stderr)
+			time.Sleep(100 * time.Millisecond) // into the call
+			require.NoError(t, cmd.Process.Signal(sig))
+			err := waitExit(t, done, 5*time.Second)
+			var exit *exec.ExitError
+			require.ErrorAs(t, err, &exit)
+			ws := exit.Sys().(syscall.WaitStatus)
+			assert.True(t, ws.Signaled() && ws.Signal() == sig, "dies of %v: %v", sig, err)
+			requireNoPluginProcs(t)
+		})
+	}
+	t.Run("SIGINT while a plugin not built with the SDK starts", func(t *testing.T) {
+		cmd, done, stderr := startPairwell(t, nil, "--plugin", pluginBin.nosdk, "--plugin-timeout", "1m", "models")
+		waitProcs(t, 2, stderr)
+		require.NoError(t, cmd.Process.Signal(os.Interrupt))
+		waitExit(t, done, 5*time.Second)
+		requireNoPluginProcs(t)
+	})
+	t.Run("SIGKILL", func(t *testing.T) {
+		// Nothing can clean up after SIGKILL. The plugin dies with
+		// pairwell (PR_SET_PDEATHSIG), also one not built with the SDK,
+		// and the next pairwell removes its socket directory.
+		tmp, err := os.MkdirTemp("/tmp", "pw")
+		require.NoError(t, err)
+		defer os.RemoveAll(tmp)
+		env := []string{"TMPDIR=" + tmp}
+		cmd, done, stderr := startPairwell(t, env, "--plugin", pluginBin.nosdk, "--plugin", pluginBin.test, "--plugin-timeout", "1m", "models")
+		waitProcs(t, 3, stderr) // nosdk, its child, testplugin
+		t.Cleanup(func() {
+			// nosdk's own child is beyond reach after SIGKILL (see README).
+			for range 100 {
+				procs := pluginProcs(t)
+				if len(procs) == 0 {
+					break
+				}
+				for _, pid := range procs {
+					syscall.Kill(pid, syscall.SIGKILL)
+				}
+				time.Sleep(10 * time.Millisecond)
+			}
+		})
+		var direct []int
+		for _, pid := range pluginProcs(t) {
+			if st, err := os.ReadFile(filepath.Join("/proc", strconv.Itoa(pid), "stat")); err == nil {
+				f := strings.Fields(string(st[strings.LastIndexByte(string(st), ')')+1:]))
+				if len(f) > 1 && f[1] == strconv.Itoa(cmd.Process.Pid) {
+					direct = append(direct, pid)
+				}
+			}
+		}
+		require.Len(t, direct, 2, "the two plugins")
+		require.NoError(t, cmd.Process.Kill())
+		waitExit(t, done, 5*time.Second)
+		deadline := time.Now().Add(2 * time.Second)
+		for _, pid := range direct {
+			for syscall.Kill(pid, 0) == nil && time.Now().Before(deadline) {
+				time.Sleep(5 * time.Millisecond)
+			}
+			assert.Error(t, syscall.Kill(pid, 0), "plugin %d survived SIGKILL of pairwell", pid)
+		}
+		left, _ := filepath.Glob(filepath.Join(tmp, "pairwell-sockets-*"))
+		require.NotEmpty(t, left, "the killed run's socket directories")
+		code, _, errOut := runCLIEnv(t, env, "--plugin", pluginBin.test, "models")
+		require.Equal(t, 0, code, errOut)
+		left, _ = filepath.Glob(filepath.Join(tmp, "pairwell-sockets-*"))
+		assert.Empty(t, left, "swept by the next run")
+	})
+}
+
+// runCLIEnv runs pairwell in process with extra environment variables.
+func runCLIEnv(t *testing.T, env []string, args ...string) (int, string, string) {
+	t.Helper()
+	for _, kv := range env {
+		k, v, _ := strings.Cut(kv, "=")
+		t.Setenv(k, v)
+	}
+	return runCLI(t, args...)
+}
+
+// TestPluginPathTrust: directories of PAIRWELL_PLUGIN_PATH that others can
+// write to, and relative ones, are refused (exit 2); a plugin named with
+// --plugin in such a place runs with a warning.
+func TestPluginPathTrust(t *testing.T) {
+	requirePlugins(t)
+	open := t.TempDir()
+	require.NoError(t, os.Chmod(open, 0o777))
+	plugin := filepath.Join(open, "pairwell-plugin-rydberg")
+	require.NoError(t, os.Symlink(pluginBin.rydberg, plugin))
+	safe := t.TempDir()
+	require.NoError(t, os.Symlink(open, filepath.Join(safe, "link")))
+	tests := []struct {
+		path, want string
+	}{
+		{".", "relative"},
+		{"plugins", "relative"},
+		{open, "writable by everyone"},
+		{filepath.Join(safe, "link"), "writable by everyone"}, // a link to it
+	}
+	for _, tt := range tests {
+		t.Setenv(envPluginPath, tt.path)
+		code, _, errOut := runCLI(t, "models")
+		assert.Equal(t, exitUsage, code, "%s: %s", tt.path, errOut)
+		assert.Contains(t, errOut, tt.want, tt.path)
+	}
+	t.Setenv(envPluginPath, "")
+	code, out, errOut := runCLI(t, "--plugin", plugin, "models")
+	assert.Equal(t, 0, code, errOut)
+	assert.Contains(t, errOut, "warning: plugin "+plugin)
+	assert.Contains(t, out, "rydberg")
 }

@@ -164,7 +164,8 @@ func (f *pluginFlags) load(e *env) error {
 }
 
 // resolve lists the plugins to load, each once (by absolute path), with
-// their pins: a pin given with --plugin wins over the lock file. fromPath[i]
+// their pins (from --plugin or the lock file; two different pins for one
+// path are an error). fromPath[i]
 // tells that refs[i] was found only through envPluginPath.
 func (f *pluginFlags) resolve(e *env) (refs []plugins.Ref, fromPath []bool, err error) {
 	var lock plugins.Lock
@@ -190,10 +191,13 @@ func (f *pluginFlags) resolve(e *env) (refs []plugins.Ref, fromPath []bool, err 
 			return usageErr(fmt.Errorf("plugin %s: %w", r.Path, err))
 		}
 		r.Path = abs
-		if r.SHA256 == nil && lock != nil {
-			if sum, ok := lock.Lookup(abs); ok {
+		if lock != nil {
+			if sum, ok := lock.Lookup(abs); ok && r.SHA256 == nil {
 				r.SHA256 = sum
-			} else if isPath {
+			} else if ok && !bytes.Equal(sum, r.SHA256) {
+				return usageErr(fmt.Errorf("plugin %s: %w: pinned to sha256:%x, the lock file %s pins sha256:%x; give one pin",
+					abs, plugins.ErrRef, r.SHA256, os.Getenv(envPluginLock), sum))
+			} else if !ok && r.SHA256 == nil && isPath {
 				return usageErr(fmt.Errorf("plugin %s (found through %s) is not listed in the lock file %s; add its \"sha256sum\" line to load it",
 					abs, envPluginPath, os.Getenv(envPluginLock)))
 			}
@@ -220,6 +224,11 @@ func (f *pluginFlags) resolve(e *env) (refs []plugins.Ref, fromPath []bool, err 
 		}
 		if err := add(r, false); err != nil {
 			return nil, nil, err
+		}
+		// A plugin named explicitly is the user's choice; say so if others
+		// could have replaced it.
+		if err := plugins.Untrusted(r.Path); err != nil {
+			fmt.Fprintf(e.stderr, "pairwell: warning: %s\n", oneLine(err.Error()))
 		}
 	}
 	found, err := plugins.Discover(os.Getenv(envPluginPath))
@@ -248,7 +257,7 @@ func withPluginFailures(err error, failed []error) error {
 // there, not executable or not the pinned one is bad input (exit 2), a
 // plugin that fails is a failure (exit 1).
 func pluginErr(err error) error {
-	for _, target := range []error{plugins.ErrChecksum, plugins.ErrNotExecutable, plugins.ErrRef, fs.ErrNotExist, fs.ErrPermission} {
+	for _, target := range []error{plugins.ErrChecksum, plugins.ErrNotExecutable, plugins.ErrRef, plugins.ErrUntrusted, fs.ErrNotExist, fs.ErrPermission} {
 		if errors.Is(err, target) {
 			return usageErr(err)
 		}

@@ -4,6 +4,7 @@ import (
 	"crypto/sha256"
 	"encoding/hex"
 	"encoding/json"
+	"github.com/pairwell/pairwell/plugins/plugintest"
 	"os"
 	"os/exec"
 	"path/filepath"
@@ -28,24 +29,15 @@ const (
 // in the test binaries' directory, other than pairwell itself.
 func pluginProcs(t *testing.T) []int {
 	t.Helper()
-	entries, err := os.ReadDir("/proc")
-	require.NoError(t, err)
 	var pids []int
-	for _, e := range entries {
-		pid, err := strconv.Atoi(e.Name())
-		if err != nil {
-			continue
-		}
-		exe, err := os.Readlink(filepath.Join("/proc", e.Name(), "exe"))
-		if err != nil || !strings.HasPrefix(exe, pluginBin.dir+string(filepath.Separator)) {
-			continue
-		}
-		if filepath.Base(strings.TrimSuffix(exe, " (deleted)")) == "pairwell" {
-			continue
-		}
-		if st, err := os.ReadFile(filepath.Join("/proc", e.Name(), "stat")); err == nil && strings.Contains(string(st), ") Z ") {
-			pids = append(pids, -pid) // a zombie: exited, not reaped
-			continue
+	for _, pid := range plugintest.Procs(pluginBin.dir) {
+		if pid > 0 {
+			if cl, err := os.ReadFile(filepath.Join("/proc", strconv.Itoa(pid), "cmdline")); err == nil {
+				arg0, _, _ := strings.Cut(string(cl), "\x00")
+				if filepath.Base(arg0) == "pairwell" {
+					continue
+				}
+			}
 		}
 		pids = append(pids, pid)
 	}

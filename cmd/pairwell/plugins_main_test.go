@@ -24,6 +24,9 @@ var pluginBin struct {
 	rydberg, mie string
 	test         string // plugin-morse and the faulty models
 	oldproto     string // the test plugin speaking protocol 1, the one before this
+	holdpipes    string // the test plugin with a child holding its pipes
+	setsid       string // the same child in its own session
+	nosdk        string // not built with the SDK: never answers, ignores SIGTERM
 	buildErr     error
 }
 
@@ -42,7 +45,7 @@ func testMain(m *testing.M) int {
 // buildTestBinaries builds into dir, in one go build, with the toolchain
 // that runs the tests.
 func buildTestBinaries(dir string) error {
-	pkgs := append([]string{plugintest.Module + "cmd/pairwell", plugintest.TestPlugin}, plugintest.Examples...)
+	pkgs := append([]string{plugintest.Module + "cmd/pairwell", plugintest.TestPlugin, plugintest.NoSDK}, plugintest.Examples...)
 	if err := plugintest.Build(dir, pkgs...); err != nil {
 		return err
 	}
@@ -51,7 +54,15 @@ func buildTestBinaries(dir string) error {
 	pluginBin.mie = filepath.Join(dir, "mie")
 	pluginBin.test = filepath.Join(dir, "testplugin")
 	pluginBin.oldproto = filepath.Join(dir, "oldproto")
-	return os.Symlink(pluginBin.test, pluginBin.oldproto)
+	pluginBin.holdpipes = filepath.Join(dir, "holdpipes")
+	pluginBin.setsid = filepath.Join(dir, "setsid")
+	pluginBin.nosdk = filepath.Join(dir, "nosdk")
+	for _, link := range []string{pluginBin.oldproto, pluginBin.holdpipes, pluginBin.setsid} {
+		if err := os.Symlink(pluginBin.test, link); err != nil {
+			return err
+		}
+	}
+	return nil
 }
 
 // requirePlugins skips nothing: it fails the test if the build failed.

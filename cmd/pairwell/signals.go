@@ -37,6 +37,16 @@ func (e *env) onSignal(f func()) {
 func (e *env) handleSignals() (stop func()) {
 	sigs := make(chan os.Signal, 2)
 	signal.Notify(sigs, signals...)
+	stopWatch := e.watchSignals(sigs, shutdownDeadline, die)
+	return func() {
+		signal.Stop(sigs)
+		stopWatch()
+	}
+}
+
+// watchSignals does the work of handleSignals for the signals arriving on
+// sigs, ending with end(first signal).
+func (e *env) watchSignals(sigs <-chan os.Signal, deadline time.Duration, end func(os.Signal)) (stop func()) {
 	done := make(chan struct{})
 	finished := make(chan struct{})
 	go func() {
@@ -57,17 +67,17 @@ func (e *env) handleSignals() (stop func()) {
 				hooks[i]()
 			}
 		}()
-		t := time.NewTimer(shutdownDeadline)
+		t := time.NewTimer(deadline)
+		defer t.Stop()
 		select {
 		case <-cleaned:
 		case <-sigs: // a second signal: no more waiting
 		case <-t.C:
 		}
 		e.files.RemoveTemps()
-		die(s)
+		end(s)
 	}()
 	return func() {
-		signal.Stop(sigs)
 		close(done)
 		<-finished
 	}

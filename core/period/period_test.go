@@ -61,9 +61,16 @@ func TestMorseSmallEnergyDisplacements(t *testing.T) {
 		es = append(es, de*math.Pow(10, lg))
 	}
 	res, errs := Sweep(f.P, f.W, mu, es, Settings{}, nil)
-	worst := 0.0
+	t0, err := Harmonic(f.W, mu)
+	require.NoError(t, err)
+	worst, worstT := 0.0, 0.0
 	for i, E := range es {
 		require.NoError(t, errs[i], "E = %g", E)
+		// T(E) = T₀/√(1 − E/De), as in TestMorseClosedForm.
+		relT := math.Abs(res[i].Period/(t0/math.Sqrt(1-E/de)) - 1)
+		assert.LessOrEqual(t, relT, 1e-14, "period at E/De = %g", E/de)
+		assert.LessOrEqual(t, relT, res[i].ErrorEstimate, "period error estimate at E/De = %g", E/de)
+		worstT = math.Max(worstT, relT)
 		s := math.Sqrt(E / de)
 		stretch, compression := -math.Log1p(-s)/a, math.Log1p(s)/a
 		for _, c := range []struct{ got, want float64 }{{res[i].Stretch, stretch}, {res[i].Compression, compression}} {
@@ -74,7 +81,7 @@ func TestMorseSmallEnergyDisplacements(t *testing.T) {
 			worst = math.Max(worst, rel)
 		}
 	}
-	t.Logf("worst relative error of the displacements: %.2g", worst)
+	t.Logf("worst relative error of the displacements: %.2g, of the period %.2g", worst, worstT)
 }
 
 // TestHarmonicForm: in V = ½k(r − r0)² the period is 2π√(μ/k) at every

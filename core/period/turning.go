@@ -93,11 +93,12 @@ func TurningPoints(p core.Potential, w core.Well, E float64) (inner, outer float
 	}
 	var (
 		in, out, xin, xon [1]float64
+		ser               [1]bool
 		errs              [1]error
 		sc                scratch
 		es                = [1]float64{E}
 	)
-	seriesTurningPoints(p, w, es[:], in[:], out[:], xin[:], xon[:], errs[:], &sc)
+	seriesTurningPoints(p, w, core.NewExpansion(w), es[:], in[:], out[:], xin[:], xon[:], ser[:], errs[:], &sc)
 	return in[0], out[0], errs[0]
 }
 
@@ -109,6 +110,30 @@ type energyCheck struct {
 	barrierSet bool
 	rb, hb     float64 // the inner barrier and its height above the minimum
 	barrierErr error
+}
+
+// top returns the lowest energy above the minimum without bound motion:
+// the depth, or the inner barrier when lower; +Inf for an unbounded well
+// without a barrier (or when the barrier cannot be found).
+func (c *energyCheck) top() float64 {
+	t := c.w.Depth
+	if c.p.Domain().Barrier {
+		c.barrier()
+		if c.barrierErr == nil {
+			t = math.Min(t, c.hb)
+		}
+	}
+	return t
+}
+
+// barrier looks up the inner barrier once.
+func (c *energyCheck) barrier() {
+	if c.barrierSet {
+		return
+	}
+	c.barrierSet = true
+	d := c.p.Domain()
+	c.rb, c.hb = d.Min, d.BarrierEnergy-c.w.Energy
 }
 
 // check validates E.
@@ -127,10 +152,7 @@ func (c *energyCheck) check(E float64) error {
 	if !d.Barrier {
 		return nil
 	}
-	if !c.barrierSet {
-		c.barrierSet = true
-		c.rb, c.hb = d.Min, d.BarrierEnergy-w.Energy
-	}
+	c.barrier()
 	if c.barrierErr != nil {
 		return c.barrierErr
 	}
@@ -512,22 +534,34 @@ func unbound(format string, args ...any) error {
 	return &unboundError{fmt.Sprintf(format, args...)}
 }
 
+// seriesBelow is the relative rounding error of the direct evaluation
+// (roundingEstimate) above which an energy is solved and integrated from
+// the Taylor series at re, when that is more accurate: below it the direct
+// evaluation is as good to the 1e-13 level, and faster.
+const seriesBelow = 1e-13
+
 // seriesTurningPoints computes the turning points of every energy in Es
 // (all checked and > 0) into inner and outer, and the displacements
-// xin = r₋ − re < 0 and xon = r₊ − re > 0. Where the Taylor series at re
+// xin = r₋ − re < 0 and xon = r₊ − re > 0; ser[i] reports that both
+// came from the series ex. Where the Taylor series at re
 // is more accurate than solving V(r) − V(re) = E directly (small E, see
 // core.Expansion.Displacement) both come from Newton iterations on the
 // series, with no potential call; the other energies are solved by
 // turningPoints, in one batched solve.
-func seriesTurningPoints(p core.Potential, w core.Well, Es, inner, outer, xin, xon []float64, errs []error, sc *scratch) {
-	ex := core.NewExpansion(w)
+func seriesTurningPoints(p core.Potential, w core.Well, ex core.Expansion, Es, inner, outer, xin, xon []float64, ser []bool, errs []error, sc *scratch) {
 	var rest []int
 	for i, E := range Es {
+		ser[i] = false
+		if roundingEstimate(w, E) <= seriesBelow {
+			rest = append(rest, i) // the direct solve is as good
+			continue
+		}
 		xo, oko := ex.Displacement(E, +1)
 		xi, oki := ex.Displacement(E, -1)
 		if oko && oki {
 			xin[i], xon[i] = xi, xo
 			inner[i], outer[i], errs[i] = w.Re+xi, w.Re+xo, nil
+			ser[i] = true
 			continue
 		}
 		rest = append(rest, i)

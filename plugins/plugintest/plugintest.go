@@ -9,6 +9,8 @@ import (
 	"os/exec"
 	"path/filepath"
 	"runtime"
+	"strconv"
+	"strings"
 )
 
 // Module is the import path prefix of pairwell's packages.
@@ -19,7 +21,45 @@ const Module = "github.com/pairwell/pairwell/"
 var (
 	Examples   = []string{Module + "plugins/examples/rydberg", Module + "plugins/examples/mie"}
 	TestPlugin = Module + "plugins/testdata/testplugin"
+	// NoSDK is a test executable not built with the SDK that never
+	// answers the handshake, ignores SIGINT/SIGTERM/SIGHUP and starts a
+	// child holding its pipes.
+	NoSDK = Module + "plugins/testdata/nosdk"
 )
+
+// Procs returns the processes started from an executable in dir: whose
+// executable, or whose argv[0] (a pinned plugin runs from a sealed
+// copy but keeps its path as argv[0]), lies in dir. Zombies (ended, not
+// yet reaped) are returned negated. On systems without /proc it returns
+// nil.
+func Procs(dir string) []int {
+	entries, err := os.ReadDir("/proc")
+	if err != nil {
+		return nil
+	}
+	prefix := dir + string(filepath.Separator)
+	var pids []int
+	for _, e := range entries {
+		pid, err := strconv.Atoi(e.Name())
+		if err != nil || pid == os.Getpid() {
+			continue
+		}
+		exe, _ := os.Readlink(filepath.Join("/proc", e.Name(), "exe"))
+		arg0 := ""
+		if cl, err := os.ReadFile(filepath.Join("/proc", e.Name(), "cmdline")); err == nil {
+			arg0, _, _ = strings.Cut(string(cl), "\x00")
+		}
+		if !strings.HasPrefix(exe, prefix) && !strings.HasPrefix(arg0, prefix) {
+			continue
+		}
+		if st, err := os.ReadFile(filepath.Join("/proc", e.Name(), "stat")); err == nil && strings.Contains(string(st), ") Z ") {
+			pids = append(pids, -pid)
+			continue
+		}
+		pids = append(pids, pid)
+	}
+	return pids
+}
 
 // Build builds the main packages pkgs into dir, in one go build (one
 // compilation of what they share), stripped of debug information. Each

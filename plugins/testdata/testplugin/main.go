@@ -19,17 +19,23 @@
 // Started under a name containing "oldproto" (a symbolic link), it answers
 // the handshake with protocol version 1, the one before Taylor
 // evaluation, which pairwell refuses; under a name containing "grpconly"
-// it serves no direct evaluation channel. One executable keeps the tests'
-// build short.
+// it serves no direct evaluation channel. Under a name containing
+// "holdpipes" it first starts a child that inherits its standard output
+// and error and sleeps; under "setsid" that child also leaves the process
+// group and session (setsid). One executable keeps the tests' build short.
 package main
 
 import (
 	"fmt"
 	"os"
+	"os/exec"
+	"os/signal"
 	"path/filepath"
 	"strconv"
 	"strings"
 	"sync/atomic"
+	"syscall"
+	"time"
 
 	plugin "github.com/hashicorp/go-plugin"
 
@@ -71,6 +77,23 @@ func (m crashLater) New(params []float64) (core.Potential, error) {
 }
 
 func main() {
+	if os.Getenv("TESTPLUGIN_CHILD") != "" {
+		signal.Ignore(syscall.SIGINT, syscall.SIGTERM, syscall.SIGHUP)
+		for {
+			time.Sleep(time.Hour)
+		}
+	}
+	name := filepath.Base(os.Args[0])
+	if strings.Contains(name, "holdpipes") || strings.Contains(name, "setsid") {
+		c := exec.Command(os.Args[0])
+		c.Env = append(os.Environ(), "TESTPLUGIN_CHILD=1")
+		c.Stdout, c.Stderr = os.Stdout, os.Stderr
+		c.SysProcAttr = &syscall.SysProcAttr{Setsid: strings.Contains(name, "setsid")}
+		if err := c.Start(); err != nil {
+			fmt.Fprintln(os.Stderr, err)
+			os.Exit(1)
+		}
+	}
 	srv, err := wire.NewServer("0.1.0-test", []core.Model{
 		morse.Model{Key: "plugin-morse"},
 		morse.Model{Key: "crashing-morse", Fault: morse.Crash},
