@@ -126,8 +126,8 @@ func newBuckingham(A, rho, C float64) (*BuckinghamPotential, error) {
 			buckinghamKey, core.ErrNoMinimum, math.Exp(hmax), A, rho, C)
 	}
 	p := &BuckinghamPotential{a: A, rho: rho, c: C, mInvRho: -1 / rho}
-	// te[k] = A(−1/ρ)ᵏ/k!, by te[k] = te[k−1]·(−1/ρ)/k.
-	p.te[0] = A
+	// te[k] = (−1/ρ)ᵏ/k!, by te[k] = te[k−1]·(−1/ρ)/k.
+	p.te[0] = 1
 	for k := 1; k <= MaxOrder; k++ {
 		p.te[k] = p.te[k-1] * p.mInvRho / float64(k)
 	}
@@ -201,7 +201,7 @@ type BuckinghamPotential struct {
 	mInvRho   float64 // −1/ρ
 	rb, vb    float64 // barrier position and height
 	re        float64 // minimum position
-	// te[k] = A(−1/ρ)ᵏ/k!, k = 0…MaxOrder.
+	// te[k] = (−1/ρ)ᵏ/k!, k = 0…MaxOrder.
 	te [MaxOrder + 1]float64
 }
 
@@ -232,16 +232,17 @@ func (p *BuckinghamPotential) Identities() []conformance.Identity {
 }
 
 // row stores c_0 … c_{len(row)−1} at r without checks: with
-// e = e^{−r/ρ} and d = C/r⁶,
+// e = A·e^{−r/ρ} and d = C/r⁶,
 //
 //	c_k = te[k]·e − binom6[k]·d·r⁻ᵏ,
 //
-// te[k] = A(−1/ρ)ᵏ/k! and binom6[k] = (−1)ᵏ C(k+5, k). It returns NaN
-// unless every coefficient is finite, 0 otherwise.
+// te[k] = (−1/ρ)ᵏ/k! and binom6[k] = (−1)ᵏ C(k+5, k), so that V and V′ are
+// the products the closed form writes, (A·e^{−r/ρ})·(−1/ρ) − (−6·C/r⁶)/r.
+// It returns NaN unless every coefficient is finite, 0 otherwise.
 func (p *BuckinghamPotential) row(r float64, row []float64) float64 {
 	inv := 1 / r
 	i2 := inv * inv
-	e := exp(r * p.mInvRho)
+	e := p.a * exp(r*p.mInvRho)
 	d := p.c * (i2 * i2 * i2)
 	te, b6 := p.te[:len(row)], binom6[:len(row)]
 	pk, acc := 1.0, 0.0
