@@ -36,9 +36,13 @@ type process struct {
 	pid    int  // set by Start
 	killed bool // Kill was called: Start must not start
 
-	exited  chan struct{} // closed when the process has ended
-	state   string        // how the process ended, set before exited closes
-	waitErr error
+	exited chan struct{} // closed when the process has ended
+	// stderrDone is closed when its standard error has been read to the
+	// end (or closed).
+	stderrDone chan struct{}
+	stderrOnce sync.Once
+	state      string // how the process ended, set before exited closes
+	waitErr    error
 }
 
 var _ runner.Runner = (*process)(nil)
@@ -60,7 +64,7 @@ func newProcess(path string, exe *os.File, cmd *exec.Cmd) (*process, error) {
 	if exe != nil {
 		c.Path = execPath(exe, c)
 	}
-	p := &process{cmd: c, path: path, exe: exe, exited: make(chan struct{})}
+	p := &process{cmd: c, path: path, exe: exe, exited: make(chan struct{}), stderrDone: make(chan struct{})}
 	var err error
 	if p.stdout, p.outW, err = os.Pipe(); err != nil {
 		return nil, err
@@ -148,16 +152,23 @@ func (p *process) Kill(context.Context) error {
 	return nil
 }
 
-// waitExit reports how the process ended if it does so within d.
+// waitExit reports how the process ended if it does so within d; its
+// standard error has then been read to the end, or for pipeGrace.
 func (p *process) waitExit(d time.Duration) (string, bool) {
 	t := time.NewTimer(d)
 	defer t.Stop()
 	select {
 	case <-p.exited:
-		return p.state, true
 	case <-t.C:
 		return "", false
 	}
+	g := time.NewTimer(pipeGrace + 50*time.Millisecond)
+	defer g.Stop()
+	select {
+	case <-p.stderrDone:
+	case <-g.C:
+	}
+	return p.state, true
 }
 
 func (p *process) Diagnose(context.Context) string {
@@ -165,8 +176,24 @@ func (p *process) Diagnose(context.Context) string {
 }
 
 func (p *process) Stdout() io.ReadCloser { return p.stdout }
-func (p *process) Stderr() io.ReadCloser { return p.stderr }
-func (p *process) Name() string          { return p.path }
+func (p *process) Stderr() io.ReadCloser { return &eofReader{p.stderr, p.stderrDone, &p.stderrOnce} }
+
+// eofReader closes done when reading ends (EOF, or the pipe was closed):
+// the plugin's last words on stderr have been read.
+type eofReader struct {
+	*os.File
+	done chan struct{}
+	once *sync.Once
+}
+
+func (r *eofReader) Read(b []byte) (int, error) {
+	n, err := r.File.Read(b)
+	if err != nil {
+		r.once.Do(func() { close(r.done) })
+	}
+	return n, err
+}
+func (p *process) Name() string { return p.path }
 
 func (p *process) ID() string {
 	pid := p.getPid()

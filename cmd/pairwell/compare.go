@@ -137,6 +137,11 @@ func (e *env) compareInputs(specs []string, setPath, match string, m report.Mass
 		if err != nil {
 			return nil, usageErr(fmt.Errorf("--match: %w", err))
 		}
+		for _, m := range e.registry.Models() {
+			if _, ok := m.(core.Matcher); !ok {
+				fmt.Fprintf(e.stderr, "pairwell: note: --match: %s (%s) declares nothing to match a target with, so it is left out\n", m.Info().Key, modelKind(m))
+			}
+		}
 		for _, in := range matchAll(e.registry, t) {
 			in.Name = "matched-" + in.Model
 			in.Mass = m

@@ -1,0 +1,173 @@
+package main
+
+import (
+	"fmt"
+	"strconv"
+
+	"github.com/spf13/cobra"
+
+	"github.com/pairwell/pairwell/core/levels"
+	"github.com/pairwell/pairwell/core/report"
+	"github.com/pairwell/pairwell/core/units"
+)
+
+func newLevelsCmd(e *env) *cobra.Command {
+	var (
+		mass      massFlags
+		vmax      int
+		jmax      int
+		tolerance string
+	)
+	cmd := &cobra.Command{
+		Use:   "levels SPEC (--pair A-B | --mu M) [--v-max V] [--j-max J] [--tolerance T]",
+		Short: "Quantum vibration–rotation levels, zero-point energy, D0 and spectroscopic constants",
+		Long: `levels solves the radial Schrödinger equation of the pair in the well of SPEC,
+
+  −ħ²/(2μ) χ″ + [V(r) + ħ²J(J+1)/(2μr²)] χ = E χ,
+
+for the bound levels E(v, J), v = 0…V (--v-max; default every bound level) and
+J = 0…J (--j-max; default 0), each converged to T (--tolerance, default 1e-6
+cm⁻¹; a bare number is in cm⁻¹, units such as 1e-9eV are accepted). The method
+is a Colbert–Miller discrete variable representation on a grid chosen from the
+well and refined until two grids agree; the accuracy reported is that
+difference, not an assumption. Levels above an inner (Buckingham) barrier are
+not bound states and are refused. The harmonic form has no highest level:
+give --v-max.
+
+It reports for each level the term value above V(re) and the binding energy
+below the dissociation limit (cm⁻¹), ⟨r⟩ and the rms displacement √⟨(r − re)²⟩,
+the spacing to the next level and, at J = 0, the classical value h/T(E) of the
+spacing at the midpoint energy (correspondence principle). Then the zero-point
+energy, D0 = depth − ZPE, the fundamental and first overtone, the number of
+bound levels, and the spectroscopic constants three ways: harmonic (ωe from
+V″(re), Be from re), perturbative (Dunham 1932, from the Taylor coefficients:
+ωexe, αe, Y00, De = 4Be³/ωe²) and fitted to the levels v = 0…3, J = 0…4
+(ωe, ωexe, ωeye, Be, αe, γe). Notes say where the perturbative and fitted
+constants differ by more than 2 %, and when the classical harmonic range of
+validity (period criterion, 1 %) lies below the zero-point energy.
+
+CSV has one row per level; the summary is in the table and in JSON. JSON values
+are in cm⁻¹ (eV where the key says so), Å and u.`,
+		Example: `  pairwell levels morse:De=4.6,a=1.87,re=1.27 --pair 1H-35Cl
+  pairwell levels lj:epsilon=120K,sigma=3.4 --pair Ar-Ar --j-max 2 --format json
+  pairwell levels harmonic:k=30,r0=1.2 --mu 7 --v-max 5
+  pairwell levels buckingham:A=1500,rho=0.3,C=25 --mu 20 --format csv`,
+		Args: exactArgs(1, "SPEC"),
+		RunE: func(cmd *cobra.Command, args []string) error {
+			m, err := mass.resolve(true)
+			if err != nil {
+				return err
+			}
+			if vmax < -1 {
+				return usageErr(fmt.Errorf("--v-max %d: must be 0 or more (-1: every bound level)", vmax))
+			}
+			if jmax < 0 || jmax > levels.MaxJ {
+				return usageErr(fmt.Errorf("--j-max %d: must be between 0 and %d", jmax, levels.MaxJ))
+			}
+			tol := 0.0
+			if tolerance != "" {
+				ev, err := units.ParseIn(tolerance, units.Energy, "cm-1")
+				if err != nil {
+					return usageErr(fmt.Errorf("--tolerance: %w", err))
+				}
+				if !(ev > 0) {
+					return usageErr(fmt.Errorf("--tolerance %s: must be > 0", tolerance))
+				}
+				tol = ev / units.WavenumberEV
+			}
+			inst, err := e.build(args[0])
+			if err != nil {
+				return err
+			}
+			r, err := report.NewLevels(inst, m, report.LevelsSettings{VMax: vmax, JMax: jmax, Tolerance: tol})
+			if err != nil {
+				return computeErr(err)
+			}
+			if e.format != "table" {
+				return e.emit(r, levelsTable(r))
+			}
+			mass := "μ = " + strconv.FormatFloat(r.Mu, 'g', 10, 64) + " u"
+			if r.Pair != "" {
+				mass = r.Pair + ", " + mass
+			}
+			fmt.Fprintf(e.stdout, "%s (%s), %s: levels to %g cm⁻¹ (achieved %.2g cm⁻¹, %d grid points)\n",
+				r.Model, r.Params, mass, r.Tolerance, r.Accuracy, r.Grid.Points)
+			if err := writeTable(e.stdout, levelsTable(r)); err != nil {
+				return failErr(err)
+			}
+			fmt.Fprintln(e.stdout)
+			if err := writeTable(e.stdout, levelsSummary(r)); err != nil {
+				return failErr(err)
+			}
+			for _, n := range r.Notes {
+				fmt.Fprintln(e.stdout, n)
+			}
+			fmt.Fprintln(e.stdout, r.Caution)
+			return nil
+		},
+	}
+	mass.register(cmd)
+	cmd.Flags().IntVar(&vmax, "v-max", -1, "highest vibrational level v (default: every bound level; required for the harmonic form)")
+	cmd.Flags().IntVar(&jmax, "j-max", 0, "highest rotational level J")
+	cmd.Flags().StringVar(&tolerance, "tolerance", "", "accuracy of the levels, cm⁻¹ unless a unit is given (default 1e-6)")
+	return cmd
+}
+
+// optNum formats an optional value.
+func optNum(v *float64) string {
+	if v == nil {
+		return "—"
+	}
+	return num(*v)
+}
+
+// levelsTable has one row per level.
+func levelsTable(r report.Levels) *table {
+	t := &table{cols: []column{{Title: "v"}, {Title: "J"}, {Title: "term value", Unit: "cm⁻¹"}, {Title: "binding energy", Unit: "cm⁻¹"},
+		{Title: "⟨r⟩", Unit: "Å"}, {Title: "rms displacement", Unit: "Å"}, {Title: "spacing to v+1", Unit: "cm⁻¹"},
+		{Title: "classical h/T(E)", Unit: "cm⁻¹"}, {Title: "accuracy", Unit: "cm⁻¹"}}}
+	for _, l := range r.Levels {
+		t.add(strconv.Itoa(l.V), strconv.Itoa(l.J), num(l.TermValue), optNum(l.Binding), num(l.MeanR), num(l.RMS),
+			optNum(l.Spacing), optNum(l.ClassicalSpacing), fmt.Sprintf("%.2g", l.Accuracy))
+	}
+	return t
+}
+
+// levelsSummary lays out the summary as quantity, value, unit rows.
+func levelsSummary(r report.Levels) *table {
+	t := &table{cols: []column{{Title: "quantity"}, {Title: "value"}, {Title: "unit"}}}
+	t.add("zero-point energy", num(r.ZPE), "cm⁻¹")
+	t.add("fundamental E(1) − E(0)", optNum(r.Fundamental), "cm⁻¹")
+	t.add("first overtone E(2) − E(0)", optNum(r.FirstOvertone), "cm⁻¹")
+	if r.BoundLevels != nil {
+		t.add("bound levels at J = 0", strconv.Itoa(*r.BoundLevels), "")
+		t.add("D0 = depth − ZPE", num(*r.D0), "eV")
+	} else {
+		t.add("bound levels at J = 0", "∞ (unbounded form)", "")
+	}
+	t.add("harmonic ωe (from V″(re))", num(r.Harmonic.OmegaE), "cm⁻¹")
+	t.add("harmonic Be (from re)", num(r.Harmonic.Be), "cm⁻¹")
+	if pc := r.Perturbative; pc != nil {
+		t.add("perturbative ωexe (Dunham)", num(pc.OmegaExe), "cm⁻¹")
+		t.add("perturbative αe (Dunham)", num(pc.AlphaE), "cm⁻¹")
+		t.add("perturbative Y00 (Dunham)", num(pc.Y00), "cm⁻¹")
+		t.add("centrifugal De = 4Be³/ωe²", num(pc.CentrifugalDe), "cm⁻¹")
+	}
+	if fc := r.FromLevels; fc != nil {
+		used := fmt.Sprintf(" (fit, v ≤ %d, J ≤ %d)", fc.VMax, fc.JMax)
+		t.add("from levels ωe"+used, num(fc.OmegaE), "cm⁻¹")
+		t.add("from levels ωexe"+used, num(fc.OmegaExe), "cm⁻¹")
+		t.add("from levels ωeye"+used, num(fc.OmegaEye), "cm⁻¹")
+		t.add("from levels Be"+used, num(fc.Be), "cm⁻¹")
+		t.add("from levels αe"+used, num(fc.AlphaE), "cm⁻¹")
+		t.add("from levels γe"+used, num(fc.GammaE), "cm⁻¹")
+	}
+	hv := r.HarmonicValidity
+	highest := "none (already E(1) − E(0) is off)"
+	if hv.HighestV != nil {
+		highest = strconv.Itoa(*hv.HighestV)
+	}
+	t.add(fmt.Sprintf("highest v with spacing within %g%% of ħω", 100*hv.Tolerance), highest, "")
+	t.add(fmt.Sprintf("classical harmonic range (period within %g%%)", 100*hv.Tolerance), num(float64(hv.ClassicalEnergy)), "cm⁻¹")
+	return t
+}
