@@ -313,6 +313,13 @@ var compareColumns = []column{
 	{Title: "notes"},
 }
 
+// quantumColumns are the columns of the quantum levels, shown when a
+// reduced mass is given.
+var quantumColumns = []column{
+	{Title: "fundamental", Unit: "cm⁻¹"},
+	{Title: "ZPE", Unit: "cm⁻¹"},
+}
+
 // compareTable lays the rows out, one per form. Table cells have 6
 // significant digits; full reports full precision (for CSV) and puts the
 // note text in the notes column instead of a footnote number.
@@ -321,7 +328,16 @@ func compareTable(rows []report.CompareRow, full bool) (*table, []string) {
 	if full {
 		f = num
 	}
-	t := &table{cols: compareColumns}
+	// With a reduced mass, the quantum columns follow the period.
+	quantum := false
+	for _, r := range rows {
+		quantum = quantum || r.Inspect != nil && r.Inspect.Mu != nil
+	}
+	cols := compareColumns
+	if quantum {
+		cols = append(append(append([]column{}, compareColumns[:8]...), quantumColumns...), compareColumns[8:]...)
+	}
+	t := &table{cols: cols}
 	var foot []string
 	for _, r := range rows {
 		cells := []string{r.Name}
@@ -332,8 +348,14 @@ func compareTable(rows []report.CompareRow, full bool) (*table, []string) {
 			} else {
 				cells = append(cells, "—", "—")
 			}
+			if quantum {
+				cells = append(cells, f(r.Fundamental), f(r.ZPE))
+			}
 		} else {
 			cells = append(cells, "—", "—", "—", "—", "—", "—", "—")
+			if quantum {
+				cells = append(cells, "—", "—")
+			}
 		}
 		if v := r.Validity; v != nil {
 			cells = append(cells,
