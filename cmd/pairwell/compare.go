@@ -142,6 +142,11 @@ func (e *env) compareInputs(specs []string, setPath, match string, m report.Mass
 		if err != nil {
 			return nil, usageErr(fmt.Errorf("--match: %w", err))
 		}
+		for _, m := range e.registry.Models() {
+			if _, ok := m.(core.Matcher); !ok {
+				fmt.Fprintf(e.stderr, "pairwell: note: --match: %s (%s) declares nothing to match a target with, so it is left out\n", m.Info().Key, modelKind(m))
+			}
+		}
 		for _, in := range matchAll(e.registry, t) {
 			in.Name = "matched-" + in.Model
 			in.Mass = m
@@ -313,6 +318,13 @@ var compareColumns = []column{
 	{Title: "notes"},
 }
 
+// quantumColumns are the columns of the quantum levels, shown when a
+// reduced mass is given.
+var quantumColumns = []column{
+	{Title: "fundamental", Unit: "cm⁻¹"},
+	{Title: "ZPE", Unit: "cm⁻¹"},
+}
+
 // validityColumn reports whether c is one of the validity columns, shown
 // only when the validity was computed.
 func validityColumn(c column) bool {
@@ -331,18 +343,25 @@ func compareTable(rows []report.CompareRow, full bool) (*table, []string) {
 	if full {
 		f = num
 	}
+	// With a reduced mass, the quantum columns follow the period.
+	quantum := false
 	withValidity := false
 	for _, r := range rows {
+		quantum = quantum || r.Inspect != nil && r.Inspect.Mu != nil
 		withValidity = withValidity || r.Validity != nil
 	}
 	cols := compareColumns
+	if quantum {
+		cols = append(append(append([]column{}, compareColumns[:8]...), quantumColumns...), compareColumns[8:]...)
+	}
 	if !withValidity {
-		cols = nil
-		for _, c := range compareColumns {
+		var kept []column
+		for _, c := range cols {
 			if !validityColumn(c) {
-				cols = append(cols, c)
+				kept = append(kept, c)
 			}
 		}
+		cols = kept
 	}
 	t := &table{cols: cols}
 	var foot []string
@@ -355,8 +374,14 @@ func compareTable(rows []report.CompareRow, full bool) (*table, []string) {
 			} else {
 				cells = append(cells, "—", "—")
 			}
+			if quantum {
+				cells = append(cells, f(r.Fundamental), f(r.ZPE))
+			}
 		} else {
 			cells = append(cells, "—", "—", "—", "—", "—", "—", "—")
+			if quantum {
+				cells = append(cells, "—", "—")
+			}
 		}
 		if v := r.Validity; v != nil {
 			cells = append(cells,

@@ -141,3 +141,15 @@ func TestLevelsPlugin(t *testing.T) {
 	require.Equal(t, 0, code, errOut)
 	checkLevelsJSON(t, out, true)
 }
+
+// TestCompareQuantumColumnsCLI: with a mass, compare shows the fundamental
+// and ZPE columns.
+func TestCompareQuantumColumnsCLI(t *testing.T) {
+	code, out, errOut := runCLI(t, "compare", "morse:De=4.6,a=1.87,re=1.27", "--pair", "1H-35Cl")
+	require.Equal(t, 0, code, errOut)
+	assert.Contains(t, out, "fundamental [cm⁻¹]")
+	assert.Contains(t, out, "ZPE [cm⁻¹]")
+	code, out, errOut = runCLI(t, "compare", "morse:De=4.6,a=1.87,re=1.27", "--pair", "1H-35Cl", "--format", "csv")
+	require.Equal(t, 0, code, errOut)
+	assert.Contains(t, strings.SplitN(out, "\n", 2)[0], "fundamental [cm⁻¹],ZPE [cm⁻¹]")
+}

@@ -78,6 +78,10 @@ type Settings struct {
 	Tolerance float64
 	// MaxPoints is the largest grid allowed. Zero means DefaultMaxPoints.
 	MaxPoints int
+	// Well, when not nil, is the well of the potential as core.AnalyzeWell
+	// found it (Taylor coefficients to at least c₂), which Solve then does
+	// not analyse again — a saving of round trips for a plugin form.
+	Well *core.Well
 }
 
 // Level is one bound level.
@@ -193,9 +197,17 @@ func Solve(p core.Potential, mu float64, s Settings) (*Result, error) {
 	if maxPoints < 16 {
 		return nil, fmt.Errorf("levels: %w: grid limit %d points is below 16", core.ErrParam, s.MaxPoints)
 	}
-	w, err := core.AnalyzeWell(p, core.WellSettings{Order: 2})
-	if err != nil {
-		return nil, fmt.Errorf("levels: %w", err)
+	var w core.Well
+	if s.Well != nil {
+		w = *s.Well
+		if len(w.Taylor) < 3 || !(w.K > 0) {
+			return nil, fmt.Errorf("levels: %w: the well given has no force constant", core.ErrParam)
+		}
+	} else {
+		var err error
+		if w, err = core.AnalyzeWell(p, core.WellSettings{Order: 2}); err != nil {
+			return nil, fmt.Errorf("levels: %w", err)
+		}
 	}
 	top, barrier, err := ceiling(p)
 	if err != nil {
