@@ -47,6 +47,7 @@ type demoReport struct {
 	Compare        []report.CompareRow `json:"compare"`
 	Period         report.PeriodTable  `json:"period"`
 	Fit            *demoFit            `json:"fit"`
+	Temperature    *demoTemperature    `json:"temperature"`
 	Interpretation string              `json:"interpretation"`
 	Caution        string              `json:"caution"`
 }
@@ -80,14 +81,19 @@ k = %g eV/Å², μ = %g u — made-up numbers, not a real molecule):
     them;
  4. every built-in form fitted to an INVENTED energy scan of the bond
     (pairwell fit), ranked by RMSE;
- 5. pictures of the Morse well and its Taylor truncations, of the period
-    against amplitude, of the four forms, of the motion and of the fits,
-    written to the
+ 5. the thermal expansion of the bond (pairwell expansion: classical,
+    cubic-term and quantum mean bond length), and B₂(T) of an INVENTED
+    argon-like gas against INVENTED B₂ data (pairwell virial --data);
+ 6. pictures of the Morse well and its Taylor truncations, of the period
+    against amplitude, of the four forms, of the motion, of the fits, of the
+    expansion and of B₂, written to the
     folder --out (default ./pairwell-demo/; --no-pictures for none).
 
 --format json emits one object with the keys scenario, compare, period, fit
 (invented, description, data, n_points, fits: the objects of pairwell fit),
-interpretation and caution; the pictures are then listed on stderr.`, demoBond.target.Re, demoBond.target.Depth, demoBond.target.K, demoBond.mu),
+temperature (expansion: the object of pairwell expansion; gas: invented,
+description, virial: the object of pairwell virial), interpretation and
+caution; the pictures are then listed on stderr.`, demoBond.target.Re, demoBond.target.Depth, demoBond.target.K, demoBond.mu),
 		Example: `  pairwell demo
   pairwell demo --out /tmp/pictures
   pairwell demo --format json --no-pictures`,
@@ -139,6 +145,9 @@ func runDemo(e *env) (demoReport, error) {
 		return r, computeErr(err)
 	}
 	if r.Fit, err = demoFitSection(e); err != nil {
+		return r, err
+	}
+	if r.Temperature, err = demoTemperatureSection(e, src.Instance); err != nil {
 		return r, err
 	}
 	r.Interpretation = demoInterpretation(r)
@@ -248,7 +257,7 @@ func periodSentence(p report.PeriodTable, tol float64) string {
 // writeDemo renders every section as text.
 func writeDemo(w io.Writer, r demoReport) error {
 	for _, f := range []func(io.Writer, demoReport) error{
-		writeDemoScenario, writeDemoCompare, writeDemoPeriod, writeDemoFit, writeDemoInterpretation,
+		writeDemoScenario, writeDemoCompare, writeDemoPeriod, writeDemoFit, writeDemoTemperature, writeDemoInterpretation,
 	} {
 		if err := f(w, r); err != nil {
 			return err

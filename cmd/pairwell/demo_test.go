@@ -17,6 +17,7 @@ func TestDemoTable(t *testing.T) {
 	assert.Contains(t, out, "INVENTED bond, not a real molecule")
 	assert.Contains(t, out, "not a validated force field", "the caution line")
 	for _, s := range []string{"== Four forms, one bond", "== Period against amplitude", "== What the numbers say",
+		"== The bond warms up", "== An INVENTED gas against INVENTED B₂ data",
 		"morse", "lennard-jones", "buckingham", "harmonic", "6.7× stiffer"} {
 		assert.Contains(t, out, s)
 	}
@@ -48,6 +49,15 @@ func TestDemoJSON(t *testing.T) {
 			Points   int              `json:"n_points"`
 			Fits     []map[string]any `json:"fits"`
 		} `json:"fit"`
+		Temperature struct {
+			Expansion struct {
+				Rows []map[string]any `json:"rows"`
+			} `json:"expansion"`
+			Gas struct {
+				Invented bool           `json:"invented"`
+				Virial   map[string]any `json:"virial"`
+			} `json:"gas"`
+		} `json:"temperature"`
 		Interpretation string `json:"interpretation"`
 		Caution        string `json:"caution"`
 	}
@@ -76,6 +86,18 @@ func TestDemoJSON(t *testing.T) {
 		assert.Contains(t, r.Interpretation, s)
 	}
 	assert.Contains(t, r.Caution, "not a validated force field")
+	// The temperature section: the bond's expansion with the quantum
+	// column, and the invented gas against its invented data.
+	require.Len(t, r.Temperature.Expansion.Rows, len(demoExpansionTemperatures))
+	for _, row := range r.Temperature.Expansion.Rows {
+		assert.Greater(t, row["mean_r_quantum_angstrom"], 1.2)
+		assert.Greater(t, row["mean_r_classical_angstrom"], 1.2)
+	}
+	assert.True(t, r.Temperature.Gas.Invented)
+	data := r.Temperature.Gas.Virial["data"].(map[string]any)
+	assert.Less(t, data["rms_deviation_cm3_per_mol"], 2.0)
+	// Boyle T* = 3.4179 of Lennard-Jones (Hirschfelder, Curtiss & Bird 1954, from memory), ε/k_B = 120 K.
+	assert.InDelta(t, 3.4179*120, r.Temperature.Gas.Virial["boyle_temperature_k"], 0.02)
 	// the fit section: the four built-ins fitted to the invented scan,
 	// Morse first (the scan is an extended-Rydberg curve of the demo bond)
 	assert.True(t, r.Fit.Invented)
