@@ -188,3 +188,21 @@ func TestVersion(t *testing.T) {
 	assert.True(t, strings.HasPrefix(out, "module,version,commit,modified,go\n"), out)
 	assert.Equal(t, 2, strings.Count(out, "\n"))
 }
+
+// TestCompareValidityOnlyWhenAsked: compare computes the validity ranges
+// (1–2 ms per form, most of its cost) only with --validity, --truncation or
+// --tolerance; without, neither the JSON key nor the table columns appear.
+func TestCompareValidityOnlyWhenAsked(t *testing.T) {
+	morse := "morse:De=4.6,a=1.87,re=1.27" // invented, HCl-sized
+	code, out, errOut := runCLI(t, "compare", morse, "--mu", "1", "--format", "json")
+	require.Equal(t, 0, code, errOut)
+	assert.NotContains(t, out, `"validity"`)
+	code, out, errOut = runCLI(t, "compare", morse, "--mu", "1")
+	require.Equal(t, 0, code, errOut)
+	assert.NotContains(t, out, "V_n")
+	for _, flag := range [][]string{{"--validity"}, {"--truncation", "3"}, {"--tolerance", "2%"}} {
+		code, out, errOut = runCLI(t, append([]string{"compare", morse, "--mu", "1", "--format", "json"}, flag...)...)
+		require.Equal(t, 0, code, errOut)
+		assert.Contains(t, out, `"validity"`, flag)
+	}
+}

@@ -33,9 +33,10 @@ func newPotential(f *Form, scal []float64, dom core.Domain) *potential {
 // coeffs calls emit with the normalized Taylor coefficients V⁽ᵏ⁾(r)/k!,
 // k = 0…order, of every block of rs: emit(i0, l, c) gets the block starting
 // at rs[i0], laid out as l (coefficient k of point i at c[k·l.Points+i]).
-// It checks the domain and the finiteness of coefficients up to order and
-// reports the first failure as a *core.PointError wrapping core.ErrDomain.
-func (p *potential) coeffs(order int, rs []float64, emit func(i0 int, l jet.Layout, c []float64)) error {
+// It checks the domain and the finiteness of the coefficients from order
+// from to order (those the caller returns) and reports the first failure
+// as a *core.PointError wrapping core.ErrDomain.
+func (p *potential) coeffs(from, order int, rs []float64, emit func(i0 int, l jet.Layout, c []float64)) error {
 	for i, r := range rs {
 		if err := core.CheckR(p.dom, r); err != nil {
 			return &core.PointError{Index: i, R: r, Err: err}
@@ -51,7 +52,7 @@ func (p *potential) coeffs(order int, rs []float64, emit func(i0 int, l jet.Layo
 		blk := rs[i0:min(i0+blockPoints, len(rs))]
 		l := jet.Layout{Order: order, Points: len(blk)}
 		c := prog.Eval(w, l, p.scal, blk)
-		for k := 0; k <= order; k++ {
+		for k := from; k <= order; k++ {
 			for i, v := range c[k*l.Points : (k+1)*l.Points] {
 				if math.IsNaN(v) || math.IsInf(v, 0) {
 					return &core.PointError{Index: i0 + i, R: blk[i], Err: fmt.Errorf("r = %.10g Å: %w: the formula's coefficient of order %d is %g there", blk[i], core.ErrDomain, k, v)}
@@ -71,7 +72,7 @@ func (p *potential) Taylor(n int, r, dst []float64) error {
 		return err
 	}
 	w := n + 1
-	return p.coeffs(n, r, func(i0 int, l jet.Layout, c []float64) {
+	return p.coeffs(0, n, r, func(i0 int, l jet.Layout, c []float64) {
 		for k := 0; k <= n; k++ {
 			for i, v := range c[k*l.Points : (k+1)*l.Points] {
 				dst[(i0+i)*w+k] = v
@@ -107,7 +108,7 @@ func (p *potential) limit() (lim float64, ok bool, err error) {
 		return 0, false, nil
 	}
 	v := make([]float64, len(rs))
-	err = p.coeffs(0, rs, func(i0 int, l jet.Layout, c []float64) { copy(v[i0:], c[:l.Points]) })
+	err = p.coeffs(0, 0, rs, func(i0 int, l jet.Layout, c []float64) { copy(v[i0:], c[:l.Points]) })
 	n := len(v)
 	if err != nil {
 		// A formula that overflows far out grows without bound if it was

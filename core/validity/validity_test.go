@@ -189,8 +189,18 @@ func TestErrors(t *testing.T) {
 	short.Taylor = short.Taylor[:3]
 	_, err = Analyze(f.P, short, 3, Settings{})
 	assert.ErrorIs(t, err, core.ErrOrder)
+	// With the series at re even 1e-9 is resolved; a well without the
+	// higher coefficients (a form with few derivatives) has only the
+	// direct difference, and refuses, saying what would be resolvable.
 	_, err = PotentialRange(f.P, f.W, 2, Settings{Tolerance: 1e-9})
+	assert.NoError(t, err)
+	bare := f.W
+	bare.Series, bare.Taylor = nil, bare.Taylor[:5]
+	_, err = PotentialRange(f.P, bare, 4, Settings{Tolerance: 1e-7})
 	assert.ErrorIs(t, err, core.ErrParam, "tolerance below the rounding of V(r) − V(re)")
+	if err != nil {
+		assert.Contains(t, err.Error(), "resolvable")
+	}
 	r, err := Analyze(f.P, f.W, 2, Settings{})
 	require.NoError(t, err)
 	assert.Equal(t, DefaultTolerance, r.Tolerance)

@@ -415,3 +415,29 @@ func TestBatched(t *testing.T) {
 	assert.LessOrEqual(t, cp.Calls()-setup, int64(2*len(c.rules)))
 	assert.LessOrEqual(t, setup, int64(20))
 }
+
+// TestEstimateNeverUndercuts: over 200 temperatures T* = 0.2 … 10⁴ the error
+// estimate of the Lennard-Jones B* is never below its true error (against
+// the series, good to ~1e-15 of its largest term).
+func TestEstimateNeverUndercuts(t *testing.T) {
+	const eps, sigma = 0.0104, 3.4
+	c, err := New(lj(t, eps, sigma), Settings{})
+	require.NoError(t, err)
+	b0 := 2 * math.Pi / 3 * cm3PerMolPerA3 * sigma * sigma * sigma
+	var ts []float64
+	for k := 0; k < 200; k++ {
+		ts = append(ts, 0.2*math.Pow(5e4, float64(k)/199)*eps/units.BoltzmannEV)
+	}
+	pts, err := c.Points(ts, 0)
+	require.NoError(t, err)
+	worst := 0.0
+	for i, p := range pts {
+		ref := ljSeries(ts[i] * units.BoltzmannEV / eps)
+		e := math.Abs(p.Classical/b0 - ref)
+		scale := math.Max(1, math.Abs(ref))
+		assert.GreaterOrEqual(t, p.ErrorEstimate/b0+2e-15*scale, e, "T* = %g", ts[i]*units.BoltzmannEV/eps)
+		assert.Less(t, e, 1e-10*scale)
+		worst = math.Max(worst, e/scale)
+	}
+	t.Logf("worst relative error %.2e", worst)
+}
