@@ -178,7 +178,7 @@ func demoInputs(reg *core.Registry) []report.CompareInput {
 
 // demoCompareSection compares the matched forms.
 func demoCompareSection(e *env, inputs []report.CompareInput) ([]report.CompareRow, error) {
-	return e.compare(inputs, report.CompareSettings{})
+	return e.compare(inputs, report.CompareSettings{Validity: true})
 }
 
 // demoInterpretation says in words what the numbers of r mean. Every
