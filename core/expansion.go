@@ -204,6 +204,20 @@ func (e Expansion) Shift(x0 float64, dst []float64) {
 	}
 }
 
+// Slope returns d/dx Σ_{k=from}^{M} c_k x^k = Σ k·c_k x^{k−1} (from ≥ 2).
+func (e Expansion) Slope(x float64, from int) float64 {
+	m := len(e.c) - 1
+	from = max(from, 2)
+	if from > m {
+		return 0
+	}
+	d := 0.0
+	for k := m; k >= from; k-- {
+		d = d*x + float64(k)*e.c[k]
+	}
+	return d * ipow(x, from-1)
+}
+
 // Value returns Σ_{k≥2} c_k x^k alone, without its bound (see Sum).
 func (e Expansion) Value(x float64) float64 {
 	f, _ := e.poly(x)

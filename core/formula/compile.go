@@ -71,9 +71,12 @@ const (
 	opCos
 	opTanh
 	opErf
+	opExpLin    // dst = exp a for a linear a
+	opPowLin    // dst = a^s for a linear a (scalar s)
+	opSquareLin // dst = a² for a linear a
 )
 
-var opNames = [...]string{"var", "affine", "add", "sub", "mul", "square", "div", "rdiv", "powint", "pow", "sqrt", "exp", "log", "sin", "cos", "tanh", "erf"}
+var opNames = [...]string{"var", "affine", "add", "sub", "mul", "square", "div", "rdiv", "powint", "pow", "sqrt", "exp", "log", "sin", "cos", "tanh", "erf", "explin", "powlin", "squarelin"}
 
 func (o opcode) String() string { return opNames[o] }
 
@@ -110,6 +113,7 @@ type compiler struct {
 	smemo    map[skey]int    // scalar CSE
 	jmemo    map[jop]int     // jet CSE (keys have dst = 0)
 	jops     []jop           // jet values in creation order
+	lin      []bool          // jet value is linear in r (coefficients ≥ 2 vanish)
 	usedPar  []bool
 }
 
@@ -201,6 +205,21 @@ func (c *compiler) emit(o jop) int {
 			o.a, o.b = o.b, o.a
 		}
 	}
+	// Operations on a linear jet have cheaper recurrences.
+	if o.a >= 0 && c.lin[o.a] {
+		switch o.op {
+		case opExp:
+			o.op = opExpLin
+		case opSquare:
+			o.op = opSquareLin
+		case opPowInt:
+			if o.n < 0 {
+				o.op, o.s, o.n = opPowLin, c.konst(float64(o.n)), 0
+			}
+		case opPow:
+			o.op = opPowLin
+		}
+	}
 	key := o
 	key.dst = 0
 	if id, ok := c.jmemo[key]; ok {
@@ -210,6 +229,16 @@ func (c *compiler) emit(o jop) int {
 	o.dst = id
 	c.jops = append(c.jops, o)
 	c.jmemo[key] = id
+	lin := false
+	switch o.op {
+	case opVar:
+		lin = true
+	case opAffine:
+		lin = c.lin[o.a]
+	case opAdd, opSub:
+		lin = c.lin[o.a] && c.lin[o.b]
+	}
+	c.lin = append(c.lin, lin)
 	return id
 }
 
@@ -236,8 +265,17 @@ func (c *compiler) affine(a, s, k int) int {
 	return c.emit(jop{op: opAffine, a: a, b: -1, s: s, c: k})
 }
 
-// powInt returns aⁿ.
+// powInt returns aⁿ. Powers of s/x and s·x become sⁿ·x⁻ⁿ and sⁿ·xⁿ, so
+// that a power of the variable keeps its cheap linear recurrence.
 func (c *compiler) powInt(a, n int) int {
+	switch in := c.jops[a]; {
+	case in.op == opRDiv:
+		sn := c.scalar(kPow, "", in.s, c.konst(float64(n)), nil)
+		return c.affine(c.powInt(in.a, -n), sn, c.konst(0))
+	case in.op == opAffine && c.isConst(in.c, 0) && n != 1:
+		sn := c.scalar(kPow, "", in.s, c.konst(float64(n)), nil)
+		return c.affine(c.powInt(in.a, n), sn, c.konst(0))
+	}
 	switch n {
 	case 1:
 		return a
@@ -324,9 +362,9 @@ func (c *compiler) value(n *node) (value, error) {
 	case kDiv:
 		switch {
 		case x.jet && y.jet:
-			if in := c.jops[y.id]; in.op == opPowInt || in.op == opSquare {
+			if in := c.jops[y.id]; in.op == opPowInt || in.op == opSquare || in.op == opSquareLin {
 				n := in.n
-				if in.op == opSquare {
+				if in.op == opSquare || in.op == opSquareLin {
 					n = 2
 				}
 				return j(c.binary(opMul, x.id, c.powInt(in.a, -n)))
@@ -340,7 +378,7 @@ func (c *compiler) value(n *node) (value, error) {
 				// than the reciprocal of xⁿ.
 				return j(c.affine(c.powInt(in.a, -in.n), x.id, zero))
 			}
-			if in := c.jops[y.id]; in.op == opSquare {
+			if in := c.jops[y.id]; in.op == opSquare || in.op == opSquareLin {
 				return j(c.affine(c.powInt(in.a, -2), x.id, zero))
 			}
 			return j(c.emit(jop{op: opRDiv, a: y.id, b: -1, s: x.id, c: -1}))
@@ -354,8 +392,6 @@ func (c *compiler) value(n *node) (value, error) {
 					return x, nil
 				case p == 0.5:
 					return j(c.unary(opSqrt, x.id))
-				case p == 2:
-					return j(c.unary(opSquare, x.id))
 				case p == math.Trunc(p) && math.Abs(p) <= 1<<20:
 					return j(c.powInt(x.id, int(p)))
 				}
@@ -635,6 +671,12 @@ func (p *Program) Eval(w *Workspace, l jet.Layout, scalars, rs []float64) []floa
 			l.Tanh(d, R[o.a], w.work)
 		case opErf:
 			l.Erf(d, R[o.a], w.work)
+		case opExpLin:
+			l.ExpLinear(d, R[o.a])
+		case opPowLin:
+			l.PowLinear(d, R[o.a], scalars[o.s])
+		case opSquareLin:
+			l.SquareLinear(d, R[o.a])
 		}
 	}
 	return R[p.out]

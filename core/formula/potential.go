@@ -33,9 +33,10 @@ func newPotential(f *Form, scal []float64, dom core.Domain) *potential {
 // coeffs calls emit with the normalized Taylor coefficients V⁽ᵏ⁾(r)/k!,
 // k = 0…order, of every block of rs: emit(i0, l, c) gets the block starting
 // at rs[i0], laid out as l (coefficient k of point i at c[k·l.Points+i]).
-// It checks the domain and the finiteness of coefficients up to order and
-// reports the first failure as a *core.PointError wrapping core.ErrDomain.
-func (p *potential) coeffs(order int, rs []float64, emit func(i0 int, l jet.Layout, c []float64)) error {
+// It checks the domain and the finiteness of the coefficients from order
+// from to order (those the caller returns) and reports the first failure
+// as a *core.PointError wrapping core.ErrDomain.
+func (p *potential) coeffs(from, order int, rs []float64, emit func(i0 int, l jet.Layout, c []float64)) error {
 	for i, r := range rs {
 		if err := core.CheckR(p.dom, r); err != nil {
 			return &core.PointError{Index: i, R: r, Err: err}
@@ -51,10 +52,10 @@ func (p *potential) coeffs(order int, rs []float64, emit func(i0 int, l jet.Layo
 		blk := rs[i0:min(i0+blockPoints, len(rs))]
 		l := jet.Layout{Order: order, Points: len(blk)}
 		c := prog.Eval(w, l, p.scal, blk)
-		for k := 0; k <= order; k++ {
+		for k := from; k <= order; k++ {
 			for i, v := range c[k*l.Points : (k+1)*l.Points] {
 				if math.IsNaN(v) || math.IsInf(v, 0) {
-					return &core.PointError{Index: i0 + i, R: blk[i], Err: fmt.Errorf("r = %.10g Å: %w: the formula's coefficient of order %d is %g there", blk[i], core.ErrDomain, k, v)}
+					return &core.PointError{Index: i0 + i, R: blk[i], Err: fmt.Errorf("r = %.10g Å: %w: the formula gives %g for its coefficient of order %d there, inside the declared domain %s (declare r_min where the formula is not defined)", blk[i], core.ErrDomain, v, k, p.form.info.Domain)}
 				}
 			}
 		}
@@ -63,47 +64,19 @@ func (p *potential) coeffs(order int, rs []float64, emit func(i0 int, l jet.Layo
 	return nil
 }
 
-// factorial returns k! as the product 2·3·…·k.
-func factorial(k int) float64 {
-	f := 1.0
-	for j := 2; j <= k; j++ {
-		f *= float64(j)
-	}
-	return f
-}
-
-// Derivatives stores V⁽ᵏ⁾(r) in dst[k] for k = 0…len(dst)−1.
-func (p *potential) Derivatives(r float64, dst []float64) error {
-	n := len(dst) - 1
-	if err := core.CheckOrder(n, MaxOrder); err != nil {
+// Taylor stores c_k(r[i]) = V⁽ᵏ⁾(r[i])/k! at dst[i·(n+1)+k], from the
+// jets of the compiled formula (coefficient-major per block, transposed
+// here into the contract's row-major layout).
+func (p *potential) Taylor(n int, r, dst []float64) error {
+	if err := core.CheckTaylor(n, MaxOrder, len(r), len(dst)); err != nil {
 		return err
 	}
-	var one [1]float64
-	one[0] = r
-	err := p.coeffs(n, one[:], func(_ int, l jet.Layout, c []float64) {
-		for k := range dst {
-			dst[k] = c[k] * factorial(k)
-		}
-	})
-	if pe, ok := err.(*core.PointError); ok {
-		return pe.Err
-	}
-	return err
-}
-
-// Batch stores V⁽ⁿ⁾(r[i]) in dst[i].
-func (p *potential) Batch(n int, r, dst []float64) error {
-	if len(r) != len(dst) {
-		return fmt.Errorf("%w: %d separations, %d results", core.ErrLength, len(r), len(dst))
-	}
-	if err := core.CheckOrder(n, MaxOrder); err != nil {
-		return err
-	}
-	f := factorial(n)
-	return p.coeffs(n, r, func(i0 int, l jet.Layout, c []float64) {
-		row := c[n*l.Points : (n+1)*l.Points]
-		for i, v := range row {
-			dst[i0+i] = v * f
+	w := n + 1
+	return p.coeffs(0, n, r, func(i0 int, l jet.Layout, c []float64) {
+		for k := 0; k <= n; k++ {
+			for i, v := range c[k*l.Points : (k+1)*l.Points] {
+				dst[(i0+i)*w+k] = v
+			}
 		}
 	})
 }
@@ -111,7 +84,7 @@ func (p *potential) Batch(n int, r, dst []float64) error {
 // Domain reports where the potential is usable.
 func (p *potential) Domain() core.Domain { return p.dom }
 
-// MaxOrder is the highest derivative order.
+// MaxOrder is the highest Taylor order.
 func (p *potential) MaxOrder() int { return MaxOrder }
 
 // limitRadii are the separations in Å at which limit looks at V.
@@ -135,7 +108,7 @@ func (p *potential) limit() (lim float64, ok bool, err error) {
 		return 0, false, nil
 	}
 	v := make([]float64, len(rs))
-	err = p.coeffs(0, rs, func(i0 int, l jet.Layout, c []float64) { copy(v[i0:], c[:l.Points]) })
+	err = p.coeffs(0, 0, rs, func(i0 int, l jet.Layout, c []float64) { copy(v[i0:], c[:l.Points]) })
 	n := len(v)
 	if err != nil {
 		// A formula that overflows far out grows without bound if it was
