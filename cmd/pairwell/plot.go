@@ -33,7 +33,7 @@ const maxPlotPeriods = 1000
 
 func newPlotCmd(e *env) *cobra.Command {
 	cmd := &cobra.Command{
-		Use:   "plot (taylor | period | compare | motion | virial | expansion | fit) ... -o FILE",
+		Use:   "plot (taylor | period | compare | motion | virial | expansion | fit | levels) ... -o FILE",
 		Short: "Draw pictures: the well and its Taylor truncations, period against amplitude, forms overlaid, motion",
 		Long: `plot draws what pairwell computes, as PNG, SVG or PDF (by the extension of
 -o FILE):
@@ -47,6 +47,7 @@ func newPlotCmd(e *env) *cobra.Command {
   virial   B₂(T), classical and with the ħ² correction, measured points overlaid
   expansion  ⟨r⟩(T): classical, cubic-term estimate and quantum
   fit      reference data with fitted forms overlaid and a residual panel
+  levels   the well with its quantum levels and the harmonic ladder beside them
 
 Every curve has its own colour, dash pattern and marker (colours from the
 Okabe–Ito palette for colour-blind readers), so the pictures stay readable in
@@ -63,10 +64,10 @@ range, an amplitude beyond the well), 1 when the file cannot be written.`,
 			if len(args) > 0 {
 				return unknownCommand(cmd, args[0])
 			}
-			return usageErr(fmt.Errorf("plot needs a kind: taylor, period, compare, motion, virial, expansion or fit (see %s --help)", cmd.CommandPath()))
+			return usageErr(fmt.Errorf("plot needs a kind: taylor, period, compare, motion, virial, expansion, fit or levels (see %s --help)", cmd.CommandPath()))
 		},
 	}
-	cmd.AddCommand(newPlotTaylorCmd(e), newPlotPeriodCmd(e), newPlotCompareCmd(e), newPlotMotionCmd(e), newPlotVirialCmd(e), newPlotExpansionCmd(e), newPlotFitCmd(e))
+	cmd.AddCommand(newPlotTaylorCmd(e), newPlotPeriodCmd(e), newPlotCompareCmd(e), newPlotMotionCmd(e), newPlotVirialCmd(e), newPlotExpansionCmd(e), newPlotFitCmd(e), newPlotLevelsCmd(e))
 	return cmd
 }
 

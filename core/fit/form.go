@@ -130,7 +130,7 @@ func (r Result) Converged() bool { return r.Reason.Converged() }
 // its constraints ("≥ 0" is then reached only as a limit, see Notes; a
 // parameter driven below 1e-12 of its start ends the fit with Reason
 // Boundary).
-// Without Settings.Start, m must implement core.Matcher: the main start is
+// Without Settings.Start, m must match target wells (core.Match): the main start is
 // its match to EstimateWell(data); each restart matches a deterministic
 // variation of that target (k ×2, ×½, ×4, depth ×½, …) and the result with
 // the smallest RSS wins (a converged one before an unconverged one). The
@@ -311,10 +311,8 @@ func newFormProblem(m core.Model, d Data, w []float64, s Settings) (*formProblem
 
 // probe builds the model at a start it can make, to learn its domain.
 func probe(m core.Model) (core.Potential, error) {
-	if matcher, ok := m.(core.Matcher); ok {
-		if params, _, err := matcher.Match(core.Target{Re: 1, Depth: 1, K: 10}); err == nil {
-			return m.New(params)
-		}
+	if params, _, err := core.Match(m, core.Target{Re: 1, Depth: 1, K: 10}); err == nil {
+		return m.New(params)
 	}
 	return nil, errors.New("no probe")
 }
@@ -457,8 +455,9 @@ func (p *formProblem) starts(s Settings) ([]start, error) {
 		}
 		return []start{{params: append([]float64(nil), s.Start...), what: "given start"}}, nil
 	}
-	matcher, ok := p.m.(core.Matcher)
-	if !ok {
+	// A wrapper of a model always has Match and reports
+	// core.ErrUnsupported when the inner model has none (core.Match).
+	if _, _, err := core.Match(p.m, core.Target{}); errors.Is(err, core.ErrUnsupported) {
 		return nil, fmt.Errorf("%w: %s cannot be started automatically: it has no Match (give a start)", core.ErrParam, p.info.Key)
 	}
 	zero := p.zero
@@ -480,7 +479,7 @@ func (p *formProblem) starts(s Settings) ([]start, error) {
 	var out []start
 	seen := map[string]bool{}
 	add := func(tt core.Target, what string) {
-		params, _, err := matcher.Match(tt)
+		params, _, err := core.Match(p.m, tt)
 		if err == nil {
 			key := fmt.Sprint(params)
 			if seen[key] {

@@ -9,6 +9,7 @@ import (
 	"github.com/stretchr/testify/require"
 
 	"github.com/pairwell/pairwell/core"
+	"github.com/pairwell/pairwell/core/coretest"
 	"github.com/pairwell/pairwell/core/formula"
 	"github.com/pairwell/pairwell/models"
 )
@@ -76,8 +77,8 @@ func TestBuiltinEquivalence(t *testing.T) {
 			got, want := make([]float64, points), make([]float64, points)
 			worst := 0.0
 			for n := 0; n <= maxOrder; n++ {
-				require.NoError(t, fp.Batch(n, rs, got))
-				require.NoError(t, bp.Batch(n, rs, want))
+				require.NoError(t, coretest.Batch(fp, n, rs, got))
+				require.NoError(t, coretest.Batch(bp, n, rs, want))
 				for i, r := range rs {
 					scale := termScale(t, c, n, r)
 					e := math.Abs(got[i]-want[i]) / scale

@@ -12,6 +12,7 @@ import (
 	"github.com/stretchr/testify/require"
 
 	"github.com/pairwell/pairwell/core"
+	"github.com/pairwell/pairwell/core/coretest"
 	"github.com/pairwell/pairwell/core/formula"
 )
 
@@ -124,7 +125,7 @@ func TestNonFiniteIsDomainError(t *testing.T) {
 	require.NoError(t, err)
 	rs := []float64{2.5, 3, 0.5, 4}
 	dst := make([]float64, len(rs))
-	err = p.Batch(0, rs, dst)
+	err = coretest.Batch(p, 0, rs, dst)
 	require.ErrorIs(t, err, core.ErrDomain)
 	var pe *core.PointError
 	require.ErrorAs(t, err, &pe)
@@ -233,10 +234,10 @@ func TestDeclErrors(t *testing.T) {
 	assert.Equal(t, "a [1/nm, finite]", f.Info().Params[1].String())
 }
 
-// The potential is deterministic: the same bits from Batch, Derivatives,
+// The potential is deterministic: the same bits from a batched and a single-point Taylor call,
 // one point or many, and across goroutines (the conformance suite checks
 // this for every form through pairwell check).
-func TestBatchEqualsDerivatives(t *testing.T) {
+func TestBatchEqualsSinglePoint(t *testing.T) {
 	form, err := formula.NewForm(varshniDecl)
 	require.NoError(t, err)
 	p, err := form.New([]float64{4.6, 1.27, 0.5})
@@ -247,10 +248,10 @@ func TestBatchEqualsDerivatives(t *testing.T) {
 	}
 	for n := 0; n <= 10; n++ {
 		got := make([]float64, len(rs))
-		require.NoError(t, p.Batch(n, rs, got))
+		require.NoError(t, coretest.Batch(p, n, rs, got))
 		d := make([]float64, n+1)
 		for i, r := range rs {
-			require.NoError(t, p.Derivatives(r, d))
+			require.NoError(t, coretest.Derivatives(p, r, d))
 			require.Equal(t, d[n], got[i], "order %d at %g", n, r)
 		}
 	}

@@ -64,47 +64,19 @@ func (p *potential) coeffs(from, order int, rs []float64, emit func(i0 int, l je
 	return nil
 }
 
-// factorial returns k! as the product 2·3·…·k.
-func factorial(k int) float64 {
-	f := 1.0
-	for j := 2; j <= k; j++ {
-		f *= float64(j)
-	}
-	return f
-}
-
-// Derivatives stores V⁽ᵏ⁾(r) in dst[k] for k = 0…len(dst)−1.
-func (p *potential) Derivatives(r float64, dst []float64) error {
-	n := len(dst) - 1
-	if err := core.CheckOrder(n, MaxOrder); err != nil {
+// Taylor stores c_k(r[i]) = V⁽ᵏ⁾(r[i])/k! at dst[i·(n+1)+k], from the
+// jets of the compiled formula (coefficient-major per block, transposed
+// here into the contract's row-major layout).
+func (p *potential) Taylor(n int, r, dst []float64) error {
+	if err := core.CheckTaylor(n, MaxOrder, len(r), len(dst)); err != nil {
 		return err
 	}
-	var one [1]float64
-	one[0] = r
-	err := p.coeffs(0, n, one[:], func(_ int, l jet.Layout, c []float64) {
-		for k := range dst {
-			dst[k] = c[k] * factorial(k)
-		}
-	})
-	if pe, ok := err.(*core.PointError); ok {
-		return pe.Err
-	}
-	return err
-}
-
-// Batch stores V⁽ⁿ⁾(r[i]) in dst[i].
-func (p *potential) Batch(n int, r, dst []float64) error {
-	if len(r) != len(dst) {
-		return fmt.Errorf("%w: %d separations, %d results", core.ErrLength, len(r), len(dst))
-	}
-	if err := core.CheckOrder(n, MaxOrder); err != nil {
-		return err
-	}
-	f := factorial(n)
-	return p.coeffs(n, n, r, func(i0 int, l jet.Layout, c []float64) {
-		row := c[n*l.Points : (n+1)*l.Points]
-		for i, v := range row {
-			dst[i0+i] = v * f
+	w := n + 1
+	return p.coeffs(0, n, r, func(i0 int, l jet.Layout, c []float64) {
+		for k := 0; k <= n; k++ {
+			for i, v := range c[k*l.Points : (k+1)*l.Points] {
+				dst[(i0+i)*w+k] = v
+			}
 		}
 	})
 }
@@ -112,7 +84,7 @@ func (p *potential) Batch(n int, r, dst []float64) error {
 // Domain reports where the potential is usable.
 func (p *potential) Domain() core.Domain { return p.dom }
 
-// MaxOrder is the highest derivative order.
+// MaxOrder is the highest Taylor order.
 func (p *potential) MaxOrder() int { return MaxOrder }
 
 // limitRadii are the separations in Å at which limit looks at V.

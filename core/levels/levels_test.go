@@ -268,14 +268,14 @@ func TestBatched(t *testing.T) {
 	_, err := Solve(p, m.mu, Settings{JMax: 2})
 	require.NoError(t, err)
 	assert.Less(t, c.Calls(), int64(200), "potential calls")
-	t.Logf("%d single-point and %d batched calls", c.Derivs.Load(), c.Batches.Load())
+	t.Logf("%d single-point and %d batched calls", c.Singles.Load(), c.Batches.Load())
 	// With the well given, only batched calls remain.
 	w, err := core.AnalyzeWell(p, core.WellSettings{})
 	require.NoError(t, err)
-	before := c.Derivs.Load()
+	before := c.Singles.Load()
 	_, err = Solve(p, m.mu, Settings{JMax: 2, Well: &w})
 	require.NoError(t, err)
-	assert.Equal(t, before, c.Derivs.Load(), "single-point calls with the well given")
+	assert.Equal(t, before, c.Singles.Load(), "single-point calls with the well given")
 }
 
 // TestBadInput checks that every invalid request is refused with the right

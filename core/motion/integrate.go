@@ -18,11 +18,12 @@ type state struct {
 // integrator holds one run's mutable state.
 type integrator struct {
 	p     core.Potential
-	re    float64 // Å
-	vre   float64 // V(re), eV
-	acc   float64 // −accelUnit/μ: a = acc·V′(r)
-	kin   float64 // ½μ·kineticUnit: E_kin = kin·v² in eV
-	buf   [2]float64
+	re    float64    // Å
+	vre   float64    // V(re), eV
+	acc   float64    // −accelUnit/μ: a = acc·V′(r)
+	kin   float64    // ½μ·kineticUnit: E_kin = kin·v² in eV
+	buf   [2]float64 // c₀ = V and c₁ = V′ at rbuf[0]
+	rbuf  [1]float64
 	evals int
 
 	s      Settings
@@ -96,7 +97,8 @@ func newIntegrator(o *Oscillator, s Settings, amplitude float64) *integrator {
 // first derivative together.
 func (in *integrator) at(x, v float64) (state, error) {
 	r := in.re + x
-	if err := in.p.Derivatives(r, in.buf[:]); err != nil {
+	in.rbuf[0] = r
+	if err := in.p.Taylor(1, in.rbuf[:], in.buf[:]); err != nil {
 		return state{}, err
 	}
 	in.evals++

@@ -353,18 +353,8 @@ func NewFromWell(p core.Potential, w core.Well, mu float64) (*Oscillator, error)
 	}
 	o := &Oscillator{p: p, mu: mu, well: w, harmonic: h, maxEnergy: w.Depth}
 	if d := p.Domain(); d.Barrier {
-		var rb, vb float64
-		if t, ok := p.(core.Turnover); ok {
-			rb, vb = t.Barrier()
-		} else {
-			rb = math.Nextafter(d.Min, math.Inf(1))
-			vb = math.Inf(1) // unknown: the domain check still applies
-			if v, err := core.Value(p, rb); err == nil {
-				vb = v
-			}
-		}
-		if eb := vb - w.Energy; eb < o.maxEnergy {
-			o.maxEnergy, o.barrier, o.rBarrier = eb, true, rb
+		if eb := d.BarrierEnergy - w.Energy; eb < o.maxEnergy {
+			o.maxEnergy, o.barrier, o.rBarrier = eb, true, d.Min
 		}
 	}
 	return o, nil
@@ -451,9 +441,11 @@ func (o *Oscillator) FromEnergy(e float64) (Start, error) {
 	if x, ok := core.NewExpansion(o.well).Displacement(e, +1); ok {
 		return Start{X0: x, R0: re + x, Energy: e}, nil
 	}
-	var buf [2]float64
+	var buf [2]float64 // V and V′ (c₀ and c₁)
+	rr := make([]float64, 1)
 	g := func(r float64) (float64, float64, error) {
-		if err := o.p.Derivatives(r, buf[:]); err != nil {
+		rr[0] = r
+		if err := o.p.Taylor(1, rr, buf[:]); err != nil {
 			return 0, 0, err
 		}
 		return buf[0] - v0 - e, buf[1], nil

@@ -424,7 +424,7 @@ func TestErrors(t *testing.T) {
 	require.NoError(t, err)
 	bk, err := motion.New(bp, 20)
 	require.NoError(t, err)
-	rb, _ := bp.Barrier()
+	rb := bp.Domain().Min
 	bond := systems(t)[5] // Buckingham matched to the bond: barrier below the depth
 	require.Equal(t, "buckingham-bond", bond.name)
 	bb, err := motion.New(bond.p, bond.mu)

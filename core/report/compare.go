@@ -50,8 +50,9 @@ type CompareRow struct {
 	// Inspect is nil when the form could not be built or its well not
 	// analysed.
 	Inspect *Inspect
-	// Validity is nil when it could not be computed; Err then says why.
-	// It encodes as the validity command's JSON object.
+	// Validity is nil when it was not asked for (CompareSettings.Validity)
+	// or could not be computed (Err then says why). It encodes as the
+	// validity command's JSON object; the key is absent when nil.
 	Validity *validity.Result
 	// Boyle is the Boyle temperature in K of the classical B₂ of a
 	// bounded form (BoyleTemperature); NaN (null) for an unbounded form,
@@ -110,6 +111,10 @@ type CompareSettings struct {
 	// depend on the reduced mass; a zero Mass.Mu only leaves out the
 	// harmonic vibration.
 	Tolerance float64
+	// Validity asks for the validity ranges of the truncated Taylor
+	// potential (validity.Analyze, about 1–2 ms per form, more than the
+	// rest of a row); without it CompareRow.Validity is nil.
+	Validity bool
 	// Workers is the number of goroutines; 0 means runtime.GOMAXPROCS(0).
 	Workers int
 	// Progress, if not nil, is called after each row is done, from the
@@ -140,7 +145,8 @@ func (s CompareSettings) resolved() (CompareSettings, error) {
 }
 
 // Compare analyses every input — its well, Taylor coefficients, harmonic
-// vibration and the validity ranges of its truncated Taylor potential —
+// vibration and, when asked, the validity ranges of its truncated Taylor
+// potential —
 // and returns one row per input, in input order whatever the scheduling.
 // The inputs are shared among s.Workers goroutines; potentials must be safe
 // for concurrent use, as core.Potential requires. A form that fails gets
@@ -178,12 +184,14 @@ func compareOne(in CompareInput, s CompareSettings) CompareRow {
 		return row
 	}
 	row.Inspect = &r
-	v, err := validity.Analyze(in.Instance.Potential, w, s.Order, validity.Settings{Tolerance: s.Tolerance})
-	if err != nil {
-		row.Err = fmt.Errorf("%s: validity: %w", row.Model, err)
-		return row
+	if s.Validity {
+		v, err := validity.Analyze(in.Instance.Potential, w, s.Order, validity.Settings{Tolerance: s.Tolerance})
+		if err != nil {
+			row.Err = fmt.Errorf("%s: validity: %w", row.Model, err)
+			return row
+		}
+		row.Validity = &v
 	}
-	row.Validity = &v
 	if in.Mass.Mu > 0 {
 		var note string
 		row.ZPE, row.Fundamental, note = lowestLevels(in.Instance.Potential, w, in.Mass.Mu)
