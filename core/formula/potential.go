@@ -55,7 +55,7 @@ func (p *potential) coeffs(from, order int, rs []float64, emit func(i0 int, l je
 		for k := from; k <= order; k++ {
 			for i, v := range c[k*l.Points : (k+1)*l.Points] {
 				if math.IsNaN(v) || math.IsInf(v, 0) {
-					return &core.PointError{Index: i0 + i, R: blk[i], Err: fmt.Errorf("r = %.10g Å: %w: the formula's coefficient of order %d is %g there", blk[i], core.ErrDomain, k, v)}
+					return &core.PointError{Index: i0 + i, R: blk[i], Err: fmt.Errorf("r = %.10g Å: %w: the formula gives %g for its coefficient of order %d there, inside the declared domain %s (declare r_min where the formula is not defined)", blk[i], core.ErrDomain, v, k, p.form.info.Domain)}
 				}
 			}
 		}
