@@ -37,11 +37,11 @@ type Motion struct {
 	HarmonicPeriod float64 `json:"harmonic_period_fs"`
 	// PerturbativePeriod is NaN (null) where the expansion breaks down
 	// or c₄ is unknown.
-	PerturbativePeriod  Number  `json:"perturbative_period_fs"`
-	PeriodSpread        float64 `json:"period_spread_fs"`
-	PeriodsMeasured     int     `json:"periods_measured"`
-	InnerTurningPoint   float64 `json:"inner_turning_point_angstrom"`
-	OuterTurningPoint   float64 `json:"outer_turning_point_angstrom"`
+	PerturbativePeriod Number  `json:"perturbative_period_fs"`
+	PeriodSpread       float64 `json:"period_spread_fs"`
+	PeriodsMeasured    int     `json:"periods_measured"`
+	InnerTurningPoint  float64 `json:"inner_turning_point_angstrom"`
+	OuterTurningPoint  float64 `json:"outer_turning_point_angstrom"`
 	// RelativeEnergyDrift and FinalEnergyError are null when they are at
 	// or below RelativeEnergyFloor, the rounding floor of the energies
 	// (motion.Result.EnergyFloor): then they measure rounding, not the
