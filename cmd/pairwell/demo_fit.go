@@ -45,7 +45,7 @@ func demoFitRun(e *env) (*fitRun, error) {
 			ms = append(ms, m)
 		}
 	}
-	return fitAll(ms, data, demoScanName, fit.Settings{}, report.RankRMSE, report.Mass{Mu: demoBond.mu})
+	return fitAll(ms, data, demoScanName, fit.Settings{}, nil, report.RankRMSE, report.Mass{Mu: demoBond.mu})
 }
 
 // demoFitSection is the fit section of the demo.

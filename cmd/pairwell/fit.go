@@ -27,6 +27,7 @@ type fitFlags struct {
 	forceWeight float64
 	rank        string
 	restarts    int
+	starts      []string
 	mass        massFlags
 }
 
@@ -38,6 +39,7 @@ func (o *fitFlags) register(cmd *cobra.Command) {
 	f.Float64Var(&o.forceWeight, "force-weight", fit.DefaultForceWeight, "weight of the force residuals relative to the energies, in Å² (used when the file has a force column)")
 	f.StringVar(&o.rank, "rank", string(report.FitMetrics[0]), "ranking metric: rmse, mae, max (over all points), rmse10 or rmse50 (within 10 % or 50 % of the depth)")
 	f.IntVar(&o.restarts, "restarts", fit.DefaultRestarts, "deterministic restarts beyond the automatic start (0 to 7)")
+	f.StringArrayVar(&o.starts, "start", nil, "starting parameters SPEC for the form it names, instead of the automatic start (needed for a form without Match, such as a formula form); repeat for several")
 	o.mass.register(cmd)
 }
 
@@ -164,6 +166,40 @@ func (o *fitFlags) run(e *env, path string) (*fitRun, error) {
 	if err != nil {
 		return nil, err
 	}
+	starts := map[string][]float64{}
+	for _, spec := range o.starts {
+		inst, err := e.registry.Build(spec)
+		if err != nil {
+			return nil, usageErr(fmt.Errorf("--start: %w", err))
+		}
+		key := inst.Model.Info().Key
+		if _, dup := starts[key]; dup {
+			return nil, usageErr(fmt.Errorf("--start: two starts for %s", key))
+		}
+		starts[key] = inst.Params
+	}
+	if len(o.forms) == 0 {
+		for key := range starts {
+			if m, err := e.registry.Lookup(key); err == nil && m.Info().Origin != "built-in" {
+				ms = append(ms, m) // a start names a form to fit
+			}
+		}
+	}
+	for _, m := range ms {
+		key := m.Info().Key
+		if _, ok := m.(core.Matcher); !ok && starts[key] == nil {
+			return nil, usageErr(fmt.Errorf("--form %s: the form has no match to a well, so it needs a start: --start %s:NAME=VALUE,…", key, key))
+		}
+	}
+	for key := range starts {
+		found := false
+		for _, m := range ms {
+			found = found || m.Info().Key == key
+		}
+		if !found {
+			return nil, usageErr(fmt.Errorf("--start %s: the form is not fitted (add --form %s)", key, key))
+		}
+	}
 	raw, err := e.readInput("DATA", path, refdata.MaxSize)
 	if err != nil {
 		return nil, err
@@ -172,13 +208,14 @@ func (o *fitFlags) run(e *env, path string) (*fitRun, error) {
 	if err != nil {
 		return nil, usageErr(err)
 	}
-	return fitAll(ms, data, path, s, report.FitMetric(strings.ToLower(o.rank)), mass)
+	return fitAll(ms, data, path, s, starts, report.FitMetric(strings.ToLower(o.rank)), mass)
 }
 
 // fitAll fits every form to data, in parallel, and ranks the fits. A form
 // that cannot describe the data gets its row error; bad data or settings
 // are usage errors, a failing plugin is a failure.
-func fitAll(ms []core.Model, data fit.Data, path string, s fit.Settings, metric report.FitMetric, mass report.Mass) (*fitRun, error) {
+// starts holds given starting parameters by model key.
+func fitAll(ms []core.Model, data fit.Data, path string, s fit.Settings, starts map[string][]float64, metric report.FitMetric, mass report.Mass) (*fitRun, error) {
 	inputs := make([]report.FitInput, len(ms))
 	var wg sync.WaitGroup
 	for i, m := range ms {
@@ -186,7 +223,9 @@ func fitAll(ms []core.Model, data fit.Data, path string, s fit.Settings, metric 
 		wg.Add(1)
 		go func() {
 			defer wg.Done()
-			inputs[i].Result, inputs[i].Err = fit.FitForm(m, data, s)
+			si := s
+			si.Start = starts[m.Info().Key]
+			inputs[i].Result, inputs[i].Err = fit.FitForm(m, data, si)
 		}()
 	}
 	wg.Wait()
@@ -226,11 +265,13 @@ it a parameter. A form without a dissociation limit (harmonic) always has its
 zero fitted. Weights (--weights): uniform; boltzmann:T, e^(−(E−E_min)/k_B·T);
 window:E, only points up to E above the minimum; file, the weight column.
 
-No start is needed: each form starts from its match to the data's own
-minimum, depth and curvature (a spline through the points near the lowest),
-plus deterministic restarts (--restarts); parameters "> 0" or "≥ 0" are fitted
-as logarithms so they keep their constraints. Reported per form, ranked by
---rank: parameters with standard errors (from the Jacobian at the optimum,
+No start is needed for a form that can be matched to a well (every built-in
+form): it starts from its match to the data's own minimum, depth and
+curvature (a spline through the points near the lowest), plus deterministic
+restarts (--restarts). --start SPEC gives the start of a form that has no
+match (a formula form) or overrides the automatic one. Parameters "> 0" or
+"≥ 0" are fitted as logarithms so they keep their constraints. Reported per
+form, ranked by --rank: parameters with standard errors (from the Jacobian at the optimum,
 scaled by the residual variance) and their correlation matrix; RMSE, MAE and
 max |error| over all points and within 10 % and 50 % of the data's depth;
 re, depth, k and, with --pair/--mu, the harmonic wavenumber, zero-point
