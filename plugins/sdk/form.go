@@ -14,6 +14,9 @@ import (
 // order up to it comes from the jets, exactly up to rounding.
 const DefaultMaxOrder = 40
 
+// expMask selects the exponent bits of a float64.
+const expMask = 0x7ff0000000000000
+
 // blockPoints is the number of separations a Form evaluates per tape: the
 // jets of a block stay in the first-level cache.
 const blockPoints = 256
@@ -147,11 +150,6 @@ func (p *formPotential) Taylor(n int, r, dst []float64) error {
 	if err := core.CheckTaylor(n, p.max, len(r), len(dst)); err != nil {
 		return fmt.Errorf("%s: %w", p.key, err)
 	}
-	for i, x := range r {
-		if !p.dom.Contains(x) {
-			return &core.PointError{Index: i, R: x, Err: fmt.Errorf("%s: %w", p.key, core.CheckR(p.dom, x))}
-		}
-	}
 	if len(r) == 0 {
 		return nil
 	}
@@ -166,27 +164,44 @@ func (p *formPotential) Taylor(n int, r, dst []float64) error {
 		np := len(blk)
 		t.Reset(n, np)
 		c := p.f.V(t, t.Var(blk), p.params).Coeffs()
+		// A value is ±Inf or NaN when its exponent bits are all set, that
+		// is when e = bits&expMask ^ expMask is 0, and then e − 1 has its
+		// top bit set: a branch-free integer test. The domain is checked
+		// in the same pass (V at a point outside it is discarded).
+		var flag uint64
 		bad := false
-		for i := range blk {
+		for i, x := range blk {
+			if !p.dom.Contains(x) {
+				bad = true
+			}
 			row := dst[(i0+i)*w : (i0+i+1)*w]
 			for k := range row {
 				v := c[k*np+i]
 				row[k] = v
-				if v-v != 0 { // ±Inf or NaN
-					bad = true
-				}
+				flag |= (math.Float64bits(v)&expMask ^ expMask) - 1
 			}
 		}
-		if bad {
-			for i := range blk {
-				for k, v := range dst[(i0+i)*w : (i0+i+1)*w] {
-					switch {
-					case math.IsNaN(v):
-						return &core.PointError{Index: i0 + i, R: blk[i], Err: fmt.Errorf("%s: r = %g Å: %w: V is not defined there (c_%d is NaN)", p.key, blk[i], core.ErrDomain, k)}
-					case math.IsInf(v, 0):
-						return &core.PointError{Index: i0 + i, R: blk[i], Err: fmt.Errorf("%s: %w", p.key, core.OverflowError(blk[i], k))}
-					}
-				}
+		if bad || flag>>63 != 0 {
+			return p.pointError(i0, blk, dst[i0*w:(i0+np)*w], w)
+		}
+	}
+	return nil
+}
+
+// pointError returns the error of the first point of the block blk
+// (starting at index i0 of the call) that is outside the domain or has a
+// coefficient that is not finite; rows holds the block's rows of w values.
+func (p *formPotential) pointError(i0 int, blk, rows []float64, w int) error {
+	for i, x := range blk {
+		if !p.dom.Contains(x) {
+			return &core.PointError{Index: i0 + i, R: x, Err: fmt.Errorf("%s: %w", p.key, core.CheckR(p.dom, x))}
+		}
+		for k, v := range rows[i*w : (i+1)*w] {
+			switch {
+			case math.IsNaN(v):
+				return &core.PointError{Index: i0 + i, R: x, Err: fmt.Errorf("%s: r = %g Å: %w: V is not defined there (c_%d is NaN)", p.key, x, core.ErrDomain, k)}
+			case math.IsInf(v, 0):
+				return &core.PointError{Index: i0 + i, R: x, Err: fmt.Errorf("%s: %w", p.key, core.OverflowError(x, k))}
 			}
 		}
 	}

@@ -31,8 +31,8 @@ var (
 				{Name: "re", Dimension: units.Length, Constraint: core.Positive},
 			}},
 		V: func(t *jet.Tape, r jet.Jet, p []float64) jet.Jet {
-			y := t.Exp(t.Affine(r, -p[1], p[1]*p[2])) // e^{−a(r − re)}
-			return t.Scale(t.Mul(y, t.AddConst(y, -2)), p[0])
+			y := t.Exp(t.Affine(r, -p[1], p[1]*p[2]))   // y = e^{−a(r − re)}
+			return t.Mul(y, t.Affine(y, p[0], -2*p[0])) // y·De(y − 2)
 		},
 		DomainOf: func(p []float64) core.Domain {
 			return core.Domain{Max: math.Inf(1), EquilibriumGuess: p[2]}
