@@ -29,8 +29,8 @@ const blockPoints = 256
 // core.Model and a core.Matcher; serve it with Serve like any model:
 //
 //	sdk.Serve("1.0.0", sdk.Form{Meta: info, V: func(t *jet.Tape, r jet.Jet, p []float64) jet.Jet {
-//		e := t.Exp(t.Affine(r, -p[1], p[1]*p[2]))                  // y = e^{−a(r − re)}
-//		return t.Scale(t.Mul(e, t.AddConst(e, -2)), p[0])           // De·y(y − 2), Morse
+//		y := t.Exp(t.Affine(r, -p[1], p[1]*p[2]))  // y = e^{−a(r − re)}
+//		return t.Mul(y, t.Affine(y, p[0], -2*p[0])) // De·y(y − 2), Morse
 //	}})
 //
 // Only V is required. Evaluation does not allocate after the first calls
