@@ -12,6 +12,7 @@ import (
 	"syscall"
 	"testing"
 	"time"
+	"unicode/utf8"
 
 	"github.com/stretchr/testify/assert"
 	"github.com/stretchr/testify/require"
@@ -528,4 +529,37 @@ func TestJSONRowsStreamed(t *testing.T) {
 	var rows []map[string]any
 	require.NoError(t, json.Unmarshal([]byte(out), &rows))
 	assert.Len(t, rows, 2)
+}
+
+// FuzzCleanWriter: whatever is written, split anywhere, comes out without
+// a character a terminal would act on, and clean text comes out unchanged.
+func FuzzCleanWriter(f *testing.F) {
+	f.Add("plain text\twith tab\n", 3)
+	f.Add("esc\x1b[2J c1\u009b bidi\u202e bad\xff\xfe é", 7)
+	f.Fuzz(func(t *testing.T, in string, cut int) {
+		var b strings.Builder
+		w := &cleanWriter{w: &b}
+		if cut < 0 || cut > len(in) {
+			cut = len(in) / 2
+		}
+		w.Write([]byte(in[:cut]))
+		w.Write([]byte(in[cut:]))
+		w.Write([]byte("\n")) // flushes a trailing incomplete sequence
+		out := b.String()
+		if !utf8.ValidString(out) {
+			t.Fatalf("invalid UTF-8 out of %q: %q", in, out)
+		}
+		for _, r := range out {
+			if dangerous(r) {
+				t.Fatalf("%U left in %q (from %q)", r, out, in)
+			}
+		}
+		clean := utf8.ValidString(in)
+		for _, r := range in {
+			clean = clean && !dangerous(r)
+		}
+		if clean && out != in+"\n" {
+			t.Fatalf("clean %q became %q", in, out)
+		}
+	})
 }
