@@ -65,6 +65,10 @@ func NewExpansion(w Well) Expansion {
 	}
 	c = c[:m+1]
 	beta := 0.0
+	if m < 3 {
+		// Nothing is known beyond c₂: no bound on the remainder.
+		beta = math.Inf(1)
+	}
 	for k := max(3, m-3); k <= m; k++ {
 		if c[k] != 0 {
 			beta = math.Max(beta, math.Pow(math.Abs(c[k])/c[2], 1/float64(k-2)))
@@ -202,6 +206,20 @@ func (e Expansion) Shift(x0 float64, dst []float64) {
 		}
 		dst[j] = a[j]
 	}
+}
+
+// Slope returns d/dx Σ_{k=from}^{M} c_k x^k = Σ k·c_k x^{k−1} (from ≥ 2).
+func (e Expansion) Slope(x float64, from int) float64 {
+	m := len(e.c) - 1
+	from = max(from, 2)
+	if from > m {
+		return 0
+	}
+	d := 0.0
+	for k := m; k >= from; k-- {
+		d = d*x + float64(k)*e.c[k]
+	}
+	return d * ipow(x, from-1)
 }
 
 // Value returns Σ_{k≥2} c_k x^k alone, without its bound (see Sum).

@@ -12,6 +12,7 @@ import (
 	"os"
 	"os/exec"
 	"path/filepath"
+	"regexp"
 	"strconv"
 	"strings"
 	"sync"
@@ -275,6 +276,10 @@ func (p *Plugin) start(ctx context.Context) error {
 		if errors.Is(err, fs.ErrPermission) || errors.Is(err, fs.ErrNotExist) {
 			return fmt.Errorf("plugin %s: %w", p.path, err)
 		}
+		if m := otherVersion.FindStringSubmatch(err.Error()); m != nil {
+			return fmt.Errorf("plugin %s: %w: built for protocol %s, this pairwell speaks %d: rebuild it against this version",
+				p.path, ErrHandshake, m[1], wire.ProtocolVersion)
+		}
 		return fmt.Errorf("plugin %s: %w: %s%s", p.path, ErrHandshake, oneLine(err.Error()), p.stderr.quote())
 	}
 	raw, err := rpc.Dispense(wire.PluginName)
@@ -318,15 +323,14 @@ func (p *Plugin) start(ctx context.Context) error {
 		}
 		keys[info.Key] = true
 		info.Origin, info.Version = p.path, p.version
-		m := &model{p: p, info: info}
-		if pm.GetMatcher() {
-			p.models = append(p.models, matchingModel{m})
-		} else {
-			p.models = append(p.models, m)
-		}
+		p.models = append(p.models, &model{p: p, info: info, matcher: pm.GetMatcher()})
 	}
 	return nil
 }
+
+// otherVersion matches go-plugin's error for a plugin that answered the
+// handshake with another application protocol version.
+var otherVersion = regexp.MustCompile(`incompatible API version with plugin\. Plugin version: (\d+)`)
 
 // oneLine joins the lines of a multi-line message with "; " (go-plugin's
 // start errors are several sentences on separate lines), dropping empty

@@ -32,8 +32,8 @@ tolerance:
                  against |V⁽ⁿ⁾| + |V⁽ⁿ⁻¹⁾|/r. A failure names the order and the r
                  and says whether V⁽ⁿ⁾ or V⁽ⁿ⁻¹⁾ is at fault
   batch, determinism, concurrency
-                 Batch, Derivatives, repeated and concurrent evaluations give the
-                 same bits
+                 single-point, batched, lower-order, repeated and concurrent
+                 Taylor calls give the same bits
   equilibrium    V′(re) = 0 (|V′|/(V″·re) ≤ 1e-10) and V″(re) > 0 at the minimum
   identity       each identity the form declares, relative error ≤ 1e-9
   invalid-params wrong counts, NaN, ±Inf and broken constraints are rejected

@@ -1,6 +1,7 @@
 package main
 
 import (
+	"errors"
 	"fmt"
 	"io"
 	"math"
@@ -24,15 +25,18 @@ func newCompareCmd(e *env) *cobra.Command {
 		match     string
 		order     int
 		tolerance float64
+		withValid bool
 	)
 	cmd := &cobra.Command{
-		Use:   "compare [SPEC...] [--set FILE.toml] [--match re=R,De=D,k=K] (--pair A-B | --mu M)",
+		Use:   "compare [SPEC...] [--set FILE.toml] [--match re=R,De=D,k=K] (--pair A-B | --mu M) [--validity]",
 		Short: "Compare forms side by side: well, frequency and the range of the harmonic picture",
 		Long: `compare analyses several parametrised forms and lays them side by side, one row
 per form: re, depth, force constant k, the Taylor coefficients c3 and c4, the
-harmonic wavenumber and period, and how far the truncated Taylor potential V_n
-(--order, default 2: the harmonic picture) holds, by two criteria at relative
-tolerance --tolerance (default 0.01):
+harmonic wavenumber and period, and, with --validity (or --truncation or
+--tolerance), how far the truncated Taylor potential V_n (--truncation,
+default 2: the harmonic picture) holds, by two criteria at relative tolerance
+--tolerance (default 0.01; 1% works too) — this takes 1–2 ms per form, more than
+all the rest, so it is computed only when asked:
   potential: the largest compression and stretch s from re such that
              |V_n − V| ≤ tol·|V − V(re)| for every displacement up to s;
   period:    the largest oscillation energy E such that |T_n(E)/T(E) − 1| ≤ tol
@@ -79,7 +83,9 @@ table).`,
 			if err != nil {
 				return err
 			}
-			rows, err := e.compare(inputs, report.CompareSettings{Order: order, Tolerance: tolerance})
+			f := cmd.Flags()
+			withValid = withValid || f.Changed(truncationFlag) || f.Changed("order") || f.Changed("tolerance")
+			rows, err := e.compare(inputs, report.CompareSettings{Order: order, Tolerance: tolerance, Validity: withValid})
 			if err != nil {
 				return err
 			}
@@ -101,6 +107,7 @@ table).`,
 	f.StringVar(&match, "match", "", "match every built-in form to a target well: re=R,De=D,k=K (any subset, units allowed)")
 	truncationVar(f, &order, report.DefaultValidityOrder, "order N of the truncated Taylor potential V_N whose validity is reported (2, 3 or 4)")
 	toleranceVar(f, &tolerance, "the validity criteria")
+	f.BoolVar(&withValid, "validity", false, "also compute how far the truncated Taylor potential holds (implied by --truncation and --tolerance)")
 	return cmd
 }
 
@@ -136,6 +143,11 @@ func (e *env) compareInputs(specs []string, setPath, match string, m report.Mass
 		if err != nil {
 			return nil, usageErr(fmt.Errorf("--match: %w", err))
 		}
+		for _, m := range e.registry.Models() {
+			if _, ok := m.(core.Matcher); !ok {
+				fmt.Fprintf(e.stderr, "pairwell: note: --match: %s (%s) declares nothing to match a target with, so it is left out\n", m.Info().Key, modelKind(m))
+			}
+		}
 		for _, in := range matchAll(e.registry, t) {
 			in.Name = "matched-" + in.Model
 			in.Mass = m
@@ -151,19 +163,19 @@ func (e *env) compareInputs(specs []string, setPath, match string, m report.Mass
 	return inputs, nil
 }
 
-// matchAll matches every model of reg that implements core.Matcher to the
+// matchAll matches every model of reg that can match a target well
+// (core.Match, skipping those that report core.ErrUnsupported) to the
 // target t, in registry order. A model that cannot reach t gets an input
 // carrying the error.
 func matchAll(reg *core.Registry, t core.Target) []report.CompareInput {
 	var out []report.CompareInput
 	for _, model := range reg.Models() {
-		matcher, ok := model.(core.Matcher)
-		if !ok {
+		params, notes, err := core.Match(model, t)
+		if errors.Is(err, core.ErrUnsupported) {
 			continue
 		}
 		key := model.Info().Key
 		in := report.CompareInput{Model: key}
-		params, notes, err := matcher.Match(t)
 		in.Notes = notes
 		if err == nil {
 			var pot core.Potential
@@ -307,6 +319,23 @@ var compareColumns = []column{
 	{Title: "notes"},
 }
 
+// quantumColumns are the columns of the quantum levels, shown when a
+// reduced mass is given.
+var quantumColumns = []column{
+	{Title: "fundamental", Unit: "cm⁻¹"},
+	{Title: "ZPE", Unit: "cm⁻¹"},
+}
+
+// validityColumn reports whether c is one of the validity columns, shown
+// only when the validity was computed.
+func validityColumn(c column) bool {
+	switch c.Title {
+	case "V_n −x", "V_n +x", "T_n E", "E/depth", "E/k_B":
+		return true
+	}
+	return false
+}
+
 // compareTable lays the rows out, one per form. Table cells have 6
 // significant digits; full reports full precision (for CSV) and puts the
 // note text in the notes column instead of a footnote number.
@@ -315,7 +344,27 @@ func compareTable(rows []report.CompareRow, full bool) (*table, []string) {
 	if full {
 		f = num
 	}
-	t := &table{cols: compareColumns}
+	// With a reduced mass, the quantum columns follow the period.
+	quantum := false
+	withValidity := false
+	for _, r := range rows {
+		quantum = quantum || r.Inspect != nil && r.Inspect.Mu != nil
+		withValidity = withValidity || r.Validity != nil
+	}
+	cols := compareColumns
+	if quantum {
+		cols = append(append(append([]column{}, compareColumns[:8]...), quantumColumns...), compareColumns[8:]...)
+	}
+	if !withValidity {
+		var kept []column
+		for _, c := range cols {
+			if !validityColumn(c) {
+				kept = append(kept, c)
+			}
+		}
+		cols = kept
+	}
+	t := &table{cols: cols}
 	var foot []string
 	for _, r := range rows {
 		cells := []string{r.Name}
@@ -326,14 +375,20 @@ func compareTable(rows []report.CompareRow, full bool) (*table, []string) {
 			} else {
 				cells = append(cells, "—", "—")
 			}
+			if quantum {
+				cells = append(cells, f(r.Fundamental), f(r.ZPE))
+			}
 		} else {
 			cells = append(cells, "—", "—", "—", "—", "—", "—", "—")
+			if quantum {
+				cells = append(cells, "—", "—")
+			}
 		}
 		if v := r.Validity; v != nil {
 			cells = append(cells,
 				f(float64(v.Potential.Compression)), f(float64(v.Potential.Stretch)),
 				f(float64(v.Period.Energy)), f(float64(v.Period.DepthFraction)), f(float64(v.Period.Temperature)))
-		} else {
+		} else if withValidity {
 			cells = append(cells, "—", "—", "—", "—", "—")
 		}
 		cells = append(cells, f(r.Boyle))

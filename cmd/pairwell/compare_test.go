@@ -28,10 +28,11 @@ var inspectKeys = []string{
 	"harmonic_wavenumber_per_cm", "harmonic_frequency_thz", "harmonic_period_fs", "validity",
 }
 
-// compareJSON runs compare with --format json and decodes the rows.
+// compareJSON runs compare with --format json --validity and decodes the
+// rows.
 func compareJSON(t *testing.T, args ...string) []map[string]any {
 	t.Helper()
-	code, out, errOut := runCLI(t, append([]string{"compare", "--format", "json"}, args...)...)
+	code, out, errOut := runCLI(t, append([]string{"compare", "--format", "json", "--validity"}, args...)...)
 	require.Equal(t, 0, code, errOut)
 	var rows []map[string]any
 	require.NoError(t, json.Unmarshal([]byte(out), &rows), out)
@@ -314,12 +315,12 @@ func TestCompareDeterministic(t *testing.T) {
 }
 
 func TestCompareTable(t *testing.T) {
-	code, out, _ := runCLI(t, append([]string{"compare", "--pair", "H-Cl"}, fourSpecs...)...)
+	code, out, _ := runCLI(t, append([]string{"compare", "--pair", "H-Cl", "--validity"}, fourSpecs...)...)
 	require.Equal(t, 0, code)
 	for _, s := range []string{"name", "re [Å]", "c3", "wavenumber [cm⁻¹]", "T_n E [eV]", "E/k_B [K]", "Validity of the Taylor potential V_2 at 1 %"} {
 		assert.Contains(t, out, s)
 	}
-	code, out, _ = runCLI(t, append([]string{"compare", "--pair", "H-Cl", "--format", "csv"}, fourSpecs...)...)
+	code, out, _ = runCLI(t, append([]string{"compare", "--pair", "H-Cl", "--format", "csv", "--validity"}, fourSpecs...)...)
 	require.Equal(t, 0, code)
 	lines := strings.Split(strings.TrimSpace(out), "\n")
 	require.Len(t, lines, 5)

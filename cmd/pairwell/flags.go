@@ -8,6 +8,7 @@ import (
 
 	"github.com/spf13/pflag"
 
+	"github.com/pairwell/pairwell/core/units"
 	"github.com/pairwell/pairwell/core/validity"
 	"github.com/pairwell/pairwell/internal/suggest"
 )
@@ -117,4 +118,36 @@ func choice(flag, s string, allowed []string) (string, error) {
 		}
 	}
 	return "", fmt.Errorf("--%s %q%s: allowed: %s", flag, s, suggest.Hint(t, allowed), strings.Join(allowed, ", "))
+}
+
+// energyUnits are the units of --energy-unit, in the spelling shown.
+var energyUnits = []string{"eV", "meV", "K", "kcal/mol", "kJ/mol", "cm-1", "hartree"}
+
+// energyUnit returns the canonical spelling of an --energy-unit value
+// (read ignoring case) and the value of the unit in eV (CODATA 2018, as
+// units.Parse reads it: K as k_B·T, cm-1 as h·c·ν̃).
+func energyUnit(s string) (name string, perUnit float64, err error) {
+	lower := make([]string, len(energyUnits))
+	for i, u := range energyUnits {
+		lower[i] = strings.ToLower(u)
+	}
+	c, err := choice("energy-unit", s, lower)
+	if err != nil {
+		return "", 0, fmt.Errorf("--energy-unit %q%s: allowed: %s", s, suggest.Hint(s, energyUnits), strings.Join(energyUnits, ", "))
+	}
+	for i, l := range lower {
+		if l == c {
+			name = energyUnits[i]
+		}
+	}
+	f, err := units.Factor(name, units.Energy)
+	if err != nil {
+		return "", 0, err
+	}
+	return name, f, nil
+}
+
+// energyUnitVar registers --energy-unit.
+func energyUnitVar(f *pflag.FlagSet, v *string, what string) {
+	f.StringVar(v, "energy-unit", "eV", "unit of the energies of "+what+": "+strings.Join(energyUnits, ", "))
 }

@@ -96,7 +96,14 @@ func TestOrderFlags(t *testing.T) {
 	morse := "morse:De=4.6,a=1.87,re=1.27" // invented, HCl-sized
 	code, out, errOut := runCLI(t, "inspect", morse, "--coefficients", "6", "--format", "json")
 	require.Equal(t, 0, code, errOut)
-	assert.Contains(t, out, "16.938176888346682") // c6, seven coefficients
+	var got struct {
+		Taylor []float64 `json:"taylor_coefficients"`
+	}
+	require.NoError(t, json.Unmarshal([]byte(out), &got))
+	require.Len(t, got.Taylor, 7) // c0 … c6
+	// c6 = De(−a)⁶(2⁶ − 2)/6! (Morse 1929) = 16.9381768883466761…
+	// (mpmath, 40 digits).
+	assert.InEpsilon(t, 16.938176888346676, got.Taylor[6], 1e-14)
 	code, out2, errOut := runCLI(t, "inspect", morse, "--order", "6", "--format", "json")
 	require.Equal(t, 0, code, errOut)
 	assert.Equal(t, out, out2)
@@ -180,4 +187,22 @@ func TestVersion(t *testing.T) {
 	assert.Equal(t, 0, code)
 	assert.True(t, strings.HasPrefix(out, "module,version,commit,modified,go\n"), out)
 	assert.Equal(t, 2, strings.Count(out, "\n"))
+}
+
+// TestCompareValidityOnlyWhenAsked: compare computes the validity ranges
+// (1–2 ms per form, most of its cost) only with --validity, --truncation or
+// --tolerance; without, neither the JSON key nor the table columns appear.
+func TestCompareValidityOnlyWhenAsked(t *testing.T) {
+	morse := "morse:De=4.6,a=1.87,re=1.27" // invented, HCl-sized
+	code, out, errOut := runCLI(t, "compare", morse, "--mu", "1", "--format", "json")
+	require.Equal(t, 0, code, errOut)
+	assert.NotContains(t, out, `"validity"`)
+	code, out, errOut = runCLI(t, "compare", morse, "--mu", "1")
+	require.Equal(t, 0, code, errOut)
+	assert.NotContains(t, out, "V_n")
+	for _, flag := range [][]string{{"--validity"}, {"--truncation", "3"}, {"--tolerance", "2%"}} {
+		code, out, errOut = runCLI(t, append([]string{"compare", morse, "--mu", "1", "--format", "json"}, flag...)...)
+		require.Equal(t, 0, code, errOut)
+		assert.Contains(t, out, `"validity"`, flag)
+	}
 }

@@ -2,6 +2,7 @@ package main
 
 import (
 	"encoding/json"
+	"os"
 	"strings"
 	"testing"
 
@@ -138,6 +139,48 @@ func TestLevelsBadInput(t *testing.T) {
 // evaluated in batches (see TestBatched in core/levels).
 func TestLevelsPlugin(t *testing.T) {
 	code, out, errOut := runPlugins(t, "--plugin", pluginBin.rydberg, "levels", rydbergSpec, "--pair", "1H-35Cl", "--format", "json")
+	require.Equal(t, 0, code, errOut)
+	checkLevelsJSON(t, out, true)
+}
+
+// TestCompareQuantumColumnsCLI: with a mass, compare shows the fundamental
+// and ZPE columns.
+func TestCompareQuantumColumnsCLI(t *testing.T) {
+	code, out, errOut := runCLI(t, "compare", "morse:De=4.6,a=1.87,re=1.27", "--pair", "1H-35Cl")
+	require.Equal(t, 0, code, errOut)
+	assert.Contains(t, out, "fundamental [cm⁻¹]")
+	assert.Contains(t, out, "ZPE [cm⁻¹]")
+	code, out, errOut = runCLI(t, "compare", "morse:De=4.6,a=1.87,re=1.27", "--pair", "1H-35Cl", "--format", "csv")
+	require.Equal(t, 0, code, errOut)
+	assert.Contains(t, strings.SplitN(out, "\n", 2)[0], "fundamental [cm⁻¹],ZPE [cm⁻¹]")
+}
+
+func TestPlotLevels(t *testing.T) {
+	dir := t.TempDir()
+	out := dir + "/levels.svg"
+	code, _, errOut := runCLI(t, "plot", "levels", "morse:De=4.6,a=1.87,re=1.27", "--pair", "1H-35Cl", "-o", out)
+	require.Equal(t, 0, code, errOut)
+	b, err := os.ReadFile(out)
+	require.NoError(t, err)
+	assert.Contains(t, string(b), "<svg")
+	for _, tc := range []struct {
+		args []string
+		msg  string
+	}{
+		{[]string{"morse:De=4.6,a=1.87,re=1.27"}, "reduced mass"},
+		{[]string{"harmonic:k=30,r0=1.2", "--mu", "7"}, "highest v"},
+		{[]string{"morse:De=4.6,a=1.87,re=1.27", "--mu", "1", "--v-max", "-3"}, "--v-max"},
+	} {
+		code, _, errOut := runCLI(t, append(append([]string{"plot", "levels"}, tc.args...), "-o", dir+"/x.png")...)
+		assert.Equal(t, 2, code, errOut)
+		assert.Contains(t, errOut, tc.msg)
+		assert.NoFileExists(t, dir+"/x.png")
+	}
+}
+
+// TestLevelsFormulaForm runs levels on a form typed as a formula.
+func TestLevelsFormulaForm(t *testing.T) {
+	code, out, errOut := runCLI(t, "--forms", "../../examples/forms.toml", "levels", "varshni:De=4.6,re=1.27,beta=0.5", "--pair", "H-Cl", "--format", "json")
 	require.Equal(t, 0, code, errOut)
 	checkLevelsJSON(t, out, true)
 }

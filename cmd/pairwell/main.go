@@ -56,6 +56,9 @@ func run(args []string, stdin io.Reader, stdout, stderr io.Writer) int {
 	}
 	err = withPluginFailures(err, env.failedPlugins)
 	fmt.Fprintf(env.stderr, "pairwell: %s\n", truncateMessage(oneLine(err.Error())))
+	if c := caretOf(err); c != "" {
+		fmt.Fprintln(env.stderr, c)
+	}
 	return exitCode(err)
 }
 

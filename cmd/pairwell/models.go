@@ -7,6 +7,7 @@ import (
 	"github.com/spf13/cobra"
 
 	"github.com/pairwell/pairwell/core"
+	"github.com/pairwell/pairwell/core/formula"
 )
 
 // modelParam is the JSON form of a parameter description.
@@ -30,22 +31,40 @@ type modelEntry struct {
 	Notes     string       `json:"notes,omitempty"`
 	MaxOrder  int          `json:"max_derivative_order"`
 	Origin    string       `json:"origin"`
+	Kind      string       `json:"kind"`
 	Version   string       `json:"version,omitempty"`
 }
 
-func newModelEntry(info core.ModelInfo) modelEntry {
-	m := modelEntry{
+// modelKind says where a form comes from: "built-in", "plugin" or
+// "formula" (a forms file).
+func modelKind(m core.Model) string {
+	if _, ok := m.(*formula.Form); ok {
+		return "formula"
+	}
+	if m.Info().Origin == "built-in" {
+		return "built-in"
+	}
+	return "plugin"
+}
+
+func newModelEntry(m core.Model) modelEntry {
+	info := m.Info()
+	e := modelEntry{
 		Key: info.Key, Aliases: append([]string{}, info.Aliases...), Name: info.Name,
 		Formula: info.Formula, Domain: info.Domain, Reference: info.Reference,
-		Notes: info.Notes, MaxOrder: info.MaxOrder, Origin: info.Origin, Version: info.Version,
+		Notes: info.Notes, MaxOrder: info.MaxOrder, Origin: info.Origin, Kind: modelKind(m), Version: info.Version,
 	}
 	for _, p := range info.Params {
-		m.Params = append(m.Params, modelParam{
-			Name: p.Name, Dimension: p.Dimension.String(), Unit: p.Dimension.DefaultUnit(),
+		unit := p.Unit
+		if unit == "" {
+			unit = p.Dimension.DefaultUnit()
+		}
+		e.Params = append(e.Params, modelParam{
+			Name: p.Name, Dimension: p.Dimension.String(), Unit: unit,
 			Constraint: p.Constraint.String(), Meaning: p.Meaning,
 		})
 	}
-	return m
+	return e
 }
 
 func newModelsCmd(e *env) *cobra.Command {
@@ -64,7 +83,7 @@ literature reference. The KEY (or an alias) starts a spec: KEY:NAME=VALUE,...`,
 			t := &table{cols: []column{{Title: "key"}, {Title: "formula"}, {Title: "parameters"}, {Title: "origin"}}}
 			for _, m := range e.registry.Models() {
 				info := m.Info()
-				entries = append(entries, newModelEntry(info))
+				entries = append(entries, newModelEntry(m))
 				var ps []string
 				for _, p := range info.Params {
 					ps = append(ps, p.String())
@@ -74,7 +93,10 @@ literature reference. The KEY (or an alias) starts a spec: KEY:NAME=VALUE,...`,
 					key += " (" + strings.Join(info.Aliases, ", ") + ")"
 				}
 				origin := info.Origin
-				if origin != "built-in" {
+				switch modelKind(m) {
+				case "formula":
+					origin = "forms file " + origin
+				case "plugin":
 					origin = "plugin " + origin
 					if info.Version != "" {
 						origin += " (version " + info.Version + ")"

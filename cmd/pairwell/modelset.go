@@ -22,8 +22,8 @@ func (e *env) loadSet(path string) ([]modelset.Built, error) {
 }
 
 // readSet reads and parses the model-set file at path (at most
-// modelset.MaxSize bytes) as an input of the run; failures are usage
-// errors.
+// modelset.MaxSize bytes) as an input of the run and registers the forms it
+// declares ([[form]] tables); failures are usage errors.
 func (e *env) readSet(path string) (*modelset.Set, error) {
 	data, err := e.readInput("--set", path, modelset.MaxSize)
 	if err != nil {
@@ -32,6 +32,9 @@ func (e *env) readSet(path string) (*modelset.Set, error) {
 	set, err := modelset.Parse(data, path)
 	if err != nil {
 		return nil, usageErr(fmt.Errorf("--set: %w", err))
+	}
+	if err := e.addForms(set.Forms); err != nil {
+		return nil, err
 	}
 	return set, nil
 }

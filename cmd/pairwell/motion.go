@@ -5,6 +5,7 @@ import (
 	"errors"
 	"fmt"
 	"io"
+	"math"
 	"strconv"
 
 	"github.com/spf13/cobra"
@@ -218,7 +219,11 @@ func motionTable(r report.Motion) *table {
 	t.add("perturbative period (2nd order)", num(float64(r.PerturbativePeriod)), "fs")
 	t.add("period spread (std. dev.)", fmt.Sprintf("%.3g", r.PeriodSpread), "fs")
 	t.add("periods measured", strconv.Itoa(r.PeriodsMeasured), "")
-	t.add("relative energy drift (max)", fmt.Sprintf("%.3g", r.RelativeEnergyDrift), "")
+	if d := float64(r.RelativeEnergyDrift); math.IsNaN(d) {
+		t.add("relative energy drift (max)", fmt.Sprintf("below the rounding floor (%.2g)", r.RelativeEnergyFloor), "")
+	} else {
+		t.add("relative energy drift (max)", fmt.Sprintf("%.3g", d), "")
+	}
 	if r.RTol != nil {
 		t.add("tolerances rtol, atol", fmt.Sprintf("%g, %g", *r.RTol, *r.ATol), "")
 		t.add("mean time step", num(r.TimeStep), "fs")
@@ -231,6 +236,9 @@ func motionTable(r report.Motion) *table {
 	}
 	t.add("force evaluations", strconv.Itoa(r.ForceEvals), "")
 	t.add("integrated time", num(r.Duration), "fs")
+	for _, n := range r.Notes {
+		t.add("note", n, "")
+	}
 	if r.Trajectory != "" {
 		t.add("trajectory file", fmt.Sprintf("%s (%d samples)", r.Trajectory, r.TrajectorySamples), "")
 	}

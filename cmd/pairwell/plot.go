@@ -10,6 +10,7 @@ import (
 
 	"github.com/spf13/cobra"
 
+	"github.com/pairwell/pairwell/core"
 	"github.com/pairwell/pairwell/core/figure"
 	"github.com/pairwell/pairwell/core/motion"
 	"github.com/pairwell/pairwell/core/report"
@@ -32,7 +33,7 @@ const maxPlotPeriods = 1000
 
 func newPlotCmd(e *env) *cobra.Command {
 	cmd := &cobra.Command{
-		Use:   "plot (taylor | period | compare | motion | virial | expansion | fit) ... -o FILE",
+		Use:   "plot (taylor | period | compare | motion | virial | expansion | fit | levels) ... -o FILE",
 		Short: "Draw pictures: the well and its Taylor truncations, period against amplitude, forms overlaid, motion",
 		Long: `plot draws what pairwell computes, as PNG, SVG or PDF (by the extension of
 -o FILE):
@@ -46,6 +47,7 @@ func newPlotCmd(e *env) *cobra.Command {
   virial   B₂(T), classical and with the ħ² correction, measured points overlaid
   expansion  ⟨r⟩(T): classical, cubic-term estimate and quantum
   fit      reference data with fitted forms overlaid and a residual panel
+  levels   the well with its quantum levels and the harmonic ladder beside them
 
 Every curve has its own colour, dash pattern and marker (colours from the
 Okabe–Ito palette for colour-blind readers), so the pictures stay readable in
@@ -62,18 +64,27 @@ range, an amplitude beyond the well), 1 when the file cannot be written.`,
 			if len(args) > 0 {
 				return unknownCommand(cmd, args[0])
 			}
-			return usageErr(fmt.Errorf("plot needs a kind: taylor, period, compare, motion, virial, expansion or fit (see %s --help)", cmd.CommandPath()))
+			return usageErr(fmt.Errorf("plot needs a kind: taylor, period, compare, motion, virial, expansion, fit or levels (see %s --help)", cmd.CommandPath()))
 		},
 	}
-	cmd.AddCommand(newPlotTaylorCmd(e), newPlotPeriodCmd(e), newPlotCompareCmd(e), newPlotMotionCmd(e), newPlotVirialCmd(e), newPlotExpansionCmd(e), newPlotFitCmd(e))
+	cmd.AddCommand(newPlotTaylorCmd(e), newPlotPeriodCmd(e), newPlotCompareCmd(e), newPlotMotionCmd(e), newPlotVirialCmd(e), newPlotExpansionCmd(e), newPlotFitCmd(e), newPlotLevelsCmd(e))
 	return cmd
 }
 
-// plotOutput is the -o flag of every plot command.
-type plotOutput struct{ path string }
+// plotOutput is the -o, --width, --height and --energy-unit flags of every
+// plot command.
+type plotOutput struct {
+	path          string
+	width, height float64
+	energyUnit    string
+}
 
 func (o *plotOutput) register(cmd *cobra.Command) {
-	cmd.Flags().StringVarP(&o.path, "output", "o", "", "picture file to write: .png, .svg or .pdf (required)")
+	f := cmd.Flags()
+	f.StringVarP(&o.path, "output", "o", "", "picture file to write: .png, .svg or .pdf (required)")
+	f.Float64Var(&o.width, "width", 0, fmt.Sprintf("picture width in inches, %d to %d (default %d; PNG has %d pixels per inch)", figure.MinSize, figure.MaxSize, figure.DefaultWidth, figure.DPI))
+	f.Float64Var(&o.height, "height", 0, fmt.Sprintf("picture height in inches, %d to %d (default %d, %d with a panel below)", figure.MinSize, figure.MaxSize, figure.DefaultHeight, figure.DefaultHeightTwoPanels))
+	energyUnitVar(f, &o.energyUnit, "the energy axis")
 }
 
 // check validates the output path before anything is computed: a known
@@ -87,6 +98,17 @@ func (o *plotOutput) check(e *env) error {
 	}
 	if _, err := figure.FormatFor(o.path); err != nil {
 		return usageErr(fmt.Errorf("-o: %w", err))
+	}
+	for _, v := range []struct {
+		name string
+		v    float64
+	}{{"--width", o.width}, {"--height", o.height}} {
+		if v.v != 0 && !(v.v >= figure.MinSize && v.v <= figure.MaxSize) {
+			return usageErr(fmt.Errorf("%s %g: must be %d to %d inches", v.name, v.v, figure.MinSize, figure.MaxSize))
+		}
+	}
+	if _, _, err := energyUnit(o.energyUnit); err != nil {
+		return usageErr(err)
 	}
 	if err := e.checkOutput("-o", o.path); err != nil {
 		return err
@@ -113,10 +135,17 @@ func unwrapPath(err error) error {
 }
 
 // writePlot writes f to the output file and reports it.
-func (e *env) writePlot(f *figure.Figure, path string) error {
+func (e *env) writePlot(f *figure.Figure, o *plotOutput) error {
+	path := o.path
 	format, err := figure.FormatFor(path)
 	if err != nil {
 		return usageErr(err)
+	}
+	f.Width, f.Height = o.width, o.height
+	if name, perUnit, err := energyUnit(o.energyUnit); err != nil {
+		return usageErr(err)
+	} else if name != "eV" && !f.ConvertEnergy(name, perUnit) {
+		return usageErr(fmt.Errorf("--energy-unit %s: the %s picture has no energy axis", name, f.Kind))
 	}
 	if err := e.writeOutput("-o", path, func(w io.Writer) error { return f.Render(w, format) }); err != nil {
 		if errors.Is(err, figure.ErrFigure) {
@@ -233,7 +262,7 @@ separations, RMIN:RMAX with optional units; it must overlap the domain.`,
 			if err != nil {
 				return plotErr(key, err)
 			}
-			return e.writePlot(f, out.path)
+			return e.writePlot(f, &out)
 		},
 	}
 	out.register(cmd)
@@ -311,7 +340,7 @@ well is bad input.`,
 			if err != nil {
 				return plotErr(key, err)
 			}
-			return e.writePlot(f, out.path)
+			return e.writePlot(f, &out)
 		},
 	}
 	out.register(cmd)
@@ -366,7 +395,7 @@ barrier, below which that form collapses.`,
 			if err != nil {
 				return computeErr(err)
 			}
-			return e.writePlot(f, out.path)
+			return e.writePlot(f, &out)
 		},
 	}
 	out.register(cmd)
@@ -375,6 +404,18 @@ barrier, below which that form collapses.`,
 	f.BoolVar(&reduced, "reduced", false, "reduced units: r/re and (V − V(∞))/De")
 	f.BoolVar(&fromMinimum, "from-minimum", false, "measure energies from each form's minimum, V − V(re)")
 	return cmd
+}
+
+// legendParams names a form with its parameters for a legend:
+// "morse De=4.6 a=1.87 re=1.27" (default units, 4 significant digits).
+func legendParams(inst core.Instance) string {
+	info := inst.Model.Info()
+	var b strings.Builder
+	b.WriteString(info.Key)
+	for i, p := range info.Params {
+		fmt.Fprintf(&b, " %s=%.4g", p.Name, inst.Params[i])
+	}
+	return b.String()
 }
 
 // plotCurves builds the forms of a comparison: the model-set entries, then
@@ -387,7 +428,7 @@ func (e *env) plotCurves(specs []string, setPath string) ([]figure.Curve, error)
 			return nil, err
 		}
 		for _, b := range built {
-			curves = append(curves, figure.Curve{Name: b.Name, Potential: b.Instance.Potential})
+			curves = append(curves, figure.Curve{Name: b.Name + ": " + legendParams(b.Instance), Potential: b.Instance.Potential})
 		}
 	}
 	for _, s := range specs {
@@ -395,7 +436,7 @@ func (e *env) plotCurves(specs []string, setPath string) ([]figure.Curve, error)
 		if err != nil {
 			return nil, err
 		}
-		curves = append(curves, figure.Curve{Name: inst.Model.Info().Key, Potential: inst.Potential})
+		curves = append(curves, figure.Curve{Name: legendParams(inst), Potential: inst.Potential})
 	}
 	used := map[string]bool{}
 	for i := range curves {
@@ -460,7 +501,7 @@ same way. The title gives the measured, exact and harmonic periods.`,
 			if err != nil {
 				return plotErr(key, err)
 			}
-			return e.writePlot(f, out.path)
+			return e.writePlot(f, &out)
 		},
 	}
 	out.register(cmd)

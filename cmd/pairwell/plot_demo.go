@@ -84,6 +84,7 @@ func (d *demoPictures) write(e *env) error {
 			return fitFigure(run)
 		}},
 	}
+	pictures = append(pictures, demoTemperaturePictures(e, morse.Instance, name)...)
 	if err := os.MkdirAll(d.dir, 0o755); err != nil {
 		return failErr(fmt.Errorf("demo pictures: --out: %w", err))
 	}

@@ -11,7 +11,7 @@ import (
 	"github.com/stretchr/testify/require"
 )
 
-var demoPictureFiles = []string{"compare.png", "fit.png", "motion.png", "period.png", "taylor.png"}
+var demoPictureFiles = []string{"compare.png", "expansion.png", "fit.png", "motion.png", "period.png", "taylor.png", "virial.png"}
 
 func requireDemoPictures(t *testing.T, dir string) {
 	t.Helper()

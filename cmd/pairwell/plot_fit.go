@@ -41,7 +41,7 @@ Forms that could not be fitted are left out, with a note.`,
 			if err != nil {
 				return err
 			}
-			return e.writePlot(f, out.path)
+			return e.writePlot(f, &out)
 		},
 	}
 	out.register(cmd)

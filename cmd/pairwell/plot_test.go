@@ -5,6 +5,7 @@ import (
 	"encoding/json"
 	"encoding/xml"
 	"image/png"
+	stdpng "image/png"
 	"io"
 	"os"
 	"path/filepath"
@@ -102,7 +103,8 @@ func TestPlotEveryKindEveryForm(t *testing.T) {
 	}
 	out := filepath.Join(dir, "compare.png")
 	r := plotJSON(t, append(append([]string{"plot", "compare"}, plotSpecs...), "-o", out)...)
-	assert.Equal(t, []string{"morse", "lennard-jones", "buckingham", "harmonic"}, r.Series)
+	// Legends carry the parameters (issue 17).
+	assert.Equal(t, []string{"morse De=4.6 a=1.87 re=1.27", "lennard-jones epsilon=0.01034 sigma=3.4", "buckingham A=1500 rho=0.3 C=25", "harmonic k=30 r0=1.2"}, r.Series)
 	requirePNG(t, out)
 }
 
@@ -133,15 +135,55 @@ spec = "harmonic:k=30,r0=1.2"
 `), 0o644))
 	out := filepath.Join(dir, "c.png")
 	r := plotJSON(t, "plot", "compare", "--set", set, "morse:De=1,a=1,re=2", "--reduced", "-o", out)
-	assert.Equal(t, []string{"bond-a", "bond-b", "morse"}, r.Series)
+	assert.Equal(t, []string{"bond-a: morse De=4.6 a=1.87 re=1.27", "bond-b: lennard-jones epsilon=4.6 sigma=1.13", "morse De=1 a=1 re=2"}, r.Series)
 	require.Len(t, r.Notes, 1)
-	assert.Contains(t, r.Notes[0], "spring is left out")
+	assert.Contains(t, r.Notes[0], "spring: harmonic k=30 r0=1.2 is left out")
 	requirePNG(t, out)
 
 	// Table output names the file and the notes.
 	code, text, errOut := runCLI(t, "plot", "compare", "--set", set, "--from-minimum", "-o", out)
 	require.Equal(t, 0, code, errOut)
-	assert.True(t, strings.HasPrefix(text, "wrote "+out+" (compare, png): bond-a; bond-b; spring\n"), text)
+	assert.True(t, strings.HasPrefix(text, "wrote "+out+" (compare, png): bond-a: morse De=4.6 a=1.87 re=1.27; bond-b: lennard-jones epsilon=4.6 sigma=1.13; spring: harmonic k=30 r0=1.2\n"), text)
+}
+
+// TestPlotPictureOptions: notes about dropped forms are on the picture,
+// --width/--height set its size, --energy-unit its energy axis (issue 17).
+func TestPlotPictureOptions(t *testing.T) {
+	dir := t.TempDir()
+	morse := "morse:De=4.6,a=1.87,re=1.27" // invented, HCl-sized
+	svg := filepath.Join(dir, "c.svg")
+	r := plotJSON(t, "plot", "compare", morse, "harmonic:k=30,r0=1.2", "--reduced", "-o", svg)
+	require.Len(t, r.Notes, 1)
+	text := requireSVG(t, svg)
+	assert.Contains(t, text, "Note: harmonic k=30 r0=1.2 is left out")
+
+	png := filepath.Join(dir, "t.png")
+	plotJSON(t, "plot", "taylor", morse, "--width", "6", "--height", "4", "-o", png)
+	f, err := os.Open(png)
+	require.NoError(t, err)
+	defer f.Close()
+	cfg, err := stdpng.DecodeConfig(f)
+	require.NoError(t, err)
+	assert.Equal(t, 6*150, cfg.Width)
+	assert.Equal(t, 4*150, cfg.Height)
+
+	for unit, label := range map[string]string{"K": "potential energy V [K]", "kcal/MOL": "potential energy V [kcal/mol]", "cm-1": "potential energy V [cm-1]"} {
+		svg := filepath.Join(dir, "e.svg")
+		plotJSON(t, "plot", "taylor", morse, "--energy-unit", unit, "-o", svg)
+		assert.Contains(t, requireSVG(t, svg), label, unit)
+	}
+	svg = filepath.Join(dir, "p.svg")
+	plotJSON(t, "plot", "period", morse, "--pair", "H-Cl", "--energy-axis", "--energy-unit", "meV", "-o", svg)
+	assert.Contains(t, requireSVG(t, svg), "oscillation energy E = V(r0) − V(re) [meV]")
+
+	for _, args := range [][]string{
+		{"plot", "taylor", morse, "--width", "1", "-o", png},
+		{"plot", "taylor", morse, "--energy-unit", "furlong", "-o", png},
+		{"plot", "motion", morse, "--pair", "H-Cl", "--amplitude", "0.1", "--energy-unit", "K", "-o", png},
+	} {
+		code, _, errOut := runCLI(t, args...)
+		assert.Equal(t, 2, code, "%v: %s", args, errOut)
+	}
 }
 
 func TestPlotBadInput(t *testing.T) {

@@ -118,7 +118,7 @@ points); without them the range of the data, or depth/(3k_B) to 30·depth/k_B.`,
 				return plotErr(key, err)
 			}
 			f.Notes = append(f.Notes, v.Notes...)
-			return e.writePlot(f, out.path)
+			return e.writePlot(f, &out)
 		},
 	}
 	out.register(cmd)
@@ -184,7 +184,7 @@ to the largest of --temperatures (200 points); by default 1 K to depth/(20 k_B).
 				return plotErr(key, err)
 			}
 			f.Notes = append(f.Notes, x.Notes...)
-			return e.writePlot(f, out.path)
+			return e.writePlot(f, &out)
 		},
 	}
 	out.register(cmd)

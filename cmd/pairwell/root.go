@@ -45,6 +45,7 @@ func (e *env) close() {
 
 func newRootCmd(e *env) *cobra.Command {
 	var loadPlugins func() error // see plugins.go
+	var loadForms func() error   // see forms.go
 	root := &cobra.Command{
 		Use:   "pairwell",
 		Short: "Find, characterise and compare the wells of interatomic pair potentials",
@@ -71,11 +72,15 @@ field: do not base production or safety decisions on its numbers alone.`,
 				return usageErr(err)
 			}
 			e.format = f
-			return loadPlugins()
+			if err := loadPlugins(); err != nil {
+				return err
+			}
+			return loadForms()
 		},
 	}
 	root.PersistentFlags().StringVar(&e.format, "format", "table", "output format: table, json or csv")
 	loadPlugins = registerPlugins(root, e)
+	loadForms = registerForms(root, e)
 	root.DisableSuggestions = true // unknownCommand suggests
 	root.SetFlagErrorFunc(func(cmd *cobra.Command, err error) error {
 		// "plot taylr -o a.png": the mistyped kind, not the flag, is wrong.

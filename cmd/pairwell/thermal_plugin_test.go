@@ -3,6 +3,8 @@ package main
 import (
 	"encoding/json"
 	"math"
+	"os"
+	"path/filepath"
 	"strconv"
 	"testing"
 
@@ -62,3 +64,63 @@ func TestExpansionPlugin(t *testing.T) {
 }
 
 func fmtFloat(v float64) string { return strconv.FormatFloat(v, 'g', -1, 64) }
+
+// thermalForms declares Lennard-Jones and Morse as formula forms (forms
+// file), under keys of their own.
+const thermalForms = `
+[[form]]
+key = "lj-formula"
+formula = "4*epsilon*((sigma/r)^12 - (sigma/r)^6)"
+limit = 0
+[[form.param]]
+name = "epsilon"
+unit = "eV"
+constraint = "> 0"
+[[form.param]]
+name = "sigma"
+unit = "A"
+constraint = "> 0"
+
+[[form]]
+key = "morse-formula"
+formula = "De*(1 - exp(-a*(r - re)))^2 - De"
+limit = 0
+[[form.param]]
+name = "De"
+unit = "eV"
+constraint = "> 0"
+[[form.param]]
+name = "a"
+unit = "1/A"
+constraint = "> 0"
+[[form.param]]
+name = "re"
+unit = "A"
+constraint = "> 0"
+`
+
+// TestThermalFormulaForms: formula forms give the built-in forms' B₂,
+// Boyle temperature and thermal expansion.
+func TestThermalFormulaForms(t *testing.T) {
+	file := filepath.Join(t.TempDir(), "forms.toml")
+	require.NoError(t, os.WriteFile(file, []byte(thermalForms), 0o644))
+	temps := "60,120,300,1000"
+	f := runJSON(t, "--forms", file, "virial", "lj-formula:epsilon=0.0104,sigma=3.4", "--pair", "Ar-Ar", "--temperatures", temps)
+	b := runJSON(t, "virial", "lj:epsilon=0.0104,sigma=3.4", "--pair", "Ar-Ar", "--temperatures", temps)
+	for i, r := range f["rows"].([]any) {
+		row, ref := r.(map[string]any), b["rows"].([]any)[i].(map[string]any)
+		for _, k := range []string{"b2_cm3_per_mol", "b2_classical_cm3_per_mol", "b2_quantum_correction_cm3_per_mol"} {
+			assert.InDelta(t, ref[k].(float64), row[k].(float64), 1e-10*math.Max(1, math.Abs(ref[k].(float64))), k)
+		}
+	}
+	assert.InDelta(t, b["boyle_temperature_k"].(float64), f["boyle_temperature_k"].(float64), 1e-8)
+
+	f = runJSON(t, "--forms", file, "expansion", "morse-formula:De=4.6,a=1.87,re=1.27", "--pair", "H-Cl", "--temperatures", "10,300,2000")
+	b = runJSON(t, "expansion", "morse:De=4.6,a=1.87,re=1.27", "--pair", "H-Cl", "--temperatures", "10,300,2000")
+	for i, r := range f["rows"].([]any) {
+		row, ref := r.(map[string]any), b["rows"].([]any)[i].(map[string]any)
+		for _, k := range []string{"mean_r_classical_angstrom", "mean_r_cubic_estimate_angstrom", "mean_r_quantum_angstrom", "rms_displacement_angstrom"} {
+			assert.InDelta(t, ref[k], row[k], 1e-9, k)
+		}
+	}
+}

@@ -96,7 +96,6 @@ func TestValidityBadInput(t *testing.T) {
 		{"tolerance 0", []string{"morse:De=4.6,a=1.87,re=1.27", "--tolerance", "0"}, "--tolerance"},
 		{"tolerance 150%", []string{"morse:De=4.6,a=1.87,re=1.27", "--tolerance", "150%"}, "--tolerance"},
 		{"tolerance text", []string{"morse:De=4.6,a=1.87,re=1.27", "--tolerance", "tight"}, "--tolerance"},
-		{"tolerance too small", []string{"morse:De=4.6,a=1.87,re=1.27", "--tolerance", "1e-9"}, "larger tolerance"},
 		{"bad mass", []string{"morse:De=4.6,a=1.87,re=1.27", "--mu", "-1"}, "--mu"},
 		{"bad spec", []string{"nosuch:x=1"}, "nosuch"},
 	}
@@ -109,4 +108,23 @@ func TestValidityBadInput(t *testing.T) {
 			assert.Contains(t, stderr.String(), tt.text)
 		})
 	}
+}
+
+// TestValiditySmallTolerance: a tolerance far below the rounding of
+// V − V(re) is resolved from the Taylor series at re. For Morse at N = 2
+// the potential limit is x ≈ τ·c₂/|c₃| = τ/a to leading order
+// (c₂ = De·a², c₃ = −De·a³, Morse 1929), with corrections of order a·x.
+func TestValiditySmallTolerance(t *testing.T) {
+	var stdout, stderr bytes.Buffer
+	code := run([]string{"validity", "morse:De=4.6,a=1.87,re=1.27", "--tolerance", "1e-9", "--format", "json"}, strings.NewReader(""), &stdout, &stderr)
+	require.Equal(t, 0, code, stderr.String())
+	var out struct {
+		Potential struct {
+			Compression float64 `json:"compression_angstrom"`
+			Stretch     float64 `json:"stretch_angstrom"`
+		} `json:"potential"`
+	}
+	require.NoError(t, json.Unmarshal(stdout.Bytes(), &out))
+	assert.InEpsilon(t, 1e-9/1.87, out.Potential.Compression, 1e-6)
+	assert.InEpsilon(t, 1e-9/1.87, out.Potential.Stretch, 1e-6)
 }

@@ -5,7 +5,7 @@
 // shaded bands and vertical lines that mark ranges, axis labels with units
 // and explicit axis limits. The builders (Taylor, Period, Compare, Motion)
 // compute a Figure from a core.Potential alone, evaluating many points
-// through Potential.Batch, so plugin forms work like built-in ones; they do
+// through Potential.Taylor, so plugin forms work like built-in ones; they do
 // no I/O. Render and WriteFile draw a Figure as PNG, SVG or PDF.
 //
 // The series hold the computed values themselves, not values clipped for
@@ -22,6 +22,7 @@ import (
 	"errors"
 	"fmt"
 	"math"
+	"strings"
 )
 
 // Role is what a series stands for; it selects its style.
@@ -39,8 +40,8 @@ const (
 	// only, no line.
 	Measured
 	// Peer is one of several curves of equal standing (forms overlaid):
-	// the k-th peer gets the k-th style of the cycle, starting with the
-	// black solid line.
+	// the k-th peer gets the k-th style of the cycle, never the black
+	// solid line of a reference, so that no form reads as the reference.
 	Peer
 )
 
@@ -108,14 +109,66 @@ type Figure struct {
 	Series []Series
 	// Marks are drawn below the series.
 	Marks []Mark
-	// Notes are facts a reader needs that the picture does not show,
-	// for the caller to print (a form left out, a limit off the axes).
+	// Notes are facts a reader needs that the curves do not show (a
+	// form left out, a limit off the axes): they are written under the
+	// plot, and the caller may print them too.
 	Notes []string
+	// Width and Height are the size of the picture in inches, MinSize to
+	// MaxSize; zero means DefaultWidth × DefaultHeight (10 × 5).
+	Width, Height float64
 	// Below, when not nil, is a second panel drawn under this one with
 	// the same x axis (its XMin and XMax are this figure's), such as the
 	// residuals of a fit. Its series take the style of the series of
 	// the same name above; it has no legend of its own.
 	Below *Figure
+}
+
+// energySuffix ends the label of an axis that holds energies in eV.
+const energySuffix = " [eV]"
+
+// ConvertEnergy expresses the energy axes of f — those whose label ends in
+// " [eV]" — in another unit: every value, limit and mark on such an axis is
+// divided by perUnit, the value of the unit in eV, and the label names the
+// unit. It reports whether f has an energy axis. perUnit must be finite and
+// positive.
+func (f *Figure) ConvertEnergy(name string, perUnit float64) bool {
+	if !(perUnit > 0) || math.IsInf(perUnit, 0) {
+		return false
+	}
+	found := false
+	if strings.HasSuffix(f.XLabel, energySuffix) {
+		found = true
+		f.XLabel = strings.TrimSuffix(f.XLabel, energySuffix) + " [" + name + "]"
+		f.XMin, f.XMax = f.XMin/perUnit, f.XMax/perUnit
+		for i := range f.Series {
+			f.Series[i].X = scaled(f.Series[i].X, perUnit)
+		}
+		for i := range f.Marks {
+			f.Marks[i].X0 /= perUnit
+			f.Marks[i].X1 /= perUnit
+		}
+	}
+	if strings.HasSuffix(f.YLabel, energySuffix) {
+		found = true
+		f.YLabel = strings.TrimSuffix(f.YLabel, energySuffix) + " [" + name + "]"
+		f.YMin, f.YMax = f.YMin/perUnit, f.YMax/perUnit
+		for i := range f.Series {
+			f.Series[i].Y = scaled(f.Series[i].Y, perUnit)
+		}
+	}
+	if f.Below != nil && f.Below.ConvertEnergy(name, perUnit) {
+		found = true
+	}
+	return found
+}
+
+// scaled returns a copy of v divided by d (series may share slices).
+func scaled(v []float64, d float64) []float64 {
+	out := make([]float64, len(v))
+	for i, x := range v {
+		out[i] = x / d
+	}
+	return out
 }
 
 // SeriesByName returns the series called name, or nil.

@@ -33,8 +33,15 @@ const (
 var timeUnit = math.Sqrt(1.66053906660e-27*1e-20/1.602176634e-19) * 1e15
 
 // opaque hides every method of a potential but those of core.Potential,
-// as a plugin form does: no Guesser, Turnover or Identifier.
+// and the equilibrium guess of its domain, as a form without a closed-form
+// minimum: the analysis has to scan for it.
 type opaque struct{ core.Potential }
+
+func (p opaque) Domain() core.Domain {
+	d := p.Potential.Domain()
+	d.EquilibriumGuess = 0
+	return d
+}
 
 func morse(t *testing.T) core.Potential {
 	t.Helper()
@@ -641,17 +648,29 @@ func TestTicks(t *testing.T) {
 
 func TestStyles(t *testing.T) {
 	got := styles([]Series{{Role: Reference}, {Role: Approximation}, {Role: Measured}, {Role: Peer}, {Role: Peer}})
-	if want := []int{0, 1, 2, 0, 1}; fmt.Sprint(got) != fmt.Sprint(want) {
+	if want := []int{0, 1, 2, 1, 2}; fmt.Sprint(got) != fmt.Sprint(want) {
 		t.Errorf("styles %v, want %v", got, want)
 	}
-	// Every style but the reference differs from every other in colour,
-	// dash pattern and marker.
+	// Every style but the reference differs from every other in colour
+	// and dash pattern (markers repeat after seven).
 	for i := 1; i < numStyles; i++ {
 		for j := 1; j < i; j++ {
 			a, b := styleAt(i), styleAt(j)
-			if a.color == b.color || fmt.Sprint(a.dashes) == fmt.Sprint(b.dashes) || a.glyph == b.glyph {
+			if a.color == b.color || fmt.Sprint(a.dashes) == fmt.Sprint(b.dashes) {
 				t.Errorf("styles %d and %d share a cue", i, j)
 			}
+		}
+	}
+	// Black solid is the reference's alone, however many series there are
+	// (issue 17: the order-8 truncation was drawn like the exact V).
+	ss := make([]Series, 40)
+	for i := range ss {
+		ss[i].Role = []Role{Approximation, Peer, Measured}[i%3]
+	}
+	for i, k := range styles(ss) {
+		st := styleAt(k)
+		if st.color == black || st.dashes == nil {
+			t.Errorf("series %d (%v) gets style %d: black %v, solid %v", i, ss[i].Role, k, st.color == black, st.dashes == nil)
 		}
 	}
 }

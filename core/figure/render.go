@@ -33,14 +33,41 @@ const (
 
 // Picture size and resolution.
 const (
-	width  = 10 * vg.Inch
-	height = 5 * vg.Inch
-	// heightTwoPanels is the height of a figure with a panel below.
-	heightTwoPanels = 7 * vg.Inch
-	// dpi is the resolution of PNG output: 1500×750 pixels (1500×1050
-	// with a panel below).
-	dpi = 150
+	// DefaultWidth and DefaultHeight are the size of a picture in
+	// inches when Figure.Width and Figure.Height are zero;
+	// DefaultHeightTwoPanels is the default height of a figure with a
+	// panel Below.
+	DefaultWidth           = 10
+	DefaultHeight          = 5
+	DefaultHeightTwoPanels = 7
+	// DPI is the resolution of PNG output: 1500×750 pixels at the
+	// default size (1500×1050 with a panel below).
+	DPI = 150
+	// MinSize and MaxSize bound Figure.Width and Figure.Height, in
+	// inches.
+	MinSize = 3
+	MaxSize = 40
 )
+
+// size returns the picture's size.
+func (f *Figure) size() (w, h vg.Length, err error) {
+	wi, hi := f.Width, f.Height
+	if wi == 0 {
+		wi = DefaultWidth
+	}
+	if hi == 0 {
+		hi = DefaultHeight
+		if f.Below != nil {
+			hi = DefaultHeightTwoPanels
+		}
+	}
+	for _, v := range []float64{wi, hi} {
+		if !(v >= MinSize && v <= MaxSize) {
+			return 0, 0, fmt.Errorf("figure %s: %w: size %g × %g in, each side must be %d to %d in", f.Kind, ErrFigure, wi, hi, MinSize, MaxSize)
+		}
+	}
+	return vg.Length(wi) * vg.Inch, vg.Length(hi) * vg.Inch, nil
+}
 
 // FormatFor returns the format of the file path from its extension,
 // case-insensitively: .png, .svg or .pdf. Anything else is an error
@@ -89,17 +116,17 @@ func (f *Figure) Render(w io.Writer, format Format) error {
 	if err := f.check(); err != nil {
 		return err
 	}
+	width, h, err := f.size()
+	if err != nil {
+		return err
+	}
 	var (
 		c  vg.CanvasSizer
 		wt io.WriterTo
 	)
-	h := height
-	if f.Below != nil {
-		h = heightTwoPanels
-	}
 	switch format {
 	case PNG:
-		img := vgimg.NewWith(vgimg.UseWH(width, h), vgimg.UseDPI(dpi), vgimg.UseBackgroundColor(color.White))
+		img := vgimg.NewWith(vgimg.UseWH(width, h), vgimg.UseDPI(DPI), vgimg.UseBackgroundColor(color.White))
 		c, wt = img, pngWriter{img}
 	case SVG:
 		s := vgsvg.New(width, h)
@@ -162,6 +189,24 @@ func (f *Figure) draw(dc draw.Canvas) error {
 		return err
 	}
 	gap := vg.Points(14)
+	// Notes go under the plot, across the whole width, so that a form
+	// left out or a limit off the axes is said on the picture itself.
+	noteStyle := p.Title.TextStyle
+	noteStyle.Font = font.From(sans, 9)
+	noteStyle.XAlign, noteStyle.YAlign = draw.XLeft, draw.YBottom
+	var noteLines []string
+	for _, n := range f.Notes {
+		noteLines = append(noteLines, wrapText(noteStyle, "Note: "+n, dc.Max.X-dc.Min.X-2*gap)...)
+	}
+	if len(noteLines) > 0 {
+		r := noteStyle.Rectangle("Ag")
+		lineH := r.Max.Y - r.Min.Y + vg.Points(2)
+		for i, l := range noteLines {
+			y := dc.Min.Y + vg.Points(4) + vg.Length(len(noteLines)-1-i)*lineH
+			dc.FillText(noteStyle, vg.Point{X: dc.Min.X + gap, Y: y}, l)
+		}
+		dc = draw.Crop(dc, 0, 0, vg.Length(len(noteLines))*lineH+vg.Points(8), 0)
+	}
 	lr := leg.Rectangle(dc)
 	lw := lr.Max.X - lr.Min.X
 	// Shrink a title too wide for the plot, down to 8 points.
@@ -499,4 +544,27 @@ func (m *markPlotter) fill(c draw.Canvas, r vg.Rectangle) {
 		}
 		c.StrokeLine2(ls, r.Min.X+vg.Length(u0), r.Min.Y+vg.Length(u0)+d, r.Min.X+vg.Length(u1), r.Min.Y+vg.Length(u1)+d)
 	}
+}
+
+// wrapText breaks txt at spaces into lines no wider than w in style ts; a
+// single word wider than w stays whole.
+func wrapText(ts draw.TextStyle, txt string, w vg.Length) []string {
+	var lines []string
+	line := ""
+	for _, word := range strings.Fields(txt) {
+		try := word
+		if line != "" {
+			try = line + " " + word
+		}
+		if r := ts.Rectangle(try); line != "" && r.Max.X-r.Min.X > w {
+			lines = append(lines, line)
+			line = word
+			continue
+		}
+		line = try
+	}
+	if line != "" {
+		lines = append(lines, line)
+	}
+	return lines
 }

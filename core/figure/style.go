@@ -48,16 +48,31 @@ var (
 	markLine  = color.NRGBA{0x60, 0x60, 0x60, 0xff}
 )
 
-// numStyles is the length of the style cycle.
-const numStyles = 8
+// numStyles is the number of distinct styles: the reference's and
+// numStyles−1 others, each with its own colour, dash pattern and marker.
+const numStyles = 14
 
-// styleAt returns the k-th style of the cycle (k ≥ 0, wrapping around).
-// Style 0, the black solid line, is the reference.
+// Darker companions of the palette, for pictures with more than seven
+// curves besides the reference: each keeps a hue of the palette at about
+// 60 % of its lightness, with its own dash pattern and marker.
+var (
+	darkBlue       = color.NRGBA{0x00, 0x44, 0x6b, 0xff}
+	darkVermillion = color.NRGBA{0x80, 0x38, 0x00, 0xff}
+	darkGreen      = color.NRGBA{0x00, 0x5f, 0x45, 0xff}
+	darkPurple     = color.NRGBA{0x7a, 0x48, 0x64, 0xff}
+	darkOrange     = color.NRGBA{0x8a, 0x5f, 0x00, 0xff}
+	darkSkyBlue    = color.NRGBA{0x2a, 0x6c, 0x8c, 0xff}
+)
+
+// styleAt returns the k-th style (k ≥ 0). Style 0, the black solid line,
+// is the reference's and no other: k > 0 cycles through the other
+// numStyles−1 styles, none of them black or solid.
 func styleAt(k int) style {
 	pt := vg.Points
-	switch k % numStyles {
-	case 0:
+	if k == 0 {
 		return style{color: black, width: pt(2.2)}
+	}
+	switch 1 + (k-1)%(numStyles-1) {
 	case 1:
 		return style{color: blue, width: pt(1.6), dashes: []vg.Length{pt(7), pt(3)}, glyph: draw.RingGlyph{}, markers: true}
 	case 2:
@@ -70,17 +85,31 @@ func styleAt(k int) style {
 		return style{color: orange, width: pt(1.6), dashes: []vg.Length{pt(8), pt(2.5), pt(2), pt(2.5), pt(2), pt(2.5)}, glyph: draw.PlusGlyph{}, markers: true}
 	case 6:
 		return style{color: skyBlue, width: pt(1.8), dashes: []vg.Length{pt(4), pt(3)}, glyph: draw.PyramidGlyph{}, markers: true}
-	default:
+	case 7:
 		return style{color: darkGray, width: pt(1.4), dashes: []vg.Length{pt(5), pt(2), pt(1), pt(2)}, glyph: draw.BoxGlyph{}, markers: true}
+	case 8:
+		return style{color: darkBlue, width: pt(1.5), dashes: []vg.Length{pt(11), pt(2), pt(3), pt(2)}, glyph: draw.CircleGlyph{}, markers: true}
+	case 9:
+		return style{color: darkVermillion, width: pt(1.5), dashes: []vg.Length{pt(3), pt(4)}, glyph: draw.RingGlyph{}, markers: true}
+	case 10:
+		return style{color: darkGreen, width: pt(1.5), dashes: []vg.Length{pt(15), pt(3), pt(2), pt(3), pt(2), pt(3)}, glyph: draw.TriangleGlyph{}, markers: true}
+	case 11:
+		return style{color: darkPurple, width: pt(1.5), dashes: []vg.Length{pt(6), pt(5)}, glyph: draw.SquareGlyph{}, markers: true}
+	case 12:
+		return style{color: darkOrange, width: pt(1.5), dashes: []vg.Length{pt(1), pt(2)}, glyph: draw.CrossGlyph{}, markers: true}
+	default:
+		return style{color: darkSkyBlue, width: pt(1.5), dashes: []vg.Length{pt(10), pt(2), pt(10), pt(2), pt(2), pt(2)}, glyph: draw.PlusGlyph{}, markers: true}
 	}
 }
 
-// styles assigns a style index to every series: a Reference gets 0, a
-// Peer the next of its own count (0, 1, …), an Approximation or Measured
-// series the next of theirs (1, 2, …), in the order of the series.
+// styles assigns a style index to every series: a Reference gets 0, the
+// black solid line, which no other series ever gets; Peer series (forms of
+// equal standing, none of them the reference) get 1, 2, … in their own
+// count, and Approximation and Measured series 1, 2, … in theirs, in the
+// order of the series.
 func styles(ss []Series) []int {
 	out := make([]int, len(ss))
-	peer, other := 0, 1
+	peer, other := 1, 1
 	for i, s := range ss {
 		switch s.Role {
 		case Reference:

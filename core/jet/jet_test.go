@@ -186,3 +186,29 @@ func TestLayoutPanicsOnLength(t *testing.T) {
 	t1, t2 := NewTape(2, 3), NewTape(3, 3)
 	assert.Panics(t, func() { t2.Exp(t1.Const(1)) })
 }
+
+// The linear-operand methods agree with the general ones on linear jets
+// (several points at once, including a_0 = 0 for the square).
+func TestLinearMethods(t *testing.T) {
+	for _, order := range []int{0, 1, 2, 3, 12} {
+		l := Layout{Order: order, Points: 4}
+		a := make([]float64, l.Len())
+		l.Var(a, []float64{0.5, 1.3, 2, 7})
+		l.Affine(a, a, -1.7, 2.2) // a linear jet with slope −1.7
+		g, h := make([]float64, l.Len()), make([]float64, l.Len())
+		l.Exp(g, a)
+		l.ExpLinear(h, a)
+		assertJets(t, l, h, g, 1e-15, "ExpLinear")
+		for _, p := range []float64{-12, -6, -1.5, 0.5, 3, 7} {
+			b := make([]float64, l.Len())
+			l.Var(b, []float64{0.5, 1.3, 2, 7})
+			l.Pow(g, b, p)
+			l.PowLinear(h, b, p)
+			assertJets(t, l, h, g, 1e-14, "PowLinear")
+		}
+		l.Var(a, []float64{0, 1.3, -2, 7})
+		l.Square(g, a)
+		l.SquareLinear(h, a)
+		assert.Equal(t, g, h, "SquareLinear order %d", order)
+	}
+}

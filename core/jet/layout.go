@@ -532,3 +532,82 @@ func (l Layout) Erf(dst, a, work []float64) {
 		}
 	}
 }
+
+// The methods below are faster versions for a linear operand, a jet with
+// a_k = 0 for k ≥ 2 (such as the variable x or an affine function of it);
+// they do not check that it is linear.
+
+// ExpLinear sets dst = exp(a) for a linear jet a, from c′ = a_1·c:
+//
+//	c_0 = exp(a_0),  c_k = a_1 c_{k−1} / k.
+func (l Layout) ExpLinear(dst, a []float64) {
+	l.check(dst, a)
+	a0, d0 := l.row(a, 0), l.row(dst, 0)
+	for i := range d0 {
+		d0[i] = math.Exp(a0[i])
+	}
+	if l.Order == 0 {
+		return
+	}
+	a1 := l.row(a, 1)
+	for k := 1; k <= l.Order; k++ {
+		dk, dp := l.row(dst, k), l.row(dst, k-1)
+		f := 1 / float64(k)
+		for i := range dk {
+			dk[i] = f * a1[i] * dp[i]
+		}
+	}
+}
+
+// PowLinear sets dst = a^p for a linear jet a with a_0 ≠ 0, by the
+// binomial series of (a_0 + a_1 t)^p:
+//
+//	c_0 = a_0^p,  c_k = c_{k−1} · (p − k + 1)/k · a_1/a_0.
+//
+// For an integer p ≥ 0 the coefficients beyond order p are exactly 0.
+func (l Layout) PowLinear(dst, a []float64, p float64) {
+	l.check(dst, a)
+	m := l.Points
+	a0, d0 := l.row(a, 0), l.row(dst, 0)
+	if l.Order == 0 {
+		for i := range d0 {
+			d0[i] = math.Pow(a0[i], p)
+		}
+		return
+	}
+	a1 := l.row(a, 1)
+	for i := range d0 {
+		c := math.Pow(a0[i], p)
+		d0[i] = c
+		q := a1[i] / a0[i]
+		for k := 1; k <= l.Order; k++ {
+			c *= (p - float64(k-1)) / float64(k) * q
+			dst[k*m+i] = c
+		}
+	}
+}
+
+// SquareLinear sets dst = a² for a linear jet a: c_0 = a_0², c_1 = 2a_0a_1,
+// c_2 = a_1², c_k = 0 for k ≥ 3.
+func (l Layout) SquareLinear(dst, a []float64) {
+	l.check(dst, a)
+	a0, d0 := l.row(a, 0), l.row(dst, 0)
+	for i := range d0 {
+		d0[i] = a0[i] * a0[i]
+	}
+	if l.Order == 0 {
+		return
+	}
+	a1, d1 := l.row(a, 1), l.row(dst, 1)
+	for i := range d1 {
+		d1[i] = 2 * a0[i] * a1[i]
+	}
+	if l.Order == 1 {
+		return
+	}
+	d2 := l.row(dst, 2)
+	for i := range d2 {
+		d2[i] = a1[i] * a1[i]
+	}
+	clear(dst[3*l.Points:])
+}

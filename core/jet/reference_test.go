@@ -109,6 +109,41 @@ const (
 	refTolHigh = 3e-13
 )
 
+// evalLinear computes exp and pow with the linear-operand methods (the
+// variable is a linear jet); ok is false for the other functions.
+func evalLinear(fn string, p float64, order int, x0 float64) ([]float64, bool) {
+	l := Layout{Order: order, Points: 1}
+	a := make([]float64, l.Len())
+	dst := make([]float64, l.Len())
+	l.Var(a, []float64{x0})
+	switch fn {
+	case "exp":
+		l.ExpLinear(dst, a)
+	case "pow":
+		l.PowLinear(dst, a, p)
+	default:
+		return nil, false
+	}
+	return dst, true
+}
+
+// The linear-operand methods against the same references, same tolerances.
+func TestReferenceLinear(t *testing.T) {
+	for _, c := range readReference(t) {
+		got, ok := evalLinear(c.fn, c.p, 30, c.x0)
+		if !ok {
+			continue
+		}
+		for k, want := range c.coeffs {
+			tol := refTolLow
+			if k > 12 {
+				tol = refTolHigh
+			}
+			assert.LessOrEqual(t, relErr(got[k], want), tol, "%s x0=%g p=%g order %d", c.fn, c.x0, c.p, k)
+		}
+	}
+}
+
 func TestReference(t *testing.T) {
 	const order = 30
 	cases := readReference(t)

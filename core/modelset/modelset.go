@@ -24,6 +24,10 @@
 //	spec = "lj:epsilon=0.5,sigma=1.1"   # a spec string instead of model+params
 //	mu   = 0.98                          # overrides the default mass
 //
+// A model-set file may also declare forms typed as formulas, in [[form]]
+// tables of the forms-file format (package core/formsfile); its entries
+// may use them.
+//
 // Unknown keys are errors, so that a typo cannot silently drop a value.
 package modelset
 
@@ -40,6 +44,8 @@ import (
 
 	"github.com/pairwell/pairwell/core"
 	"github.com/pairwell/pairwell/core/atoms"
+	"github.com/pairwell/pairwell/core/formsfile"
+	"github.com/pairwell/pairwell/core/formula"
 	"github.com/pairwell/pairwell/core/units"
 	"github.com/pairwell/pairwell/internal/fileio"
 )
@@ -51,6 +57,9 @@ var ErrFormat = errors.New("invalid model set")
 type Set struct {
 	Title   string
 	Entries []Entry
+	// Forms are the forms the file declares ([[form]] tables), to be
+	// registered before the entries are built.
+	Forms []formula.Decl
 }
 
 // Entry is one named, parametrised form.
@@ -85,7 +94,8 @@ type file struct {
 		Pair string `toml:"pair"`
 		Mu   any    `toml:"mu"`
 	} `toml:"defaults"`
-	Entry []fileEntry `toml:"entry"`
+	Entry []fileEntry      `toml:"entry"`
+	Form  []formsfile.Form `toml:"form"`
 }
 
 var validName = regexp.MustCompile(`^[A-Za-z0-9][A-Za-z0-9._-]*$`)
@@ -137,7 +147,7 @@ func Parse(data []byte, source string) (*Set, error) {
 			keys = append(keys, k.String())
 		}
 		if len(keys) > 0 {
-			return nil, fmt.Errorf("%w %s: unknown key %s (allowed: title, defaults.pair, defaults.mu, entry.name, entry.model, entry.params, entry.spec, entry.pair, entry.mu)", ErrFormat, source, strings.Join(keys, ", "))
+			return nil, fmt.Errorf("%w %s: unknown key %s (allowed: title, defaults.pair, defaults.mu, entry.name, entry.model, entry.params, entry.spec, entry.pair, entry.mu, %s)", ErrFormat, source, strings.Join(keys, ", "), formsfile.Keys)
 		}
 	}
 	if len(f.Entry) == 0 {
@@ -151,6 +161,11 @@ func Parse(data []byte, source string) (*Set, error) {
 		return nil, fmt.Errorf("%w %s: defaults: give pair or mu, not both", ErrFormat, source)
 	}
 	s := &Set{Title: f.Title}
+	if len(f.Form) > 0 {
+		if s.Forms, err = formsfile.Decls(f.Form, data, source); err != nil {
+			return nil, fmt.Errorf("%w %s", ErrFormat, strings.TrimPrefix(err.Error(), formsfile.ErrFormat.Error()+" "))
+		}
+	}
 	seen := map[string]bool{}
 	for i, fe := range f.Entry {
 		where := fmt.Sprintf("%s: entry %d", source, i+1)

@@ -160,6 +160,26 @@ const (
 	DefaultATol = 1e-9
 )
 
+// ValidatedFraction is the largest oscillation energy, as a fraction of
+// the limit of bound motion (the depth, or an inner barrier when lower), at
+// which the default steps were validated (see DefaultHeunSteps and
+// DefaultRTol): above it their period error may exceed Method.Target (on
+// Morse at E/De = 0.99 Heun's error is 4.5e-3, dopri's 1.25e-6).
+const ValidatedFraction = 0.5
+
+// Target returns the relative period error the default step of m was
+// chosen to stay within up to ValidatedFraction: 1e-4 (Heun, Verlet), 1e-6
+// (RK4), 1e-7 (DormandPrince).
+func (m Method) Target() float64 {
+	switch m {
+	case Heun, Verlet:
+		return 1e-4
+	case RK4:
+		return 1e-6
+	}
+	return 1e-7
+}
+
 // DefaultPeriods is the number of periods measured when Settings.Periods is 0.
 const DefaultPeriods = 10
 
@@ -287,6 +307,14 @@ type Result struct {
 	EnergyDrift float64
 	// FinalEnergyError is (E_end − E_0)/E_0, signed, at the last step.
 	FinalEnergyError float64
+	// EnergyFloor is the relative rounding floor of E_k − E_0: a bound
+	// on the rounding of the energies themselves (V(r) − V(re) from the
+	// Taylor series at re where that is more accurate, see
+	// core.Expansion, else the direct difference, whose rounding
+	// ≈ 8ε·|V(re)| dominates small E_0). EnergyDrift and
+	// FinalEnergyError at or below it are rounding, not integration
+	// error.
+	EnergyFloor float64
 
 	// Trajectory holds the recorded samples when Settings.Record > 0.
 	Trajectory []Sample
@@ -335,18 +363,8 @@ func NewFromWell(p core.Potential, w core.Well, mu float64) (*Oscillator, error)
 	}
 	o := &Oscillator{p: p, mu: mu, well: w, harmonic: h, maxEnergy: w.Depth}
 	if d := p.Domain(); d.Barrier {
-		var rb, vb float64
-		if t, ok := p.(core.Turnover); ok {
-			rb, vb = t.Barrier()
-		} else {
-			rb = math.Nextafter(d.Min, math.Inf(1))
-			vb = math.Inf(1) // unknown: the domain check still applies
-			if v, err := core.Value(p, rb); err == nil {
-				vb = v
-			}
-		}
-		if eb := vb - w.Energy; eb < o.maxEnergy {
-			o.maxEnergy, o.barrier, o.rBarrier = eb, true, rb
+		if eb := d.BarrierEnergy - w.Energy; eb < o.maxEnergy {
+			o.maxEnergy, o.barrier, o.rBarrier = eb, true, d.Min
 		}
 	}
 	return o, nil
@@ -433,9 +451,11 @@ func (o *Oscillator) FromEnergy(e float64) (Start, error) {
 	if x, ok := core.NewExpansion(o.well).Displacement(e, +1); ok {
 		return Start{X0: x, R0: re + x, Energy: e}, nil
 	}
-	var buf [2]float64
+	var buf [2]float64 // V and V′ (c₀ and c₁)
+	rr := make([]float64, 1)
 	g := func(r float64) (float64, float64, error) {
-		if err := o.p.Derivatives(r, buf[:]); err != nil {
+		rr[0] = r
+		if err := o.p.Taylor(1, rr, buf[:]); err != nil {
 			return 0, 0, err
 		}
 		return buf[0] - v0 - e, buf[1], nil

@@ -424,7 +424,7 @@ func TestErrors(t *testing.T) {
 	require.NoError(t, err)
 	bk, err := motion.New(bp, 20)
 	require.NoError(t, err)
-	rb, _ := bp.Barrier()
+	rb := bp.Domain().Min
 	bond := systems(t)[5] // Buckingham matched to the bond: barrier below the depth
 	require.Equal(t, "buckingham-bond", bond.name)
 	bb, err := motion.New(bond.p, bond.mu)
@@ -528,4 +528,30 @@ func TestMaxSteps(t *testing.T) {
 	}
 	_, err = o.Run(st, motion.Settings{MaxSteps: -1})
 	assert.ErrorIs(t, err, core.ErrParam)
+}
+
+// TestEnergyFloor: at a tiny energy the energy of the steps comes from the
+// Taylor series at re, so the rounding floor stays small and the energy
+// error of the integrator is resolved; with only c₂ known (no series), the
+// floor is that of V(r) − V(re), ≈ 8ε·De/E, and the error lies below it.
+func TestEnergyFloor(t *testing.T) {
+	o := morse(t)
+	st, err := o.FromEnergy(1e-12)
+	require.NoError(t, err)
+	res, err := o.Run(st, motion.Settings{Method: motion.RK4})
+	require.NoError(t, err)
+	assert.Less(t, res.EnergyFloor, 1e-13)
+	assert.Greater(t, res.EnergyDrift, res.EnergyFloor)
+
+	w := o.Well()
+	w.Series, w.Taylor = nil, w.Taylor[:3]
+	bare, err := motion.NewFromWell(morsePot(t), w, morseMu)
+	require.NoError(t, err)
+	st, err = bare.FromEnergy(1e-12)
+	require.NoError(t, err)
+	res, err = bare.Run(st, motion.Settings{Method: motion.DormandPrince})
+	require.NoError(t, err)
+	// 8ε·De/E = 8·2.2e-16·4.4/1e-12 ≈ 7.8e-3, counted twice.
+	assert.Greater(t, res.EnergyFloor, 1e-3)
+	assert.LessOrEqual(t, res.EnergyDrift, res.EnergyFloor)
 }

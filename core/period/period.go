@@ -249,6 +249,7 @@ func (in *Integrator) Settings() Settings { return in.s }
 // scratch holds the buffers of a pass, reused by the next.
 type scratch struct {
 	r, v, dv   []float64 // scan points, turning points, nodes; V, V′ there
+	c          []float64 // Taylor coefficients of a pair call
 	owner      []int
 	sides      []side
 	probs      []core.RootProblem
@@ -283,7 +284,7 @@ func Exact(p core.Potential, w core.Well, mu, E float64, s Settings) (Result, er
 //
 // The turning points come from TurningPoints; the integral (see the package
 // documentation) is evaluated by Gauss–Legendre rules of n = MinNodes,
-// 2·MinNodes, … nodes, all V values of a rule in one p.Batch call, until
+// 2·MinNodes, … nodes, all V values of a rule in one p.Taylor call, until
 // two successive rules agree to the tolerance. The value of the larger rule
 // is returned, with the relative difference as its error estimate (a
 // pessimistic one: the convergence is exponential).
@@ -292,8 +293,8 @@ func Exact(p core.Potential, w core.Well, mu, E float64, s Settings) (Result, er
 // the turning points (and, for small E, everywhere): V is known only to an
 // absolute ε·|V|. Within a short distance of each turning point the
 // integrand therefore comes from the Taylor expansion of V there (orders up
-// to 5, from one p.Derivatives call per end, or one p.Batch call per order
-// for all the turning points of a sweep), which has no cancellation;
+// to 5, from one p.Taylor call for all the turning points of a sweep),
+// which has no cancellation;
 // elsewhere from the batched values. For small E, where the relative
 // rounding of the direct difference, 8ε·(|V(re)| + E)/E, exceeds 1e-13 and
 // the Taylor series at re (core.Expansion, from w.Series) is more accurate
@@ -413,9 +414,9 @@ func (jb *job) nodes(lv *level, r []float64) {
 // pass computes res[i], errs[i] = in.Exact(p, w, mu, energies[i]) for
 // every i, with the work of all energies batched: the turning points of all
 // in one scan and one Newton iteration at a time (see TurningPoints), the
-// Taylor expansions at all turning points in one p.Batch call per order,
-// and the nodes of each rule for all energies still being integrated in
-// one p.Batch call. Each energy's arithmetic is its own, so that its result
+// Taylor expansions at all turning points in one p.Taylor call, and the
+// nodes of each rule for all energies still being integrated in one
+// p.Taylor call. Each energy's arithmetic is its own, so that its result
 // does not depend on the other energies of the pass.
 func (in *Integrator) pass(p core.Potential, w core.Well, mu float64, energies []float64, res []Result, errs []error, sc *scratch) {
 	ec := energyCheck{p: p, w: w}
@@ -564,7 +565,7 @@ func (in *Integrator) passOne(p core.Potential, w core.Well, mu float64, energie
 }
 
 // quadrature integrates every job with the rules of in, all nodes of a
-// rule in one p.Batch call (none for series jobs), until two successive
+// rule in one p.Taylor call (none for series jobs), until two successive
 // rules agree (see Exact).
 func (in *Integrator) quadrature(p core.Potential, w core.Well, ex core.Expansion, mu float64, jobs []job, res []Result, errs []error, sc *scratch) {
 	scale := math.Sqrt(2*mu) * timeUnit()
@@ -683,13 +684,16 @@ func (in *Integrator) quadrature(p core.Potential, w core.Well, ex core.Expansio
 	}
 }
 
-// batchGroups stores V⁽ⁿ⁾(r[k]) in v[k], where point k belongs to the
-// group group(k). When p reports a *core.PointError, the group of that
-// point is dropped, reported to drop with the index of the point within
-// its group, and the other points are evaluated again. Any other error is
-// returned.
+// batchGroups stores the Taylor coefficients c_0…c_n of V at r[k] in
+// v[k·(n+1) : (k+1)·(n+1)], where point k belongs to the group group(k),
+// with one Taylor call. When p reports a *core.PointError, the group of
+// that point is dropped, reported to drop with the index of the point
+// within its group, and the other points are evaluated again. Any other
+// error is returned.
 func batchGroups(p core.Potential, n int, r, v []float64, group func(k int) int, drop func(g int, pe *core.PointError)) error {
-	err := p.Batch(n, r, v)
+	w := n + 1
+	v = v[:w*len(r)]
+	err := p.Taylor(n, r, v)
 	if err == nil {
 		return nil
 	}
@@ -698,7 +702,7 @@ func batchGroups(p core.Potential, n int, r, v []float64, group func(k int) int,
 		pos[k] = k
 	}
 	rr := append([]float64(nil), r...)
-	vv := make([]float64, len(r))
+	vv := make([]float64, len(v))
 	for {
 		var pe *core.PointError
 		if !errors.As(err, &pe) || pe.Index < 0 || pe.Index >= len(rr) {
@@ -719,13 +723,13 @@ func batchGroups(p core.Potential, n int, r, v []float64, group func(k int) int,
 				k++
 			}
 		}
-		rr, pos, vv = rr[:k], pos[:k], vv[:k]
+		rr, pos, vv = rr[:k], pos[:k], vv[:w*k]
 		if k == 0 {
 			return nil
 		}
-		if err = p.Batch(n, rr, vv); err == nil {
+		if err = p.Taylor(n, rr, vv); err == nil {
 			for j, k := range pos {
-				v[k] = vv[j]
+				copy(v[k*w:(k+1)*w], vv[j*w:(j+1)*w])
 			}
 			return nil
 		}
@@ -756,11 +760,11 @@ func roundingEstimate(w core.Well, E float64) float64 {
 	return 16*eps + 8*eps*(math.Abs(w.Energy)+E)/E
 }
 
-// endExpansion is V and its derivatives at a turning point, for evaluating
-// E − U(r) near it without cancellation.
+// endExpansion is the Taylor expansion of V at a turning point, for
+// evaluating E − U(r) near it without cancellation.
 type endExpansion struct {
 	at    float64    // the turning point, Å
-	d     [8]float64 // V⁽ʲ⁾(at)/j! for j = 0, …, order
+	d     [8]float64 // c_j(at) = V⁽ʲ⁾(at)/j! for j = 0, …, order
 	order int        // highest term used
 	reach float64    // nodes closer than this use the expansion, Å
 	scale float64    // d of the split substitution y = d·sinh²u, Å
@@ -798,9 +802,8 @@ const maxEndOrder = 6
 // relative error ε·|V|/(|V′|·d) that grows without bound as d → 0. The
 // reach is where the truncation error |V⁽ᴷ⁺¹⁾|d^{K+1}/(K+1)! equals the
 // direct difference's rounding error 2ε·|V|, capped at the half-width h of
-// the interval. The derivatives come from one p.Batch call per order for
-// all turning points, or from one p.Derivatives call per turning point
-// when that is fewer calls.
+// the interval. The coefficients come from one p.Taylor call for all
+// turning points.
 func newEnds(p core.Potential, w core.Well, ex core.Expansion, jobs []job, res []Result, errs []error, sc *scratch) []job {
 	if len(jobs) == 0 {
 		return jobs
@@ -829,35 +832,22 @@ func newEnds(p core.Potential, w core.Well, ex core.Expansion, jobs []job, res [
 		}
 		return &jobs[k/2].hi
 	}
-	n := len(ends)
-	if n > 0 && n < top {
-		for _, k := range ends {
-			if _, ok := dropped[k/2]; ok {
-				continue
-			}
-			e := end(k)
-			if err := p.Derivatives(e.at, e.d[:top+1]); err != nil {
-				failEnd(k/2, fmt.Errorf("period: derivatives at the turning point %g Å: %w", e.at, err))
-			}
-		}
-	} else if n > 0 {
-		sc.r, sc.v = grow(sc.r, n), grow(sc.v, n)
+	if n := len(ends); n > 0 {
+		sc.r, sc.v = grow(sc.r, n), grow(sc.v, n*(top+1))
 		r, v := sc.r, sc.v
 		for q, k := range ends {
 			r[q] = end(k).at
 		}
-		for j := 1; j <= top; j++ { // V(r±) itself is not used
-			err := batchGroups(p, j, r, v, func(q int) int { return ends[q] / 2 }, func(a int, pe *core.PointError) {
-				failEnd(a, fmt.Errorf("period: derivatives at the turning point %g Å: %w", pe.R, pe.Err))
-			})
-			if err != nil {
-				for _, k := range ends {
-					failEnd(k/2, fmt.Errorf("period: derivatives at the turning points: %w", err))
-				}
-				break
+		err := batchGroups(p, top, r, v, func(q int) int { return ends[q] / 2 }, func(a int, pe *core.PointError) {
+			failEnd(a, fmt.Errorf("period: derivatives at the turning point %g Å: %w", pe.R, pe.Err))
+		})
+		if err != nil {
+			for _, k := range ends {
+				failEnd(k/2, fmt.Errorf("period: derivatives at the turning points: %w", err))
 			}
+		} else {
 			for q, k := range ends {
-				end(k).d[j] = v[q]
+				copy(end(k).d[:top+1], v[q*(top+1):(q+1)*(top+1)])
 			}
 		}
 	}
@@ -877,14 +867,7 @@ func newEnds(p core.Potential, w core.Well, ex core.Expansion, jobs []job, res [
 				e.order = jtop - 1
 			}
 		} else {
-			for _, e := range []*endExpansion{lo, hi} {
-				f := 1.0
-				for j := 2; j <= top; j++ {
-					f *= float64(j)
-					e.d[j] /= f
-				}
-				e.order = top - 1
-			}
+			lo.order, hi.order = top-1, top-1
 		}
 		vs := 2 * jb.noise
 		h := 0.5 * (hi.at - lo.at)

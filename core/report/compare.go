@@ -8,6 +8,8 @@ import (
 	"runtime"
 
 	"github.com/pairwell/pairwell/core"
+	"github.com/pairwell/pairwell/core/levels"
+	"github.com/pairwell/pairwell/core/units"
 	"github.com/pairwell/pairwell/core/validity"
 )
 
@@ -48,15 +50,21 @@ type CompareRow struct {
 	// Inspect is nil when the form could not be built or its well not
 	// analysed.
 	Inspect *Inspect
-	// Validity is nil when it could not be computed; Err then says why.
-	// It encodes as the validity command's JSON object.
+	// Validity is nil when it was not asked for (CompareSettings.Validity)
+	// or could not be computed (Err then says why). It encodes as the
+	// validity command's JSON object; the key is absent when nil.
 	Validity *validity.Result
 	// Boyle is the Boyle temperature in K of the classical B₂ of a
 	// bounded form (BoyleTemperature); NaN (null) for an unbounded form,
 	// or when there is none or it cannot be computed (a note says why).
 	Boyle float64
-	Notes []string
-	Err   error
+	// ZPE and Fundamental are the zero-point energy and E(1) − E(0) in
+	// cm⁻¹ of the quantum levels (package levels), computed only with a
+	// reduced mass; NaN (null) when the well holds too few levels (a note
+	// says why).
+	ZPE, Fundamental float64
+	Notes            []string
+	Err              error
 }
 
 // compareJSON is the encoding of CompareRow. The outer name and model
@@ -67,6 +75,8 @@ type compareJSON struct {
 	*Inspect
 	Validity *validity.Result `json:"validity,omitempty"`
 	Boyle    *Number          `json:"boyle_temperature_k,omitempty"`
+	ZPE      *Number          `json:"zero_point_energy_per_cm,omitempty"`
+	Fund     *Number          `json:"fundamental_per_cm,omitempty"`
 	Notes    []string         `json:"notes,omitempty"`
 	Error    string           `json:"error,omitempty"`
 }
@@ -77,6 +87,10 @@ func (r CompareRow) MarshalJSON() ([]byte, error) {
 	if r.Inspect != nil {
 		b := Number(r.Boyle)
 		j.Boyle = &b
+		if r.Inspect.Mu != nil {
+			z, f := Number(r.ZPE), Number(r.Fundamental)
+			j.ZPE, j.Fund = &z, &f
+		}
 	}
 	if r.Err != nil {
 		j.Error = r.Err.Error()
@@ -97,6 +111,10 @@ type CompareSettings struct {
 	// depend on the reduced mass; a zero Mass.Mu only leaves out the
 	// harmonic vibration.
 	Tolerance float64
+	// Validity asks for the validity ranges of the truncated Taylor
+	// potential (validity.Analyze, about 1–2 ms per form, more than the
+	// rest of a row); without it CompareRow.Validity is nil.
+	Validity bool
 	// Workers is the number of goroutines; 0 means runtime.GOMAXPROCS(0).
 	Workers int
 	// Progress, if not nil, is called after each row is done, from the
@@ -127,7 +145,8 @@ func (s CompareSettings) resolved() (CompareSettings, error) {
 }
 
 // Compare analyses every input — its well, Taylor coefficients, harmonic
-// vibration and the validity ranges of its truncated Taylor potential —
+// vibration and, when asked, the validity ranges of its truncated Taylor
+// potential —
 // and returns one row per input, in input order whatever the scheduling.
 // The inputs are shared among s.Workers goroutines; potentials must be safe
 // for concurrent use, as core.Potential requires. A form that fails gets
@@ -150,7 +169,7 @@ func Compare(inputs []CompareInput, s CompareSettings) ([]CompareRow, error) {
 
 // compareOne analyses one input.
 func compareOne(in CompareInput, s CompareSettings) CompareRow {
-	row := CompareRow{Name: in.Name, Model: in.Model, Notes: in.Notes, Err: in.Err, Boyle: math.NaN()}
+	row := CompareRow{Name: in.Name, Model: in.Model, Notes: in.Notes, Err: in.Err, Boyle: math.NaN(), ZPE: math.NaN(), Fundamental: math.NaN()}
 	if in.Err != nil {
 		return row
 	}
@@ -165,12 +184,21 @@ func compareOne(in CompareInput, s CompareSettings) CompareRow {
 		return row
 	}
 	row.Inspect = &r
-	v, err := validity.Analyze(in.Instance.Potential, w, s.Order, validity.Settings{Tolerance: s.Tolerance})
-	if err != nil {
-		row.Err = fmt.Errorf("%s: validity: %w", row.Model, err)
-		return row
+	if s.Validity {
+		v, err := validity.Analyze(in.Instance.Potential, w, s.Order, validity.Settings{Tolerance: s.Tolerance})
+		if err != nil {
+			row.Err = fmt.Errorf("%s: validity: %w", row.Model, err)
+			return row
+		}
+		row.Validity = &v
 	}
-	row.Validity = &v
+	if in.Mass.Mu > 0 {
+		var note string
+		row.ZPE, row.Fundamental, note = lowestLevels(in.Instance.Potential, w, in.Mass.Mu)
+		if note != "" {
+			row.Notes = append(row.Notes, note)
+		}
+	}
 	if w.Bounded() {
 		b, err := BoyleTemperature(in.Instance.Potential)
 		switch {
@@ -196,4 +224,26 @@ func Failed(rows []CompareRow) (bool, error) {
 		}
 	}
 	return first != nil, first
+}
+
+// lowestLevels returns the zero-point energy and the fundamental in cm⁻¹ of
+// the well w of p for the reduced mass mu (NaN when the well holds too few
+// levels), and a note when they are missing.
+func lowestLevels(p core.Potential, w core.Well, mu float64) (zpe, fund float64, note string) {
+	zpe, fund = math.NaN(), math.NaN()
+	res, err := levels.Solve(p, mu, levels.Settings{Count: 2, Well: &w})
+	if errors.Is(err, core.ErrParam) {
+		// one bound level at most
+		res, err = levels.Solve(p, mu, levels.Settings{Count: 1, Well: &w})
+	}
+	if err != nil {
+		return zpe, fund, "no quantum levels: " + err.Error()
+	}
+	zpe = (res.Levels[0].Energy - w.Energy) / units.WavenumberEV
+	if len(res.Levels) > 1 {
+		fund = (res.Levels[1].Energy - res.Levels[0].Energy) / units.WavenumberEV
+	} else {
+		note = "no fundamental: the well holds a single bound level"
+	}
+	return zpe, fund, note
 }

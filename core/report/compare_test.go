@@ -33,9 +33,9 @@ func morseInputs(t testing.TB, n int) []CompareInput {
 
 func TestCompareOrderAndWorkers(t *testing.T) {
 	in := morseInputs(t, 12)
-	serial, err := Compare(in, CompareSettings{Workers: 1})
+	serial, err := Compare(in, CompareSettings{Workers: 1, Validity: true})
 	require.NoError(t, err)
-	parallel, err := Compare(in, CompareSettings{Workers: 8})
+	parallel, err := Compare(in, CompareSettings{Workers: 8, Validity: true})
 	require.NoError(t, err)
 	a, err := json.Marshal(serial)
 	require.NoError(t, err)
@@ -61,7 +61,7 @@ func TestCompareOrderAndWorkers(t *testing.T) {
 }
 
 func TestCompareRowJSON(t *testing.T) {
-	rows, err := Compare(morseInputs(t, 3), CompareSettings{})
+	rows, err := Compare(morseInputs(t, 3), CompareSettings{Validity: true})
 	require.NoError(t, err)
 	var ok, bad map[string]any
 	b, err := json.Marshal(rows[0])
@@ -92,18 +92,35 @@ func TestCompareSettings(t *testing.T) {
 		_, err := Compare(in, s)
 		assert.ErrorIs(t, err, core.ErrParam, "%+v", s)
 	}
-	rows, err := Compare(in, CompareSettings{Order: 4, Tolerance: 0.001})
+	rows, err := Compare(in, CompareSettings{Order: 4, Tolerance: 0.001, Validity: true})
 	require.NoError(t, err)
 	assert.Equal(t, 4, rows[0].Validity.Order)
 	assert.Equal(t, 0.001, rows[0].Validity.Tolerance)
 	rows, err = Compare(nil, CompareSettings{})
 	require.NoError(t, err)
 	assert.Empty(t, rows)
+	// Without Validity the ranges are not computed, and the key is absent.
+	rows, err = Compare(in, CompareSettings{})
+	require.NoError(t, err)
+	assert.Nil(t, rows[0].Validity)
+	b, err := json.Marshal(rows[0])
+	require.NoError(t, err)
+	assert.NotContains(t, string(b), `"validity"`)
 }
 
 // BenchmarkCompare is the analysis of four Morse forms with validity (six
-// inputs, two of which carry errors).
+// inputs, two of which carry errors); BenchmarkCompareNoValidity the same
+// without it, what compare does unless asked.
 func BenchmarkCompare(b *testing.B) {
+	in := morseInputs(b, 6)
+	for b.Loop() {
+		if _, err := Compare(in, CompareSettings{Validity: true}); err != nil {
+			b.Fatal(err)
+		}
+	}
+}
+
+func BenchmarkCompareNoValidity(b *testing.B) {
 	in := morseInputs(b, 6)
 	for b.Loop() {
 		if _, err := Compare(in, CompareSettings{}); err != nil {

@@ -115,3 +115,23 @@ func TestLevelsBadInput(t *testing.T) {
 	_, err = NewLevels(inst, Mass{}, LevelsSettings{VMax: -1})
 	assert.ErrorIs(t, err, core.ErrParam)
 }
+
+// TestCompareQuantumColumns: with a mass, compare rows carry the ZPE and
+// the fundamental of the levels, for Morse ωe/2 − ωexe/4 and ωe − 2ωexe
+// (Morse 1929); without one, neither key.
+func TestCompareQuantumColumns(t *testing.T) {
+	inst, m := hclInstance(t)
+	rows, err := Compare([]CompareInput{{Name: "hcl", Instance: inst, Mass: m}, {Name: "no mass", Instance: inst}}, CompareSettings{})
+	require.NoError(t, err)
+	we, wexe := 2990.946, 52.8186
+	assert.InDelta(t, we/2-wexe/4, rows[0].ZPE, 1e-5)
+	assert.InDelta(t, we-2*wexe, rows[0].Fundamental, 1e-5)
+	b, err := json.Marshal(rows)
+	require.NoError(t, err)
+	var got []map[string]any
+	require.NoError(t, json.Unmarshal(b, &got))
+	assert.Contains(t, got[0], "zero_point_energy_per_cm")
+	assert.Contains(t, got[0], "fundamental_per_cm")
+	assert.NotContains(t, got[1], "zero_point_energy_per_cm")
+	assert.NotContains(t, got[1], "fundamental_per_cm")
+}

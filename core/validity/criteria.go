@@ -39,18 +39,25 @@ const (
 // order n (2, 3 or 4) of the well w of p, at tolerance s.Tolerance.
 //
 // On each side, displacements s from s₀ outward are scanned on a
-// geometric grid (ratio 1.02; both sides in one p.Batch call) up to the
+// geometric grid (ratio 1.02; both sides in one p.Taylor call) up to the
 // edge of the domain (compression) or 100·re (stretch); the first grid
 // point where |V_n − V| > τ·|V − V(re)| and the one before bracket the
 // crossing, which core.RootBatch refines to a few ulp, both sides together
-// (a call of V and one of V′ per iteration). The crossing itself is defined
-// only to the rounding of V(r) − V(re): ≈ ε·|V|/(τ·c₂s²) relative, 1e-10
-// for Morse at τ = 1% and n = 2, 2e-7 at τ = 0.1%; within that band the
-// refinement samples instead of taking Newton steps (see core.RootBatch).
-// The scan starts at s₀ = √(100·ε·(|V(re)| + c₂re²)/(τ·c₂)), where the
-// rounding of V(r) − V(re) is 1% of the allowed difference; a crossing
-// below s₀ (a tolerance too small to resolve in float64, ≲ 1e-4 for n = 2)
-// is an error wrapping core.ErrParam.
+// (a call of V and one of V′ per iteration).
+//
+// Accuracy. For small displacements V_n − V and V − V(re) are differences
+// of nearly equal numbers, with rounding ≈ 4ε·(|V(re)| + |V|), a relative
+// error ε·|V|/(τ·c₂s²) of the allowed difference (2.5e-4 for Morse at
+// τ = 1e-4 and n = 2). There both come instead from the Taylor series at
+// re, V − V_n = Σ_{k>n} c_k x^k and V − V(re) = Σ_{k≥2} c_k x^k (w.Series,
+// see core.Expansion), wherever its error bound is the smaller one, so the
+// scan starts well below the crossing estimated from the first term
+// beyond c_n. The uncertainty of the refined crossing is the error bound
+// of the criterion over its slope; above resolveTol (1e-6 relative: six significant digits) the
+// limit is refused with an error wrapping core.ErrParam that says which
+// tolerance would be resolvable. With the series of the built-in forms
+// (24 terms) no tolerance in (0, 1) is refused; a form with few
+// derivatives can be.
 func PotentialRange(p core.Potential, w core.Well, n int, s Settings) (Displacements, error) {
 	if err := checkOrder(n); err != nil {
 		return Displacements{}, err
@@ -63,21 +70,100 @@ func PotentialRange(p core.Potential, w core.Well, n int, s Settings) (Displacem
 	if err != nil {
 		return Displacements{}, err
 	}
+	pc := &potCrit{w: w, tr: tr, tol: tol, n: n, ex: core.NewExpansion(w)}
 	sides := [2]potentialSide{{dir: -1, name: "compression"}, {dir: +1, name: "stretch"}}
 	for k := range sides {
-		sides[k].grid(p, w, tol)
+		sides[k].grid(p, pc)
 	}
 	scanPotential(p, w, sides[:])
 	for k := range sides {
-		sides[k].bracket(w, tr, tol)
+		sides[k].bracket(pc)
 	}
-	crossings(p, w, tr, tol, sides[:])
+	crossings(p, pc, sides[:])
 	for _, sd := range sides {
 		if sd.err != nil {
 			return Displacements{}, sd.err
 		}
 	}
 	return Displacements{Compression: sides[0].limit, Stretch: sides[1].limit}, nil
+}
+
+// resolveTol is the relative uncertainty of a potential-criterion limit
+// above which the limit is refused as not resolvable in float64.
+const resolveTol = 1e-6
+
+// potCrit evaluates the potential criterion g = sgn·(V_n − V) − τ·(V − V(re))
+// at a displacement x: from the values of V (direct), or from the Taylor
+// series at re, V − V_n = Σ_{k>n} c_k x^k and V − V(re) = Σ_{k≥2} c_k x^k
+// (core.Expansion), whichever has the smaller error bound. The direct
+// difference V_n − V loses digits for small x: its rounding,
+// ≈ 4ε·(|V(re)| + |V|), is a relative error ε·|V|/(τ·c₂x²) of the allowed
+// difference; the series has none.
+type potCrit struct {
+	w   core.Well
+	tr  *Truncation
+	tol float64
+	n   int
+	ex  core.Expansion
+}
+
+// eval returns V_n − V, V − V(re) and the error bound of g at x (signed
+// displacement), from v = V(re + x).
+func (c *potCrit) eval(x, v float64) (diff, e, noise float64) {
+	diff, e, noise, _ = c.evalWith(x, v)
+	return diff, e, noise
+}
+
+// evalWith is eval, also reporting whether the series was used.
+func (c *potCrit) evalWith(x, v float64) (diff, e, noise float64, series bool) {
+	direct := c.ex.DirectBound(v) * (1 + c.tol)
+	rs, rb := c.ex.Sum(x, c.n+1)
+	es, eb := c.ex.Sum(x, 2)
+	if sb := rb + c.tol*eb; sb < direct {
+		return -rs, es, sb, true
+	}
+	return c.tr.eval(0, x) - v, v - c.w.Energy, direct, false
+}
+
+// g returns the criterion with the sign sgn of V_n − V beyond the crossing.
+func (c *potCrit) g(sgn, x, v float64) (g, noise float64) {
+	diff, e, noise := c.eval(x, v)
+	return sgn*diff - c.tol*e, noise
+}
+
+// slope returns dg/dx at x from V′ there (dv), or from the series where
+// eval uses it: the difference V_n′ − V′ cancels as V_n − V does.
+func (c *potCrit) slope(sgn, x, v, dv float64) float64 {
+	if _, _, _, series := c.evalWith(x, v); series {
+		return sgn*-c.ex.Slope(x, c.n+1) - c.tol*c.ex.Slope(x, 2)
+	}
+	return sgn*(c.tr.eval(1, x)-dv) - c.tol*dv
+}
+
+// needed returns the tolerance at which a limit now uncertain by u
+// (relative) would be resolved to resolveTol by the direct difference,
+// whose uncertainty ε·|V|/(τ·c₂s²) scales like τ^−(n+1)/(n−1) with the
+// crossing s ∝ τ^{1/(n−1)}.
+func (c *potCrit) needed(u float64) float64 {
+	n := float64(c.n)
+	return math.Min(c.tol*math.Pow(u/resolveTol, (n-1)/(n+1)), 0.5)
+}
+
+// start returns the first displacement of the scan: well below the
+// crossing estimated from the first non-zero term beyond c_n,
+// |c_k|·s^k = τ·c₂s², and below s0.
+func (c *potCrit) start(s0 float64) float64 {
+	coef := c.w.Series
+	if len(c.w.Taylor) > len(coef) {
+		coef = c.w.Taylor
+	}
+	for k := c.n + 1; k < len(coef); k++ {
+		if coef[k] != 0 {
+			s := math.Pow(c.tol*coef[2]/math.Abs(coef[k]), 1/float64(k-2))
+			return math.Min(s0, 1e-2*s)
+		}
+	}
+	return s0
 }
 
 // potentialSide is the potential criterion on one side, dir = −1
@@ -91,18 +177,20 @@ type potentialSide struct {
 	// The bracket of the crossing: displacements, criterion there, and
 	// the sign of V_n − V beyond it.
 	lo, hi, glo, ghi, sgn float64
+	noise                 float64 // error bound of the criterion at hi
 	bracketed             bool
 }
 
 // grid lays out the displacements of the scan of the side.
-func (sd *potentialSide) grid(p core.Potential, w core.Well, tol float64) {
+func (sd *potentialSide) grid(p core.Potential, c *potCrit) {
 	d := p.Domain()
+	w, tol := c.w, c.tol
 	re, c2 := w.Re, w.Taylor[2]
 	sMax := math.Min(d.Max-re, stretchCap*re)
 	if sd.dir < 0 {
 		sMax = re - d.Min
 	}
-	s0 := math.Sqrt(100 * eps * (math.Abs(w.Energy) + c2*re*re) / (tol * c2))
+	s0 := c.start(math.Sqrt(100 * eps * (math.Abs(w.Energy) + c2*re*re) / (tol * c2)))
 	if !(s0 < sMax) {
 		sd.err = fmt.Errorf("validity: %w: the %s side of the domain is too short to scan (%g Å)", core.ErrParam, sd.name, sMax)
 		return
@@ -121,7 +209,7 @@ func (sd *potentialSide) grid(p core.Potential, w core.Well, tol float64) {
 	}
 }
 
-// scanPotential evaluates V on the grids of all sides in one p.Batch call.
+// scanPotential evaluates V on the grids of all sides in one p.Taylor call.
 // A point where V is out of the domain ends the scan of its side there.
 func scanPotential(p core.Potential, w core.Well, sides []potentialSide) {
 	total := 0
@@ -144,7 +232,7 @@ func scanPotential(p core.Potential, w core.Well, sides []potentialSide) {
 			return
 		}
 		vs := make([]float64, len(rs))
-		err := p.Batch(0, rs, vs)
+		err := p.Taylor(0, rs, vs)
 		if err == nil {
 			j := 0
 			for k := range sides {
@@ -185,41 +273,45 @@ func scanPotential(p core.Potential, w core.Well, sides []potentialSide) {
 	}
 }
 
-// criterion returns sgn·(V_n − V) − τ·(V − V(re)) at displacement x (signed)
-// from V there.
-func criterion(w core.Well, tr *Truncation, tol, sgn, x, v float64) float64 {
-	return sgn*(tr.eval(0, x)-v) - tol*(v-w.Energy)
-}
-
 // bracket finds the first grid point of the side where the criterion
 // fails and the one before; without one, the limit is +Inf.
-func (sd *potentialSide) bracket(w core.Well, tr *Truncation, tol float64) {
+func (sd *potentialSide) bracket(c *potCrit) {
 	if sd.err != nil {
 		return
 	}
 	sd.limit = math.Inf(1)
 	for j, v := range sd.vs {
 		x := sd.dir * sd.ss[j]
-		diff := tr.eval(0, x) - v
-		if math.Abs(diff) <= tol*math.Abs(v-w.Energy) {
+		diff, e, _ := c.eval(x, v)
+		if math.Abs(diff) <= c.tol*math.Abs(e) {
 			continue
 		}
 		if j == 0 {
-			sd.err = fmt.Errorf("validity: %w: on the %s side the tolerance %g is exceeded already at %.3g Å, "+
-				"where the rounding of V(r) − V(re) starts to matter: use a larger tolerance", core.ErrParam, sd.name, tol, sd.ss[0])
+			// The crossing lies below the first displacement scanned,
+			// where even the better of the two methods leaves it
+			// uncertain by more than u ≈ noise/((n−1)·τ·E).
+			_, _, noise := c.eval(x, v)
+			u := noise / (float64(c.n-1) * c.tol * math.Abs(e))
+			sd.err = fmt.Errorf("validity: %w: the potential criterion at tolerance %g cannot be resolved in float64 on the %s side: "+
+				"it fails already at %.3g Å, the first displacement scanned, where the rounding of V − V_%d leaves a crossing uncertain by %.1g (relative) "+
+				"and the form's Taylor series (up to c_%d) does not reach; a tolerance of at least about %.1g is resolvable",
+				core.ErrParam, c.tol, sd.name, sd.ss[0], c.n, u, c.ex.Order(), c.needed(u))
 			return
 		}
 		sd.sgn = math.Copysign(1, diff)
 		sd.lo, sd.hi = sd.ss[j-1], sd.ss[j]
-		sd.glo = criterion(w, tr, tol, sd.sgn, sd.dir*sd.lo, sd.vs[j-1])
-		sd.ghi = criterion(w, tr, tol, sd.sgn, x, v)
+		sd.glo, _ = c.g(sd.sgn, sd.dir*sd.lo, sd.vs[j-1])
+		sd.ghi, sd.noise = c.g(sd.sgn, x, v)
 		sd.bracketed = true
 		return
 	}
 }
 
-// crossings refines the bracketed crossings of all sides together.
-func crossings(p core.Potential, w core.Well, tr *Truncation, tol float64, sides []potentialSide) {
+// crossings refines the bracketed crossings of all sides together, and
+// refuses a crossing that rounding leaves uncertain by more than
+// resolveTol.
+func crossings(p core.Potential, c *potCrit, sides []potentialSide) {
+	w := c.w
 	var (
 		probs []core.RootProblem
 		which []*potentialSide
@@ -229,9 +321,8 @@ func crossings(p core.Potential, w core.Well, tr *Truncation, tol float64, sides
 		if sd.err != nil || !sd.bracketed {
 			continue
 		}
-		noise := 4 * eps * (math.Abs(sd.vs[len(sd.vs)-1]) + math.Abs(w.Energy) + math.Abs(tr.eval(0, sd.dir*sd.hi)))
 		probs = append(probs, core.RootProblem{Lo: sd.lo, Hi: sd.hi, FLo: sd.glo, FHi: sd.ghi,
-			Start: sd.lo - sd.glo*(sd.hi-sd.lo)/(sd.ghi-sd.glo), Noise: noise})
+			Start: sd.lo - sd.glo*(sd.hi-sd.lo)/(sd.ghi-sd.glo), Noise: sd.noise})
 		which = append(which, sd)
 	}
 	if len(probs) == 0 {
@@ -239,36 +330,60 @@ func crossings(p core.Potential, w core.Well, tr *Truncation, tol float64, sides
 	}
 	roots := make([]float64, len(probs))
 	errs := make([]error, len(probs))
-	var rs, dv []float64
+	var rs, dv, work []float64
 	core.RootBatch(func(idx []int, x, fx, dfx []float64) error {
 		rs = rs[:0]
 		for k, i := range idx {
 			rs = append(rs, w.Re+which[i].dir*x[k])
 		}
-		if err := p.Batch(0, rs, fx); err != nil {
-			return err
-		}
 		dv = append(dv[:0], make([]float64, len(dfx))...)
-		if err := p.Batch(1, rs[:len(dfx)], dv); err != nil {
+		var err error
+		if work, err = core.DerivativePair(p, 0, rs, fx, dv, work); err != nil {
 			return err
 		}
 		for k, i := range idx {
 			sd := which[i]
 			xx := sd.dir * x[k]
 			v := fx[k]
-			fx[k] = criterion(w, tr, tol, sd.sgn, xx, v)
+			fx[k], _ = c.g(sd.sgn, xx, v)
 			if k < len(dfx) {
-				dfx[k] = sd.dir * (sd.sgn*(tr.eval(1, xx)-dv[k]) - tol*dv[k])
+				dfx[k] = sd.dir * c.slope(sd.sgn, xx, v, dv[k])
 			}
 		}
 		return nil
 	}, probs, roots, errs)
+	// The uncertainty of each crossing: the bound of g over its slope.
+	var xs, v, d1 []float64
+	for k, sd := range which {
+		if errs[k] == nil {
+			xs = append(xs, w.Re+sd.dir*roots[k])
+		}
+	}
+	v, d1 = make([]float64, len(xs)), make([]float64, len(xs))
+	_, verr := core.DerivativePair(p, 0, xs, v, d1, nil)
+	j := 0
 	for k, sd := range which {
 		if errs[k] != nil {
 			sd.err = fmt.Errorf("validity: potential criterion, %s side: %w", sd.name, errs[k])
 			continue
 		}
-		sd.limit = roots[k]
+		s := roots[k]
+		sd.limit = s
+		if verr != nil {
+			sd.err = fmt.Errorf("validity: potential criterion, %s side: %w", sd.name, verr)
+			continue
+		}
+		xx := sd.dir * s
+		_, noise := c.g(sd.sgn, xx, v[j])
+		slope := math.Abs(c.slope(sd.sgn, xx, v[j], d1[j]))
+		j++
+		if u := noise / (slope * s); !(u <= resolveTol) {
+			need := c.needed(u)
+			sd.err = fmt.Errorf("validity: %w: the potential criterion at tolerance %g cannot be resolved in float64 on the %s side: "+
+				"the crossing at %.4g Å is uncertain by %.1g (relative) from the rounding of V − V_%d, more than %g; "+
+				"the form's Taylor series (up to c_%d) does not reach it either; a tolerance of about %.1g or more is resolvable",
+				core.ErrParam, c.tol, sd.name, s, u, c.n, resolveTol, c.ex.Order(), need)
+		}
 	}
 }
 
@@ -590,10 +705,7 @@ func topEnergy(p core.Potential, w core.Well) (float64, error) {
 		top = w.Depth
 	}
 	if d.Barrier {
-		if t, ok := p.(core.Turnover); ok {
-			_, vb := t.Barrier()
-			top = math.Min(top, vb-w.Energy)
-		}
+		top = math.Min(top, d.BarrierEnergy-w.Energy)
 	}
 	if !math.IsInf(top, 1) {
 		return top, nil

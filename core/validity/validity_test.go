@@ -153,16 +153,16 @@ func TestTruncationDerivatives(t *testing.T) {
 			0,
 		}
 		got := make([]float64, len(want))
-		require.NoError(t, tr.Derivatives(r, got))
+		require.NoError(t, tr.Taylor(len(want)-1, []float64{r}, got))
 		for k := range want {
-			assert.InDelta(t, want[k], got[k], 1e-12*(1+math.Abs(want[k])), "V⁽%d⁾(%g)", k, r)
-			b := []float64{0}
-			require.NoError(t, tr.Batch(k, []float64{r}, b))
-			assert.Equal(t, got[k], b[0], "Batch order %d", k)
+			assert.InDelta(t, want[k], got[k]*core.Factorial(k), 1e-12*(1+math.Abs(want[k])), "V⁽%d⁾(%g)", k, r)
+			b := make([]float64, k+1)
+			require.NoError(t, tr.Taylor(k, []float64{r}, b))
+			assert.Equal(t, got[k], b[k], "prefix of order %d", k)
 		}
 	}
-	assert.ErrorIs(t, tr.Derivatives(0, make([]float64, 2)), core.ErrDomain)
-	assert.ErrorIs(t, tr.Batch(0, []float64{1}, nil), core.ErrLength)
+	assert.ErrorIs(t, tr.Taylor(1, []float64{0}, make([]float64, 2)), core.ErrDomain)
+	assert.ErrorIs(t, tr.Taylor(0, []float64{1}, nil), core.ErrLength)
 	assert.True(t, math.IsInf(tr.Domain().Limit, 1))
 	// c₄ < 0: both sides turn over; the lower maximum counts.
 	w.Taylor[4] = -0.5
@@ -189,8 +189,18 @@ func TestErrors(t *testing.T) {
 	short.Taylor = short.Taylor[:3]
 	_, err = Analyze(f.P, short, 3, Settings{})
 	assert.ErrorIs(t, err, core.ErrOrder)
+	// With the series at re even 1e-9 is resolved; a well without the
+	// higher coefficients (a form with few derivatives) has only the
+	// direct difference, and refuses, saying what would be resolvable.
 	_, err = PotentialRange(f.P, f.W, 2, Settings{Tolerance: 1e-9})
+	assert.NoError(t, err)
+	bare := f.W
+	bare.Series, bare.Taylor = nil, bare.Taylor[:5]
+	_, err = PotentialRange(f.P, bare, 4, Settings{Tolerance: 1e-7})
 	assert.ErrorIs(t, err, core.ErrParam, "tolerance below the rounding of V(r) − V(re)")
+	if err != nil {
+		assert.Contains(t, err.Error(), "resolvable")
+	}
 	r, err := Analyze(f.P, f.W, 2, Settings{})
 	require.NoError(t, err)
 	assert.Equal(t, DefaultTolerance, r.Tolerance)

@@ -341,29 +341,25 @@ func TestBuckinghamHardCore(t *testing.T) {
 // slowTail is V = A/r¹² − C/r³: its B₂ diverges.
 type slowTail struct{}
 
-func (slowTail) Derivatives(r float64, dst []float64) error {
-	for k := range dst {
-		if err := (slowTail{}).Batch(k, []float64{r}, dst[k:k+1]); err != nil {
-			return err
-		}
+func (slowTail) Taylor(n int, r, dst []float64) error {
+	if err := core.CheckTaylor(n, 4, len(r), len(dst)); err != nil {
+		return err
 	}
-	return nil
-}
-
-func (slowTail) Batch(n int, r, dst []float64) error {
 	for i, x := range r {
 		if err := core.CheckR(slowTail{}.Domain(), x); err != nil {
 			return &core.PointError{Index: i, R: x, Err: err}
 		}
-		// dⁿ/drⁿ r^{−m} = (−1)ⁿ m(m+1)…(m+n−1) r^{−m−n}
-		d := func(m float64) float64 {
-			c := 1.0
-			for k := 0; k < n; k++ {
-				c *= -(m + float64(k))
+		for k := 0; k <= n; k++ {
+			// dᵏ/drᵏ r^{−m}/k! = (−1)ᵏ m(m+1)…(m+k−1)/k!·r^{−m−k}
+			d := func(m float64) float64 {
+				c := 1.0
+				for j := 0; j < k; j++ {
+					c *= -(m + float64(j)) / float64(j+1)
+				}
+				return c * math.Pow(x, -m-float64(k))
 			}
-			return c * math.Pow(x, -m-float64(n))
+			dst[i*(n+1)+k] = d(12) - d(3)
 		}
-		dst[i] = d(12) - d(3)
 	}
 	return nil
 }
@@ -418,4 +414,30 @@ func TestBatched(t *testing.T) {
 	require.NoError(t, err)
 	assert.LessOrEqual(t, cp.Calls()-setup, int64(2*len(c.rules)))
 	assert.LessOrEqual(t, setup, int64(20))
+}
+
+// TestEstimateNeverUndercuts: over 200 temperatures T* = 0.2 … 10⁴ the error
+// estimate of the Lennard-Jones B* is never below its true error (against
+// the series, good to ~1e-15 of its largest term).
+func TestEstimateNeverUndercuts(t *testing.T) {
+	const eps, sigma = 0.0104, 3.4
+	c, err := New(lj(t, eps, sigma), Settings{})
+	require.NoError(t, err)
+	b0 := 2 * math.Pi / 3 * cm3PerMolPerA3 * sigma * sigma * sigma
+	var ts []float64
+	for k := 0; k < 200; k++ {
+		ts = append(ts, 0.2*math.Pow(5e4, float64(k)/199)*eps/units.BoltzmannEV)
+	}
+	pts, err := c.Points(ts, 0)
+	require.NoError(t, err)
+	worst := 0.0
+	for i, p := range pts {
+		ref := ljSeries(ts[i] * units.BoltzmannEV / eps)
+		e := math.Abs(p.Classical/b0 - ref)
+		scale := math.Max(1, math.Abs(ref))
+		assert.GreaterOrEqual(t, p.ErrorEstimate/b0+2e-15*scale, e, "T* = %g", ts[i]*units.BoltzmannEV/eps)
+		assert.Less(t, e, 1e-10*scale)
+		worst = math.Max(worst, e/scale)
+	}
+	t.Logf("worst relative error %.2e", worst)
 }

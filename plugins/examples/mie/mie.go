@@ -4,6 +4,7 @@ import (
 	"fmt"
 	"math"
 
+	"github.com/pairwell/pairwell/conformance"
 	"github.com/pairwell/pairwell/core"
 	"github.com/pairwell/pairwell/core/units"
 )
@@ -74,95 +75,48 @@ type Potential struct {
 	rmin             float64
 }
 
-// Domain is (0, +Inf) with dissociation limit 0.
+// Domain is (0, +Inf) with dissociation limit 0; the minimum is at r_min.
 func (p *Potential) Domain() core.Domain {
-	return core.Domain{Min: 0, Max: math.Inf(1), Limit: 0}
+	return core.Domain{Min: 0, Max: math.Inf(1), Limit: 0, EquilibriumGuess: p.rmin}
 }
 
-// MaxOrder returns the highest derivative order served.
+// MaxOrder returns the highest Taylor order served.
 func (p *Potential) MaxOrder() int { return maxOrder }
-
-// EquilibriumGuess returns r_min, the exact minimum.
-func (p *Potential) EquilibriumGuess() float64 { return p.rmin }
 
 // Identities returns r_min = σ(n/m)^{1/(n−m)}, V(r_min) = −ε,
 // V″(r_min) = n·m·ε/r_min² and V(σ) = 0, all of which follow from the form
 // (Mie 1903): V′(r_min) = 0 gives n(σ/r_min)ⁿ = m(σ/r_min)ᵐ.
-func (p *Potential) Identities() []core.Identity {
-	return []core.Identity{
-		{Name: "r_min = σ(n/m)^(1/(n−m))", Quantity: core.EquilibriumR, Value: p.rmin, Source: reference},
-		{Name: "V(r_min) = −ε", Quantity: core.MinimumEnergy, Value: -p.eps, Source: reference},
-		{Name: "V″(r_min) = n·m·ε/r_min²", Quantity: core.DerivativeAtMinimum, Order: 2, Value: p.n * p.m * p.eps / (p.rmin * p.rmin), Source: reference},
-		{Name: "V(σ) = 0", Quantity: core.ValueAt, R: p.sigma, Value: 0, Source: reference},
+func (p *Potential) Identities() []conformance.Identity {
+	return []conformance.Identity{
+		{Name: "r_min = σ(n/m)^(1/(n−m))", Quantity: conformance.EquilibriumR, Value: p.rmin, Source: reference},
+		{Name: "V(r_min) = −ε", Quantity: conformance.MinimumEnergy, Value: -p.eps, Source: reference},
+		{Name: "V″(r_min) = n·m·ε/r_min²", Quantity: conformance.DerivativeAtMinimum, Order: 2, Value: p.n * p.m * p.eps / (p.rmin * p.rmin), Source: reference},
+		{Name: "V(σ) = 0", Quantity: conformance.ValueAt, R: p.sigma, Value: 0, Source: reference},
 	}
 }
 
-// start returns the order-0 terms C·ε(σ/r)ⁿ and C·ε(σ/r)ᵐ.
-func (p *Potential) start(r float64) (tn, tm float64) {
-	s := p.sigma / r
-	return float64(p.ce * math.Pow(s, p.n)), float64(p.ce * math.Pow(s, p.m))
-}
-
-// step raises the order of the terms from k to k + 1: dᵏ⁺¹ = −(p + k)/r·dᵏ
-// for each power. Derivatives and Batch both use it, so they give the
-// same bits; the float64 conversions forbid fused multiply-adds.
-func (p *Potential) step(tn, tm float64, k int, r float64) (float64, float64) {
-	fk := float64(k)
-	return float64(-tn * float64(p.n+fk) / r), float64(-tm * float64(p.m+fk) / r)
-}
-
-func (p *Potential) check(r float64) error {
-	if !(r > 0 && r <= math.MaxFloat64) {
-		return fmt.Errorf("%s: %w", key, core.CheckR(p.Domain(), r))
-	}
-	return nil
-}
-
-func overflow(r float64, n int) error {
-	return fmt.Errorf("%s: r = %g Å: %w: V⁽%d⁾ overflows float64", key, r, core.ErrDomain, n)
-}
-
-// Derivatives stores V⁽ᵏ⁾(r) in dst[k], k = 0, …, len(dst)−1.
-func (p *Potential) Derivatives(r float64, dst []float64) error {
-	if err := p.check(r); err != nil {
-		return err
-	}
-	if len(dst) > maxOrder+1 {
-		return fmt.Errorf("%s: %w", key, core.CheckOrder(len(dst)-1, maxOrder))
-	}
-	tn, tm := p.start(r)
-	for k := range dst {
-		v := tn - tm
-		if v-v != 0 {
-			return overflow(r, k)
-		}
-		dst[k] = v
-		tn, tm = p.step(tn, tm, k, r)
-	}
-	return nil
-}
-
-// Batch stores V⁽ⁿ⁾(r[i]) in dst[i].
-func (p *Potential) Batch(n int, r, dst []float64) error {
-	if len(r) != len(dst) {
-		return fmt.Errorf("%s: %w: len(r) = %d, len(dst) = %d", key, core.ErrLength, len(r), len(dst))
-	}
-	if err := core.CheckOrder(n, maxOrder); err != nil {
+// Taylor stores c_k(r[i]) = V⁽ᵏ⁾(r[i])/k! at dst[i·(n+1)+k]: each power
+// t = C·ε(σ/r)ᵖ has normalized coefficients t_{k+1} = −t_k·(p + k)/((k+1)r).
+func (p *Potential) Taylor(n int, r, dst []float64) error {
+	if err := core.CheckTaylor(n, maxOrder, len(r), len(dst)); err != nil {
 		return fmt.Errorf("%s: %w", key, err)
 	}
+	w := n + 1
 	for i, x := range r {
-		if err := p.check(x); err != nil {
-			return &core.PointError{Index: i, R: x, Err: err}
+		if !(x > 0 && x <= math.MaxFloat64) {
+			return &core.PointError{Index: i, R: x, Err: fmt.Errorf("%s: %w", key, core.CheckR(p.Domain(), x))}
 		}
-		tn, tm := p.start(x)
-		for k := 0; k < n; k++ {
-			tn, tm = p.step(tn, tm, k, x)
+		s := p.sigma / x
+		tn, tm := p.ce*math.Pow(s, p.n), p.ce*math.Pow(s, p.m)
+		for k := 0; k <= n; k++ {
+			v := tn - tm
+			if v-v != 0 {
+				return &core.PointError{Index: i, R: x, Err: fmt.Errorf("%s: %w", key, core.OverflowError(x, k))}
+			}
+			dst[i*w+k] = v
+			fk := float64(k)
+			tn, tm = -tn*(p.n+fk)/((fk+1)*x), -tm*(p.m+fk)/((fk+1)*x)
 		}
-		v := tn - tm
-		if v-v != 0 {
-			return &core.PointError{Index: i, R: x, Err: overflow(x, n)}
-		}
-		dst[i] = v
 	}
 	return nil
 }

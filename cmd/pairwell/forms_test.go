@@ -1,0 +1,312 @@
+package main
+
+import (
+	"encoding/json"
+	"math"
+	"os"
+	"path/filepath"
+	"strings"
+	"testing"
+
+	"github.com/stretchr/testify/assert"
+	"github.com/stretchr/testify/require"
+)
+
+// formulaForms declares the four built-in forms as formulas (Morse 1929,
+// Lennard-Jones 1924, Buckingham 1938, harmonic), with the built-ins'
+// parameter names, and a Varshni form (Y. P. Varshni, Rev. Mod. Phys. 29,
+// 664 (1957)).
+const formulaForms = `
+[[form]]
+key = "fmorse"
+formula = "De*(1 - exp(-a*(r - re)))^2 - De"
+[[form.param]]
+name = "De"
+unit = "eV"
+constraint = "> 0"
+[[form.param]]
+name = "a"
+unit = "1/A"
+constraint = "> 0"
+[[form.param]]
+name = "re"
+unit = "A"
+constraint = "> 0"
+
+[[form]]
+key = "flj"
+formula = "4*epsilon*((sigma/r)^12 - (sigma/r)^6)"
+[[form.param]]
+name = "epsilon"
+unit = "eV"
+constraint = "> 0"
+[[form.param]]
+name = "sigma"
+unit = "A"
+constraint = "> 0"
+
+[[form]]
+key = "fbuck"
+formula = "A*exp(-r/rho) - C/r^6"
+[[form.param]]
+name = "A"
+unit = "eV"
+constraint = "> 0"
+[[form.param]]
+name = "rho"
+unit = "A"
+constraint = "> 0"
+[[form.param]]
+name = "C"
+unit = "eV*A^6"
+constraint = ">= 0"
+
+[[form]]
+key = "fharm"
+formula = "0.5*k*(r - r0)^2"
+limit = "none"
+[[form.param]]
+name = "k"
+unit = "eV/A^2"
+constraint = "> 0"
+[[form.param]]
+name = "r0"
+unit = "A"
+constraint = "> 0"
+
+[[form]]
+key = "varshni"
+formula = "De*(1 - (re/r)*exp(-beta*(r^2 - re^2)))^2 - De"
+reference = "Y. P. Varshni, Rev. Mod. Phys. 29, 664 (1957)"
+[[form.param]]
+name = "De"
+unit = "eV"
+constraint = "> 0"
+[[form.param]]
+name = "re"
+unit = "A"
+constraint = "> 0"
+[[form.param]]
+name = "beta"
+unit = "1/A^2"
+constraint = "> 0"
+`
+
+// fourFormulaSpecs are fourSpecs with the formula forms.
+var fourFormulaSpecs = []string{
+	"fmorse:De=4.6,a=1.87,re=1.27",
+	"flj:epsilon=120K,sigma=3.4",
+	"fbuck:A=1500,rho=0.3,C=25",
+	"fharm:k=30,r0=1.2",
+}
+
+func writeForms(t testing.TB, doc string) string {
+	t.Helper()
+	path := filepath.Join(t.TempDir(), "forms.toml")
+	require.NoError(t, os.WriteFile(path, []byte(doc), 0o644))
+	return path
+}
+
+// Every command works on formula forms; compare of the four formula forms
+// gives the built-ins' rows (the compiled formulas agree with the closed
+// forms to 1e-13, see core/formula).
+func TestFormsEveryCommand(t *testing.T) {
+	forms := writeForms(t, formulaForms)
+	const v = "varshni:De=4.6,re=1.27,beta=0.5"
+	for _, args := range [][]string{
+		{"models"},
+		{"inspect", v, "--pair", "H-Cl", "--order", "8"},
+		{"compare", v, "fmorse:De=4.6,a=1.87,re=1.27", "--pair", "H-Cl"},
+		{"motion", v, "--pair", "H-Cl", "--amplitude", "0.2"},
+		{"period", v, "--pair", "H-Cl", "--amplitudes", "0.05:0.5:4"},
+		{"validity", v, "--order", "4"},
+		{"check", v, "flj:epsilon=0.0104,sigma=3.4", "fbuck:A=1500,rho=0.3,C=25", "fharm:k=30,r0=1.2"},
+		{"plot", "taylor", v, "-o", filepath.Join(t.TempDir(), "t.png")},
+		{"plot", "compare", v, "fmorse:De=4.6,a=1.87,re=1.27", "-o", filepath.Join(t.TempDir(), "c.svg")},
+	} {
+		code, _, errOut := runCLI(t, append([]string{"--forms", forms}, args...)...)
+		assert.Equal(t, 0, code, "%v: %s", args, errOut)
+	}
+	rows := compareJSON(t, append([]string{"--forms", forms, "--pair", "H-Cl"}, fourFormulaSpecs...)...)
+	want := compareJSON(t, append([]string{"--pair", "H-Cl"}, fourSpecs...)...)
+	require.Len(t, rows, 4)
+	for i := range rows {
+		for _, k := range []string{"equilibrium_r_angstrom", "force_constant_ev_per_angstrom2"} {
+			g, w := rows[i][k].(float64), want[i][k].(float64)
+			assert.InDelta(t, w, g, 1e-12*math.Abs(w), "%s %s", fourFormulaSpecs[i], k)
+		}
+	}
+}
+
+// Baselines record and verify sets that declare their own forms.
+func TestFormsInModelSetAndBaseline(t *testing.T) {
+	dir := t.TempDir()
+	set := writeSet(t, dir, formulaForms+`
+[defaults]
+pair = "H-Cl"
+[[entry]]
+name = "v"
+spec = "varshni:De=4.6,re=1.27,beta=0.5"
+[[entry]]
+name = "m"
+model = "fmorse"
+[entry.params]
+De = "106 kcal/mol"
+a = 1.87
+re = "127 pm"
+`)
+	b := filepath.Join(dir, "b.json")
+	code, _, errOut := runCLI(t, "baseline", "record", "--set", set, "-o", b)
+	require.Equal(t, 0, code, errOut)
+	code, out, errOut := runCLI(t, "baseline", "verify", b, "--set", set)
+	require.Equal(t, 0, code, errOut)
+	assert.Contains(t, out, "0 changes")
+	code, _, errOut = runCLI(t, "compare", "--set", set)
+	assert.Equal(t, 0, code, errOut)
+	code, _, errOut = runCLI(t, "check", "--set", set)
+	assert.Equal(t, 0, code, errOut)
+}
+
+func TestFormsModelsAndMatch(t *testing.T) {
+	dir := t.TempDir()
+	require.NoError(t, os.WriteFile(filepath.Join(dir, "a.toml"), []byte(formulaForms), 0o644))
+	t.Setenv(envFormsPath, dir+string(os.PathListSeparator)+filepath.Join(dir, "missing"))
+	code, out, errOut := runCLI(t, "models", "--format", "json")
+	require.Equal(t, 0, code, errOut)
+	var entries []map[string]any
+	require.NoError(t, json.Unmarshal([]byte(out), &entries))
+	found := false
+	for _, e := range entries {
+		if e["key"] == "varshni" {
+			found = true
+			assert.Equal(t, "formula", e["kind"])
+			assert.Equal(t, filepath.Join(dir, "a.toml")+":59", e["origin"])
+			ps := e["params"].([]any)
+			assert.Equal(t, "1/Å²", ps[2].(map[string]any)["unit"])
+			assert.Equal(t, "length^-2", ps[2].(map[string]any)["dimension"])
+		}
+		if e["key"] == "morse" {
+			assert.Equal(t, "built-in", e["kind"])
+		}
+	}
+	assert.True(t, found)
+	code, out, _ = runCLI(t, "models")
+	require.Equal(t, 0, code)
+	assert.Contains(t, out, "forms file "+filepath.Join(dir, "a.toml")+":59")
+	// --match: the formula forms declare nothing to match, and say so.
+	code, _, errOut = runCLI(t, "compare", "--match", "re=1.27,De=4.6,k=30", "--mu", "1")
+	require.Equal(t, 0, code, errOut)
+	assert.Contains(t, errOut, "--match: varshni (formula) declares nothing to match a target with, so it is left out")
+}
+
+// Bad forms files: one clear line (plus the caret picture for a formula),
+// exit 2, also for a file that cannot be read (as for --set).
+func TestFormsBadInput(t *testing.T) {
+	const head = "[[form]]\nkey = \"%s\"\nformula = \"%s\"\n[[form.param]]\nname = \"epsilon\"\nunit = \"eV\"\n[[form.param]]\nname = \"sigma\"\nunit = \"A\"\n"
+	form := func(key, f string) string {
+		return strings.Replace(strings.Replace(head, "%s", key, 1), "%s", f, 1)
+	}
+	tests := []struct {
+		doc, contain string
+		caret        bool
+	}{
+		{form("x", "4*epsilon*((sigam/r)^12 - (sigma/r)^6)"), "unknown name 'sigam' at column 13 (did you mean sigma?); parameters are epsilon, sigma", true},
+		{form("x", "epsilon*(sigma/r)^5/r"), "the formula 'epsilon*(sigma/r)^5/r' has dimension energy·length^-1: expected energy at column 1", true},
+		{form("x", "epsilon*exp(-r)*sigma/sigma"), "exp argument '-r' has dimension length: expected dimensionless", true},
+		{form("morse", "epsilon*sigma/r"), `name "morse" already used by "morse" (built-in)`, false},
+		{form("x", "epsilon*sigma/r") + "\n" + form("x", "epsilon*sigma/r"), `key "x" already declared`, false},
+		{form("x", "epsilon*sigma/r") + "bogus = 1\n", "unknown key form.param.bogus", false},
+		{strings.Replace(form("x", "epsilon*sigma/r"), `unit = "A"`, `unit = "A/s"`, 1), `unit "A/s" is a length·time^-1`, false},
+		{strings.Replace(form("x", "epsilon*sigma/r"), `unit = "A"`, `unit = "A"`+"\nconstraint = \"positive\"", 1), `constraint "positive": allowed are`, false},
+	}
+	for _, tt := range tests {
+		path := writeForms(t, tt.doc)
+		code, _, errOut := runCLI(t, "--forms", path, "models")
+		assert.Equal(t, exitUsage, code, tt.contain)
+		lines := strings.Split(strings.TrimRight(errOut, "\n"), "\n")
+		assert.Contains(t, lines[0], tt.contain)
+		if tt.caret {
+			require.Len(t, lines, 3, errOut)
+			assert.Contains(t, lines[2], "^")
+		} else {
+			assert.Len(t, lines, 1, errOut)
+		}
+	}
+	code, _, errOut := runCLI(t, "--forms", filepath.Join(t.TempDir(), "none.toml"), "models")
+	assert.Equal(t, exitUsage, code, errOut)
+	// An unused parameter is a warning; the form works.
+	path := writeForms(t, form("w", "epsilon*(2 - exp(-r/r))"))
+	code, out, errOut := runCLI(t, "--forms", path, "models")
+	assert.Equal(t, 0, code, errOut)
+	assert.Contains(t, errOut, "warning: "+path+":1: form \"w\": parameter sigma is declared but not used")
+	assert.Contains(t, out, "forms file")
+}
+
+// BenchmarkCompareFourFormulas is BenchmarkCompareFourSpecs with the four
+// forms typed as formulas, the forms file read and compiled in every
+// iteration (issue 10: ≤ 1.5× the built-ins).
+func BenchmarkCompareFourFormulas(b *testing.B) {
+	forms := writeForms(b, formulaForms)
+	args := append([]string{"--forms", forms, "compare", "--pair", "H-Cl", "--format", "json"}, fourFormulaSpecs...)
+	for b.Loop() {
+		var out, errOut strings.Builder
+		if code := run(args, strings.NewReader(""), &out, &errOut); code != 0 {
+			b.Fatal(errOut.String())
+		}
+	}
+}
+
+// A formula without a minimum, and one that is not finite inside its
+// declared domain, are clear errors (exit 2), never numbers.
+func TestFormsNoMinimumAndDomain(t *testing.T) {
+	forms := writeForms(t, `
+[[form]]
+key = "rep"
+formula = "A*exp(-r/rho)"
+[[form.param]]
+name = "A"
+unit = "eV"
+[[form.param]]
+name = "rho"
+unit = "A"
+
+[[form]]
+key = "lw"
+formula = "De*log(r/re - 1)^2 - De"
+limit = "none"
+[[form.param]]
+name = "De"
+unit = "eV"
+[[form.param]]
+name = "re"
+unit = "A"
+
+[[form]]
+key = "lw2"
+formula = "De*log(r/re - 1)^2 - De"
+limit = "none"
+r_min = "re"
+[[form.param]]
+name = "De"
+unit = "eV"
+[[form.param]]
+name = "re"
+unit = "A"
+`)
+	code, out, errOut := runCLI(t, "--forms", forms, "inspect", "rep:A=100,rho=0.3")
+	assert.Equal(t, exitUsage, code)
+	assert.Empty(t, out)
+	assert.Contains(t, errOut, "no minimum: V′ does not change sign")
+	code, out, errOut = runCLI(t, "--forms", forms, "inspect", "lw:De=1,re=1")
+	assert.Equal(t, exitUsage, code)
+	assert.Empty(t, out)
+	assert.Contains(t, errOut, "r = 0.01 Å: separation outside the domain: the formula gives NaN for its coefficient of order")
+	assert.Contains(t, errOut, "inside the declared domain r > 0 (declare r_min")
+	// With the domain declared, the minimum at r = 2re is found:
+	// d/dr log(r/re − 1)² = 0 at r/re − 1 = 1.
+	code, out, errOut = runCLI(t, "--forms", forms, "inspect", "lw2:De=1,re=1", "--format", "json")
+	require.Equal(t, 0, code, errOut)
+	var obj map[string]any
+	require.NoError(t, json.Unmarshal([]byte(out), &obj))
+	assert.InDelta(t, 2, obj["equilibrium_r_angstrom"].(float64), 1e-14)
+}
