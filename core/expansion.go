@@ -65,6 +65,10 @@ func NewExpansion(w Well) Expansion {
 	}
 	c = c[:m+1]
 	beta := 0.0
+	if m < 3 {
+		// Nothing is known beyond c₂: no bound on the remainder.
+		beta = math.Inf(1)
+	}
 	for k := max(3, m-3); k <= m; k++ {
 		if c[k] != 0 {
 			beta = math.Max(beta, math.Pow(math.Abs(c[k])/c[2], 1/float64(k-2)))

@@ -212,3 +212,19 @@ func TestLinearMethods(t *testing.T) {
 		assert.Equal(t, g, h, "SquareLinear order %d", order)
 	}
 }
+
+// Square at orders 2–4 (a separate loop) gives the bits of the general
+// loop at higher orders: coefficient k does not depend on the order.
+func TestSquareSameBitsAtEveryOrder(t *testing.T) {
+	rng := rand.New(rand.NewPCG(3, 4))
+	big := Layout{Order: 8, Points: 5}
+	a := randJet(rng, big, -2, 2)
+	want := make([]float64, big.Len())
+	big.Square(want, a)
+	for order := 0; order <= 7; order++ {
+		l := Layout{Order: order, Points: 5}
+		got := make([]float64, l.Len())
+		l.Square(got, a[:l.Len()])
+		assert.Equal(t, want[:l.Len()], got, "order %d", order)
+	}
+}
