@@ -563,3 +563,31 @@ func FuzzCleanWriter(f *testing.F) {
 		}
 	})
 }
+
+// TestSignalLeavesNoFile: SIGINT or SIGTERM in the middle of a long motion
+// run with --trajectory leaves neither a temporary nor a partial file
+// (hidden .NAME.*.tmp files of hundreds of MB used to accumulate).
+func TestSignalLeavesNoFile(t *testing.T) {
+	if runtime.GOOS != "linux" {
+		t.Skip("signals")
+	}
+	requirePlugins(t)
+	for i, sig := range []syscall.Signal{syscall.SIGINT, syscall.SIGTERM} {
+		dir := t.TempDir()
+		cmd, done, _ := startPairwell(t, nil, "motion", "morse:De=4.4,a=1.9,re=1.27", "--mu", "1", "--amplitude", "0.1",
+			"--method", "rk4", "--steps-per-period", "1000", "--periods", "900", "--trajectory", filepath.Join(dir, "t.csv"))
+		time.Sleep(time.Duration(100+300*i) * time.Millisecond) // computing, then writing
+		require.NoError(t, cmd.Process.Signal(sig))
+		err := waitExit(t, done, 10*time.Second)
+		if err == nil {
+			t.Logf("%v: the run finished before the signal", sig)
+			continue
+		}
+		var exit *exec.ExitError
+		require.ErrorAs(t, err, &exit)
+		assert.True(t, exit.Sys().(syscall.WaitStatus).Signaled(), "%v: dies of the signal: %v", sig, err)
+		entries, rerr := os.ReadDir(dir)
+		require.NoError(t, rerr)
+		assert.Empty(t, entries, "%v left files", sig)
+	}
+}
