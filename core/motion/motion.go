@@ -108,6 +108,10 @@ func (m Method) MarshalText() ([]byte, error) {
 // ErrMethod means a method name or value is not one of the integrators.
 var ErrMethod = errors.New("unknown integration method")
 
+// ErrTooManySteps is wrapped by the error of a run that exceeds
+// Settings.MaxSteps.
+var ErrTooManySteps = errors.New("step limit exceeded")
+
 // ParseMethod returns the method named s, case-insensitively: "heun",
 // "rk4", "verlet" (or "velocity-verlet"), "dopri" (or "dopri5",
 // "dormand-prince").
@@ -236,6 +240,12 @@ type Settings struct {
 	// Record, when positive, keeps the start and every Record-th accepted
 	// step in Result.Trajectory (1 keeps every step). Zero keeps none.
 	Record int
+
+	// MaxSteps, when positive, bounds the number of accepted steps (and
+	// with it the time and the memory of a recorded trajectory): a run
+	// that needs more fails with an error wrapping ErrTooManySteps. Zero
+	// means no bound.
+	MaxSteps int
 }
 
 // Start is the initial condition of a run: at rest at r0 = re + x0.
@@ -507,6 +517,9 @@ func (s Settings) withDefaults(t0 float64) (Settings, error) {
 	}
 	if s.Record < 0 {
 		return s, fmt.Errorf("motion: %w: record %d, must be ≥ 0", core.ErrParam, s.Record)
+	}
+	if s.MaxSteps < 0 {
+		return s, fmt.Errorf("motion: %w: max steps %d, must be ≥ 0", core.ErrParam, s.MaxSteps)
 	}
 	if s.StepsPerPeriod == 0 {
 		s.StepsPerPeriod = s.Method.DefaultStepsPerPeriod()
