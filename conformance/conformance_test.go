@@ -106,7 +106,7 @@ func TestPublishedIdentities(t *testing.T) {
 }
 
 func TestWrongThirdDerivative(t *testing.T) {
-	m := faultyModel{models.Morse{}, 3, func(r, v float64) float64 { return 1.5 * v }}
+	m := faultyModel{models.Morse{}, 3, func(r, v float64) float64 { return 1.5 * v }, false}
 	rep := run(t, m, [][]float64{{4.6, 1.87, 1.27}}, conformance.Settings{})
 	require.False(t, rep.Passed())
 	fails := find(rep, conformance.CheckDerivative, -1)
@@ -133,19 +133,19 @@ func TestWrongThirdDerivative(t *testing.T) {
 }
 
 func TestSmallDerivativeErrorIsCaught(t *testing.T) {
-	m := faultyModel{models.LennardJones{}, 3, func(r, v float64) float64 { return v * (1 + 1e-6) }}
+	m := faultyModel{models.LennardJones{}, 3, func(r, v float64) float64 { return v * (1 + 1e-6) }, false}
 	rep := run(t, m, [][]float64{{0.0104, 3.4}}, conformance.Settings{})
 	assert.False(t, find(rep, conformance.CheckDerivative, 3)[0].Passed)
 }
 
 func TestSignErrorInForce(t *testing.T) {
 	flip := func(r, v float64) float64 { return -v }
-	morseIDs := func(ps []float64) []core.Identity {
-		return []core.Identity{{Name: "r_min = re", Quantity: core.EquilibriumR, Value: ps[2], Source: "Morse 1929"}}
+	morseIDs := func(ps []float64) []conformance.Identity {
+		return []conformance.Identity{{Name: "r_min = re", Quantity: conformance.EquilibriumR, Value: ps[2], Source: "Morse 1929"}}
 	}
 	for name, m := range map[string]core.Model{
-		"no declarations": faultyModel{models.Morse{}, 1, flip},
-		"declared re":     declaring{faultyModel{models.Morse{}, 1, flip}, morseIDs},
+		"no declarations": faultyModel{models.Morse{}, 1, flip, true},
+		"declared re":     declaring{faultyModel{models.Morse{}, 1, flip, true}, morseIDs},
 	} {
 		t.Run(name, func(t *testing.T) {
 			rep := run(t, m, [][]float64{{4.6, 1.87, 1.27}}, conformance.Settings{})
@@ -173,8 +173,8 @@ func TestSignErrorInForce(t *testing.T) {
 	}
 }
 
-func TestBatchDiffersFromDerivatives(t *testing.T) {
-	rep := run(t, bornMayer{maxOrder: 10, batchULP: true}, [][]float64{{100, 0.3}}, conformance.Settings{})
+func TestSinglePointDiffersFromBatch(t *testing.T) {
+	rep := run(t, bornMayer{maxOrder: 10, singleULP: true}, [][]float64{{100, 0.3}}, conformance.Settings{})
 	r := find(rep, conformance.CheckBatch, -1)[0]
 	require.False(t, r.Passed)
 	assert.Contains(t, r.Message, "first at order 2")
@@ -218,12 +218,12 @@ func TestInvalidInputAccepted(t *testing.T) {
 	assert.Equal(t, 2.0, ip.Error)
 	ir := find(rep, conformance.CheckInvalidR, -1)[0]
 	assert.False(t, ir.Passed)
-	assert.Contains(t, ir.Message, "Derivatives(r = 0) returned V = 100 without an error")
+	assert.Contains(t, ir.Message, "Taylor(2, [0]) returned V = 100 without an error")
 }
 
 func TestWrongIdentityAndLimit(t *testing.T) {
-	m := declaring{models.Morse{}, func(ps []float64) []core.Identity {
-		return []core.Identity{{Name: "V″(re) = De·a² (missing 2)", Quantity: core.DerivativeAtMinimum, Order: 2,
+	m := declaring{models.Morse{}, func(ps []float64) []conformance.Identity {
+		return []conformance.Identity{{Name: "V″(re) = De·a² (missing 2)", Quantity: conformance.DerivativeAtMinimum, Order: 2,
 			Value: ps[0] * ps[1] * ps[1], Source: "a typo"}}
 	}}
 	rep := run(t, m, [][]float64{{4.6, 1.87, 1.27}}, conformance.Settings{})
@@ -333,7 +333,7 @@ type junit struct {
 
 func TestJUnit(t *testing.T) {
 	good := run(t, models.Morse{}, [][]float64{{4.6, 1.87, 1.27}}, conformance.Settings{})
-	bad := run(t, faultyModel{models.Morse{}, 3, func(r, v float64) float64 { return 1.5 * v }},
+	bad := run(t, faultyModel{models.Morse{}, 3, func(r, v float64) float64 { return 1.5 * v }, false},
 		[][]float64{{4.6, 1.87, 1.27}}, conformance.Settings{})
 	for i := range bad.Results {
 		bad.Results[i].Subject = "faulty <morse> & \"co\"\x01" // escaping, invalid XML characters

@@ -49,18 +49,18 @@ func (m *mismatch) merge(o mismatch) {
 }
 
 // mismatchResult turns m into a Result whose reference is the first
-// Batch pass.
+// Taylor pass over the sample points.
 func (c *subject) mismatchResult(r Result, m mismatch, what string) Result {
 	r.Tolerance = 0
 	r.Error = float64(m.count)
 	switch {
 	case m.err != nil:
 		r.Error, r.WorstR = math.NaN(), m.errR
-		r.Message = fmt.Sprintf("%s failed at order %d, r = %.9g Å, where Batch succeeded: %s", what, m.errOrder, m.errR, errString(m.err))
+		r.Message = fmt.Sprintf("%s failed at order %d, r = %.9g Å, where the reference Taylor call succeeded: %s", what, m.errOrder, m.errR, errString(m.err))
 	case m.count > 0:
 		r.WorstR = m.r
-		r.Message = fmt.Sprintf("%d of %d values differ in their bits; first at order %d, r = %.17g Å: Batch gave %.17g, %s gave %.17g",
-			m.count, m.evaluations, m.order, m.r, m.want, m.how, m.got)
+		r.Message = fmt.Sprintf("%d of %d values differ in their bits; first at order %d, r = %.17g Å: the reference Taylor call gave %s = %.17g, %s gave %.17g",
+			m.count, m.evaluations, m.order, m.r, vname(m.order), m.want, m.how, m.got)
 	default:
 		r.Passed = true
 		r.Message = fmt.Sprintf("%d values identical to the bit", m.evaluations)
@@ -68,7 +68,7 @@ func (c *subject) mismatchResult(r Result, m mismatch, what string) Result {
 	return r
 }
 
-// usableOrders returns the orders whose reference Batch pass succeeded.
+// usableOrders returns the orders whose reference evaluation succeeded.
 func (c *subject) usableOrders() []int {
 	var ks []int
 	for k, err := range c.ev.errs {
@@ -79,83 +79,95 @@ func (c *subject) usableOrders() []int {
 	return ks
 }
 
-// checkBatch compares Derivatives with the reference Batch values at every
-// sample point: with all orders at once, and with a prefix of them (the
-// prefix length cycling over the points), since the contract asks for the
-// same bits whichever method and slice length is used.
+// compareRows compares the rows of order m in out (one per point of xs,
+// V⁽ᵏ⁾ = k!·c_k) with the reference at the points ref(i), for the usable
+// orders k ≤ m.
+func (c *subject) compareRows(mm *mismatch, how string, ks []int, m int, xs, out []float64, ref func(i int) int) {
+	for i, x := range xs {
+		for _, k := range ks {
+			if k > m {
+				break
+			}
+			mm.compare(how, k, x, c.ev.vals[k][ref(i)], out[i*(m+1)+k]*factorial(k))
+		}
+	}
+}
+
+// checkBatch checks the layout rules of the contract at every sample
+// point: a single-point Taylor call gives the bits of the batched
+// reference, and a row of a lower order is the prefix of the row of a
+// higher one (the order cycling over the points, and once over all points
+// at half the top order).
 func (c *subject) checkBatch() Result {
-	r := c.result(CheckBatch, "Batch = Derivatives, bit for bit")
+	r := c.result(CheckBatch, "one point = many points, order n = prefix of order m, bit for bit")
 	ev := c.ev
 	ks := c.usableOrders()
 	if len(ks) == 0 {
-		r.Message = "no order could be evaluated by Batch (see the derivative checks)"
+		r.Message = "no order could be evaluated by Taylor (see the derivative checks)"
 		return r
 	}
+	top := ks[len(ks)-1]
 	var m mismatch
-	full := make([]float64, c.order+1)
+	same := func(i int) int { return i }
 	for i, x := range ev.rs {
-		if err := c.p.Derivatives(x, full); err != nil {
-			m.fail("Derivatives", c.order, x, err)
+		n := i % (top + 1)
+		out := make([]float64, n+1)
+		if err := c.p.Taylor(n, []float64{x}, out); err != nil {
+			m.fail(fmt.Sprintf("a single-point Taylor(%d)", n), n, x, err)
 			continue
 		}
-		prefix := make([]float64, i%(c.order+1)+1)
-		if err := c.p.Derivatives(x, prefix); err != nil {
-			m.fail(fmt.Sprintf("Derivatives with len(dst) = %d", len(prefix)), len(prefix)-1, x, err)
-			continue
-		}
-		for _, k := range ks {
-			m.compare("Derivatives", k, x, ev.vals[k][i], full[k])
-			if k < len(prefix) {
-				m.compare(fmt.Sprintf("Derivatives with len(dst) = %d", len(prefix)), k, x, ev.vals[k][i], prefix[k])
-			}
-		}
+		c.compareRows(&m, fmt.Sprintf("a single-point Taylor(%d)", n), ks, n, []float64{x}, out, func(int) int { return i })
 	}
-	return c.mismatchResult(r, m, "Derivatives")
+	half := top / 2
+	out := make([]float64, (half+1)*len(ev.rs))
+	if err := c.p.Taylor(half, ev.rs, out); err != nil {
+		m.fail(fmt.Sprintf("Taylor(%d) over the sample points", half), half, math.NaN(), err)
+	} else {
+		c.compareRows(&m, fmt.Sprintf("Taylor(%d) over the sample points", half), ks, half, ev.rs, out, same)
+	}
+	return c.mismatchResult(r, m, "an evaluation of another shape")
 }
 
-// checkDeterminism evaluates every order again by Batch, with the points
-// in reverse order, and compares the bits.
+// checkDeterminism evaluates every order again, with the points in reverse
+// order, and compares the bits.
 func (c *subject) checkDeterminism() Result {
 	r := c.result(CheckDeterminism, "repeatable, bit for bit")
 	ks := c.usableOrders()
 	if len(ks) == 0 {
-		r.Message = "no order could be evaluated by Batch (see the derivative checks)"
+		r.Message = "no order could be evaluated by Taylor (see the derivative checks)"
 		return r
 	}
+	top := ks[len(ks)-1]
 	rs := c.ev.rs
 	rev := make([]float64, len(rs))
 	for i, x := range rs {
 		rev[len(rs)-1-i] = x
 	}
 	var m mismatch
-	out := make([]float64, len(rs))
-	for _, k := range ks {
-		if err := c.p.Batch(k, rev, out); err != nil {
-			m.fail("a repeated Batch", k, math.NaN(), err)
-			continue
-		}
-		for i, x := range rev {
-			m.compare("a repeated Batch (points reversed)", k, x, c.ev.vals[k][len(rs)-1-i], out[i])
-		}
+	out := make([]float64, (top+1)*len(rs))
+	if err := c.p.Taylor(top, rev, out); err != nil {
+		m.fail("a repeated Taylor call", top, math.NaN(), err)
+	} else {
+		c.compareRows(&m, "a repeated Taylor call (points reversed)", ks, top, rev, out, func(i int) int { return len(rs) - 1 - i })
 	}
-	return c.mismatchResult(r, m, "a repeated Batch")
+	return c.mismatchResult(r, m, "a repeated Taylor call")
 }
 
 // concurrencyRounds is how often each goroutine repeats its evaluations.
 const concurrencyRounds = 2
 
 // checkConcurrency evaluates from Settings.Goroutines goroutines at once:
-// each runs Batch over every order (starting at a different one, with the
-// points rotated) and Derivatives at every G-th point, twice, and compares
-// the bits with the reference.
+// each runs Taylor over every point (rotated by a different shift) and at
+// every G-th point alone, twice, and compares the bits with the reference.
 func (c *subject) checkConcurrency() Result {
 	g := c.s.Goroutines
 	r := c.result(CheckConcurrency, fmt.Sprintf("%d goroutines at once, bit for bit", g))
 	ks := c.usableOrders()
 	if len(ks) == 0 {
-		r.Message = "no order could be evaluated by Batch (see the derivative checks)"
+		r.Message = "no order could be evaluated by Taylor (see the derivative checks)"
 		return r
 	}
+	top := ks[len(ks)-1]
 	rs := c.ev.rs
 	n := len(rs)
 	results := make([]mismatch, g)
@@ -167,28 +179,20 @@ func (c *subject) checkConcurrency() Result {
 			m := &results[w]
 			shift := (w * n) / g
 			rot := append(append([]float64(nil), rs[shift:]...), rs[:shift]...)
-			out := make([]float64, n)
-			dst := make([]float64, c.order+1)
+			out := make([]float64, (top+1)*n)
+			one := make([]float64, top+1)
 			for round := 0; round < concurrencyRounds; round++ {
-				for j := range ks {
-					k := ks[(j+w)%len(ks)]
-					if err := c.p.Batch(k, rot, out); err != nil {
-						m.fail("a concurrent Batch", k, math.NaN(), err)
-						continue
-					}
-					for i := range rot {
-						src := (i + shift) % n
-						m.compare("a concurrent Batch", k, rot[i], c.ev.vals[k][src], out[i])
-					}
+				if err := c.p.Taylor(top, rot, out); err != nil {
+					m.fail("a concurrent Taylor call", top, math.NaN(), err)
+				} else {
+					c.compareRows(m, "a concurrent Taylor call", ks, top, rot, out, func(i int) int { return (i + shift) % n })
 				}
 				for i := w; i < n; i += g {
-					if err := c.p.Derivatives(rs[i], dst); err != nil {
-						m.fail("a concurrent Derivatives", c.order, rs[i], err)
+					if err := c.p.Taylor(top, rs[i:i+1], one); err != nil {
+						m.fail("a concurrent single-point Taylor call", top, rs[i], err)
 						continue
 					}
-					for _, k := range ks {
-						m.compare("a concurrent Derivatives", k, rs[i], c.ev.vals[k][i], dst[k])
-					}
+					c.compareRows(m, "a concurrent single-point Taylor call", ks, top, rs[i:i+1], one, func(int) int { return i })
 				}
 			}
 		}(w)

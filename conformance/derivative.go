@@ -7,6 +7,7 @@ import (
 
 	"gonum.org/v1/gonum/diff/fd"
 
+	"github.com/pairwell/pairwell/core"
 	"github.com/pairwell/pairwell/core/units"
 )
 
@@ -17,23 +18,23 @@ import (
 // (1982); Numerical Recipes §5.7): D(h) = g′ + a₁h² + a₂h⁴ + …, so each
 // column of the tableau removes one power of h². The entry with the
 // smallest error estimate (the difference to its neighbours in the
-// tableau) is the estimate. All stencil points of one order go to the
-// potential in one Batch call.
+// tableau) is the estimate. All sample and stencil points, every order, go
+// to the potential in one Taylor call.
 const (
 	levels   = 12   // tableau size
 	stepCon  = 1.4  // c, the ratio of successive steps
 	stepInit = 0.02 // h₀ = 0.02·r, at most half the distance to the domain's ends
 )
 
-// evaluation holds V⁽ᵏ⁾ at the sample points and at the stencil points
-// around them, k = 0, …, order, from one Batch call per order.
+// evaluation holds V⁽ᵏ⁾ = k!·c_k at the sample points and at the stencil
+// points around them, k = 0, …, order, from one Taylor call.
 type evaluation struct {
 	rs    []float64   // sample points, Å
 	steps []float64   // steps[i*levels+l]: the exact step h at point i, level l
 	vals  [][]float64 // vals[k][i] = V⁽ᵏ⁾(rs[i])
 	minus [][]float64 // minus[k][i*levels+l] = V⁽ᵏ⁾(rs[i] − h)
 	plus  [][]float64 // plus[k][i*levels+l] = V⁽ᵏ⁾(rs[i] + h)
-	errs  []error     // errs[k]: the Batch error of order k
+	errs  []error     // errs[k]: why order k could not be evaluated
 	lo    float64     // sampled range, Å
 	hi    float64
 	how   string // where the range comes from
@@ -78,29 +79,58 @@ func (c *subject) evaluate() *evaluation {
 			xs[n+m+i*levels+l] = r + h
 		}
 	}
-	for k := 0; k <= c.order; k++ {
-		x := xs
-		if k == c.order {
-			x = xs[:n] // the top order is only compared, never differenced
-		}
-		out := make([]float64, len(x))
-		if err := c.p.Batch(k, x, out); err != nil {
-			ev.errs[k] = err
-			continue
-		}
-		for j, v := range out {
-			if math.IsNaN(v) || math.IsInf(v, 0) {
-				ev.errs[k] = fmt.Errorf("Batch returned %s = %g at r = %.9g Å without an error", vname(k), v, x[j])
-				break
-			}
-		}
-		ev.vals[k] = out[:n]
-		if k < c.order {
-			ev.minus[k], ev.plus[k] = out[n:n+m], out[n+m:]
-		}
-	}
+	c.evalOrders(ev, xs, n, m)
 	return ev
 }
+
+// evalOrders fills ev from one Taylor call of order c.order at the n
+// sample points and 2m stencil points xs. When it fails, the orders are
+// tried one at a time from 0 (a row of order k is a prefix of the row of
+// any higher order), so that the orders below the first failing one are
+// still checked.
+func (c *subject) evalOrders(ev *evaluation, xs []float64, n, m int) {
+	top := c.order
+	out, err := c.taylorAll(top, xs)
+	if err != nil {
+		top = -1
+		for k := 0; k <= c.order; k++ {
+			o, e := c.taylorAll(k, xs)
+			if e != nil {
+				for j := k; j <= c.order; j++ {
+					ev.errs[j] = e
+				}
+				break
+			}
+			out, top = o, k
+		}
+	}
+	for k := 0; k <= top; k++ {
+		f := factorial(k)
+		v := make([]float64, len(xs))
+		for j := range xs {
+			v[j] = out[j*(top+1)+k] * f
+		}
+		ev.vals[k], ev.minus[k], ev.plus[k] = v[:n], v[n:n+m], v[n+m:]
+	}
+}
+
+// taylorAll evaluates Taylor of order k at xs and checks that every value
+// is finite, as the contract requires.
+func (c *subject) taylorAll(k int, xs []float64) ([]float64, error) {
+	out := make([]float64, (k+1)*len(xs))
+	if err := c.p.Taylor(k, xs, out); err != nil {
+		return nil, err
+	}
+	for j, v := range out {
+		if math.IsNaN(v) || math.IsInf(v, 0) {
+			return nil, fmt.Errorf("Taylor returned c_%d = %g at r = %.9g Å without an error", j%(k+1), v, xs[j/(k+1)])
+		}
+	}
+	return out, nil
+}
+
+// factorial returns k! (core.Factorial).
+func factorial(k int) float64 { return core.Factorial(k) }
 
 // ridders returns the Richardson-extrapolated estimate from the values
 // d[l] of a central formula at steps h₀/c^l, and its error estimate.

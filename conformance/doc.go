@@ -1,8 +1,13 @@
 // Package conformance checks that a pair-potential form honours pairwell's
 // contract (core.Potential, core.Model) and its own declarations: that its
-// analytic derivatives match its energies, that every evaluation path gives
-// the same bits, that it rejects invalid input, and that its declared
-// minimum, identities and asymptote hold.
+// Taylor coefficients are the derivatives of its energies, that every shape
+// of a Taylor call gives the same bits, that it rejects invalid input, and
+// that its declared minimum, identities and asymptote hold. The suite
+// compares derivatives V⁽ⁿ⁾ = n!·c_n, as the literature states them.
+//
+// Published identities are test declarations and live here: a potential
+// declares them by implementing Identifier (a list of Identity); the core
+// contract does not carry them.
 //
 // It is a library (Run, RunCases, RunInstances return a Report with one
 // Result per check: the measured error, the tolerance, the worst r and a
@@ -34,17 +39,22 @@
 //     cross-checks V⁽ⁿ⁾ against the second difference (fd.Central2nd) of
 //     V⁽ⁿ⁻²⁾ to tell whether V⁽ⁿ⁾ or V⁽ⁿ⁻¹⁾ is at fault; a sign error or a
 //     constant wrong factor is named as such. All points and stencil
-//     points of one order go to the potential in one Batch call.
-//   - batch: Derivatives (all orders at once, and a prefix of them) gives
-//     exactly the bits of Batch at every sample point; tolerance 0.
-//   - determinism: a repeated Batch (points reversed) gives the same bits.
-//   - concurrency: 8 goroutines evaluating Batch and Derivatives at once
-//     give the same bits (run the tests with -race to catch data races).
+//     points, every order, go to the potential in one Taylor call (on
+//     failure the orders are retried one by one, so that the orders below
+//     the first failing one are still checked).
+//   - batch: a single-point Taylor call at every sample point (its order
+//     cycling from 0 to the top) and one call of half the top order over
+//     all points give exactly the bits of the reference call; tolerance 0.
+//   - determinism: a repeated Taylor call (points reversed) gives the same
+//     bits.
+//   - concurrency: 8 goroutines making batched and single-point Taylor
+//     calls at once give the same bits (run the tests with -race to catch
+//     data races).
 //   - equilibrium: at the minimum found by core.Equilibrium, V″(re) > 0
 //     and |V′(re)|/(V″(re)·re) ≤ 1e-10 (the relative shift of re that the
 //     residual V′ implies). Skipped for a form that has no minimum and
 //     declares none.
-//   - identity, one result per declared core.Identity: relative error
+//   - identity, one result per declared Identity: relative error
 //     ≤ 1e-9, measured against |expected| + |V″(re)|·re^(2−n) for V⁽ⁿ⁾ at
 //     the minimum (n = 0 for energies), against |expected| for re; the
 //     result carries the identity's source.
@@ -53,11 +63,11 @@
 //     negative value for Positive, a negative one for NonNegative), with
 //     an error wrapping core.ErrParam or core.ErrNoMinimum.
 //   - invalid-r: r = 0, −1, NaN, ±Inf (and Domain.Min, Min/2, a finite
-//     Domain.Max) give errors wrapping core.ErrDomain from Derivatives and
-//     Batch; Batch reports a bad point between good ones as a
-//     *core.PointError with its index.
-//   - invalid-order: orders MaxOrder+1 and −1 give core.ErrOrder; Batch
-//     slices of different lengths give core.ErrLength.
+//     Domain.Max) give errors wrapping core.ErrDomain from a single-point
+//     Taylor call and, between good points, a *core.PointError with the
+//     index of the bad one (orders 0 and 1).
+//   - invalid-order: orders MaxOrder+1 and −1 give core.ErrOrder; a dst
+//     that does not hold (n+1)·len(r) values gives core.ErrLength.
 //   - asymptote: for a finite Domain.Limit, |V(10⁶·re) − Limit| ≤ 1e-6 of
 //     the well depth (10⁶·re, so that tails as slow as 1/r pass; the
 //     message also gives the deviation at 50·re); for Limit = +Inf, V must
@@ -66,7 +76,7 @@
 // # Sampled range
 //
 // The range is centred on the equilibrium distance the potential declares
-// (an EquilibriumR identity, else core.Guesser), which does not depend on
+// (an EquilibriumR identity, else Domain.EquilibriumGuess), which does not depend on
 // the derivatives under test, else on the minimum core.Equilibrium finds
 // (if V″ > 0 there). A form with neither is sampled over the fallback range
 // 0.5 Å to 5 Å (Settings.RMin and RMax override the range). Near a
@@ -76,9 +86,9 @@
 //
 // # Cost
 //
-// With the default settings one parameter set costs about 180 Batch calls
-// (9 of them with 1600 points: the sample points and their stencils, one
-// call per order; the others with 64 or fewer), about 270 Derivatives
+// With the default settings one parameter set costs about 30 batched
+// Taylor calls (one of order 8 at 1600 points: the sample points and their
+// stencils; the others with 64 or fewer points), about 210 single-point
 // calls and 18 to 20 calls of Model.New. The whole suite over the four
 // built-in forms takes about 5 ms; over a form served by a plugin, plugin
 // start included, about 75 ms (BenchmarkBuiltins here, BenchmarkCheck* in

@@ -1,10 +1,10 @@
 package conformance_test
 
 import (
-	"fmt"
 	"math"
 	"sync/atomic"
 
+	"github.com/pairwell/pairwell/conformance"
 	"github.com/pairwell/pairwell/core"
 	"github.com/pairwell/pairwell/core/units"
 )
@@ -19,7 +19,7 @@ type bornMayer struct {
 	acceptZeroR bool    // r = 0 evaluates instead of failing
 	limit       float64 // declared Domain.Limit
 	noisy       bool    // every call perturbs the last bit differently
-	batchULP    bool    // Batch differs from Derivatives by one ulp at order 2
+	singleULP   bool    // a single-point call differs by one ulp at order 2
 }
 
 func (m bornMayer) Info() core.ModelInfo {
@@ -55,9 +55,10 @@ func (p *bmPotential) Domain() core.Domain {
 
 func (p *bmPotential) MaxOrder() int { return p.m.maxOrder }
 
+// eval returns c_n = A(−1/ρ)ⁿ/n!·e^{−r/ρ}.
 func (p *bmPotential) eval(n int, r float64) float64 {
-	v := p.a * math.Pow(-1/p.rho, float64(n)) * math.Exp(-r/p.rho)
-	if p.m.noisy && p.calls.Add(1)%3 == 0 {
+	v := p.a * math.Pow(-1/p.rho, float64(n)) / core.Factorial(n) * math.Exp(-r/p.rho)
+	if p.m.noisy && p.calls.Add(1)%7 == 0 {
 		v = math.Nextafter(v, math.Inf(1))
 	}
 	return v
@@ -70,33 +71,19 @@ func (p *bmPotential) check(r float64) error {
 	return core.CheckR(p.Domain(), r)
 }
 
-func (p *bmPotential) Derivatives(r float64, dst []float64) error {
-	if err := p.check(r); err != nil {
-		return err
-	}
-	if err := core.CheckOrder(len(dst)-1, p.m.maxOrder); err != nil {
-		return err
-	}
-	for k := range dst {
-		dst[k] = p.eval(k, r)
-	}
-	return nil
-}
-
-func (p *bmPotential) Batch(n int, r, dst []float64) error {
-	if len(r) != len(dst) {
-		return fmt.Errorf("%w", core.ErrLength)
-	}
-	if err := core.CheckOrder(n, p.m.maxOrder); err != nil {
+func (p *bmPotential) Taylor(n int, r, dst []float64) error {
+	if err := core.CheckTaylor(n, p.m.maxOrder, len(r), len(dst)); err != nil {
 		return err
 	}
 	for i, x := range r {
 		if err := p.check(x); err != nil {
 			return &core.PointError{Index: i, R: x, Err: err}
 		}
-		dst[i] = p.eval(n, x)
-		if p.m.batchULP && n == 2 {
-			dst[i] = math.Nextafter(dst[i], math.Inf(1))
+		for k := 0; k <= n; k++ {
+			dst[i*(n+1)+k] = p.eval(k, x)
+		}
+		if p.m.singleULP && len(r) == 1 && n >= 2 {
+			dst[2] = math.Nextafter(dst[2], math.Inf(1))
 		}
 	}
 	return nil
@@ -106,17 +93,22 @@ func (p *bmPotential) Batch(n int, r, dst []float64) error {
 // potential, as a plugin declares them through the protocol.
 type identified struct {
 	core.Potential
-	ids   []core.Identity
+	ids   []conformance.Identity
 	guess float64
 }
 
-func (p identified) Identities() []core.Identity { return p.ids }
-func (p identified) EquilibriumGuess() float64   { return p.guess }
+func (p identified) Identities() []conformance.Identity { return p.ids }
+
+func (p identified) Domain() core.Domain {
+	d := p.Potential.Domain()
+	d.EquilibriumGuess = p.guess
+	return d
+}
 
 // declaring builds identified potentials from a model.
 type declaring struct {
 	core.Model
-	ids func(params []float64) []core.Identity
+	ids func(params []float64) []conformance.Identity
 }
 
 func (m declaring) New(ps []float64) (core.Potential, error) {
@@ -124,9 +116,5 @@ func (m declaring) New(ps []float64) (core.Potential, error) {
 	if err != nil {
 		return nil, err
 	}
-	g := math.NaN()
-	if gs, ok := p.(core.Guesser); ok {
-		g = gs.EquilibriumGuess()
-	}
-	return identified{Potential: p, ids: m.ids(ps), guess: g}, nil
+	return identified{Potential: p, ids: m.ids(ps), guess: p.Domain().EquilibriumGuess}, nil
 }

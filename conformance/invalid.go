@@ -101,9 +101,9 @@ func (c *subject) invalidRs() []float64 {
 }
 
 // checkInvalidR checks that every separation outside the domain gives an
-// error wrapping core.ErrDomain from Derivatives and from Batch, and that
-// Batch reports it as a *core.PointError with the index of the bad point
-// when it sits between valid ones.
+// error wrapping core.ErrDomain from a single-point Taylor call and from a
+// batched one, which must report it as a *core.PointError with the index
+// of the bad point when it sits between valid ones.
 func (c *subject) checkInvalidR() Result {
 	bad := c.invalidRs()
 	r := c.result(CheckInvalidR, "bad r rejected")
@@ -112,32 +112,32 @@ func (c *subject) checkInvalidR() Result {
 	var problems []string
 	dst := make([]float64, 3)
 	for _, x := range bad {
-		err := c.p.Derivatives(x, dst)
+		err := c.p.Taylor(2, []float64{x}, dst)
 		switch {
 		case err == nil:
-			problems = append(problems, fmt.Sprintf("Derivatives(r = %g) returned V = %g without an error", x, dst[0]))
+			problems = append(problems, fmt.Sprintf("Taylor(2, [%g]) returned V = %g without an error", x, dst[0]))
 		case !errors.Is(err, core.ErrDomain):
-			problems = append(problems, fmt.Sprintf("Derivatives(r = %g): error does not wrap core.ErrDomain: %s", x, errString(err)))
+			problems = append(problems, fmt.Sprintf("Taylor(2, [%g]): error does not wrap core.ErrDomain: %s", x, errString(err)))
 		}
 		for _, n := range []int{0, 1} {
 			xs := []float64{good, x, good}
-			out := make([]float64, 3)
-			err := c.p.Batch(n, xs, out)
+			out := make([]float64, 3*(n+1))
+			err := c.p.Taylor(n, xs, out)
 			var pe *core.PointError
 			switch {
 			case err == nil:
-				problems = append(problems, fmt.Sprintf("Batch(%d, [%g, %g, %g]) returned %g without an error", n, good, x, good, out[1]))
+				problems = append(problems, fmt.Sprintf("Taylor(%d, [%g, %g, %g]) returned V = %g without an error", n, good, x, good, out[n+1]))
 			case !errors.Is(err, core.ErrDomain):
-				problems = append(problems, fmt.Sprintf("Batch(%d) with r = %g: error does not wrap core.ErrDomain: %s", n, x, errString(err)))
+				problems = append(problems, fmt.Sprintf("Taylor(%d) with r = %g: error does not wrap core.ErrDomain: %s", n, x, errString(err)))
 			case !errors.As(err, &pe) || pe.Index != 1:
-				problems = append(problems, fmt.Sprintf("Batch(%d) with r = %g at index 1: error is not a *core.PointError with Index 1: %s", n, x, errString(err)))
+				problems = append(problems, fmt.Sprintf("Taylor(%d) with r = %g at index 1: error is not a *core.PointError with Index 1: %s", n, x, errString(err)))
 			}
 		}
 	}
 	r.Error = float64(len(problems))
 	r.Passed = len(problems) == 0
 	if r.Passed {
-		r.Message = fmt.Sprintf("%d bad separations rejected by Derivatives and Batch (orders 0 and 1)", len(bad))
+		r.Message = fmt.Sprintf("%d bad separations rejected by Taylor, alone and among good ones (orders 0 to 2)", len(bad))
 	} else {
 		r.Message = fmt.Sprintf("%d problems: %s", len(problems), strings.Join(problems, "; "))
 	}
@@ -145,8 +145,8 @@ func (c *subject) checkInvalidR() Result {
 }
 
 // checkInvalidOrder checks that orders beyond MaxOrder and negative orders
-// give errors wrapping core.ErrOrder, and that Batch slices of different
-// lengths give an error wrapping core.ErrLength.
+// give errors wrapping core.ErrOrder, and that a dst that does not hold
+// (n+1)·len(r) values gives an error wrapping core.ErrLength.
 func (c *subject) checkInvalidOrder() Result {
 	r := c.result(CheckInvalidOrder, "bad orders, slice lengths rejected")
 	r.Tolerance = 0
@@ -162,11 +162,11 @@ func (c *subject) checkInvalidOrder() Result {
 		}
 	}
 	if mo >= 0 && mo < 1<<16 {
-		expect(fmt.Sprintf("Derivatives with len(dst) = MaxOrder+2 = %d", mo+2), c.p.Derivatives(good, make([]float64, mo+2)), core.ErrOrder)
-		expect(fmt.Sprintf("Batch(MaxOrder+1 = %d)", mo+1), c.p.Batch(mo+1, []float64{good}, make([]float64, 1)), core.ErrOrder)
+		expect(fmt.Sprintf("Taylor(MaxOrder+1 = %d)", mo+1), c.p.Taylor(mo+1, []float64{good}, make([]float64, mo+2)), core.ErrOrder)
 	}
-	expect("Batch(−1)", c.p.Batch(-1, []float64{good}, make([]float64, 1)), core.ErrOrder)
-	expect("Batch with len(r) = 2, len(dst) = 1", c.p.Batch(0, []float64{good, good}, make([]float64, 1)), core.ErrLength)
+	expect("Taylor(−1)", c.p.Taylor(-1, []float64{good}, make([]float64, 0)), core.ErrOrder)
+	expect("Taylor(0) with len(r) = 2, len(dst) = 1", c.p.Taylor(0, []float64{good, good}, make([]float64, 1)), core.ErrLength)
+	expect("Taylor(2) with len(r) = 1, len(dst) = 2", c.p.Taylor(2, []float64{good}, make([]float64, 2)), core.ErrLength)
 	r.Error = float64(len(problems))
 	r.Passed = len(problems) == 0
 	if r.Passed {

@@ -11,7 +11,7 @@ import (
 // core.Equilibrium finds. |V′(re)|/(V″(re)·re) is the relative shift of
 // re that the residual V′ implies; it must not exceed
 // EquilibriumTolerance. A form with no minimum that declares none (no
-// EquilibriumR identity, no Guesser, no barrier) is skipped.
+// EquilibriumR identity, no Domain.EquilibriumGuess, no barrier) is skipped.
 func (c *subject) checkEquilibrium() Result {
 	r := c.result(CheckEquilibrium, "V′(re) = 0, V″(re) > 0")
 	r.Tolerance = c.s.EquilibriumTolerance
@@ -28,10 +28,11 @@ func (c *subject) checkEquilibrium() Result {
 	}
 	var d [3]float64
 	r.WorstR = c.re
-	if err := c.p.Derivatives(c.re, d[:]); err != nil {
-		r.Message = fmt.Sprintf("Derivatives at re = %.9g Å: %s", c.re, errString(err))
+	if err := c.p.Taylor(2, []float64{c.re}, d[:]); err != nil {
+		r.Message = fmt.Sprintf("Taylor at re = %.9g Å: %s", c.re, errString(err))
 		return r
 	}
+	d[2] *= 2 // V″ = 2c₂
 	r.Error = math.Abs(d[1]) / (math.Abs(d[2]) * c.re)
 	if d[1] == 0 {
 		r.Error = 0
@@ -59,11 +60,11 @@ func (c *subject) checkEquilibrium() Result {
 // harmonic form) are measured against the well's natural magnitude; for
 // re it is |want|.
 func (c *subject) checkIdentities() []Result {
-	id, ok := c.p.(core.Identifier)
+	id, ok := c.p.(Identifier)
 	if !ok {
 		r := c.result(CheckIdentity, "declared identities")
 		r.Passed, r.Skipped = true, true
-		r.Message = "the potential declares no identities (core.Identifier)"
+		r.Message = "the potential declares no identities (conformance.Identifier)"
 		return []Result{r}
 	}
 	ids := id.Identities()
@@ -89,15 +90,15 @@ func (c *subject) checkIdentities() []Result {
 	return out
 }
 
-func (c *subject) checkIdentity(x core.Identity, k float64) Result {
+func (c *subject) checkIdentity(x Identity, k float64) Result {
 	r := c.result(CheckIdentity, "identity "+x.Name)
 	r.Source, r.Tolerance = x.Source, c.s.IdentityTolerance
 	// Without a minimum, quantities at the minimum are taken at the
 	// declared equilibrium distance, so that a fault in V′ alone does not
 	// fail every identity.
 	re, at := c.re, ""
-	if math.IsNaN(re) && x.Quantity != core.ValueAt {
-		if x.Quantity == core.EquilibriumR || math.IsNaN(c.centre) {
+	if math.IsNaN(re) && x.Quantity != ValueAt {
+		if x.Quantity == EquilibriumR || math.IsNaN(c.centre) {
 			r.Message = fmt.Sprintf("%s: no minimum found: %s", x.Name, errString(c.reErr))
 			return r
 		}
@@ -109,12 +110,12 @@ func (c *subject) checkIdentity(x core.Identity, k float64) Result {
 		err        error
 	)
 	switch x.Quantity {
-	case core.EquilibriumR:
+	case EquilibriumR:
 		got, scale, what, r.WorstR = re, math.Abs(x.Value), "re", re
-	case core.MinimumEnergy:
+	case MinimumEnergy:
 		got, err = derivative(c.p, 0, re)
 		scale, what, r.WorstR = math.Abs(x.Value)+k*re*re, "V(re)", re
-	case core.DerivativeAtMinimum:
+	case DerivativeAtMinimum:
 		if x.Order < 0 || x.Order > c.p.MaxOrder() {
 			r.Message = fmt.Sprintf("%s: order %d outside 0 to MaxOrder %d", x.Name, x.Order, c.p.MaxOrder())
 			return r
@@ -123,7 +124,7 @@ func (c *subject) checkIdentity(x core.Identity, k float64) Result {
 		got, err = derivative(c.p, x.Order, re)
 		scale = math.Abs(x.Value) + k*math.Pow(re, float64(2-x.Order))
 		what, r.WorstR = vname(x.Order)+"(re)", re
-	case core.ValueAt:
+	case ValueAt:
 		got, err = derivative(c.p, 0, x.R)
 		scale = math.Abs(x.Value)
 		if !math.IsNaN(k) {
@@ -162,14 +163,9 @@ func (c *subject) checkIdentity(x core.Identity, k float64) Result {
 	return r
 }
 
-// derivative returns V⁽ⁿ⁾(r) by Batch.
+// derivative returns V⁽ⁿ⁾(r) by one Taylor call (core.Derivative).
 func derivative(p core.Potential, n int, r float64) (float64, error) {
-	var x, d [1]float64
-	x[0] = r
-	if err := p.Batch(n, x[:], d[:]); err != nil {
-		return 0, err
-	}
-	return d[0], nil
+	return core.Derivative(p, n, r)
 }
 
 // checkAsymptote checks the declared dissociation limit: for a finite
@@ -197,7 +193,7 @@ func (c *subject) checkAsymptote() Result {
 	near := clip(50 * ref)
 	vs := make([]float64, 3)
 	xs := []float64{near, clip(1e3 * ref), far}
-	if err := c.p.Batch(0, xs, vs); err != nil {
+	if err := c.p.Taylor(0, xs, vs); err != nil {
 		r.Message = fmt.Sprintf("evaluating V at %g, %g and %g Å: %s", xs[0], xs[1], xs[2], errString(err))
 		return r
 	}

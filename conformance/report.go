@@ -18,7 +18,8 @@ const (
 	// CheckDerivative: V⁽ⁿ⁾ agrees with the finite-difference derivative
 	// of V⁽ⁿ⁻¹⁾ (one result per order n, in Result.Order).
 	CheckDerivative = "derivative"
-	// CheckBatch: Batch and Derivatives give the same bits.
+	// CheckBatch: a single-point Taylor call and a lower-order one give
+	// the bits of the batched, higher-order one.
 	CheckBatch = "batch"
 	// CheckDeterminism: repeated evaluations give the same bits.
 	CheckDeterminism = "determinism"
@@ -27,15 +28,15 @@ const (
 	CheckConcurrency = "concurrency"
 	// CheckEquilibrium: V′(re) = 0 and V″(re) > 0 at the minimum.
 	CheckEquilibrium = "equilibrium"
-	// CheckIdentity: a declared core.Identity holds (one result each).
+	// CheckIdentity: a declared Identity holds (one result each).
 	CheckIdentity = "identity"
 	// CheckInvalidParams: invalid parameter sets are rejected.
 	CheckInvalidParams = "invalid-params"
 	// CheckInvalidR: r ≤ 0, NaN, ±Inf and r outside the domain give
-	// errors, from Derivatives and from Batch.
+	// errors, from single-point and from batched Taylor calls.
 	CheckInvalidR = "invalid-r"
-	// CheckInvalidOrder: orders beyond MaxOrder, negative orders and
-	// slices of different lengths give errors.
+	// CheckInvalidOrder: orders beyond MaxOrder, negative orders and a
+	// dst that does not hold (n+1)·len(r) values give errors.
 	CheckInvalidOrder = "invalid-order"
 	// CheckAsymptote: V approaches the declared Domain.Limit.
 	CheckAsymptote = "asymptote"

@@ -191,7 +191,7 @@ func (c *subject) checkMaxOrder() Result {
 
 // locate finds the minimum with core.Equilibrium and the centre of the
 // sampled range: the equilibrium distance the potential declares (an
-// EquilibriumR identity, then EquilibriumGuess), which does not depend on
+// EquilibriumR identity, then Domain.EquilibriumGuess), which does not depend on
 // the derivatives under test, else the minimum found.
 func (c *subject) locate() {
 	c.re, c.centre = math.NaN(), math.NaN()
@@ -222,17 +222,15 @@ func (c *subject) locate() {
 
 // declaredRe returns the equilibrium distance the potential declares.
 func (c *subject) declaredRe() (float64, bool) {
-	if id, ok := c.p.(core.Identifier); ok {
+	if id, ok := c.p.(Identifier); ok {
 		for _, x := range id.Identities() {
-			if x.Quantity == core.EquilibriumR && c.dom.Contains(x.Value) {
+			if x.Quantity == EquilibriumR && c.dom.Contains(x.Value) {
 				return x.Value, true
 			}
 		}
 	}
-	if g, ok := c.p.(core.Guesser); ok {
-		if v := g.EquilibriumGuess(); c.dom.Contains(v) {
-			return v, true
-		}
+	if v := c.dom.EquilibriumGuess; v != 0 && c.dom.Contains(v) {
+		return v, true
 	}
 	return 0, false
 }

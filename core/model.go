@@ -128,45 +128,6 @@ func CheckParams(info ModelInfo, params []float64) error {
 	return nil
 }
 
-// Guesser is implemented by potentials that know where their minimum lies,
-// typically from a closed form. Well analysis uses the guess to start its
-// bracket and still verifies it.
-type Guesser interface {
-	// EquilibriumGuess returns an estimate of the minimum position in Å.
-	EquilibriumGuess() float64
-}
-
-// Quantity names what an Identity constrains.
-type Quantity int
-
-const (
-	// EquilibriumR is the position of the minimum, in Å.
-	EquilibriumR Quantity = iota
-	// MinimumEnergy is V at the minimum, in eV.
-	MinimumEnergy
-	// DerivativeAtMinimum is V⁽ⁿ⁾(re) in eV/Åⁿ, n given by Identity.Order.
-	DerivativeAtMinimum
-	// ValueAt is V(r) at r = Identity.R, in eV.
-	ValueAt
-)
-
-// Identity is a published closed-form value that a potential satisfies,
-// used by conformance checks.
-type Identity struct {
-	Name     string   // e.g. "r_min = 2^(1/6) σ"
-	Quantity Quantity // what is constrained
-	Order    int      // derivative order for DerivativeAtMinimum
-	R        float64  // separation for ValueAt, Å
-	Value    float64  // expected value in eV, Å units
-	Source   string   // literature reference of the identity
-}
-
-// Identifier is implemented by potentials that declare reference
-// identities.
-type Identifier interface {
-	Identities() []Identity
-}
-
 // Target is a well to match: the quantities a user wants several forms to
 // share so that their shapes can be compared. A zero field is unspecified.
 type Target struct {
@@ -176,20 +137,27 @@ type Target struct {
 }
 
 // Matcher is implemented by models that can derive a parameter set from a
-// target well.
+// target well. It is the one optional interface of the contract: a wrapper
+// of a model (a plugin adapter, a renamed or cut-off form) implements it
+// always and delegates with Match, which reports ErrUnsupported for an
+// inner model without it, so that one wrapper type forwards the
+// capability whether the inner model has it or not.
 type Matcher interface {
 	// Match returns parameters, in the order and default units of
 	// Info().Params, whose well has the target's specified quantities as
 	// far as the form allows. Notes say which quantities the form could
 	// not honour and why. A target the form cannot reach at all is an
-	// error wrapping ErrParam.
+	// error wrapping ErrParam; a wrapper whose inner model has no Match
+	// returns one wrapping ErrUnsupported.
 	Match(t Target) (params []float64, notes []string, err error)
 }
 
-// Turnover is implemented by potentials whose domain ends at an inner
-// barrier (Domain.Barrier is true), such as Buckingham's spurious maximum.
-type Turnover interface {
-	// Barrier returns the position of the inner maximum in Å and V there
-	// in eV.
-	Barrier() (r, v float64)
+// Match derives the parameters of m for the target t when m is a Matcher,
+// and otherwise returns an error wrapping ErrUnsupported. Callers and
+// wrappers use it instead of a type assertion.
+func Match(m Model, t Target) (params []float64, notes []string, err error) {
+	if mm, ok := m.(Matcher); ok {
+		return mm.Match(t)
+	}
+	return nil, nil, fmt.Errorf("%s: matching a target well: %w", m.Info().Key, ErrUnsupported)
 }

@@ -72,20 +72,13 @@ func AnalyzeWell(p Potential, s WellSettings) (Well, error) {
 		return Well{}, err
 	}
 	series := make([]float64, max(order, min(SeriesOrder, p.MaxOrder()))+1)
-	if err := p.Derivatives(re, series); err != nil {
-		return Well{}, fmt.Errorf("taylor coefficients at r = %g Å: %w", re, err)
-	}
-	fact := 1.0
-	for n := 2; n < len(series); n++ {
-		fact *= float64(n)
-		series[n] /= fact
-		if math.IsInf(series[n], 0) || math.IsNaN(series[n]) {
-			if n <= order {
-				return Well{}, fmt.Errorf("taylor coefficient c_%d is not finite: %w", n, ErrOrder)
-			}
-			series = series[:n]
-			break
+	if err := one(p, len(series)-1, re, series); err != nil {
+		// The series beyond the requested order is a bonus: when one of
+		// its coefficients overflows, keep the requested ones only.
+		if len(series) == order+1 || one(p, order, re, series[:order+1]) != nil {
+			return Well{}, fmt.Errorf("taylor coefficients at r = %g Å: %w", re, err)
 		}
+		series = series[:order+1]
 	}
 	w := Well{Re: re, Taylor: series[: order+1 : order+1], Series: series}
 	w.Energy = w.Taylor[0]
@@ -107,7 +100,7 @@ func AnalyzeWell(p Potential, s WellSettings) (Well, error) {
 
 // Equilibrium returns the position in Å of the minimum of p: the root of V′
 // where V′ changes sign from negative to positive. It brackets the root
-// (around EquilibriumGuess when p is a Guesser, else by a logarithmic scan of
+// (around Domain().EquilibriumGuess when the form gives one, else by a logarithmic scan of
 // the domain), then refines it by Newton steps on V′ with V″, falling back to
 // bisection whenever a step leaves the bracket or fails to halve it. The
 // result is accurate to a few ulp.
@@ -120,12 +113,12 @@ func Equilibrium(p Potential) (float64, error) {
 	if err != nil {
 		return 0, err
 	}
-	var d [3]float64
-	if err := p.Derivatives(re, d[:]); err != nil {
+	var c [3]float64
+	if err := one(p, 2, re, c[:]); err != nil {
 		return 0, fmt.Errorf("at the minimum r = %g Å: %w", re, err)
 	}
-	if !(d[2] > 0) {
-		return 0, fmt.Errorf("%w: V′(%g Å) = 0 but V″ = %g is not positive", ErrNoMinimum, re, d[2])
+	if !(c[2] > 0) {
+		return 0, fmt.Errorf("%w: V′(%g Å) = 0 but V″ = %g is not positive", ErrNoMinimum, re, 2*c[2])
 	}
 	return re, nil
 }
@@ -144,8 +137,8 @@ const (
 // bracketMinimum returns lo < hi with V′(lo) < 0 < V′(hi).
 func bracketMinimum(p Potential) (lo, hi float64, err error) {
 	d := p.Domain()
-	if g, ok := p.(Guesser); ok {
-		if lo, hi, ok := bracketAround(p, g.EquilibriumGuess()); ok {
+	if g := d.EquilibriumGuess; g != 0 {
+		if lo, hi, ok := bracketAround(p, g); ok {
 			return lo, hi, nil
 		}
 	}
@@ -166,7 +159,7 @@ func bracketMinimum(p Potential) (lo, hi float64, err error) {
 	}
 	rs[len(rs)-1] = math.Nextafter(b, 0)
 	f := make([]float64, scanPoints)
-	if err := p.Batch(1, rs, f); err != nil {
+	if _, err := DerivativeBatch(p, 1, rs, f, nil); err != nil {
 		return 0, 0, fmt.Errorf("scanning for the minimum: %w", err)
 	}
 	// A sign change needs V′ > 0 on the right: a V′ that is exactly zero
@@ -185,12 +178,12 @@ func bracketAround(p Potential, g float64) (lo, hi float64, ok bool) {
 	if !d.Contains(g) {
 		return 0, 0, false
 	}
-	var buf [2]float64
+	var c [2]float64
 	fp := func(r float64) (float64, bool) {
-		if err := p.Derivatives(r, buf[:]); err != nil {
+		if err := one(p, 1, r, c[:]); err != nil {
 			return 0, false
 		}
-		return buf[1], true
+		return c[1], true
 	}
 	lo, hi = g, g
 	step := 1e-6 * g
@@ -219,17 +212,19 @@ func bracketAround(p Potential, g float64) (lo, hi float64, ok bool) {
 
 // solve finds the root in [lo, hi] of V⁽ⁿ⁾, which has opposite signs at the
 // two ends, by Newton steps with V⁽ⁿ⁺¹⁾ safeguarded by bisection. When
-// V⁽ⁿ⁺¹⁾ is beyond p.MaxOrder(), every step is a bisection.
+// V⁽ⁿ⁺¹⁾ is beyond p.MaxOrder(), every step is a bisection. It works on
+// c_n ∝ V⁽ⁿ⁾, whose Newton step is c_n/((n+1)c_{n+1}).
 func solve(p Potential, n int, lo, hi float64) (float64, error) {
-	buf := make([]float64, min(n+2, p.MaxOrder()+1))
+	top := min(n+1, p.MaxOrder())
+	c := make([]float64, top+1)
 	x, err := Root(func(r float64) (float64, float64, error) {
-		if err := p.Derivatives(r, buf); err != nil {
+		if err := one(p, top, r, c); err != nil {
 			return 0, 0, err
 		}
-		if len(buf) < n+2 {
-			return buf[n], math.NaN(), nil // Root bisects on a NaN step
+		if top == n {
+			return c[n], math.NaN(), nil // Root bisects on a NaN step
 		}
-		return buf[n], buf[n+1], nil
+		return c[n], float64(n+1) * c[n+1], nil
 	}, lo, hi)
 	if err != nil {
 		return 0, fmt.Errorf("root of V⁽%d⁾: %w", n, err)
@@ -256,7 +251,7 @@ func inflection(p Potential, re float64) (r, force float64, err error) {
 		step *= 1.5
 	}
 	f := fbuf[:len(rs)]
-	if err := p.Batch(2, rs, f); err != nil {
+	if _, err := DerivativeBatch(p, 2, rs, f, nil); err != nil {
 		return 0, 0, fmt.Errorf("scanning for the inflection point: %w", err)
 	}
 	prev := re
@@ -282,6 +277,7 @@ func inflection(p Potential, re float64) (r, force float64, err error) {
 func reError(p Potential, re, k float64) (float64, error) {
 	const n = 16
 	var rs, xs, v [n]float64
+	var c [2 * n]float64
 	step := 128 * ulp(re)
 	for j := range n {
 		x := float64(j-n/2) * step
@@ -291,8 +287,11 @@ func reError(p Potential, re, k float64) (float64, error) {
 		rs[j] = re + x
 		xs[j] = rs[j] - re
 	}
-	if err := p.Batch(1, rs[:], v[:]); err != nil {
+	if err := p.Taylor(1, rs[:], c[:]); err != nil {
 		return 0, fmt.Errorf("rounding of V′ at the minimum: %w", err)
+	}
+	for j := range n {
+		v[j] = c[2*j+1] // V′ = c₁
 	}
 	// Least-squares line through (x, V′).
 	var sx, sy, sxx, sxy float64

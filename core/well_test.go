@@ -15,6 +15,12 @@ import (
 // scan the domain.
 type noGuess struct{ core.Potential }
 
+func (p noGuess) Domain() core.Domain {
+	d := p.Potential.Domain()
+	d.EquilibriumGuess = 0
+	return d
+}
+
 func build(t testing.TB, spec string) core.Potential {
 	t.Helper()
 	inst, err := models.NewRegistry().Build(spec)
@@ -145,18 +151,14 @@ func BenchmarkWellAndHarmonic(b *testing.B) {
 // underflow to zero far out, which must not pass for a minimum.
 type repulsive struct{}
 
-func (repulsive) Derivatives(r float64, dst []float64) error {
-	for n := range dst {
-		dst[n] = 1000 * math.Pow(-1/0.3, float64(n)) * math.Exp(-r/0.3)
+func (repulsive) Taylor(n int, r, dst []float64) error {
+	if err := core.CheckTaylor(n, 7, len(r), len(dst)); err != nil {
+		return err
 	}
-	return nil
-}
-
-func (p repulsive) Batch(n int, r, dst []float64) error {
-	var d [8]float64
 	for i, x := range r {
-		_ = p.Derivatives(x, d[:n+1])
-		dst[i] = d[n]
+		for k := 0; k <= n; k++ {
+			dst[i*(n+1)+k] = 1000 * math.Pow(-1/0.3, float64(k)) / core.Factorial(k) * math.Exp(-x/0.3)
+		}
 	}
 	return nil
 }
@@ -172,18 +174,11 @@ func TestEquilibriumRejectsUnderflowedTail(t *testing.T) {
 // secondOrder hides every derivative above V″ of a potential.
 type secondOrder struct{ core.Potential }
 
-func (p secondOrder) Derivatives(r float64, dst []float64) error {
-	if len(dst) > 3 {
-		return core.CheckOrder(len(dst)-1, 2)
-	}
-	return p.Potential.Derivatives(r, dst)
-}
-
-func (p secondOrder) Batch(n int, r, dst []float64) error {
+func (p secondOrder) Taylor(n int, r, dst []float64) error {
 	if err := core.CheckOrder(n, 2); err != nil {
 		return err
 	}
-	return p.Potential.Batch(n, r, dst)
+	return p.Potential.Taylor(n, r, dst)
 }
 
 func (secondOrder) MaxOrder() int { return 2 }

@@ -4,6 +4,7 @@ import (
 	"fmt"
 	"math"
 
+	"github.com/pairwell/pairwell/conformance"
 	"github.com/pairwell/pairwell/core"
 	"github.com/pairwell/pairwell/core/units"
 )
@@ -125,25 +126,36 @@ func newBuckingham(A, rho, C float64) (*BuckinghamPotential, error) {
 			buckinghamKey, core.ErrNoMinimum, math.Exp(hmax), A, rho, C)
 	}
 	p := &BuckinghamPotential{a: A, rho: rho, c: C, mInvRho: -1 / rho}
+	// te[k] = (−1/ρ)ᵏ/k!, by te[k] = te[k−1]·(−1/ρ)/k.
+	p.te[0] = 1
+	for k := 1; k <= MaxOrder; k++ {
+		p.te[k] = p.te[k-1] * p.mInvRho / float64(k)
+	}
 	// The logarithmic h adds rounding of ln terms to the roots; a few
 	// Newton steps on V′ itself, kept only while |V′| decreases, bring
 	// them to the conditioning of V′ (|V′| ≈ ε·6C/r⁷ at the root).
 	p.rb = p.polish(xb * rho)
 	p.re = p.polish(xe * rho)
-	p.vb = p.eval(p.rb, 0)
+	var c [1]float64
+	p.row(p.rb, c[:])
+	p.vb = c[0]
 	return p, nil
 }
 
-// polish refines a zero r of V′ by Newton steps on V′.
+// polish refines a zero r of V′ by Newton steps on V′, the step being
+// c₁/(2c₂) = V′/V″.
 func (p *BuckinghamPotential) polish(r float64) float64 {
-	d1 := p.eval(r, 1)
+	var c [3]float64
+	p.row(r, c[:])
+	d1 := c[1]
 	for i := 0; i < 4 && d1 != 0; i++ {
-		next := r - d1/p.eval(r, 2)
-		n1 := p.eval(next, 1)
-		if !(math.Abs(n1) < math.Abs(d1)) {
+		next := r - d1/(2*c[2])
+		var nc [3]float64
+		p.row(next, nc[:])
+		if !(math.Abs(nc[1]) < math.Abs(d1)) {
 			break
 		}
-		r, d1 = next, n1
+		r, d1, c = next, nc[1], nc
 	}
 	return r
 }
@@ -189,113 +201,78 @@ type BuckinghamPotential struct {
 	mInvRho   float64 // −1/ρ
 	rb, vb    float64 // barrier position and height
 	re        float64 // minimum position
+	// te[k] = (−1/ρ)ᵏ/k!, k = 0…MaxOrder.
+	te [MaxOrder + 1]float64
 }
 
 // Params returns (A, rho, C).
 func (p *BuckinghamPotential) Params() []float64 { return []float64{p.a, p.rho, p.c} }
 
-// Domain is (r_b, +Inf) with Barrier true and dissociation limit 0.
+// Domain is (r_b, +Inf) with Barrier true, BarrierEnergy V(r_b) and
+// dissociation limit 0; the minimum r_e, the zero of V′ beyond 7ρ, is
+// located to machine precision by New. Below r_b the form collapses to −∞.
 func (p *BuckinghamPotential) Domain() core.Domain {
-	return core.Domain{Min: p.rb, Max: math.Inf(1), Barrier: true, Limit: 0}
+	return core.Domain{Min: p.rb, Max: math.Inf(1), Barrier: true, BarrierEnergy: p.vb, Limit: 0, EquilibriumGuess: p.re}
 }
 
 // MaxOrder returns MaxOrder.
 func (p *BuckinghamPotential) MaxOrder() int { return MaxOrder }
 
-// Barrier returns the position r_b (Å) of the spurious inner maximum and
-// its height V(r_b) (eV). Below r_b the form collapses to −∞.
-func (p *BuckinghamPotential) Barrier() (r, v float64) { return p.rb, p.vb }
-
-// EquilibriumGuess returns r_e, the zero of V′ beyond 7ρ, located to
-// machine precision by New.
-func (p *BuckinghamPotential) EquilibriumGuess() float64 { return p.re }
-
 // Identities returns r_e and, from V′(r_e) = 0 (A e^{−r_e/ρ} = 6Cρ/r_e⁷),
 // V(r_e) = (C/r_e⁶)(6ρ/r_e − 1) and V″(r_e) = (6C/r_e⁷)(1/ρ − 7/r_e).
-func (p *BuckinghamPotential) Identities() []core.Identity {
+func (p *BuckinghamPotential) Identities() []conformance.Identity {
 	const src = buckinghamReference + "; closed forms from V′(re) = 0"
 	re, c, rho := p.re, p.c, p.rho
 	re6 := re * re * re * re * re * re
-	return []core.Identity{
-		{Name: "r_e: zero of 6C − (A/ρ)r⁷e^{−r/ρ} beyond 7ρ", Quantity: core.EquilibriumR, Value: re, Source: src},
-		{Name: "V(r_e) = (C/r_e⁶)(6ρ/r_e − 1)", Quantity: core.MinimumEnergy, Value: c / re6 * (6*rho/re - 1), Source: src},
-		{Name: "V″(r_e) = (6C/r_e⁷)(1/ρ − 7/r_e)", Quantity: core.DerivativeAtMinimum, Order: 2, Value: 6 * c / (re6 * re) * (1/rho - 7/re), Source: src},
+	return []conformance.Identity{
+		{Name: "r_e: zero of 6C − (A/ρ)r⁷e^{−r/ρ} beyond 7ρ", Quantity: conformance.EquilibriumR, Value: re, Source: src},
+		{Name: "V(r_e) = (C/r_e⁶)(6ρ/r_e − 1)", Quantity: conformance.MinimumEnergy, Value: c / re6 * (6*rho/re - 1), Source: src},
+		{Name: "V″(r_e) = (6C/r_e⁷)(1/ρ − 7/r_e)", Quantity: conformance.DerivativeAtMinimum, Order: 2, Value: 6 * c / (re6 * re) * (1/rho - 7/re), Source: src},
 	}
 }
 
-// start returns 1/r and the order-0 terms A e^{−r/ρ} and C/r⁶. Order n is
-// te·(−1/ρ)ⁿ − rising6[n]·td·r⁻ⁿ, the powers built by repeated
-// multiplication identically in Derivatives and Batch; the float64
-// conversions forbid fused multiply-adds, which could differ between paths.
-func (p *BuckinghamPotential) start(r float64) (inv, te, td float64) {
-	inv = 1 / r
+// row stores c_0 … c_{len(row)−1} at r without checks: with
+// e = A·e^{−r/ρ} and d = C/r⁶,
+//
+//	c_k = te[k]·e − binom6[k]·d·r⁻ᵏ,
+//
+// te[k] = (−1/ρ)ᵏ/k! and binom6[k] = (−1)ᵏ C(k+5, k), so that V and V′ are
+// the products the closed form writes, (A·e^{−r/ρ})·(−1/ρ) − (−6·C/r⁶)/r.
+// It returns NaN unless every coefficient is finite, 0 otherwise.
+func (p *BuckinghamPotential) row(r float64, row []float64) float64 {
+	inv := 1 / r
 	i2 := inv * inv
-	te = float64(p.a * exp(r*p.mInvRho))
-	td = p.c * (i2 * i2 * i2)
-	return inv, te, td
-}
-
-// bkTerm returns V⁽ⁿ⁾ from te·(−1/ρ)ⁿ, c6 = rising6[n], td and pn = r⁻ⁿ.
-func bkTerm(te, c6, td, pn float64) float64 {
-	return te - float64(float64(c6*td)*pn)
-}
-
-// eval returns V⁽ⁿ⁾(r) without checks; it is the Batch path.
-func (p *BuckinghamPotential) eval(r float64, n int) float64 {
-	inv, te, td := p.start(r)
-	pn := 1.0
-	for k := 0; k < n; k++ {
-		te = float64(te * p.mInvRho)
-		pn *= inv
+	e := p.a * exp(r*p.mInvRho)
+	d := p.c * (i2 * i2 * i2)
+	te, b6 := p.te[:len(row)], binom6[:len(row)]
+	pk, acc := 1.0, 0.0
+	for k := range row {
+		v := te[k]*e - b6[k]*d*pk
+		row[k] = v
+		acc += v - v
+		pk *= inv
 	}
-	return bkTerm(te, rising6[n], td, pn)
+	return acc
 }
 
 func (p *BuckinghamPotential) domainError(r float64) error {
 	return fmt.Errorf("%s: %w", buckinghamKey, core.CheckR(p.Domain(), r))
 }
 
-// Derivatives stores V⁽ᵏ⁾(r) in dst[k], k = 0, …, len(dst)−1.
-func (p *BuckinghamPotential) Derivatives(r float64, dst []float64) error {
-	if !(r > p.rb && r <= math.MaxFloat64) {
-		return p.domainError(r)
-	}
-	if len(dst) > MaxOrder+1 {
-		return fmt.Errorf("%s: %w", buckinghamKey, core.CheckOrder(len(dst)-1, MaxOrder))
-	}
-	inv, te, td := p.start(r)
-	pk, acc := 1.0, 0.0
-	for k := range dst {
-		v := bkTerm(te, rising6[k], td, pk)
-		dst[k] = v
-		acc += v - v
-		te = float64(te * p.mInvRho)
-		pk *= inv
-	}
-	if acc != 0 {
-		return firstOverflow(buckinghamKey, r, dst)
-	}
-	return nil
-}
-
-// Batch stores V⁽ⁿ⁾(r[i]) in dst[i].
-func (p *BuckinghamPotential) Batch(n int, r, dst []float64) error {
-	if len(r) != len(dst) {
-		return lengthError(buckinghamKey, len(r), len(dst))
-	}
-	if err := core.CheckOrder(n, MaxOrder); err != nil {
+// Taylor stores c_k(r[i]) = V⁽ᵏ⁾(r[i])/k! at dst[i·(n+1)+k] (see row).
+func (p *BuckinghamPotential) Taylor(n int, r, dst []float64) error {
+	if err := core.CheckTaylor(n, MaxOrder, len(r), len(dst)); err != nil {
 		return fmt.Errorf("%s: %w", buckinghamKey, err)
 	}
-	dst = dst[:len(r)]
+	w := n + 1
 	for i, x := range r {
 		if !(x > p.rb && x <= math.MaxFloat64) {
 			return pointError(i, x, p.domainError(x))
 		}
-		v := p.eval(x, n)
-		if !finite(v) {
-			return pointError(i, x, overflowError(buckinghamKey, x, n))
+		row := dst[i*w : i*w+w]
+		if p.row(x, row) != 0 {
+			return pointError(i, x, firstOverflow(buckinghamKey, x, row))
 		}
-		dst[i] = v
 	}
 	return nil
 }

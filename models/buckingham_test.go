@@ -8,6 +8,7 @@ import (
 	"github.com/stretchr/testify/require"
 
 	"github.com/pairwell/pairwell/core"
+	"github.com/pairwell/pairwell/core/coretest"
 )
 
 // bkPrime is V′ = −(A/ρ)e^{−r/ρ} + 6C/r⁷ written out independently of the
@@ -52,8 +53,8 @@ func TestBuckinghamWell(t *testing.T) {
 		p, err := NewBuckingham(A, rho, C)
 		require.NoError(t, err, "%v", s)
 		assert.Equal(t, []float64{A, rho, C}, p.Params())
-		rb, vb := p.Barrier()
-		re := p.EquilibriumGuess()
+		d := p.Domain()
+		rb, vb, re := d.Min, d.BarrierEnergy, d.EquilibriumGuess
 		require.Less(t, rb, 7*rho, "%v", s)
 		require.Greater(t, re, 7*rho, "%v", s)
 		f := func(r float64) float64 { return bkPrime(A, rho, C, r) }
@@ -63,15 +64,18 @@ func TestBuckinghamWell(t *testing.T) {
 		assert.InEpsilon(t, wantRb, rb, 1e-14, "r_b of %v", s)
 		// Residual: V′ vanishes relative to its terms 6C/r⁷.
 		for _, r := range []float64{rb, re} {
-			assert.InDelta(t, 0, p.eval(r, 1), 1e-14*6*C/math.Pow(r, 7), "V′(%g) of %v", r, s)
+			var c [2]float64
+			p.row(r, c[:])
+			assert.InDelta(t, 0, c[1], 1e-14*6*C/math.Pow(r, 7), "V′(%g) of %v", r, s)
 		}
 		assert.InEpsilon(t, A*math.Exp(-rb/rho)-C/math.Pow(rb, 6), vb, 1e-13, "V(r_b)")
-		d := p.Domain()
-		assert.Equal(t, core.Domain{Min: rb, Max: math.Inf(1), Barrier: true, Limit: 0}, d)
+		assert.Equal(t, core.Domain{Min: rb, Max: math.Inf(1), Barrier: true, BarrierEnergy: vb, Limit: 0, EquilibriumGuess: re}, d)
 		// Maximum at r_b, minimum at r_e.
-		assert.Less(t, p.eval(rb, 2), 0.0)
+		var cb [3]float64
+		p.row(rb, cb[:])
+		assert.Less(t, cb[2], 0.0)
 		var dd [3]float64
-		require.NoError(t, p.Derivatives(re, dd[:]))
+		require.NoError(t, coretest.Derivatives(p, re, dd[:]))
 		assert.Greater(t, dd[2], 0.0)
 		assert.Less(t, dd[0], 0.0)
 		assert.Greater(t, vb, dd[0])
@@ -103,9 +107,8 @@ func TestBuckinghamNoMinimum(t *testing.T) {
 	assert.ErrorIs(t, err, core.ErrNoMinimum)
 	p, err := NewBuckingham(A, rho, C0*0.9999)
 	require.NoError(t, err)
-	rb, _ := p.Barrier()
-	assert.InDelta(t, 7*rho, rb, 0.05*rho)
-	assert.InDelta(t, 7*rho, p.EquilibriumGuess(), 0.05*rho)
+	assert.InDelta(t, 7*rho, p.Domain().Min, 0.05*rho)
+	assert.InDelta(t, 7*rho, p.Domain().EquilibriumGuess, 0.05*rho)
 }
 
 // TestBuckinghamMatch checks Match against targets across the range of

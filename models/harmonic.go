@@ -4,6 +4,7 @@ import (
 	"fmt"
 	"math"
 
+	"github.com/pairwell/pairwell/conformance"
 	"github.com/pairwell/pairwell/core"
 	"github.com/pairwell/pairwell/core/units"
 )
@@ -79,81 +80,54 @@ type HarmonicPotential struct {
 // Params returns (k, r0).
 func (p *HarmonicPotential) Params() []float64 { return []float64{p.k, p.r0} }
 
-// Domain is (0, +Inf) with Limit +Inf: the form is unbounded.
+// Domain is (0, +Inf) with Limit +Inf: the form is unbounded. The minimum
+// is at r0.
 func (p *HarmonicPotential) Domain() core.Domain {
-	return core.Domain{Min: 0, Max: math.Inf(1), Limit: math.Inf(1)}
+	return core.Domain{Min: 0, Max: math.Inf(1), Limit: math.Inf(1), EquilibriumGuess: p.r0}
 }
 
-// MaxOrder returns MaxOrder. Orders ≥ 3 are identically 0.
+// MaxOrder returns MaxOrder. Coefficients of order ≥ 3 are identically 0.
 func (p *HarmonicPotential) MaxOrder() int { return MaxOrder }
 
-// EquilibriumGuess returns r0, the exact minimum.
-func (p *HarmonicPotential) EquilibriumGuess() float64 { return p.r0 }
-
 // Identities returns r0, V(r0) = 0 and V″(r0) = k.
-func (p *HarmonicPotential) Identities() []core.Identity {
+func (p *HarmonicPotential) Identities() []conformance.Identity {
 	const src = "harmonic form V = ½k(r − r0)²"
-	return []core.Identity{
-		{Name: "r_min = r0", Quantity: core.EquilibriumR, Value: p.r0, Source: src},
-		{Name: "V(r0) = 0", Quantity: core.MinimumEnergy, Value: 0, Source: src},
-		{Name: "V″(r0) = k", Quantity: core.DerivativeAtMinimum, Order: 2, Value: p.k, Source: src},
-		{Name: "V‴(r0) = 0", Quantity: core.DerivativeAtMinimum, Order: 3, Value: 0, Source: src},
+	return []conformance.Identity{
+		{Name: "r_min = r0", Quantity: conformance.EquilibriumR, Value: p.r0, Source: src},
+		{Name: "V(r0) = 0", Quantity: conformance.MinimumEnergy, Value: 0, Source: src},
+		{Name: "V″(r0) = k", Quantity: conformance.DerivativeAtMinimum, Order: 2, Value: p.k, Source: src},
+		{Name: "V‴(r0) = 0", Quantity: conformance.DerivativeAtMinimum, Order: 3, Value: 0, Source: src},
 	}
-}
-
-// term returns V⁽ⁿ⁾ at d = r − r0; shared by Derivatives and Batch.
-func (p *HarmonicPotential) term(n int, d float64) float64 {
-	switch n {
-	case 0:
-		return p.halfK * d * d
-	case 1:
-		return p.k * d
-	case 2:
-		return p.k
-	}
-	return 0
 }
 
 func (p *HarmonicPotential) domainError(r float64) error {
 	return fmt.Errorf("%s: %w", harmonicKey, core.CheckR(p.Domain(), r))
 }
 
-// Derivatives stores V⁽ᵏ⁾(r) in dst[k], k = 0, …, len(dst)−1.
-func (p *HarmonicPotential) Derivatives(r float64, dst []float64) error {
-	if !(r > 0 && r <= math.MaxFloat64) {
-		return p.domainError(r)
-	}
-	if len(dst) > MaxOrder+1 {
-		return fmt.Errorf("%s: %w", harmonicKey, core.CheckOrder(len(dst)-1, MaxOrder))
-	}
-	d := r - p.r0
-	for k := range dst {
-		dst[k] = p.term(k, d)
-	}
-	if len(dst) > 0 && !finite(dst[0]) {
-		return overflowError(harmonicKey, r, 0)
-	}
-	return nil
-}
-
-// Batch stores V⁽ⁿ⁾(r[i]) in dst[i].
-func (p *HarmonicPotential) Batch(n int, r, dst []float64) error {
-	if len(r) != len(dst) {
-		return lengthError(harmonicKey, len(r), len(dst))
-	}
-	if err := core.CheckOrder(n, MaxOrder); err != nil {
+// Taylor stores c_k(r[i]) at dst[i·(n+1)+k]: with d = r − r0,
+// c_0 = ½k·d², c_1 = k·d, c_2 = ½k and c_k = 0 for k ≥ 3.
+func (p *HarmonicPotential) Taylor(n int, r, dst []float64) error {
+	if err := core.CheckTaylor(n, MaxOrder, len(r), len(dst)); err != nil {
 		return fmt.Errorf("%s: %w", harmonicKey, err)
 	}
-	dst = dst[:len(r)]
+	w := n + 1
 	for i, x := range r {
 		if !(x > 0 && x <= math.MaxFloat64) {
 			return pointError(i, x, p.domainError(x))
 		}
-		v := p.term(n, x-p.r0)
-		if !finite(v) {
-			return pointError(i, x, overflowError(harmonicKey, x, n))
+		d := x - p.r0
+		row := dst[i*w : i*w+w]
+		row[0] = p.halfK * d * d
+		if !finite(row[0]) {
+			return pointError(i, x, firstOverflow(harmonicKey, x, row[:1]))
 		}
-		dst[i] = v
+		if w > 1 {
+			row[1] = p.k * d
+		}
+		if w > 2 {
+			row[2] = p.halfK
+			clear(row[3:])
+		}
 	}
 	return nil
 }

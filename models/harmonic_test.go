@@ -8,6 +8,7 @@ import (
 	"github.com/stretchr/testify/require"
 
 	"github.com/pairwell/pairwell/core"
+	"github.com/pairwell/pairwell/core/coretest"
 )
 
 func TestHarmonic(t *testing.T) {
@@ -20,7 +21,7 @@ func TestHarmonic(t *testing.T) {
 	assert.Contains(t, Harmonic{}.Info().Notes, "½")
 	d := make([]float64, 8)
 	for _, r := range linspace(0.5, 3, 11) {
-		require.NoError(t, p.Derivatives(r, d))
+		require.NoError(t, coretest.Derivatives(p, r, d))
 		x := r - r0
 		// ½k(r − r0)² and its derivatives k(r − r0), k, 0, … (definition).
 		assert.InDelta(t, 0.5*k*x*x, d[0], 1e-15*k)

@@ -4,6 +4,7 @@ import (
 	"fmt"
 	"math"
 
+	"github.com/pairwell/pairwell/conformance"
 	"github.com/pairwell/pairwell/core"
 	"github.com/pairwell/pairwell/core/units"
 )
@@ -105,98 +106,63 @@ type LennardJonesPotential struct {
 // Params returns (epsilon, sigma).
 func (p *LennardJonesPotential) Params() []float64 { return []float64{p.eps, p.sigma} }
 
-// Domain is (0, +Inf) with dissociation limit 0.
+// Domain is (0, +Inf) with dissociation limit 0; the minimum is at
+// r_min = 2^{1/6}σ.
 func (p *LennardJonesPotential) Domain() core.Domain {
-	return core.Domain{Min: 0, Max: math.Inf(1), Limit: 0}
+	return core.Domain{Min: 0, Max: math.Inf(1), Limit: 0, EquilibriumGuess: ljRmin * p.sigma}
 }
 
 // MaxOrder returns MaxOrder.
 func (p *LennardJonesPotential) MaxOrder() int { return MaxOrder }
 
-// EquilibriumGuess returns r_min = 2^{1/6}σ, the exact minimum.
-func (p *LennardJonesPotential) EquilibriumGuess() float64 { return ljRmin * p.sigma }
-
 // Identities returns r_min = 2^{1/6}σ, V(r_min) = −ε and
 // V″(r_min) = 36·2^{2/3}ε/σ².
-func (p *LennardJonesPotential) Identities() []core.Identity {
+func (p *LennardJonesPotential) Identities() []conformance.Identity {
 	const src = "Lennard-Jones 12-6 closed forms (standard result; " + ljReference + ")"
-	return []core.Identity{
-		{Name: "r_min = 2^(1/6) σ", Quantity: core.EquilibriumR, Value: ljRmin * p.sigma, Source: src},
-		{Name: "V(r_min) = −ε", Quantity: core.MinimumEnergy, Value: -p.eps, Source: src},
-		{Name: "V″(r_min) = 36·2^(2/3) ε/σ²", Quantity: core.DerivativeAtMinimum, Order: 2, Value: ljK * p.eps / (p.sigma * p.sigma), Source: src},
+	return []conformance.Identity{
+		{Name: "r_min = 2^(1/6) σ", Quantity: conformance.EquilibriumR, Value: ljRmin * p.sigma, Source: src},
+		{Name: "V(r_min) = −ε", Quantity: conformance.MinimumEnergy, Value: -p.eps, Source: src},
+		{Name: "V″(r_min) = 36·2^(2/3) ε/σ²", Quantity: conformance.DerivativeAtMinimum, Order: 2, Value: ljK * p.eps / (p.sigma * p.sigma), Source: src},
 	}
-}
-
-// start returns 1/r and the order-0 terms 4ε(σ/r)¹² and 4ε(σ/r)⁶. Order n
-// is (rising12[n]·t12 − rising6[n]·t6)·r⁻ⁿ, with r⁻ⁿ built by repeated
-// multiplication identically in Derivatives and Batch; the float64
-// conversions forbid fused multiply-adds, which could differ between paths.
-func (p *LennardJonesPotential) start(r float64) (inv, t12, t6 float64) {
-	inv = 1 / r
-	s := p.sigma * inv
-	s2 := s * s
-	s6 := s2 * s2 * s2
-	t6 = p.eps4 * s6
-	t12 = t6 * s6
-	return inv, t12, t6
-}
-
-// ljTerm returns V⁽ⁿ⁾ = (c12·t12 − c6·t6)·pn given c12 = rising12[n],
-// c6 = rising6[n] and pn = r⁻ⁿ. Both Derivatives and Batch use it.
-func ljTerm(c12, c6, t12, t6, pn float64) float64 {
-	return (float64(c12*t12) - float64(c6*t6)) * pn
 }
 
 func (p *LennardJonesPotential) domainError(r float64) error {
 	return fmt.Errorf("%s: %w", ljKey, core.CheckR(p.Domain(), r))
 }
 
-// Derivatives stores V⁽ᵏ⁾(r) in dst[k], k = 0, …, len(dst)−1.
-func (p *LennardJonesPotential) Derivatives(r float64, dst []float64) error {
-	if !(r > 0 && r <= math.MaxFloat64) {
-		return p.domainError(r)
-	}
-	if len(dst) > MaxOrder+1 {
-		return fmt.Errorf("%s: %w", ljKey, core.CheckOrder(len(dst)-1, MaxOrder))
-	}
-	inv, t12, t6 := p.start(r)
-	pk, acc := 1.0, 0.0
-	for k := range dst {
-		v := ljTerm(rising12[k], rising6[k], t12, t6, pk)
-		dst[k] = v
-		acc += v - v
-		pk *= inv
-	}
-	if acc != 0 {
-		return firstOverflow(ljKey, r, dst)
-	}
-	return nil
-}
-
-// Batch stores V⁽ⁿ⁾(r[i]) in dst[i].
-func (p *LennardJonesPotential) Batch(n int, r, dst []float64) error {
-	if len(r) != len(dst) {
-		return lengthError(ljKey, len(r), len(dst))
-	}
-	if err := core.CheckOrder(n, MaxOrder); err != nil {
+// Taylor stores c_k(r[i]) = V⁽ᵏ⁾(r[i])/k! at dst[i·(n+1)+k]: with
+// t12 = 4ε(σ/r)¹² and t6 = 4ε(σ/r)⁶,
+//
+//	c_k = (binom12[k]·t12 − binom6[k]·t6)·r⁻ᵏ,
+//
+// binomM[k] = (−1)ᵏ C(m+k−1, k) and r⁻ᵏ by repeated multiplication.
+func (p *LennardJonesPotential) Taylor(n int, r, dst []float64) error {
+	if err := core.CheckTaylor(n, MaxOrder, len(r), len(dst)); err != nil {
 		return fmt.Errorf("%s: %w", ljKey, err)
 	}
-	dst = dst[:len(r)]
-	c12, c6 := rising12[n], rising6[n]
+	w := n + 1
+	b12, b6 := binom12[:w], binom6[:w]
 	for i, x := range r {
 		if !(x > 0 && x <= math.MaxFloat64) {
 			return pointError(i, x, p.domainError(x))
 		}
-		inv, t12, t6 := p.start(x)
-		pn := 1.0
-		for k := 0; k < n; k++ {
-			pn *= inv
+		inv := 1 / x
+		s := p.sigma * inv
+		s2 := s * s
+		s6 := s2 * s2 * s2
+		t6 := p.eps4 * s6
+		t12 := t6 * s6
+		row := dst[i*w : i*w+w]
+		pk, acc := 1.0, 0.0
+		for k := range row {
+			v := (b12[k]*t12 - b6[k]*t6) * pk
+			row[k] = v
+			acc += v - v
+			pk *= inv
 		}
-		v := ljTerm(c12, c6, t12, t6, pn)
-		if !finite(v) {
-			return pointError(i, x, overflowError(ljKey, x, n))
+		if acc != 0 { // NaN unless every coefficient is finite
+			return pointError(i, x, firstOverflow(ljKey, x, row))
 		}
-		dst[i] = v
 	}
 	return nil
 }

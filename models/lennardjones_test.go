@@ -8,6 +8,7 @@ import (
 	"github.com/stretchr/testify/require"
 
 	"github.com/pairwell/pairwell/core"
+	"github.com/pairwell/pairwell/core/coretest"
 )
 
 // TestLJClosedForms checks the Lennard-Jones 12-6 closed forms (standard
@@ -22,10 +23,10 @@ func TestLJClosedForms(t *testing.T) {
 		p, err := NewLennardJones(eps, sigma)
 		require.NoError(t, err)
 		assert.Equal(t, []float64{eps, sigma}, p.Params())
-		rmin := p.EquilibriumGuess()
+		rmin := p.Domain().EquilibriumGuess
 		assert.InEpsilon(t, twoSixth*sigma, rmin, 1e-15)
 		var d [3]float64
-		require.NoError(t, p.Derivatives(rmin, d[:]))
+		require.NoError(t, coretest.Derivatives(p, rmin, d[:]))
 		assert.InEpsilon(t, -eps, d[0], 1e-14, "V(r_min) = −ε")
 		assert.InDelta(t, 0, d[1], 1e-14*d[2]*rmin, "V′(r_min) = 0")
 		assert.InEpsilon(t, curvature*eps/(sigma*sigma), d[2], 1e-14, "V″(r_min)")

@@ -5,16 +5,19 @@
 // their zero values are ready to use) whose New builds an immutable
 // potential (*MorsePotential, *LennardJonesPotential, *BuckinghamPotential,
 // *HarmonicPotential) safe for concurrent use. Every model also implements
-// core.Matcher and every potential core.Guesser and core.Identifier.
+// core.Matcher, every potential reports its closed-form minimum in
+// Domain().EquilibriumGuess and declares its published identities
+// (conformance.Identifier).
 //
-// Units are pairwell's: energy eV, length Å, mass u; the n-th derivative is
-// in eV/Åⁿ.
+// Units are pairwell's: energy eV, length Å, mass u; the Taylor coefficient
+// c_k = V⁽ᵏ⁾/k! is in eV/Åᵏ.
 //
-// Evaluation. Derivatives and Batch share one code path per form, so they
-// return the same bits for the same r and order. Neither allocates on
-// success. Derivatives are analytic up to MaxOrder; a value that overflows
-// float64 (for instance V itself at r → 0, or a very high order) is reported
-// as an error wrapping core.ErrDomain instead of being returned as ±Inf.
+// Evaluation. Each form has one evaluation method, Taylor, with closed-form
+// normalized coefficients of every order up to MaxOrder, computed without
+// forming k! or raw derivatives, so that they stay finite where V⁽ᵏ⁾
+// would overflow. It does not allocate. A coefficient that overflows
+// float64 anyway (for instance V itself at r → 0) is reported as an error
+// wrapping core.ErrDomain instead of being returned as ±Inf.
 // Morse and Buckingham use the package's own exp (see below), correctly
 // rounded in all but about 0.1% of cases and shorter in latency than
 // math.Exp.
@@ -53,19 +56,23 @@ func NewRegistry() *core.Registry {
 	return r
 }
 
-// rising12 and rising6 hold (−1)ⁿ m(m+1)…(m+n−1) for m = 12 and m = 6 and
-// n = 0, …, MaxOrder, so that dⁿ r^{−m}/drⁿ = risingM[n]·r^{−m−n}. They are
-// shared by Lennard-Jones (both) and Buckingham (dispersion term).
+// binom12 and binom6 hold the normalized derivative coefficients of r^{−m}
+// for m = 12 and m = 6, n = 0, …, MaxOrder:
+//
+//	dⁿ r^{−m}/drⁿ / n! = (−1)ⁿ C(m+n−1, n)·r^{−m−n},
+//
+// so binomM[n] = (−1)ⁿ C(m+n−1, n), built by C(m+n−1, n) = C(m+n−2, n−1)·(m+n−1)/n.
+// They are shared by Lennard-Jones (both) and Buckingham (dispersion term).
 var (
-	rising12 = risingTable(12)
-	rising6  = risingTable(6)
+	binom12 = binomTable(12)
+	binom6  = binomTable(6)
 )
 
-func risingTable(m int) *[MaxOrder + 1]float64 {
+func binomTable(m int) *[MaxOrder + 1]float64 {
 	var t [MaxOrder + 1]float64
 	t[0] = 1
 	for n := 1; n <= MaxOrder; n++ {
-		t[n] = -t[n-1] * float64(m+n-1)
+		t[n] = -t[n-1] * float64(m+n-1) / float64(n)
 	}
 	return &t
 }
@@ -73,28 +80,19 @@ func risingTable(m int) *[MaxOrder + 1]float64 {
 // finite reports whether v is neither ±Inf nor NaN.
 func finite(v float64) bool { return v-v == 0 }
 
-// overflowError is the error for a derivative that does not fit a float64.
-func overflowError(key string, r float64, n int) error {
-	return fmt.Errorf("%s: r = %g Å: %w: V⁽%d⁾ overflows float64", key, r, core.ErrDomain, n)
-}
-
-// firstOverflow returns the error for the first non-finite value in dst.
-// It is the slow path of Derivatives, called only when one was produced.
-func firstOverflow(key string, r float64, dst []float64) error {
-	for k, v := range dst {
+// firstOverflow returns the error for the first non-finite coefficient of
+// the row of c_0, c_1, … at r. It is the slow path of Taylor, called only
+// when one was produced.
+func firstOverflow(key string, r float64, row []float64) error {
+	for k, v := range row {
 		if !finite(v) {
-			return overflowError(key, r, k)
+			return fmt.Errorf("%s: %w", key, core.OverflowError(r, k))
 		}
 	}
 	return nil
 }
 
-// lengthError is the error for Batch slices of different lengths.
-func lengthError(key string, nr, nd int) error {
-	return fmt.Errorf("%s: %w: len(r) = %d, len(dst) = %d", key, core.ErrLength, nr, nd)
-}
-
-// pointError wraps err for Batch point i.
+// pointError wraps err for point i of a Taylor call.
 func pointError(i int, r float64, err error) error {
 	return &core.PointError{Index: i, R: r, Err: err}
 }

@@ -10,7 +10,9 @@ import (
 	"github.com/stretchr/testify/require"
 	"gonum.org/v1/gonum/diff/fd"
 
+	"github.com/pairwell/pairwell/conformance"
 	"github.com/pairwell/pairwell/core"
+	"github.com/pairwell/pairwell/core/coretest"
 )
 
 // formCase is one parameter set of one form, with evaluation points in its
@@ -65,7 +67,7 @@ func forms(t testing.TB) []formCase {
 		func(r float64, n int) float64 { return r / float64(13+n) })
 	bkRange := func(hi float64) func(core.Potential) []float64 {
 		return func(p core.Potential) []float64 {
-			rb, _ := p.(*BuckinghamPotential).Barrier()
+			rb := p.Domain().Min
 			return linspace(1.05*rb, hi, 20)
 		}
 	}
@@ -120,9 +122,8 @@ func (fakeModel) Info() core.ModelInfo { return core.ModelInfo{Key: "fake"} }
 func TestInterfaces(t *testing.T) {
 	for _, c := range forms(t) {
 		assert.Equal(t, MaxOrder, c.pot.MaxOrder(), c.name)
-		_, ok := c.pot.(core.Guesser)
-		assert.True(t, ok, "%s: Guesser", c.name)
-		_, ok = c.pot.(core.Identifier)
+		assert.Positive(t, c.pot.Domain().EquilibriumGuess, "%s: EquilibriumGuess", c.name)
+		_, ok := c.pot.(conformance.Identifier)
 		assert.True(t, ok, "%s: Identifier", c.name)
 		d := c.pot.Domain()
 		assert.True(t, math.IsInf(d.Max, 1), c.name)
@@ -145,7 +146,7 @@ func TestFiniteDifferences(t *testing.T) {
 		t.Run(c.name, func(t *testing.T) {
 			var d [8]float64
 			for _, r := range c.rs {
-				require.NoError(t, c.pot.Derivatives(r, d[:]))
+				require.NoError(t, coretest.Derivatives(c.pot, r, d[:]))
 				for n := 1; n <= 6; n++ {
 					L := c.length(r, n)
 					f := func(x float64) float64 {
@@ -162,47 +163,47 @@ func TestFiniteDifferences(t *testing.T) {
 	}
 }
 
-// TestBatchBitIdentical checks the contract that Derivatives, Batch and the
-// core helpers return the same bits for the same r and order.
-func TestBatchBitIdentical(t *testing.T) {
+// TestTaylorLayout checks the layout rules of the contract: one call over
+// many points gives the bits of single-point calls, a row of order n is the
+// prefix of the row of any higher order, and the core helpers return
+// k!·c_k of the same bits.
+func TestTaylorLayout(t *testing.T) {
 	for _, c := range forms(t) {
 		t.Run(c.name, func(t *testing.T) {
 			const top = 12
-			all := make([][]float64, len(c.rs))
-			for i, r := range c.rs {
-				all[i] = make([]float64, top+1)
-				require.NoError(t, c.pot.Derivatives(r, all[i]))
-			}
-			dst := make([]float64, len(c.rs))
+			all := make([]float64, (top+1)*len(c.rs))
+			require.NoError(t, c.pot.Taylor(top, c.rs, all))
 			for n := 0; n <= top; n++ {
-				require.NoError(t, c.pot.Batch(n, c.rs, dst))
+				rows := make([]float64, (n+1)*len(c.rs))
+				require.NoError(t, c.pot.Taylor(n, c.rs, rows))
+				dst := make([]float64, len(c.rs))
+				require.NoError(t, coretest.Batch(c.pot, n, c.rs, dst))
 				for i, r := range c.rs {
-					require.Equal(t, math.Float64bits(all[i][n]), math.Float64bits(dst[i]), "order %d at r = %g: %v vs %v", n, r, all[i][n], dst[i])
-					// Shorter dst gives the same leading values.
-					short := make([]float64, n+1)
-					require.NoError(t, c.pot.Derivatives(r, short))
-					require.Equal(t, math.Float64bits(all[i][n]), math.Float64bits(short[n]))
+					want := all[i*(top+1)+n]
+					require.Equal(t, math.Float64bits(want), math.Float64bits(rows[i*(n+1)+n]), "order %d at r = %g", n, r)
+					one := make([]float64, n+1)
+					require.NoError(t, c.pot.Taylor(n, []float64{r}, one))
+					require.Equal(t, math.Float64bits(want), math.Float64bits(one[n]))
+					require.Equal(t, math.Float64bits(want*core.Factorial(n)), math.Float64bits(dst[i]))
 					v, err := core.Derivative(c.pot, n, r)
 					require.NoError(t, err)
-					require.Equal(t, math.Float64bits(all[i][n]), math.Float64bits(v))
+					require.Equal(t, math.Float64bits(want*core.Factorial(n)), math.Float64bits(v))
 				}
 			}
-			// Every order up to MaxOrder at one mid-range point: equal
-			// bits or, where a value overflows, an error from both.
+			// Every order up to MaxOrder at one mid-range point: all
+			// coefficients finite (normalized coefficients do not
+			// overflow here), and Derivative agrees or reports an
+			// overflow of k!·c_k.
 			r := c.rs[len(c.rs)/2]
 			full := make([]float64, MaxOrder+1)
-			errFull := c.pot.Derivatives(r, full)
+			require.NoError(t, c.pot.Taylor(MaxOrder, []float64{r}, full))
 			for n := 0; n <= MaxOrder; n++ {
 				v, err := core.Derivative(c.pot, n, r)
-				if errFull == nil {
-					require.NoError(t, err, "order %d", n)
-					require.Equal(t, math.Float64bits(full[n]), math.Float64bits(v), "order %d", n)
-				} else if err != nil {
+				if err != nil {
 					require.ErrorIs(t, err, core.ErrDomain)
+					continue
 				}
-			}
-			if errFull != nil {
-				require.ErrorIs(t, errFull, core.ErrDomain)
+				require.Equal(t, math.Float64bits(full[n]*core.Factorial(n)), math.Float64bits(v), "order %d", n)
 			}
 		})
 	}
@@ -211,25 +212,25 @@ func TestBatchBitIdentical(t *testing.T) {
 func TestNoAllocation(t *testing.T) {
 	for _, c := range forms(t) {
 		var d [5]float64
-		dst := make([]float64, len(c.rs))
-		r := c.rs[3]
-		assert.Zero(t, testing.AllocsPerRun(100, func() { _ = c.pot.Derivatives(r, d[:]) }), c.name)
-		assert.Zero(t, testing.AllocsPerRun(100, func() { _ = c.pot.Batch(2, c.rs, dst) }), c.name)
+		rr := []float64{c.rs[3]}
+		dst := make([]float64, 3*len(c.rs))
+		assert.Zero(t, testing.AllocsPerRun(100, func() { _ = c.pot.Taylor(4, rr, d[:]) }), c.name)
+		assert.Zero(t, testing.AllocsPerRun(100, func() { _ = c.pot.Taylor(2, c.rs, dst) }), c.name)
 	}
 }
 
 func TestConcurrentUse(t *testing.T) {
 	for _, c := range forms(t) {
-		want := make([]float64, len(c.rs))
-		require.NoError(t, c.pot.Batch(3, c.rs, want))
+		want := make([]float64, 4*len(c.rs))
+		require.NoError(t, c.pot.Taylor(3, c.rs, want))
 		var wg sync.WaitGroup
 		for g := 0; g < 8; g++ {
 			wg.Add(1)
 			go func() {
 				defer wg.Done()
-				got := make([]float64, len(c.rs))
+				got := make([]float64, 4*len(c.rs))
 				for i := 0; i < 50; i++ {
-					if err := c.pot.Batch(3, c.rs, got); err != nil {
+					if err := c.pot.Taylor(3, c.rs, got); err != nil {
 						t.Error(err)
 						return
 					}
@@ -245,21 +246,21 @@ func TestConcurrentUse(t *testing.T) {
 func TestIdentities(t *testing.T) {
 	const tol = 1e-12
 	for _, c := range forms(t) {
-		ids := c.pot.(core.Identifier).Identities()
+		ids := c.pot.(conformance.Identifier).Identities()
 		require.NotEmpty(t, ids, c.name)
-		guess := c.pot.(core.Guesser).EquilibriumGuess()
+		guess := c.pot.Domain().EquilibriumGuess
 		var d [8]float64
-		require.NoError(t, c.pot.Derivatives(guess, d[:]))
+		require.NoError(t, coretest.Derivatives(c.pot, guess, d[:]))
 		for _, id := range ids {
 			assert.NotEmpty(t, id.Source, "%s: %s", c.name, id.Name)
 			switch id.Quantity {
-			case core.EquilibriumR:
+			case conformance.EquilibriumR:
 				assert.InEpsilon(t, id.Value, guess, tol, "%s: %s", c.name, id.Name)
 				// V′ vanishes there relative to the curvature scale.
 				assert.InDelta(t, 0, d[1], tol*d[2]*guess, "%s: V′(re)", c.name)
-			case core.MinimumEnergy:
+			case conformance.MinimumEnergy:
 				assert.InDelta(t, id.Value, d[0], tol*math.Max(math.Abs(id.Value), d[2]*guess*guess), "%s: %s", c.name, id.Name)
-			case core.DerivativeAtMinimum:
+			case conformance.DerivativeAtMinimum:
 				assert.InDelta(t, id.Value, d[id.Order], tol*math.Max(math.Abs(id.Value), d[2]/math.Pow(guess, float64(id.Order-2))), "%s: %s", c.name, id.Name)
 			default:
 				t.Errorf("%s: unexpected quantity %v", c.name, id.Quantity)
@@ -274,14 +275,14 @@ func TestEvaluationErrors(t *testing.T) {
 			d := make([]float64, 3)
 			bad := []float64{0, -1, math.NaN(), math.Inf(1), math.Inf(-1)}
 			if _, ok := c.pot.(*BuckinghamPotential); ok {
-				rb, _ := c.pot.(*BuckinghamPotential).Barrier()
+				rb := c.pot.Domain().Min
 				bad = append(bad, rb, 0.5*rb, math.Nextafter(rb, 0))
 			}
 			for _, r := range bad {
-				err := c.pot.Derivatives(r, d)
+				err := coretest.Derivatives(c.pot, r, d)
 				assert.ErrorIs(t, err, core.ErrDomain, "r = %g", r)
 				rs := []float64{c.rs[0], c.rs[1], r, c.rs[2]}
-				err = c.pot.Batch(1, rs, make([]float64, len(rs)))
+				err = coretest.Batch(c.pot, 1, rs, make([]float64, len(rs)))
 				var pe *core.PointError
 				require.True(t, errors.As(err, &pe), "r = %g: %v", r, err)
 				assert.Equal(t, 2, pe.Index)
@@ -289,14 +290,14 @@ func TestEvaluationErrors(t *testing.T) {
 				assert.ErrorIs(t, err, core.ErrDomain)
 			}
 			// Orders.
-			assert.ErrorIs(t, c.pot.Derivatives(c.rs[0], make([]float64, MaxOrder+2)), core.ErrOrder)
-			assert.ErrorIs(t, c.pot.Batch(-1, c.rs, make([]float64, len(c.rs))), core.ErrOrder)
-			assert.ErrorIs(t, c.pot.Batch(MaxOrder+1, c.rs, make([]float64, len(c.rs))), core.ErrOrder)
-			assert.NoError(t, c.pot.Derivatives(c.rs[0], nil))
-			// Lengths.
-			assert.ErrorIs(t, c.pot.Batch(0, c.rs, make([]float64, len(c.rs)-1)), core.ErrLength)
-			assert.ErrorIs(t, c.pot.Batch(0, c.rs[:1], make([]float64, 2)), core.ErrLength)
-			assert.NoError(t, c.pot.Batch(0, nil, nil))
+			assert.ErrorIs(t, c.pot.Taylor(MaxOrder+1, c.rs[:1], make([]float64, MaxOrder+2)), core.ErrOrder)
+			assert.ErrorIs(t, c.pot.Taylor(-1, c.rs, nil), core.ErrOrder)
+			// Lengths: dst must hold (n+1)·len(r) values.
+			assert.ErrorIs(t, c.pot.Taylor(0, c.rs, make([]float64, len(c.rs)-1)), core.ErrLength)
+			assert.ErrorIs(t, c.pot.Taylor(0, c.rs[:1], make([]float64, 2)), core.ErrLength)
+			assert.ErrorIs(t, c.pot.Taylor(2, c.rs, make([]float64, 2*len(c.rs))), core.ErrLength)
+			assert.NoError(t, c.pot.Taylor(0, nil, nil))
+			assert.NoError(t, c.pot.Taylor(3, nil, nil))
 		})
 	}
 }
@@ -305,29 +306,31 @@ func TestEvaluationErrors(t *testing.T) {
 func TestOverflow(t *testing.T) {
 	lj := mustNew(t, LennardJones{}, 1, 1)
 	d := make([]float64, 3)
-	assert.ErrorIs(t, lj.Derivatives(1e-30, d), core.ErrDomain)
+	assert.ErrorIs(t, coretest.Derivatives(lj, 1e-30, d), core.ErrDomain)
 	_, err := core.Derivative(lj, 0, 1e-30)
 	assert.ErrorIs(t, err, core.ErrDomain)
 	var pe *core.PointError
-	assert.ErrorAs(t, lj.Batch(2, []float64{1, 1e-30}, make([]float64, 2)), &pe)
+	assert.ErrorAs(t, coretest.Batch(lj, 2, []float64{1, 1e-30}, make([]float64, 2)), &pe)
 
 	morse := mustNew(t, Morse{}, 1, 50, 10)
-	assert.ErrorIs(t, morse.Derivatives(0.1, d), core.ErrDomain) // y² = e^{2·50·9.9} overflows
+	assert.ErrorIs(t, coretest.Derivatives(morse, 0.1, d), core.ErrDomain) // y² = e^{2·50·9.9} overflows
 	_, err = core.Derivative(morse, 0, 0.1)
 	assert.ErrorIs(t, err, core.ErrDomain)
 	full := make([]float64, MaxOrder+1)
 	morse = mustNew(t, Morse{}, 1, 2000, 10)
-	err = morse.Derivatives(10, full) // (2a)¹⁰⁰ = 4000¹⁰⁰ ≈ 10³⁶⁰ overflows
-	assert.ErrorIs(t, err, core.ErrDomain)
-	assert.ErrorContains(t, err, "overflows")
+	// V⁽¹⁰⁰⁾ ∝ (2a)¹⁰⁰ = 4000¹⁰⁰ ≈ 10³⁶⁰ overflows, but the normalized
+	// c₁₀₀ ∝ 4000¹⁰⁰/100! ≈ 10²⁰² does not.
+	require.NoError(t, morse.Taylor(MaxOrder, []float64{10}, full))
+	assert.InEpsilon(t, math.Exp(100*math.Log(4000)-lgamma(101)), full[MaxOrder], 1e-12)
 	_, err = core.Derivative(morse, MaxOrder, 10)
 	assert.ErrorIs(t, err, core.ErrDomain)
+	assert.ErrorContains(t, err, "overflows")
 	v, err := core.Derivative(morse, 2, 10) // low orders are fine
 	assert.NoError(t, err)
 	assert.InEpsilon(t, 2*2000.0*2000, v, 1e-15)
 
 	h := mustNew(t, Harmonic{}, 1e10, 1)
-	assert.ErrorIs(t, h.Derivatives(1e300, d), core.ErrDomain)
+	assert.ErrorIs(t, coretest.Derivatives(h, 1e300, d), core.ErrDomain)
 	_, err = core.Derivative(h, 0, 1e300)
 	assert.ErrorIs(t, err, core.ErrDomain)
 }
@@ -374,9 +377,9 @@ func TestBadParams(t *testing.T) {
 // for Buckingham).
 func wellOf(t *testing.T, p core.Potential) (re, depth, k float64) {
 	t.Helper()
-	re = p.(core.Guesser).EquilibriumGuess()
+	re = p.Domain().EquilibriumGuess
 	var d [3]float64
-	require.NoError(t, p.Derivatives(re, d[:]))
+	require.NoError(t, coretest.Derivatives(p, re, d[:]))
 	return re, p.Domain().Limit - d[0], d[2]
 }
 
@@ -430,4 +433,9 @@ func TestExp(t *testing.T) {
 		want := math.Exp(x)
 		require.LessOrEqual(t, math.Abs(exp(x)-want), 2*ulp(want), "exp(%v)", x)
 	}
+}
+
+func lgamma(x float64) float64 {
+	v, _ := math.Lgamma(x)
+	return v
 }

@@ -4,6 +4,7 @@ import (
 	"fmt"
 	"math"
 
+	"github.com/pairwell/pairwell/conformance"
 	"github.com/pairwell/pairwell/core"
 	"github.com/pairwell/pairwell/core/units"
 )
@@ -60,7 +61,15 @@ func NewMorse(De, a, re float64) (*MorsePotential, error) {
 }
 
 func newMorse(De, a, re float64) *MorsePotential {
-	return &MorsePotential{de: De, a: a, re: re, twoDe: 2 * De, ma: -a, m2a: -2 * a}
+	p := &MorsePotential{de: De, a: a, re: re}
+	// t2[k] = De(−2a)ᵏ/k!, t1[k] = 2De(−a)ᵏ/k!, by the recurrence
+	// t[k] = t[k−1]·(−m·a)/k: bounded in k, no factorial or power overflows.
+	p.t2[0], p.t1[0] = De, 2*De
+	for k := 1; k <= MaxOrder; k++ {
+		p.t2[k] = p.t2[k-1] * (-2 * a) / float64(k)
+		p.t1[k] = p.t1[k-1] * -a / float64(k)
+	}
+	return p
 }
 
 // Match returns (De, a, re) with the target's re, depth De = Depth and
@@ -123,104 +132,67 @@ func MorseSpectroscopic(De, a, mu float64) (omegaE, omegaExe float64) {
 // concurrent use.
 type MorsePotential struct {
 	de, a, re float64
-	twoDe     float64 // 2De
-	ma, m2a   float64 // −a, −2a
+	// t2 and t1 hold De(−2a)ᵏ/k! and 2De(−a)ᵏ/k!, k = 0…MaxOrder, so that
+	// c_k(r) = t2[k]·y² − t1[k]·y with y = e^{−a(r−re)}.
+	t2, t1 [MaxOrder + 1]float64
 }
 
 // Params returns (De, a, re).
 func (p *MorsePotential) Params() []float64 { return []float64{p.de, p.a, p.re} }
 
-// Domain is (0, +Inf) with dissociation limit 0.
+// Domain is (0, +Inf) with dissociation limit 0; the minimum is at re.
 func (p *MorsePotential) Domain() core.Domain {
-	return core.Domain{Min: 0, Max: math.Inf(1), Limit: 0}
+	return core.Domain{Min: 0, Max: math.Inf(1), Limit: 0, EquilibriumGuess: p.re}
 }
 
 // MaxOrder returns MaxOrder.
 func (p *MorsePotential) MaxOrder() int { return MaxOrder }
 
-// EquilibriumGuess returns re, the exact minimum.
-func (p *MorsePotential) EquilibriumGuess() float64 { return p.re }
-
 // Identities returns re, V(re) = −De and V⁽ⁿ⁾(re) = De(−a)ⁿ(2ⁿ − 2) for
 // n = 2, 3, 4 (Taylor coefficients cₙ = De(−a)ⁿ(2ⁿ − 2)/n!).
-func (p *MorsePotential) Identities() []core.Identity {
+func (p *MorsePotential) Identities() []conformance.Identity {
 	de, a := p.de, p.a
-	return []core.Identity{
-		{Name: "r_min = re", Quantity: core.EquilibriumR, Value: p.re, Source: morseReference},
-		{Name: "V(re) = −De", Quantity: core.MinimumEnergy, Value: -de, Source: morseReference},
-		{Name: "V″(re) = 2De·a²", Quantity: core.DerivativeAtMinimum, Order: 2, Value: 2 * de * a * a, Source: morseReference},
-		{Name: "V‴(re) = −6De·a³", Quantity: core.DerivativeAtMinimum, Order: 3, Value: -6 * de * a * a * a, Source: morseReference},
-		{Name: "V⁗(re) = 14De·a⁴", Quantity: core.DerivativeAtMinimum, Order: 4, Value: 14 * de * a * a * a * a, Source: morseReference},
+	return []conformance.Identity{
+		{Name: "r_min = re", Quantity: conformance.EquilibriumR, Value: p.re, Source: morseReference},
+		{Name: "V(re) = −De", Quantity: conformance.MinimumEnergy, Value: -de, Source: morseReference},
+		{Name: "V″(re) = 2De·a²", Quantity: conformance.DerivativeAtMinimum, Order: 2, Value: 2 * de * a * a, Source: morseReference},
+		{Name: "V‴(re) = −6De·a³", Quantity: conformance.DerivativeAtMinimum, Order: 3, Value: -6 * de * a * a * a, Source: morseReference},
+		{Name: "V⁗(re) = 14De·a⁴", Quantity: conformance.DerivativeAtMinimum, Order: 4, Value: 14 * de * a * a * a * a, Source: morseReference},
 	}
 }
-
-// start returns the order-0 terms De·y² and 2De·y, y = e^{−a(r−re)}: the
-// only exponential of an evaluation. V⁽ⁿ⁾ = (−2a)ⁿDe·y² − (−a)ⁿ2De·y, each
-// factor applied by repeated multiplication (see step), identically in
-// Derivatives and Batch.
-func (p *MorsePotential) start(r float64) (t1, t2 float64) {
-	y := exp(p.a * (p.re - r))
-	return p.de * (y * y), p.twoDe * y
-}
-
-// step raises the order of the terms by one.
-func (p *MorsePotential) step(t1, t2 float64) (float64, float64) {
-	return t1 * p.m2a, t2 * p.ma
-}
-
-// morseTerm returns V⁽ⁿ⁾ from the order-n terms. The float64 conversions
-// round the products before the subtraction, forbidding a fused
-// multiply-add that could otherwise differ between Derivatives and Batch.
-func morseTerm(t1, t2 float64) float64 { return float64(t1) - float64(t2) }
 
 func (p *MorsePotential) domainError(r float64) error {
 	return fmt.Errorf("%s: %w", morseKey, core.CheckR(p.Domain(), r))
 }
 
-// Derivatives stores V⁽ᵏ⁾(r) in dst[k], k = 0, …, len(dst)−1.
-func (p *MorsePotential) Derivatives(r float64, dst []float64) error {
-	if !(r > 0 && r <= math.MaxFloat64) {
-		return p.domainError(r)
-	}
-	if len(dst) > MaxOrder+1 {
-		return fmt.Errorf("%s: %w", morseKey, core.CheckOrder(len(dst)-1, MaxOrder))
-	}
-	t1, t2 := p.start(r)
-	acc := 0.0
-	for k := range dst {
-		v := morseTerm(t1, t2)
-		dst[k] = v
-		acc += v - v
-		t1, t2 = p.step(t1, t2)
-	}
-	if acc != 0 {
-		return firstOverflow(morseKey, r, dst)
-	}
-	return nil
-}
-
-// Batch stores V⁽ⁿ⁾(r[i]) in dst[i].
-func (p *MorsePotential) Batch(n int, r, dst []float64) error {
-	if len(r) != len(dst) {
-		return lengthError(morseKey, len(r), len(dst))
-	}
-	if err := core.CheckOrder(n, MaxOrder); err != nil {
+// Taylor stores c_k(r[i]) = V⁽ᵏ⁾(r[i])/k! at dst[i·(n+1)+k]. With
+// y = e^{−a(r−re)}, V = De(y² − 2y) and dᵏyᵐ/drᵏ = (−ma)ᵏyᵐ, so
+//
+//	c_k = De(−2a)ᵏ/k!·y² − 2De(−a)ᵏ/k!·y,
+//
+// one exponential per point and two products per coefficient.
+func (p *MorsePotential) Taylor(n int, r, dst []float64) error {
+	if err := core.CheckTaylor(n, MaxOrder, len(r), len(dst)); err != nil {
 		return fmt.Errorf("%s: %w", morseKey, err)
 	}
-	dst = dst[:len(r)]
+	w := n + 1
+	t2, t1 := p.t2[:w], p.t1[:w]
 	for i, x := range r {
 		if !(x > 0 && x <= math.MaxFloat64) {
 			return pointError(i, x, p.domainError(x))
 		}
-		t1, t2 := p.start(x)
-		for k := 0; k < n; k++ {
-			t1, t2 = p.step(t1, t2)
+		y := exp(p.a * (p.re - x))
+		y2 := y * y
+		row := dst[i*w : i*w+w]
+		acc := 0.0
+		for k := range row {
+			v := t2[k]*y2 - t1[k]*y
+			row[k] = v
+			acc += v - v
 		}
-		v := morseTerm(t1, t2)
-		if !finite(v) {
-			return pointError(i, x, overflowError(morseKey, x, n))
+		if acc != 0 { // NaN unless every coefficient is finite
+			return pointError(i, x, firstOverflow(morseKey, x, row))
 		}
-		dst[i] = v
 	}
 	return nil
 }

@@ -2,12 +2,14 @@ package models
 
 import (
 	"math"
+	"math/big"
 	"testing"
 
 	"github.com/stretchr/testify/assert"
 	"github.com/stretchr/testify/require"
 
 	"github.com/pairwell/pairwell/core"
+	"github.com/pairwell/pairwell/core/coretest"
 )
 
 // TestMorseTaylor checks V⁽ⁿ⁾(re)/n! against the Taylor coefficients
@@ -18,7 +20,7 @@ func TestMorseTaylor(t *testing.T) {
 		p, err := NewMorse(De, a, re)
 		require.NoError(t, err)
 		var d [13]float64
-		require.NoError(t, p.Derivatives(re, d[:]))
+		require.NoError(t, coretest.Derivatives(p, re, d[:]))
 		assert.InEpsilon(t, -De, d[0], 1e-15, "V(re) = −De (Morse 1929)")
 		fact := 1.0
 		for n := 1; n <= 12; n++ {
@@ -125,5 +127,39 @@ func TestMorseMatch(t *testing.T) {
 	for _, tg := range []core.Target{{Re: 1, Depth: 1}, {Re: 1, K: 1}, {Depth: 1, K: 1}, {Re: -1, Depth: 1, K: 1}, {Re: 1, Depth: math.NaN(), K: 1}} {
 		_, _, err := Morse{}.Match(tg)
 		assert.ErrorIs(t, err, core.ErrParam, "%+v", tg)
+	}
+}
+
+// TestMorseCoefficientsAtMinimum checks the closed form of the Morse
+// Taylor coefficients at the minimum (Morse 1929: with y = e^{−a(r−re)},
+// V = De(y² − 2y), so c_n(re) = De(−a)ⁿ(2ⁿ − 2)/n!) for n = 2…40 and up to
+// MaxOrder, against the same expression evaluated in 256-bit arithmetic
+// (math/big), to 1e-12 relative: no overflow, no loss of accuracy at high
+// order.
+func TestMorseCoefficientsAtMinimum(t *testing.T) {
+	for _, ps := range [][3]float64{{4.6, 1.87, 1.27}, {0.3, 4, 2.5}, {1, 50, 10}} {
+		De, a, re := ps[0], ps[1], ps[2]
+		p, err := NewMorse(De, a, re)
+		require.NoError(t, err)
+		c := make([]float64, MaxOrder+1)
+		require.NoError(t, p.Taylor(MaxOrder, []float64{re}, c))
+		for n := 2; n <= MaxOrder; n++ {
+			// De(−a)ⁿ(2ⁿ − 2)/n! at 256 bits.
+			f := new(big.Float).SetPrec(256).SetFloat64(De)
+			ma := new(big.Float).SetPrec(256).SetFloat64(-a)
+			for k := 1; k <= n; k++ {
+				f.Mul(f, ma)
+				f.Quo(f, new(big.Float).SetPrec(256).SetInt64(int64(k)))
+			}
+			two := new(big.Float).SetPrec(256).SetMantExp(big.NewFloat(1), n) // 2ⁿ
+			two.Sub(two, big.NewFloat(2))
+			f.Mul(f, two)
+			want, _ := f.Float64()
+			if n > 40 && (math.IsInf(want, 0) || want == 0) {
+				continue // beyond float64 for the steepest set
+			}
+			require.False(t, math.IsInf(c[n], 0), "c_%d", n)
+			assert.InEpsilon(t, want, c[n], 1e-12, "De=%g a=%g: c_%d", De, a, n)
+		}
 	}
 }

@@ -1,17 +1,22 @@
 package models
 
-import "math"
+import (
+	"fmt"
+	"math"
+
+	"github.com/pairwell/pairwell/core"
+)
 
 // Derivatives of the built-in forms with respect to their parameters, the
 // optional fit.ParamGradient: ∂V(r[i])/∂pⱼ in dst[i·P+j], row-major, in the
 // order and default units of each form's parameters. They let a fit use an
 // analytic Jacobian instead of central differences. Each checks the domain
-// as Batch does.
+// as Taylor does.
 
 // gradCheck checks the lengths and the domain of every r (r > min).
 func gradCheck(key string, r, dst []float64, np int, min float64, domain func(float64) error) error {
 	if len(dst) != len(r)*np {
-		return lengthError(key, len(r)*np, len(dst))
+		return fmt.Errorf("%s: %w: %d separations need %d gradient values, dst has %d", key, core.ErrLength, len(r), len(r)*np, len(dst))
 	}
 	for i, x := range r {
 		if !(x > min && x <= math.MaxFloat64) {
@@ -31,7 +36,7 @@ func (p *MorsePotential) ParamGradient(r, dst []float64) error {
 	}
 	for i, x := range r {
 		y := exp(p.a * (p.re - x))
-		t := p.twoDe * (y - 1) * y
+		t := 2 * p.de * (y - 1) * y
 		g := dst[3*i : 3*i+3]
 		g[0] = y*y - 2*y
 		g[1] = -t * (x - p.re)

@@ -25,8 +25,8 @@
 //
 // Each parameter set is validated once, by the plugin (Model.New → Open),
 // which keeps the potential under a handle; evaluations then carry only
-// the handle and the data. Potential.Batch sends up to 65536 points per
-// round trip, Potential.Derivatives one round trip for all orders up to n.
+// the handle and the data. Potential.Taylor sends one round trip for all
+// orders 0…n at up to 2¹⁸/(n+1) points (longer batches are split).
 // Plugins built with package sdk also serve a direct evaluation channel (a
 // Unix socket with a fixed binary framing, see DescribeResponse.fast_path
 // in proto/pairwell.proto), which pairwell then uses for evaluations

@@ -12,6 +12,7 @@ import (
 	"os"
 	"os/exec"
 	"path/filepath"
+	"regexp"
 	"strconv"
 	"strings"
 	"sync"
@@ -21,6 +22,7 @@ import (
 	hclog "github.com/hashicorp/go-hclog"
 	plugin "github.com/hashicorp/go-plugin"
 	"github.com/hashicorp/go-plugin/runner"
+	"google.golang.org/grpc"
 	"google.golang.org/grpc/codes"
 	"google.golang.org/grpc/status"
 
@@ -81,7 +83,16 @@ type Options struct {
 	// Stderr, when not nil, receives the plugin's standard error as it
 	// comes. Either way its last lines are quoted in error messages.
 	Stderr io.Writer
+
+	// MaxReply bounds the size in bytes of one gRPC reply of the plugin
+	// (the direct channel has its own bound); a larger reply fails the
+	// call with ErrBadOutput. Zero means DefaultMaxReply.
+	MaxReply int
 }
+
+// DefaultMaxReply is the default of Options.MaxReply: 64 MiB, 8 Mi values,
+// a hundred times the largest batch pairwell asks for.
+const DefaultMaxReply = 64 << 20
 
 // Plugin is a running plugin. Its models are ready to register; they and
 // the potentials they build are safe for concurrent use and work until the
@@ -125,6 +136,10 @@ func Load(ctx context.Context, path string, opts Options) (*Plugin, error) {
 	if timeout <= 0 {
 		timeout = DefaultTimeout
 	}
+	maxReply := opts.MaxReply
+	if maxReply <= 0 {
+		maxReply = DefaultMaxReply
+	}
 	sweepSocketDirs()
 	dir, err := os.MkdirTemp("", socketDirPrefix())
 	if err != nil {
@@ -137,6 +152,7 @@ func Load(ctx context.Context, path string, opts Options) (*Plugin, error) {
 	p.ctx, p.cancel = context.WithCancel(context.Background())
 	p.client = plugin.NewClient(&plugin.ClientConfig{
 		UnixSocketConfig: &plugin.UnixSocketConfig{TempDir: dir},
+		GRPCDialOptions:  []grpc.DialOption{grpc.WithDefaultCallOptions(grpc.MaxCallRecvMsgSize(maxReply))},
 		HandshakeConfig:  wire.Handshake(wire.ProtocolVersion),
 		Plugins:          plugin.PluginSet{wire.PluginName: &wire.GRPCPlugin{}},
 		AllowedProtocols: []plugin.Protocol{plugin.ProtocolGRPC},
@@ -260,6 +276,10 @@ func (p *Plugin) start(ctx context.Context) error {
 		if errors.Is(err, fs.ErrPermission) || errors.Is(err, fs.ErrNotExist) {
 			return fmt.Errorf("plugin %s: %w", p.path, err)
 		}
+		if m := otherVersion.FindStringSubmatch(err.Error()); m != nil {
+			return fmt.Errorf("plugin %s: %w: built for protocol %s, this pairwell speaks %d: rebuild it against this version",
+				p.path, ErrHandshake, m[1], wire.ProtocolVersion)
+		}
 		return fmt.Errorf("plugin %s: %w: %s%s", p.path, ErrHandshake, oneLine(err.Error()), p.stderr.quote())
 	}
 	raw, err := rpc.Dispense(wire.PluginName)
@@ -303,15 +323,14 @@ func (p *Plugin) start(ctx context.Context) error {
 		}
 		keys[info.Key] = true
 		info.Origin, info.Version = p.path, p.version
-		m := &model{p: p, info: info}
-		if pm.GetMatcher() {
-			p.models = append(p.models, matchingModel{m})
-		} else {
-			p.models = append(p.models, m)
-		}
+		p.models = append(p.models, &model{p: p, info: info, matcher: pm.GetMatcher()})
 	}
 	return nil
 }
+
+// otherVersion matches go-plugin's error for a plugin that answered the
+// handshake with another application protocol version.
+var otherVersion = regexp.MustCompile(`incompatible API version with plugin\. Plugin version: (\d+)`)
 
 // oneLine joins the lines of a multi-line message with "; " (go-plugin's
 // start errors are several sentences on separate lines), dropping empty
@@ -478,6 +497,9 @@ func (p *Plugin) failed(what string, err error, timedOut bool) error {
 			p.kill(e)
 			return e
 		}
+	}
+	if status.Code(err) == codes.ResourceExhausted {
+		return fmt.Errorf("plugin %s: %s: %w: %v", p.path, what, ErrBadOutput, status.Convert(err).Message())
 	}
 	if errors.Is(err, wire.ErrFastProtocol) {
 		return fmt.Errorf("plugin %s: %s: %w: %v", p.path, what, ErrBadOutput, err)

@@ -13,7 +13,7 @@ import (
 var bin struct {
 	rydberg, mie string
 	test         string // testdata/testplugin: plugin-morse and the faulty models
-	badproto     string // testplugin under a name that makes it speak protocol 2
+	oldproto     string // testplugin under a name that makes it speak protocol 1
 	grpconly     string // testplugin without the direct evaluation channel
 	holdpipes    string // testplugin with a child holding its pipes
 	setsid       string // testplugin with such a child in its own session
@@ -45,13 +45,13 @@ func testMain(m *testing.M) int {
 	bin.rydberg = filepath.Join(dir, "rydberg")
 	bin.mie = filepath.Join(dir, "mie")
 	bin.test = filepath.Join(dir, "testplugin")
-	bin.badproto = filepath.Join(dir, "badproto")
+	bin.oldproto = filepath.Join(dir, "oldproto")
 	bin.grpconly = filepath.Join(dir, "grpconly")
 	bin.holdpipes = filepath.Join(dir, "holdpipes")
 	bin.setsid = filepath.Join(dir, "setsid")
 	bin.nosdk = filepath.Join(dir, "nosdk")
 	bin.dir = dir
-	for _, link := range []string{bin.badproto, bin.grpconly, bin.holdpipes, bin.setsid} {
+	for _, link := range []string{bin.oldproto, bin.grpconly, bin.holdpipes, bin.setsid} {
 		if err := os.Symlink(bin.test, link); err != nil {
 			fmt.Fprintln(os.Stderr, err)
 			return 1

@@ -8,19 +8,24 @@ import (
 	"runtime"
 	"time"
 
+	"github.com/pairwell/pairwell/conformance"
 	"github.com/pairwell/pairwell/core"
 	"github.com/pairwell/pairwell/plugins/internal/wire"
 	pb "github.com/pairwell/pairwell/plugins/proto"
 )
 
-// maxBatch is the largest number of values one Evaluate call carries
-// (512 KiB of float64 each way); longer batches are split.
-const maxBatch = 1 << 16
+// maxValues is the largest number of coefficients one Evaluate call
+// returns (2 MiB of float64, within gRPC's default message size); longer
+// batches are split into calls of maxValues/(n+1) points.
+const maxValues = 1 << 18
 
-// model is a form served by a plugin.
+// model is a form served by a plugin. It always implements core.Matcher:
+// for a model the plugin does not match, Match reports core.ErrUnsupported
+// without a round trip.
 type model struct {
-	p    *Plugin
-	info core.ModelInfo
+	p       *Plugin
+	info    core.ModelInfo
+	matcher bool // the plugin answers Match for this model
 }
 
 // Info returns the metadata the plugin described, with Origin the plugin's
@@ -69,31 +74,19 @@ func (m *model) New(params []float64) (core.Potential, error) {
 		}
 		pot.ids = append(pot.ids, id)
 	}
-	g, hasGuess := resp.GetEquilibriumGuess(), resp.EquilibriumGuess != nil
-	b := resp.GetBarrier()
-	if d.Barrier && b == nil {
-		return nil, bad("the domain has an inner barrier but its position was not given")
-	}
 	// Release the handle in the plugin when the potential is garbage.
 	runtime.AddCleanup(pot, func(h uint64) { go p.release(h) }, pot.handle)
-
-	switch {
-	case hasGuess && d.Barrier:
-		return guessTurnoverPotential{pot, g, b.GetR(), b.GetV()}, nil
-	case hasGuess:
-		return guessPotential{pot, g}, nil
-	case d.Barrier:
-		return turnoverPotential{pot, b.GetR(), b.GetV()}, nil
-	}
 	return pot, nil
 }
 
-// matchingModel is a model whose plugin answers Match.
-type matchingModel struct{ *model }
-
-// Match has the plugin derive a parameter set from a target well.
-func (m matchingModel) Match(t core.Target) ([]float64, []string, error) {
+// Match has the plugin derive a parameter set from a target well; for a
+// model the plugin does not match it returns an error wrapping
+// core.ErrUnsupported.
+func (m *model) Match(t core.Target) ([]float64, []string, error) {
 	p, key := m.p, m.info.Key
+	if !m.matcher {
+		return nil, nil, fmt.Errorf("%s: matching a target well: %w (plugin %s)", key, core.ErrUnsupported, p.path)
+	}
 	what := "Match " + key
 	var resp *pb.MatchResponse
 	if err := p.call(what, func(ctx context.Context) (err error) {
@@ -133,41 +126,42 @@ func (p *Plugin) release(h uint64) {
 	_, _ = p.forms.Close(ctx, &pb.CloseRequest{Handle: h})
 }
 
-// potential evaluates through a plugin handle. Optional interfaces are
-// added by the wrapper types below, so that a potential implements
-// core.Guesser or core.Turnover only when the plugin's does.
+// potential evaluates through a plugin handle. Everything the contract
+// carries travels with it: the domain holds the barrier and the
+// equilibrium guess, and the identities the plugin declared are served as
+// a conformance.Identifier.
 type potential struct {
 	p        *Plugin
 	key      string
 	handle   uint64
 	domain   core.Domain
 	maxOrder int
-	ids      []core.Identity
+	ids      []conformance.Identity
 }
 
 // Domain returns the domain the plugin reported for the parameter set.
 func (pt *potential) Domain() core.Domain { return pt.domain }
 
-// MaxOrder returns the model's highest analytic derivative order.
+// MaxOrder returns the model's highest analytic Taylor order.
 func (pt *potential) MaxOrder() int { return pt.maxOrder }
 
 // Identities returns the reference identities the plugin declared.
-func (pt *potential) Identities() []core.Identity {
-	return append([]core.Identity(nil), pt.ids...)
+func (pt *potential) Identities() []conformance.Identity {
+	return append([]conformance.Identity(nil), pt.ids...)
 }
 
-// eval runs one evaluation of r, at order n or (allOrders) at every order
-// up to n, storing the values in dst, whose length is the number due. It
-// returns a failure the plugin reported, or an error naming the plugin and
-// the call. what describes the call; it is formatted only for errors.
-func (pt *potential) eval(what func() string, n int, allOrders bool, r, dst []float64) (*pb.PointFailure, *pb.Failure, error) {
+// eval runs one evaluation of order n at r, storing the (n+1)·len(r)
+// coefficients in dst. It returns a failure the plugin reported, or an
+// error naming the plugin and the call. what describes the call; it is
+// formatted only for errors.
+func (pt *potential) eval(what func() string, n int, r, dst []float64) (*pb.PointFailure, *pb.Failure, error) {
 	defer runtime.KeepAlive(pt) // the handle must outlive the call
 	p := pt.p
 	if fc := p.fast; fc != nil {
 		if err := p.deadErr(); err != nil {
 			return nil, nil, fmt.Errorf("%s: %w", what(), err)
 		}
-		pf, f, err := fc.Evaluate(p.timeout, pt.handle, n, allOrders, r, dst)
+		pf, f, err := fc.Evaluate(p.timeout, pt.handle, n, r, dst)
 		switch {
 		case errors.Is(err, wire.ErrBadCount):
 			return nil, nil, fmt.Errorf("plugin %s: %s: %w: %v", p.path, what(), ErrBadOutput, err)
@@ -179,7 +173,7 @@ func (pt *potential) eval(what func() string, n int, allOrders bool, r, dst []fl
 	var resp *pb.EvaluateResponse
 	w := what()
 	err := p.call(w, func(ctx context.Context) (err error) {
-		resp, err = p.forms.Evaluate(ctx, &pb.EvaluateRequest{Handle: pt.handle, Order: int32(n), R: r, AllOrders: allOrders})
+		resp, err = p.forms.Evaluate(ctx, &pb.EvaluateRequest{Handle: pt.handle, Order: int32(n), R: r})
 		return err
 	})
 	if err != nil {
@@ -195,48 +189,25 @@ func (pt *potential) eval(what func() string, n int, allOrders bool, r, dst []fl
 	return nil, nil, nil
 }
 
-// Derivatives stores V⁽ᵏ⁾(r) in dst[k] for k = 0, …, len(dst)−1, in one
-// round trip.
-func (pt *potential) Derivatives(r float64, dst []float64) error {
-	if len(dst) == 0 {
-		return nil
-	}
-	n := len(dst) - 1
-	if err := core.CheckOrder(n, pt.maxOrder); err != nil {
+// Taylor stores c_k(r[i]) = V⁽ᵏ⁾(r[i])/k! at dst[i·(n+1)+k], in one round
+// trip per maxValues/(n+1) points. A value that is not finite is an error
+// wrapping ErrBadOutput at its point.
+func (pt *potential) Taylor(n int, r, dst []float64) error {
+	if err := core.CheckTaylor(n, pt.maxOrder, len(r), len(dst)); err != nil {
 		return fmt.Errorf("%s: %w", pt.key, err)
 	}
-	what := func() string { return fmt.Sprintf("Evaluate %s V⁽⁰…%d⁾ at r = %g Å", pt.key, n, r) }
-	rr := [1]float64{r}
-	pf, f, err := pt.eval(what, n, true, rr[:], dst)
-	switch {
-	case err != nil:
-		return err
-	case f != nil:
-		return remote(pt.p, f)
-	case pf != nil:
-		return remote(pt.p, pf.GetFailure())
-	}
-	for k, v := range dst {
-		if v-v != 0 {
-			return fmt.Errorf("plugin %s: %s: %w: V⁽%d⁾ is %g", pt.p.path, what(), ErrBadOutput, k, v)
+	w := n + 1
+	step := max(1, maxValues/w)
+	for off := 0; off < len(r); off += step {
+		chunk := r[off:min(off+step, len(r))]
+		out := dst[off*w : (off+len(chunk))*w]
+		what := func() string {
+			if len(chunk) == 1 {
+				return fmt.Sprintf("Evaluate %s c₀…c_%d at r = %g Å", pt.key, n, chunk[0])
+			}
+			return fmt.Sprintf("Evaluate %s c₀…c_%d at %d points", pt.key, n, len(chunk))
 		}
-	}
-	return nil
-}
-
-// Batch stores V⁽ⁿ⁾(r[i]) in dst[i], in one round trip per 65536 points.
-func (pt *potential) Batch(n int, r, dst []float64) error {
-	if len(r) != len(dst) {
-		return fmt.Errorf("%s: %w: len(r) = %d, len(dst) = %d", pt.key, core.ErrLength, len(r), len(dst))
-	}
-	if err := core.CheckOrder(n, pt.maxOrder); err != nil {
-		return fmt.Errorf("%s: %w", pt.key, err)
-	}
-	for off := 0; off < len(r); off += maxBatch {
-		chunk := r[off:min(off+maxBatch, len(r))]
-		out := dst[off : off+len(chunk)]
-		what := func() string { return fmt.Sprintf("Evaluate %s V⁽%d⁾ at %d points", pt.key, n, len(chunk)) }
-		pf, f, err := pt.eval(what, n, false, chunk, out)
+		pf, f, err := pt.eval(what, n, chunk, out)
 		switch {
 		case err != nil:
 			return err
@@ -254,39 +225,14 @@ func (pt *potential) Batch(n int, r, dst []float64) error {
 			bad += v - v
 		}
 		if bad != 0 { // NaN unless every value is finite
-			for i, v := range out {
+			for j, v := range out {
 				if v-v != 0 {
-					return &core.PointError{Index: off + i, R: chunk[i], Err: fmt.Errorf("plugin %s: %s: %w: V⁽%d⁾ is %g", pt.p.path, what(), ErrBadOutput, n, v)}
+					i, k := j/w, j%w
+					return &core.PointError{Index: off + i, R: chunk[i], Err: fmt.Errorf("plugin %s: %s: %w: c_%d = V⁽%d⁾/%d! is %g",
+						pt.p.path, what(), ErrBadOutput, k, k, k, v)}
 				}
 			}
 		}
 	}
 	return nil
 }
-
-type guessPotential struct {
-	*potential
-	guess float64
-}
-
-// EquilibriumGuess returns the plugin's estimate of the minimum, Å.
-func (g guessPotential) EquilibriumGuess() float64 { return g.guess }
-
-type turnoverPotential struct {
-	*potential
-	r, v float64
-}
-
-// Barrier returns the inner maximum the plugin reported.
-func (t turnoverPotential) Barrier() (r, v float64) { return t.r, t.v }
-
-type guessTurnoverPotential struct {
-	*potential
-	guess, r, v float64
-}
-
-// EquilibriumGuess returns the plugin's estimate of the minimum, Å.
-func (g guessTurnoverPotential) EquilibriumGuess() float64 { return g.guess }
-
-// Barrier returns the inner maximum the plugin reported.
-func (g guessTurnoverPotential) Barrier() (r, v float64) { return g.r, g.v }

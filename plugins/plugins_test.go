@@ -18,7 +18,9 @@ import (
 	"github.com/stretchr/testify/assert"
 	"github.com/stretchr/testify/require"
 
+	"github.com/pairwell/pairwell/conformance"
 	"github.com/pairwell/pairwell/core"
+	"github.com/pairwell/pairwell/core/coretest"
 	"github.com/pairwell/pairwell/core/units"
 	"github.com/pairwell/pairwell/models"
 	"github.com/pairwell/pairwell/plugins"
@@ -76,14 +78,16 @@ func TestLoadDescribesModels(t *testing.T) {
 	assert.Equal(t, core.Param{Name: "De", Dimension: units.Energy, Constraint: core.Positive, Meaning: "well depth V(∞) − V(re)"}, info.Params[0])
 	assert.Equal(t, units.InverseLength, info.Params[1].Dimension)
 	assert.Equal(t, units.Length, info.Params[2].Dimension)
-	_, isMatcher := p.Models()[0].(core.Matcher)
-	assert.True(t, isMatcher)
+	_, _, err := core.Match(p.Models()[0], core.Target{Re: 1.2, Depth: 4, K: 30})
+	assert.NoError(t, err)
 
 	mie := load(t, bin.mie, plugins.Options{})
 	m := mie.Models()[0]
 	assert.Equal(t, units.Dimensionless, m.Info().Params[2].Dimension)
-	_, isMatcher = m.(core.Matcher)
-	assert.False(t, isMatcher, "mie does not match target wells")
+	// Every plugin model is a core.Matcher (one adapter type); mie does
+	// not match target wells, which Match reports without a round trip.
+	_, _, err = core.Match(m, core.Target{Re: 1.2, Depth: 4, K: 30})
+	assert.ErrorIs(t, err, core.ErrUnsupported, "mie does not match target wells")
 
 	pid := p.Pid()
 	require.True(t, alive(pid))
@@ -107,25 +111,23 @@ func TestRydbergEndToEnd(t *testing.T) {
 		{Name: "De", Value: "4.6"}, {Name: "a", Value: "2.5"}, {Name: "re", Value: "1.27"}}})
 	require.NoError(t, err)
 	pot := inst.Potential
-	_, ok := pot.(core.Guesser)
-	assert.True(t, ok, "the plugin's potential gives a guess")
-	_, ok = pot.(core.Turnover)
-	assert.False(t, ok)
+	assert.Equal(t, re, pot.Domain().EquilibriumGuess, "the plugin's potential gives a guess")
+	assert.False(t, pot.Domain().Barrier)
 
-	// Batch and Derivatives against the closed form, every order to 8.
+	// The coefficients against the closed form, every order to 8.
 	rs := []float64{0.5, 0.9, 1.2, 1.27, 1.4, 2, 3.5, 8}
 	for n := 0; n <= 8; n++ {
 		got := make([]float64, len(rs))
-		require.NoError(t, pot.Batch(n, rs, got))
+		require.NoError(t, coretest.Batch(pot, n, rs, got))
 		for i, r := range rs {
 			want := rydbergDerivative(De, a, re, n, r)
 			assert.InDelta(t, want, got[i], 1e-13*math.Max(1, math.Abs(want)), "V⁽%d⁾(%g)", n, r)
 		}
 	}
-	// Derivatives gives the same bits as Batch, in one call.
+	// A single-point call gives the same bits as the batch.
 	for _, r := range rs {
 		d := make([]float64, 9)
-		require.NoError(t, pot.Derivatives(r, d))
+		require.NoError(t, coretest.Derivatives(pot, r, d))
 		for n := range d {
 			b, err := core.Derivative(pot, n, r)
 			require.NoError(t, err)
@@ -143,9 +145,9 @@ func TestRydbergEndToEnd(t *testing.T) {
 	assert.InDelta(t, -2*De*a*a*a/6, w.Taylor[3], 1e-9)
 
 	// The identities travel through the protocol.
-	ids := pot.(core.Identifier).Identities()
+	ids := pot.(conformance.Identifier).Identities()
 	require.Len(t, ids, 5)
-	assert.Equal(t, core.DerivativeAtMinimum, ids[2].Quantity)
+	assert.Equal(t, conformance.DerivativeAtMinimum, ids[2].Quantity)
 	assert.Equal(t, 2, ids[2].Order)
 	assert.InDelta(t, De*a*a, ids[2].Value, 1e-12)
 	assert.Contains(t, ids[2].Source, "Rydberg")
@@ -179,8 +181,8 @@ func TestMorsePluginMatchesBuiltin(t *testing.T) {
 			}
 			for n := 0; n <= 10; n++ {
 				got, want := make([]float64, len(rs)), make([]float64, len(rs))
-				require.NoError(t, pot.Batch(n, rs, got))
-				require.NoError(t, builtin.Batch(n, rs, want))
+				require.NoError(t, coretest.Batch(pot, n, rs, got))
+				require.NoError(t, coretest.Batch(builtin, n, rs, want))
 				for i, r := range rs {
 					y := math.Exp(-a * (r - re))
 					scale := De * (math.Pow(2*a, float64(n))*y*y + 2*math.Pow(a, float64(n))*y)
@@ -213,21 +215,21 @@ func TestMieIsLennardJones(t *testing.T) {
 	rs := []float64{3, 3.4, 3.8, 4.5, 6, 10}
 	for n := 0; n <= 6; n++ {
 		got, want := make([]float64, len(rs)), make([]float64, len(rs))
-		require.NoError(t, pot.Batch(n, rs, got))
-		require.NoError(t, lj.Batch(n, rs, want))
+		require.NoError(t, coretest.Batch(pot, n, rs, got))
+		require.NoError(t, coretest.Batch(lj, n, rs, want))
 		for i, r := range rs {
 			scale := 4 * eps * (math.Pow(sigma/r, 12) + math.Pow(sigma/r, 6)) * math.Pow(18/r, float64(n))
 			assert.InDelta(t, want[i], got[i], 1e-13*scale, "V⁽%d⁾(%g)", n, r)
 		}
 	}
 	rmin := sigma * math.Pow(2, 1.0/6)
-	for _, id := range pot.(core.Identifier).Identities() {
+	for _, id := range pot.(conformance.Identifier).Identities() {
 		switch id.Quantity {
-		case core.EquilibriumR:
+		case conformance.EquilibriumR:
 			assert.InDelta(t, rmin, id.Value, 1e-14*rmin)
-		case core.DerivativeAtMinimum:
+		case conformance.DerivativeAtMinimum:
 			assert.InDelta(t, 72*eps/(rmin*rmin), id.Value, 1e-15)
-		case core.ValueAt:
+		case conformance.ValueAt:
 			assert.Equal(t, sigma, id.R)
 		}
 	}
@@ -247,37 +249,37 @@ func TestErrorsClassified(t *testing.T) {
 	pot, err := m.New([]float64{4.6, 2.5, 1.27})
 	require.NoError(t, err)
 	var pe *core.PointError
-	err = pot.Batch(1, []float64{1, 2, -1}, make([]float64, 3))
+	err = coretest.Batch(pot, 1, []float64{1, 2, -1}, make([]float64, 3))
 	require.ErrorAs(t, err, &pe)
 	assert.Equal(t, 2, pe.Index)
 	assert.Equal(t, -1.0, pe.R)
 	assert.ErrorIs(t, err, core.ErrDomain)
-	err = pot.Derivatives(math.NaN(), make([]float64, 2))
+	err = coretest.Derivatives(pot, math.NaN(), make([]float64, 2))
 	assert.ErrorIs(t, err, core.ErrDomain)
-	assert.ErrorIs(t, pot.Batch(101, []float64{1}, make([]float64, 1)), core.ErrOrder)
-	assert.ErrorIs(t, pot.Derivatives(1, make([]float64, 102)), core.ErrOrder)
-	assert.ErrorIs(t, pot.Batch(0, []float64{1}, nil), core.ErrLength)
-	assert.NoError(t, pot.Batch(0, nil, nil))
-	assert.NoError(t, pot.Derivatives(1, nil))
+	assert.ErrorIs(t, pot.Taylor(101, []float64{1}, make([]float64, 102)), core.ErrOrder)
+	assert.ErrorIs(t, pot.Taylor(-1, []float64{1}, nil), core.ErrOrder)
+	assert.ErrorIs(t, pot.Taylor(0, []float64{1}, nil), core.ErrLength)
+	assert.ErrorIs(t, pot.Taylor(2, []float64{1}, make([]float64, 2)), core.ErrLength)
+	assert.NoError(t, pot.Taylor(0, nil, nil))
 }
 
 func TestLongBatchIsSplit(t *testing.T) {
 	p := load(t, bin.rydberg, plugins.Options{})
 	pot, err := p.Models()[0].New([]float64{4.6, 2.5, 1.27})
 	require.NoError(t, err)
-	const n = 150_000 // three calls
+	const n = 150_000 // two calls of maxValues/3 = 87381 points at order 2
 	rs := make([]float64, n)
 	for i := range rs {
 		rs[i] = 0.5 + 4*float64(i)/n
 	}
 	got := make([]float64, n)
-	require.NoError(t, pot.Batch(2, rs, got))
+	require.NoError(t, coretest.Batch(pot, 2, rs, got))
 	for _, i := range []int{0, 65535, 65536, 131072, n - 1} {
 		assert.InDelta(t, rydbergDerivative(4.6, 2.5, 1.27, 2, rs[i]), got[i], 1e-12, "point %d", i)
 	}
 	rs[140_000] = -1
 	var pe *core.PointError
-	require.ErrorAs(t, pot.Batch(2, rs, got), &pe)
+	require.ErrorAs(t, coretest.Batch(pot, 2, rs, got), &pe)
 	assert.Equal(t, 140_000, pe.Index, "index into the whole batch")
 }
 
@@ -294,7 +296,7 @@ func TestConcurrentUse(t *testing.T) {
 			r := 1 + 0.1*float64(g)
 			for i := 0; i < 20; i++ {
 				d := make([]float64, 3)
-				if err := pot.Derivatives(r, d); err != nil {
+				if err := coretest.Derivatives(pot, r, d); err != nil {
 					errs <- err
 					return
 				}
@@ -319,7 +321,7 @@ func TestCrashMidCall(t *testing.T) {
 			pid := p.Pid()
 			pot, err := model(t, p, "crashing-morse").New([]float64{1, 1, 1})
 			require.NoError(t, err, "Open works; evaluations crash")
-			err = pot.Batch(0, []float64{1, 2}, make([]float64, 2))
+			err = coretest.Batch(pot, 0, []float64{1, 2}, make([]float64, 2))
 			require.ErrorIs(t, err, plugins.ErrCrashed)
 			msg := err.Error()
 			assert.Contains(t, msg, tp.path, "names the plugin")
@@ -343,14 +345,14 @@ func TestHangTimesOut(t *testing.T) {
 			pot, err := model(t, p, "hanging-morse").New([]float64{1, 1, 1})
 			require.NoError(t, err)
 			start := time.Now()
-			err = pot.Derivatives(1, make([]float64, 3))
+			err = coretest.Derivatives(pot, 1, make([]float64, 3))
 			require.ErrorIs(t, err, plugins.ErrTimeout)
 			assert.Less(t, time.Since(start), 2*time.Second)
 			assert.Contains(t, err.Error(), tp.path)
 			assert.Contains(t, err.Error(), "Evaluate hanging-morse")
 			assert.Contains(t, err.Error(), "300ms")
 			requireGone(t, pid)
-			assert.ErrorIs(t, pot.Batch(0, []float64{1}, make([]float64, 1)), plugins.ErrTimeout)
+			assert.ErrorIs(t, coretest.Batch(pot, 0, []float64{1}, make([]float64, 1)), plugins.ErrTimeout)
 		})
 	}
 }
@@ -362,30 +364,30 @@ func TestBadOutput(t *testing.T) {
 
 			pot, err := model(t, p, "badlen-morse").New([]float64{1, 1, 1})
 			require.NoError(t, err)
-			err = pot.Batch(2, []float64{1, 2, 3}, make([]float64, 3))
+			err = coretest.Batch(pot, 2, []float64{1, 2, 3}, make([]float64, 3))
 			require.ErrorIs(t, err, plugins.ErrBadOutput)
-			assert.Contains(t, err.Error(), "2 values, want 3")
-			assert.ErrorIs(t, pot.Derivatives(1, make([]float64, 3)), plugins.ErrBadOutput)
+			assert.Contains(t, err.Error(), "8 values, want 9")
+			assert.ErrorIs(t, coretest.Derivatives(pot, 1, make([]float64, 3)), plugins.ErrBadOutput)
 
 			pot, err = model(t, p, "nan-morse").New([]float64{1, 1, 1})
 			require.NoError(t, err)
 			var pe *core.PointError
-			err = pot.Batch(2, []float64{1, 2}, make([]float64, 2))
+			err = coretest.Batch(pot, 2, []float64{1, 2}, make([]float64, 2))
 			require.ErrorAs(t, err, &pe)
 			assert.Equal(t, 0, pe.Index)
 			assert.ErrorIs(t, err, plugins.ErrBadOutput)
 			assert.NotErrorIs(t, err, core.ErrDomain, "a broken plugin is not bad input")
 			assert.Contains(t, err.Error(), "NaN")
-			err = pot.Derivatives(1, make([]float64, 3))
+			err = coretest.Derivatives(pot, 1, make([]float64, 3))
 			assert.ErrorIs(t, err, plugins.ErrBadOutput)
-			assert.Contains(t, err.Error(), "V⁽2⁾ is NaN")
+			assert.Contains(t, err.Error(), "c_2 = V⁽2⁾/2! is NaN")
 			_, err = core.AnalyzeWell(pot, core.WellSettings{})
 			assert.ErrorIs(t, err, plugins.ErrBadOutput)
 
 			// A panic is reported as a failure of the call; the plugin lives on.
 			pot, err = model(t, p, "panicking-morse").New([]float64{1, 1, 1})
 			require.NoError(t, err)
-			err = pot.Batch(0, []float64{1}, make([]float64, 1))
+			err = coretest.Batch(pot, 0, []float64{1}, make([]float64, 1))
 			require.Error(t, err)
 			assert.Contains(t, err.Error(), "plugin panicked in Evaluate: panic test plugin")
 			pot, err = model(t, p, "plugin-morse").New([]float64{1, 1, 1})
@@ -398,10 +400,10 @@ func TestBadOutput(t *testing.T) {
 }
 
 func TestHandshakeFailures(t *testing.T) {
-	_, err := plugins.Load(context.Background(), bin.badproto, plugins.Options{})
+	// A plugin built for protocol 1 is refused with one line saying so.
+	_, err := plugins.Load(context.Background(), bin.oldproto, plugins.Options{})
 	require.ErrorIs(t, err, plugins.ErrHandshake)
-	assert.Contains(t, err.Error(), bin.badproto)
-	assert.Contains(t, err.Error(), "Plugin version: 2")
+	assert.Equal(t, "plugin "+bin.oldproto+": plugin handshake failed: built for protocol 1, this pairwell speaks 2: rebuild it against this version", err.Error())
 
 	dir := t.TempDir()
 	notPlugin := filepath.Join(dir, "pairwell-plugin-echo")
@@ -472,15 +474,16 @@ func TestClosedPlugin(t *testing.T) {
 	pot, err := p.Models()[0].New([]float64{4.6, 2.5, 1.27})
 	require.NoError(t, err)
 	require.NoError(t, p.Close())
-	assert.ErrorIs(t, pot.Batch(0, []float64{1}, make([]float64, 1)), plugins.ErrClosed)
+	assert.ErrorIs(t, coretest.Batch(pot, 0, []float64{1}, make([]float64, 1)), plugins.ErrClosed)
 	_, err = p.Models()[0].New([]float64{4.6, 2.5, 1.27})
 	assert.ErrorIs(t, err, plugins.ErrClosed)
 }
 
-// TestTurnoverTravels checks that a form with an inner barrier (Buckingham,
-// served by the test plugin) keeps its domain, barrier, guess and
-// identities through the protocol.
-func TestTurnoverTravels(t *testing.T) {
+// TestBarrierTravels checks that a form with an inner barrier (Buckingham,
+// served by the test plugin) keeps its domain — barrier position and
+// energy, equilibrium guess — and its identities through the protocol,
+// and that the model's Match is forwarded by the plugin's wrapper.
+func TestBarrierTravels(t *testing.T) {
 	params := []float64{1500, 0.3, 25} // A (eV), rho (Å), C (eV·Å⁶): invented
 	p := load(t, bin.test, plugins.Options{})
 	pot, err := model(t, p, "plugin-buckingham").New(params)
@@ -489,18 +492,16 @@ func TestTurnoverTravels(t *testing.T) {
 	require.NoError(t, err)
 	assert.Equal(t, want.Domain(), pot.Domain())
 	require.True(t, pot.Domain().Barrier)
-	tp, ok := pot.(core.Turnover)
-	require.True(t, ok)
-	r, v := tp.Barrier()
-	wr, wv := want.(core.Turnover).Barrier()
-	assert.Equal(t, wr, r)
-	assert.Equal(t, wv, v)
-	g, ok := pot.(core.Guesser)
-	require.True(t, ok)
-	assert.Equal(t, want.(core.Guesser).EquilibriumGuess(), g.EquilibriumGuess())
-	assert.Equal(t, want.(core.Identifier).Identities(), pot.(core.Identifier).Identities())
+	r := pot.Domain().Min
+	assert.Equal(t, want.(conformance.Identifier).Identities(), pot.(conformance.Identifier).Identities())
+	tg := core.Target{Re: 3, Depth: 0.5, K: 4}
+	wantParams, _, err := core.Match(models.Buckingham{}, tg)
+	require.NoError(t, err)
+	gotParams, _, err := core.Match(model(t, p, "plugin-buckingham"), tg)
+	require.NoError(t, err)
+	assert.Equal(t, wantParams, gotParams)
 	var pe *core.PointError
-	require.ErrorAs(t, pot.Batch(0, []float64{2, r / 2}, make([]float64, 2)), &pe)
+	require.ErrorAs(t, coretest.Batch(pot, 0, []float64{2, r / 2}, make([]float64, 2)), &pe)
 	assert.Equal(t, 1, pe.Index)
 	assert.ErrorIs(t, pe, core.ErrDomain, "below the barrier")
 }

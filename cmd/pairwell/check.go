@@ -32,8 +32,8 @@ tolerance:
                  against |V⁽ⁿ⁾| + |V⁽ⁿ⁻¹⁾|/r. A failure names the order and the r
                  and says whether V⁽ⁿ⁾ or V⁽ⁿ⁻¹⁾ is at fault
   batch, determinism, concurrency
-                 Batch, Derivatives, repeated and concurrent evaluations give the
-                 same bits
+                 single-point, batched, lower-order, repeated and concurrent
+                 Taylor calls give the same bits
   equilibrium    V′(re) = 0 (|V′|/(V″·re) ≤ 1e-10) and V″(re) > 0 at the minimum
   identity       each identity the form declares, relative error ≤ 1e-9
   invalid-params wrong counts, NaN, ±Inf and broken constraints are rejected
@@ -62,8 +62,8 @@ Exit status: 0 every check passed, 1 a check failed, 2 bad input.`,
 			if setPath != "" && len(args) > 0 {
 				return usageErr(errors.New("give SPEC arguments or --set FILE, not both"))
 			}
-			if points != 0 && points < 8 {
-				return usageErr(fmt.Errorf("--points %d: must be at least 8 (default %d)", points, conformance.DefaultPoints))
+			if points != 0 && (points < 8 || points > conformance.MaxPoints) {
+				return usageErr(fmt.Errorf("--points %d: must be from 8 to %d (default %d)", points, conformance.MaxPoints, conformance.DefaultPoints))
 			}
 			if maxOrder < 0 {
 				return usageErr(fmt.Errorf("--max-order %d: must be at least 1 (default %d)", maxOrder, conformance.DefaultMaxOrder))

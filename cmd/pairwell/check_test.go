@@ -35,8 +35,8 @@ func runWithModel(t *testing.T, m core.Model, args ...string) (int, string, stri
 	return 0, stdout.String(), stderr.String()
 }
 
-// wrongThird is Morse with V‴ 1.5 times too large, in Derivatives and
-// Batch alike.
+// wrongThird is Morse with V‴ 1.5 times too large (c₃ in every Taylor
+// call).
 type wrongThird struct{ models.Morse }
 
 func (wrongThird) Info() core.ModelInfo {
@@ -52,19 +52,11 @@ func (m wrongThird) New(ps []float64) (core.Potential, error) {
 
 type thirdTimes struct{ core.Potential }
 
-func (p thirdTimes) Derivatives(r float64, dst []float64) error {
-	err := p.Potential.Derivatives(r, dst)
-	if len(dst) > 3 {
-		dst[3] *= 1.5
-	}
-	return err
-}
-
-func (p thirdTimes) Batch(n int, r, dst []float64) error {
-	err := p.Potential.Batch(n, r, dst)
-	if n == 3 {
-		for i := range dst {
-			dst[i] *= 1.5
+func (p thirdTimes) Taylor(n int, r, dst []float64) error {
+	err := p.Potential.Taylor(n, r, dst)
+	if n >= 3 {
+		for i := range r {
+			dst[i*(n+1)+3] *= 1.5
 		}
 	}
 	return err

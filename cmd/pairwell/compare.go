@@ -1,6 +1,7 @@
 package main
 
 import (
+	"errors"
 	"fmt"
 	"io"
 	"math"
@@ -162,19 +163,19 @@ func (e *env) compareInputs(specs []string, setPath, match string, m report.Mass
 	return inputs, nil
 }
 
-// matchAll matches every model of reg that implements core.Matcher to the
+// matchAll matches every model of reg that can match a target well
+// (core.Match, skipping those that report core.ErrUnsupported) to the
 // target t, in registry order. A model that cannot reach t gets an input
 // carrying the error.
 func matchAll(reg *core.Registry, t core.Target) []report.CompareInput {
 	var out []report.CompareInput
 	for _, model := range reg.Models() {
-		matcher, ok := model.(core.Matcher)
-		if !ok {
+		params, notes, err := core.Match(model, t)
+		if errors.Is(err, core.ErrUnsupported) {
 			continue
 		}
 		key := model.Info().Key
 		in := report.CompareInput{Model: key}
-		params, notes, err := matcher.Match(t)
 		in.Notes = notes
 		if err == nil {
 			var pot core.Potential

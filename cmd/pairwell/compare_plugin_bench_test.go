@@ -54,7 +54,7 @@ func TestComparePluginCalls(t *testing.T) {
 		require.NoError(t, r.Err, r.Name)
 	}
 	calls := cnt.Calls()
-	t.Logf("plugin form: %d Derivatives and %d Batch calls", cnt.Derivs.Load(), cnt.Batches.Load())
+	t.Logf("plugin form: %d single-point and %d batched Taylor calls", cnt.Singles.Load(), cnt.Batches.Load())
 	require.Less(t, calls, int64(250), "calls to the plugin for one compare row (over 6000 when the solves went point by point)")
 }
 

@@ -5,6 +5,7 @@ import (
 	"fmt"
 	"io"
 	"math"
+	"strconv"
 	"strings"
 
 	"github.com/spf13/cobra"
@@ -48,6 +49,7 @@ type demoReport struct {
 	Period         report.PeriodTable  `json:"period"`
 	Fit            *demoFit            `json:"fit"`
 	Temperature    *demoTemperature    `json:"temperature"`
+	Levels         *report.Levels      `json:"levels"`
 	Interpretation string              `json:"interpretation"`
 	Caution        string              `json:"caution"`
 }
@@ -84,7 +86,10 @@ k = %g eV/Å², μ = %g u — made-up numbers, not a real molecule):
  5. the thermal expansion of the bond (pairwell expansion: classical,
     cubic-term and quantum mean bond length), and B₂(T) of an INVENTED
     argon-like gas against INVENTED B₂ data (pairwell virial --data);
- 6. pictures of the Morse well and its Taylor truncations, of the period
+ 6. the quantum levels of the matched Morse well (pairwell levels): zero-point
+    energy, D0, fundamental, and where the classical harmonic range stands
+    against the zero-point energy;
+ 7. pictures of the Morse well and its Taylor truncations, of the period
     against amplitude, of the four forms, of the motion, of the fits, of the
     expansion and of B₂, written to the
     folder --out (default ./pairwell-demo/; --no-pictures for none).
@@ -92,7 +97,8 @@ k = %g eV/Å², μ = %g u — made-up numbers, not a real molecule):
 --format json emits one object with the keys scenario, compare, period, fit
 (invented, description, data, n_points, fits: the objects of pairwell fit),
 temperature (expansion: the object of pairwell expansion; gas: invented,
-description, virial: the object of pairwell virial), interpretation and
+description, virial: the object of pairwell virial), levels (the object of
+pairwell levels for the matched Morse form), interpretation and
 caution; the pictures are then listed on stderr.`, demoBond.target.Re, demoBond.target.Depth, demoBond.target.K, demoBond.mu),
 		Example: `  pairwell demo
   pairwell demo --out /tmp/pictures
@@ -150,6 +156,11 @@ func runDemo(e *env) (demoReport, error) {
 	if r.Temperature, err = demoTemperatureSection(e, src.Instance); err != nil {
 		return r, err
 	}
+	lv, err := report.NewLevels(src.Instance, report.Mass{Mu: demoBond.mu}, report.LevelsSettings{VMax: -1})
+	if err != nil {
+		return r, computeErr(err)
+	}
+	r.Levels = &lv
 	r.Interpretation = demoInterpretation(r)
 	return r, nil
 }
@@ -232,6 +243,7 @@ func demoInterpretation(r demoReport) string {
 		s = append(s, "The harmonic form is its own Taylor expansion, so its ranges are unbounded; it never dissociates and cannot describe a bond breaking.")
 	}
 	s = append(s, periodSentence(r.Period, tol))
+	s = append(s, levelsSentences(r, rows)...)
 	return strings.Join(strings.Fields(strings.Join(s, " ")), " ")
 }
 
@@ -257,7 +269,7 @@ func periodSentence(p report.PeriodTable, tol float64) string {
 // writeDemo renders every section as text.
 func writeDemo(w io.Writer, r demoReport) error {
 	for _, f := range []func(io.Writer, demoReport) error{
-		writeDemoScenario, writeDemoCompare, writeDemoPeriod, writeDemoFit, writeDemoTemperature, writeDemoInterpretation,
+		writeDemoScenario, writeDemoCompare, writeDemoPeriod, writeDemoFit, writeDemoTemperature, writeDemoLevels, writeDemoInterpretation,
 	} {
 		if err := f(w, r); err != nil {
 			return err
@@ -342,4 +354,80 @@ func wrap(text string, width int) string {
 		n += l
 	}
 	return b.String()
+}
+
+// levelsSentences say what the quantum levels of the Morse form mean.
+func levelsSentences(r demoReport, rows map[string]*report.CompareRow) []string {
+	l := r.Levels
+	if l == nil || l.Fundamental == nil || l.BoundLevels == nil || l.D0 == nil {
+		return nil
+	}
+	var s []string
+	depth := float64(l.Depth)
+	s = append(s, fmt.Sprintf("Quantum mechanically the Morse well holds %d bound vibrational levels. Its zero-point energy is %.0f cm⁻¹ (%.3g eV), "+
+		"so breaking the bond takes D0 = %.4g eV, %.2g %% less than De; the fundamental E₁ − E₀ = %.1f cm⁻¹ is %.1f cm⁻¹ below the harmonic "+
+		"ωe = %.1f cm⁻¹ (about 2ωexe), so even the lowest transition a spectrum shows is not the harmonic frequency.",
+		*l.BoundLevels, l.ZPE, l.ZPEeV, *l.D0, 100*(depth-*l.D0)/depth, *l.Fundamental, l.Harmonic.OmegaE-*l.Fundamental, l.Harmonic.OmegaE))
+	hv := l.HarmonicValidity
+	ce := float64(hv.ClassicalEnergy)
+	if hv.BelowZeroPoint {
+		s = append(s, fmt.Sprintf("The classical harmonic range (period within %g %%) ends at %.0f cm⁻¹ above the minimum, below the zero-point energy: "+
+			"the classical harmonic picture does not describe even the ground state.", 100*hv.Tolerance, ce))
+	} else if !math.IsInf(ce, 1) {
+		t := fmt.Sprintf("The classical harmonic range (period within %g %%) ends at %.0f cm⁻¹ above the minimum, only %.2g× the zero-point energy: "+
+			"the ground state alone uses %.0f %% of it", 100*hv.Tolerance, ce, ce/l.ZPE, 100*l.ZPE/ce)
+		if l.Levels[1].TermValue > ce {
+			t += fmt.Sprintf(", and the first excited level (%.0f cm⁻¹) is already beyond it", l.Levels[1].TermValue)
+		}
+		s = append(s, t+".")
+	}
+	if lj := rows["lennard-jones"]; lj != nil && !math.IsNaN(lj.ZPE) {
+		s = append(s, fmt.Sprintf("The stiffer Lennard-Jones form puts its zero-point energy at %.0f cm⁻¹ and its fundamental at %.0f cm⁻¹: "+
+			"matched to re and De alone, it puts the spectrum %.2g× higher than Morse does.", lj.ZPE, lj.Fundamental, lj.Fundamental / *l.Fundamental))
+	}
+	return s
+}
+
+// writeDemoLevels prints the lowest and highest levels of the Morse form
+// and what they add up to.
+func writeDemoLevels(w io.Writer, r demoReport) error {
+	l := r.Levels
+	if l == nil {
+		return nil
+	}
+	fmt.Fprintf(w, "\n== Quantum levels (%s, μ = %g u; pairwell levels %s --mu %g)\n", l.Model, l.Mu, l.Model+":"+paramSpec(l.Params), l.Mu)
+	t := &table{cols: []column{{Title: "v"}, {Title: "term value", Unit: "cm⁻¹"}, {Title: "binding energy", Unit: "cm⁻¹"},
+		{Title: "spacing to v+1", Unit: "cm⁻¹"}, {Title: "classical h/T(E)", Unit: "cm⁻¹"}, {Title: "⟨r⟩", Unit: "Å"}}}
+	for i, lr := range l.Levels {
+		if lr.J != 0 || i >= 4 && i < len(l.Levels)-2 {
+			if i == 4 {
+				t.add("…", "", "", "", "", "")
+			}
+			continue
+		}
+		t.add(fmt.Sprint(lr.V), short(lr.TermValue), optShort(lr.Binding), optShort(lr.Spacing), optShort(lr.ClassicalSpacing), short(lr.MeanR))
+	}
+	if err := writeTable(w, t); err != nil {
+		return err
+	}
+	_, err := fmt.Fprintf(w, "zero-point energy %s cm⁻¹, D0 = depth − ZPE = %s eV, fundamental %s cm⁻¹ (harmonic ωe %s cm⁻¹), %d bound levels; accuracy %.2g cm⁻¹\n",
+		short(l.ZPE), short(*l.D0), short(*l.Fundamental), short(l.Harmonic.OmegaE), *l.BoundLevels, l.Accuracy)
+	return err
+}
+
+// optShort is short for an optional value.
+func optShort(v *float64) string {
+	if v == nil {
+		return "—"
+	}
+	return short(*v)
+}
+
+// paramSpec writes parameters as NAME=VALUE,… in their default units.
+func paramSpec(p report.Params) string {
+	parts := make([]string, len(p.Names))
+	for i, n := range p.Names {
+		parts[i] = n + "=" + strconv.FormatFloat(p.Values[i], 'g', 10, 64)
+	}
+	return strings.Join(parts, ",")
 }

@@ -8,6 +8,8 @@ import (
 
 	"github.com/stretchr/testify/assert"
 	"github.com/stretchr/testify/require"
+
+	"github.com/pairwell/pairwell/core/units"
 )
 
 func TestDemoTable(t *testing.T) {
@@ -18,7 +20,7 @@ func TestDemoTable(t *testing.T) {
 	assert.Contains(t, out, "not a validated force field", "the caution line")
 	for _, s := range []string{"== Four forms, one bond", "== Period against amplitude", "== What the numbers say",
 		"== The bond warms up", "== An INVENTED gas against INVENTED B₂ data",
-		"morse", "lennard-jones", "buckingham", "harmonic", "6.7× stiffer"} {
+		"morse", "lennard-jones", "buckingham", "harmonic", "6.7× stiffer", "== Quantum levels"} {
 		assert.Contains(t, out, s)
 	}
 }
@@ -58,8 +60,9 @@ func TestDemoJSON(t *testing.T) {
 				Virial   map[string]any `json:"virial"`
 			} `json:"gas"`
 		} `json:"temperature"`
-		Interpretation string `json:"interpretation"`
-		Caution        string `json:"caution"`
+		Levels         map[string]any `json:"levels"`
+		Interpretation string         `json:"interpretation"`
+		Caution        string         `json:"caution"`
 	}
 	require.NoError(t, json.Unmarshal([]byte(out), &r))
 	assert.True(t, r.Scenario.Invented)
@@ -86,6 +89,18 @@ func TestDemoJSON(t *testing.T) {
 		assert.Contains(t, r.Interpretation, s)
 	}
 	assert.Contains(t, r.Caution, "not a validated force field")
+	// The quantum levels of the matched Morse well (De = 4 eV,
+	// a = √(k/(2De)), μ = 7 u): ZPE = ωe/2 − ωexe/4 and the fundamental
+	// ωe − 2ωexe of the Morse closed form (Morse 1929), with
+	// ωe = √(k/μ)/(2πc) and ωexe = ωe²/(4De).
+	require.NotNil(t, r.Levels)
+	we := units.Wavenumber(units.AngularFrequency(30, 7))
+	wexe := we * we / (4 * 4 / units.WavenumberEV)
+	assert.InDelta(t, we/2-wexe/4, r.Levels["zero_point_energy_per_cm"], 1e-5)
+	assert.InDelta(t, we-2*wexe, r.Levels["fundamental_per_cm"], 1e-5)
+	for _, s := range []string{"zero-point energy", "D0 =", "bound vibrational levels"} {
+		assert.Contains(t, r.Interpretation, s)
+	}
 	// The temperature section: the bond's expansion with the quantum
 	// column, and the invented gas against its invented data.
 	require.Len(t, r.Temperature.Expansion.Rows, len(demoExpansionTemperatures))

@@ -255,3 +255,58 @@ func BenchmarkCompareFourFormulas(b *testing.B) {
 		}
 	}
 }
+
+// A formula without a minimum, and one that is not finite inside its
+// declared domain, are clear errors (exit 2), never numbers.
+func TestFormsNoMinimumAndDomain(t *testing.T) {
+	forms := writeForms(t, `
+[[form]]
+key = "rep"
+formula = "A*exp(-r/rho)"
+[[form.param]]
+name = "A"
+unit = "eV"
+[[form.param]]
+name = "rho"
+unit = "A"
+
+[[form]]
+key = "lw"
+formula = "De*log(r/re - 1)^2 - De"
+limit = "none"
+[[form.param]]
+name = "De"
+unit = "eV"
+[[form.param]]
+name = "re"
+unit = "A"
+
+[[form]]
+key = "lw2"
+formula = "De*log(r/re - 1)^2 - De"
+limit = "none"
+r_min = "re"
+[[form.param]]
+name = "De"
+unit = "eV"
+[[form.param]]
+name = "re"
+unit = "A"
+`)
+	code, out, errOut := runCLI(t, "--forms", forms, "inspect", "rep:A=100,rho=0.3")
+	assert.Equal(t, exitUsage, code)
+	assert.Empty(t, out)
+	assert.Contains(t, errOut, "no minimum: V′ does not change sign")
+	code, out, errOut = runCLI(t, "--forms", forms, "inspect", "lw:De=1,re=1")
+	assert.Equal(t, exitUsage, code)
+	assert.Empty(t, out)
+	assert.Contains(t, errOut, "r = 0.01 Å: separation outside the domain: the formula gives NaN for its coefficient of order")
+	assert.Contains(t, errOut, "inside the declared domain r > 0 (declare r_min")
+	// With the domain declared, the minimum at r = 2re is found:
+	// d/dr log(r/re − 1)² = 0 at r/re − 1 = 1.
+	code, out, errOut = runCLI(t, "--forms", forms, "inspect", "lw2:De=1,re=1", "--format", "json")
+	require.Equal(t, 0, code, errOut)
+	var obj map[string]any
+	require.NoError(t, json.Unmarshal([]byte(out), &obj))
+	assert.InDelta(t, 2, obj["equilibrium_r_angstrom"].(float64), 1e-14)
+}

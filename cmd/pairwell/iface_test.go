@@ -98,7 +98,14 @@ func TestOrderFlags(t *testing.T) {
 	morse := "morse:De=4.6,a=1.87,re=1.27" // invented, HCl-sized
 	code, out, errOut := runCLI(t, "inspect", morse, "--coefficients", "6", "--format", "json")
 	require.Equal(t, 0, code, errOut)
-	assert.Contains(t, out, "16.938176888346682") // c6, seven coefficients
+	var got struct {
+		Taylor []float64 `json:"taylor_coefficients"`
+	}
+	require.NoError(t, json.Unmarshal([]byte(out), &got))
+	require.Len(t, got.Taylor, 7) // c0 … c6
+	// c6 = De(−a)⁶(2⁶ − 2)/6! (Morse 1929) = 16.9381768883466761…
+	// (mpmath, 40 digits).
+	assert.InEpsilon(t, 16.938176888346676, got.Taylor[6], 1e-14)
 	code, out2, errOut := runCLI(t, "inspect", morse, "--order", "6", "--format", "json")
 	require.Equal(t, 0, code, errOut)
 	assert.Equal(t, out, out2)

@@ -177,3 +177,10 @@ func TestPlotLevels(t *testing.T) {
 		assert.NoFileExists(t, dir+"/x.png")
 	}
 }
+
+// TestLevelsFormulaForm runs levels on a form typed as a formula.
+func TestLevelsFormulaForm(t *testing.T) {
+	code, out, errOut := runCLI(t, "--forms", "../../examples/forms.toml", "levels", "varshni:De=4.6,re=1.27,beta=0.5", "--pair", "H-Cl", "--format", "json")
+	require.Equal(t, 0, code, errOut)
+	checkLevelsJSON(t, out, true)
+}

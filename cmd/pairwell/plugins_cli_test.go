@@ -220,10 +220,10 @@ func TestPluginFaults(t *testing.T) {
 		})
 	}
 
-	code, _, errOut := runPlugins(t, "--plugin", pluginBin.badproto, "models")
+	code, _, errOut := runPlugins(t, "--plugin", pluginBin.oldproto, "models")
 	assert.Equal(t, exitFailure, code)
-	assert.Contains(t, errOut, "plugin handshake failed")
-	assert.Contains(t, errOut, "Plugin version: 2")
+	assert.Contains(t, errOut, "plugin handshake failed: built for protocol 1, this pairwell speaks 2: rebuild it against this version")
+	assert.Equal(t, 1, strings.Count(strings.TrimSpace(errOut), "\n")+1, "one line: %q", errOut)
 
 	code, _, errOut = runPlugins(t, "--plugin", filepath.Join(pluginBin.dir, "missing"), "models")
 	assert.Equal(t, exitUsage, code)

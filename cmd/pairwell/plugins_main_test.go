@@ -23,7 +23,7 @@ var pluginBin struct {
 	pairwell     string
 	rydberg, mie string
 	test         string // plugin-morse and the faulty models
-	badproto     string // the test plugin speaking protocol 2
+	oldproto     string // the test plugin speaking protocol 1, the one before this
 	holdpipes    string // the test plugin with a child holding its pipes
 	setsid       string // the same child in its own session
 	nosdk        string // not built with the SDK: never answers, ignores SIGTERM
@@ -53,11 +53,11 @@ func buildTestBinaries(dir string) error {
 	pluginBin.rydberg = filepath.Join(dir, "rydberg")
 	pluginBin.mie = filepath.Join(dir, "mie")
 	pluginBin.test = filepath.Join(dir, "testplugin")
-	pluginBin.badproto = filepath.Join(dir, "badproto")
+	pluginBin.oldproto = filepath.Join(dir, "oldproto")
 	pluginBin.holdpipes = filepath.Join(dir, "holdpipes")
 	pluginBin.setsid = filepath.Join(dir, "setsid")
 	pluginBin.nosdk = filepath.Join(dir, "nosdk")
-	for _, link := range []string{pluginBin.badproto, pluginBin.holdpipes, pluginBin.setsid} {
+	for _, link := range []string{pluginBin.oldproto, pluginBin.holdpipes, pluginBin.setsid} {
 		if err := os.Symlink(pluginBin.test, link); err != nil {
 			return err
 		}

@@ -9,59 +9,57 @@ import (
 
 // Counting wraps a potential and counts the calls made to it, so that a
 // test can check that a hot loop batches its evaluations (a plugin potential
-// pays a process round trip per call). It is safe for concurrent use.
+// pays a process round trip per call). It forwards everything the contract
+// carries (Domain holds the barrier and the equilibrium guess), so the
+// analysis takes the same path with and without the counter. It is safe for
+// concurrent use.
 type Counting struct {
 	core.Potential
-	Derivs, Batches atomic.Int64
+	// Singles counts calls with one separation, Batches calls with more
+	// (or none).
+	Singles, Batches atomic.Int64
 }
 
-// Derivatives counts the call and forwards it.
-func (c *Counting) Derivatives(r float64, dst []float64) error {
-	c.Derivs.Add(1)
-	return c.Potential.Derivatives(r, dst)
-}
-
-// Batch counts the call and forwards it.
-func (c *Counting) Batch(n int, r, dst []float64) error {
-	c.Batches.Add(1)
-	return c.Potential.Batch(n, r, dst)
+// Taylor counts the call and forwards it.
+func (c *Counting) Taylor(n int, r, dst []float64) error {
+	if len(r) == 1 {
+		c.Singles.Add(1)
+	} else {
+		c.Batches.Add(1)
+	}
+	return c.Potential.Taylor(n, r, dst)
 }
 
 // Calls returns the number of calls so far, single-point and batched.
-func (c *Counting) Calls() int64 { return c.Derivs.Load() + c.Batches.Load() }
+func (c *Counting) Calls() int64 { return c.Singles.Load() + c.Batches.Load() }
 
-type countingGuess struct{ *Counting }
-
-func (c countingGuess) EquilibriumGuess() float64 {
-	return c.Potential.(core.Guesser).EquilibriumGuess()
-}
-
-type countingTurnover struct{ *Counting }
-
-func (c countingTurnover) Barrier() (r, v float64) { return c.Potential.(core.Turnover).Barrier() }
-
-type countingBoth struct{ *Counting }
-
-func (c countingBoth) EquilibriumGuess() float64 {
-	return c.Potential.(core.Guesser).EquilibriumGuess()
-}
-
-func (c countingBoth) Barrier() (r, v float64) { return c.Potential.(core.Turnover).Barrier() }
-
-// Count returns p wrapped in a Counting, as a potential that keeps p's
-// core.Guesser and core.Turnover, so that the analysis takes the same path
-// with and without the counter.
+// Count returns p wrapped in a Counting, both as a core.Potential and as
+// the counter.
 func Count(p core.Potential) (core.Potential, *Counting) {
 	c := &Counting{Potential: p}
-	_, g := p.(core.Guesser)
-	_, t := p.(core.Turnover)
-	switch {
-	case g && t:
-		return countingBoth{c}, c
-	case g:
-		return countingGuess{c}, c
-	case t:
-		return countingTurnover{c}, c
-	}
 	return c, c
+}
+
+// Derivatives stores V⁽ᵏ⁾(r) = k!·c_k(r) in d[k], k = 0, …, len(d)−1, from
+// one single-point Taylor call: for tests that compare raw derivatives
+// with the literature or with finite differences. Values whose k!·c_k
+// overflows are ±Inf.
+func Derivatives(p core.Potential, r float64, d []float64) error {
+	if len(d) == 0 {
+		return nil
+	}
+	if err := p.Taylor(len(d)-1, []float64{r}, d); err != nil {
+		return err
+	}
+	for k := range d {
+		d[k] *= core.Factorial(k)
+	}
+	return nil
+}
+
+// Batch stores V⁽ⁿ⁾(r[i]) in dst[i] (core.DerivativeBatch without reused
+// scratch).
+func Batch(p core.Potential, n int, r, dst []float64) error {
+	_, err := core.DerivativeBatch(p, n, r, dst, nil)
+	return err
 }

@@ -141,12 +141,11 @@ func Compare(curves []Curve, o CompareOptions) (*Figure, error) {
 	return fig, nil
 }
 
-// barrierHeight returns V at the inner barrier above V(re), NaN when
-// unknown.
+// barrierHeight returns V at the inner barrier above V(re), NaN when the
+// domain has no barrier.
 func barrierHeight(p core.Potential, w core.Well) float64 {
-	if t, ok := p.(core.Turnover); ok {
-		_, v := t.Barrier()
-		return v - w.Energy
+	if d := p.Domain(); d.Barrier {
+		return d.BarrierEnergy - w.Energy
 	}
 	return math.NaN()
 }

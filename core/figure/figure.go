@@ -5,7 +5,7 @@
 // shaded bands and vertical lines that mark ranges, axis labels with units
 // and explicit axis limits. The builders (Taylor, Period, Compare, Motion)
 // compute a Figure from a core.Potential alone, evaluating many points
-// through Potential.Batch, so plugin forms work like built-in ones; they do
+// through Potential.Taylor, so plugin forms work like built-in ones; they do
 // no I/O. Render and WriteFile draw a Figure as PNG, SVG or PDF.
 //
 // The series hold the computed values themselves, not values clipped for

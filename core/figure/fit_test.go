@@ -18,7 +18,7 @@ func TestFit(t *testing.T) {
 	require.NoError(t, err)
 	r := linspace(1, 3, 21)
 	e := make([]float64, len(r))
-	require.NoError(t, pot.Batch(0, r, e))
+	require.NoError(t, pot.Taylor(0, r, e))
 	for i := range e {
 		e[i] += 100 // an absolute scale: the zero of the data is at 100 eV
 	}

@@ -145,12 +145,14 @@ func rise(p core.Potential, w core.Well, e float64, dir float64) (float64, error
 			break
 		}
 		if v-w.Energy >= e {
-			var buf [2]float64
+			var c [2]float64 // V and V′ (c₀ and c₁)
+			rr := make([]float64, 1)
 			r, err := core.Root(func(r float64) (float64, float64, error) {
-				if err := p.Derivatives(r, buf[:]); err != nil {
+				rr[0] = r
+				if err := p.Taylor(1, rr, c[:]); err != nil {
 					return 0, 0, err
 				}
-				return buf[0] - w.Energy - e, buf[1], nil
+				return c[0] - w.Energy - e, c[1], nil
 			}, prev, rs[i])
 			if err != nil {
 				return 0, fmt.Errorf("figure: V − V(re) = %g eV on the %s side: %w", e, sideName(dir), err)
@@ -170,7 +172,7 @@ func sideName(dir float64) string {
 }
 
 // batchInDomain evaluates V⁽ⁿ⁾ at the points of rs inside the domain of p
-// in one Batch call and stores NaN at the others.
+// in one Taylor call and stores NaN at the others.
 func batchInDomain(p core.Potential, n int, rs, dst []float64) error {
 	d := p.Domain()
 	var (
@@ -188,7 +190,7 @@ func batchInDomain(p core.Potential, n int, rs, dst []float64) error {
 		return nil
 	}
 	vs := make([]float64, len(in))
-	if err := p.Batch(n, in, vs); err != nil {
+	if _, err := core.DerivativeBatch(p, n, in, vs, nil); err != nil {
 		var pe *core.PointError
 		if errors.As(err, &pe) {
 			return fmt.Errorf("V at r = %g Å: %w", pe.R, err)

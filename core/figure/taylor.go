@@ -109,7 +109,7 @@ func Taylor(p core.Potential, o TaylorOptions) (*Figure, error) {
 			return nil, fmt.Errorf("figure: %w", err)
 		}
 		ys := make([]float64, len(rs))
-		if err := tr.Batch(0, rs, ys); err != nil {
+		if err := tr.Taylor(0, rs, ys); err != nil {
 			return nil, fmt.Errorf("figure: order-%d truncation: %w", k, err)
 		}
 		name := fmt.Sprintf("order %d", k)

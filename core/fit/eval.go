@@ -32,14 +32,16 @@ func build(m core.Model, params []float64) (core.Potential, error) {
 	return p, nil
 }
 
-// energies stores V(r[i]) in dst: one call for all points.
+// energies stores V(r[i]) in dst: one Taylor call of order 0 for all
+// points.
 func energies(p core.Potential, r, dst []float64) error {
-	return infeasible(p.Batch(0, r, dst))
+	return infeasible(p.Taylor(0, r, dst))
 }
 
-// forces stores −V′(r[i]) in dst: one call for all points.
+// forces stores −V′(r[i]) in dst: one Taylor call of order 1 for all
+// points.
 func forces(p core.Potential, r, dst []float64) error {
-	if err := p.Batch(1, r, dst); err != nil {
+	if _, err := core.DerivativeBatch(p, 1, r, dst, nil); err != nil {
 		return infeasible(err)
 	}
 	for i, v := range dst {

@@ -9,6 +9,7 @@ import (
 	"github.com/stretchr/testify/require"
 
 	"github.com/pairwell/pairwell/core"
+	"github.com/pairwell/pairwell/core/coretest"
 	"github.com/pairwell/pairwell/core/fit"
 	"github.com/pairwell/pairwell/models"
 )
@@ -22,7 +23,7 @@ func scan(t testing.TB, m core.Model, params []float64, lo, hi float64, n int, s
 	for i := range d.R {
 		d.R[i] = lo + (hi-lo)*float64(i)/float64(n-1)
 	}
-	require.NoError(t, pot.Batch(0, d.R, d.E))
+	require.NoError(t, pot.Taylor(0, d.R, d.E))
 	for i := range d.E {
 		d.E[i] += shift
 	}
@@ -124,7 +125,7 @@ func TestForces(t *testing.T) {
 	pot, err := m.New(truth)
 	require.NoError(t, err)
 	d.F = make([]float64, len(d.R))
-	require.NoError(t, pot.Batch(1, d.R, d.F))
+	require.NoError(t, coretest.Batch(pot, 1, d.R, d.F))
 	for i := range d.F {
 		d.F[i] = -d.F[i]
 	}

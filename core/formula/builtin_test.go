@@ -9,6 +9,7 @@ import (
 	"github.com/stretchr/testify/require"
 
 	"github.com/pairwell/pairwell/core"
+	"github.com/pairwell/pairwell/core/coretest"
 	"github.com/pairwell/pairwell/core/formula"
 	"github.com/pairwell/pairwell/models"
 )
@@ -76,8 +77,8 @@ func TestBuiltinEquivalence(t *testing.T) {
 			got, want := make([]float64, points), make([]float64, points)
 			worst := 0.0
 			for n := 0; n <= maxOrder; n++ {
-				require.NoError(t, fp.Batch(n, rs, got))
-				require.NoError(t, bp.Batch(n, rs, want))
+				require.NoError(t, coretest.Batch(fp, n, rs, got))
+				require.NoError(t, coretest.Batch(bp, n, rs, want))
 				for i, r := range rs {
 					scale := termScale(t, c, n, r)
 					e := math.Abs(got[i]-want[i]) / scale
@@ -121,4 +122,29 @@ func termScale(t *testing.T, c builtinCase, n int, r float64) float64 {
 		s += math.Abs(v)
 	}
 	return math.Max(s, math.SmallestNonzeroFloat64)
+}
+
+// The domains agree too: the formula Buckingham's inner maximum (the
+// barrier, found by a scan and bisection on V′) is the built-in's closed
+// one, and the limits found numerically are the built-ins' (0 up to the
+// r⁻⁶ tail at 10¹² Å; +Inf for the harmonic form, declared "none").
+func TestBuiltinDomains(t *testing.T) {
+	for _, c := range builtinCases {
+		form, err := formula.NewForm(c.decl)
+		require.NoError(t, err)
+		fp, err := form.New(c.params)
+		require.NoError(t, err)
+		bp, err := c.builtin.New(c.params)
+		require.NoError(t, err)
+		got, want := fp.Domain(), bp.Domain()
+		assert.Equal(t, want.Barrier, got.Barrier, c.decl.Key)
+		assert.InDelta(t, want.Min, got.Min, 1e-13*math.Max(1, want.Min), c.decl.Key)
+		assert.InDelta(t, want.BarrierEnergy, got.BarrierEnergy, 1e-13*math.Abs(want.BarrierEnergy), c.decl.Key)
+		if math.IsInf(want.Limit, 1) {
+			assert.Equal(t, want.Limit, got.Limit, c.decl.Key)
+		} else {
+			// V(10¹² Å): the r⁻⁶ tails leave ~1e-71 eV.
+			assert.InDelta(t, want.Limit, got.Limit, 1e-60, c.decl.Key)
+		}
+	}
 }

@@ -12,6 +12,7 @@ import (
 	"github.com/stretchr/testify/require"
 
 	"github.com/pairwell/pairwell/core"
+	"github.com/pairwell/pairwell/core/coretest"
 	"github.com/pairwell/pairwell/core/formula"
 )
 
@@ -107,6 +108,12 @@ func TestExp6(t *testing.T) {
 		assert.InDelta(t, c[1], w.Re, 1e-13*c[1], "%v", c)
 		assert.InDelta(t, -c[0], w.Energy, 1e-14*c[0], "%v", c)
 		assert.InDelta(t, c[0], w.Depth, 1e-14*c[0], "%v", c)
+		// The form turns over at short range: its inner maximum bounds
+		// the domain, below r_m, above V(r_m).
+		d := p.Domain()
+		assert.True(t, d.Barrier, "%v", c)
+		assert.Less(t, d.Min, c[1])
+		assert.Greater(t, d.BarrierEnergy, -c[0])
 	}
 }
 
@@ -124,7 +131,7 @@ func TestNonFiniteIsDomainError(t *testing.T) {
 	require.NoError(t, err)
 	rs := []float64{2.5, 3, 0.5, 4}
 	dst := make([]float64, len(rs))
-	err = p.Batch(0, rs, dst)
+	err = coretest.Batch(p, 0, rs, dst)
 	require.ErrorIs(t, err, core.ErrDomain)
 	var pe *core.PointError
 	require.ErrorAs(t, err, &pe)
@@ -174,6 +181,7 @@ func TestNewDomainAndLimit(t *testing.T) {
 		}
 		require.NoError(t, err, tt.d.Formula)
 		d := p.Domain()
+		assert.False(t, d.Barrier, tt.d.Formula)
 		assert.Equal(t, tt.min, d.Min, tt.d.Formula)
 		assert.Equal(t, tt.limit, d.Limit, tt.d.Formula)
 	}
@@ -233,10 +241,10 @@ func TestDeclErrors(t *testing.T) {
 	assert.Equal(t, "a [1/nm, finite]", f.Info().Params[1].String())
 }
 
-// The potential is deterministic: the same bits from Batch, Derivatives,
+// The potential is deterministic: the same bits from a batched and a single-point Taylor call,
 // one point or many, and across goroutines (the conformance suite checks
 // this for every form through pairwell check).
-func TestBatchEqualsDerivatives(t *testing.T) {
+func TestBatchEqualsSinglePoint(t *testing.T) {
 	form, err := formula.NewForm(varshniDecl)
 	require.NoError(t, err)
 	p, err := form.New([]float64{4.6, 1.27, 0.5})
@@ -247,10 +255,10 @@ func TestBatchEqualsDerivatives(t *testing.T) {
 	}
 	for n := 0; n <= 10; n++ {
 		got := make([]float64, len(rs))
-		require.NoError(t, p.Batch(n, rs, got))
+		require.NoError(t, coretest.Batch(p, n, rs, got))
 		d := make([]float64, n+1)
 		for i, r := range rs {
-			require.NoError(t, p.Derivatives(r, d))
+			require.NoError(t, coretest.Derivatives(p, r, d))
 			require.Equal(t, d[n], got[i], "order %d at %g", n, r)
 		}
 	}

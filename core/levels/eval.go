@@ -13,7 +13,7 @@ import (
 // sample stores V(r[i]) in eV in v[i] for every i, in one batched call (a
 // potential may live in another process).
 func sample(p core.Potential, r, v []float64) error {
-	if err := p.Batch(0, r, v); err != nil {
+	if err := p.Taylor(0, r, v); err != nil {
 		return fmt.Errorf("potential on the grid: %w", err)
 	}
 	return nil
@@ -32,18 +32,7 @@ func ceiling(p core.Potential) (e float64, barrier bool, err error) {
 	if !d.Barrier {
 		return e, false, nil
 	}
-	var vb float64
-	if t, ok := p.(core.Turnover); ok {
-		_, vb = t.Barrier()
-	} else {
-		r := [1]float64{math.Nextafter(d.Min, math.Inf(1))}
-		var v [1]float64
-		if err := sample(p, r[:], v[:]); err != nil {
-			return 0, false, fmt.Errorf("at the inner barrier: %w", err)
-		}
-		vb = v[0]
-	}
-	if vb < e {
+	if vb := d.BarrierEnergy; vb < e {
 		return vb, true, nil
 	}
 	return e, false, nil

@@ -165,6 +165,9 @@ const (
 // Solve returns the bound levels of the pair of reduced mass mu (u) in the
 // well of p: for J = 0 … s.JMax, the lowest s.Count vibrational levels, or
 // every bound one when s.Count is zero, each converged to s.Tolerance.
+// Bound means below the ceiling: at J > 0 the quasi-bound levels above the
+// dissociation limit, held only by the centrifugal barrier, are not
+// returned.
 //
 // Errors wrap core.ErrParam for invalid settings, for a form without bound
 // (harmonic) with Count zero, for a request beyond the bound levels (more
@@ -286,9 +289,12 @@ func (sv *solver) run() (*Result, error) {
 		}
 		eSpace = eTail
 	} else {
-		eSpace = sv.top + rot
+		// A bound level (E below the ceiling) has a local kinetic
+		// energy E − V − ħ²J(J+1)/(2μr²) below top − V(re) at every J.
+		eSpace = sv.top
 		eTail = sv.vmin + 0.9*(sv.top-sv.vmin)
 	}
+	eSpace = math.Min(eSpace, sv.top)
 	// Extent: raise eTail until every wanted level of the first grid is
 	// held by it. When all bound levels are wanted (or a bounded well
 	// shows fewer than Count), the grid is set up for levels up to the
@@ -317,7 +323,7 @@ func (sv *solver) run() (*Result, error) {
 		}
 		if sp.short && !all && !math.IsInf(sv.top, 1) {
 			all = true
-			eSpace = sv.top + rot
+			eSpace = sv.top
 			eTail = math.Max(eTail, sv.vmin+0.9*(sv.top-sv.vmin))
 			continue
 		}
@@ -379,6 +385,22 @@ func (sv *solver) run() (*Result, error) {
 		diffs, same := compare(prev, next)
 		if same && maxOf(diffs) <= sv.tol {
 			return sv.finish(next, prev, diffs, nil)
+		}
+		if !same && sv.count == 0 && it >= 1 {
+			// The levels common to both grids agree, but the number of
+			// levels bound just below the ceiling depends on the grid:
+			// those are left out as unresolved.
+			keep := make([]int, len(diffs))
+			ok := true
+			for j := range diffs {
+				keep[j] = min(len(prev.e[j]), len(next.e[j]))
+				for v := 0; v < keep[j]; v++ {
+					ok = ok && diffs[j][v] <= sv.tol
+				}
+			}
+			if ok && keep[0] > 0 {
+				return sv.finish(next, prev, diffs, keep)
+			}
 		}
 		before, prev, last = prev, next, diffs
 	}
@@ -457,6 +479,10 @@ func (sv *solver) levels(g *grid, beta, tail float64) (*spectrum, error) {
 	}
 	sv.grids++
 	for j := 0; j <= sv.jmax; j++ {
+		if j > 0 && sv.count == 0 && len(sp.e[j-1]) == 0 {
+			// E(v, J) rises with J: no level at J − 1, none above.
+			break
+		}
 		vals, vecs, err := g.eigen(sv.c, j, want)
 		if err != nil {
 			return nil, err

@@ -268,14 +268,14 @@ func TestBatched(t *testing.T) {
 	_, err := Solve(p, m.mu, Settings{JMax: 2})
 	require.NoError(t, err)
 	assert.Less(t, c.Calls(), int64(200), "potential calls")
-	t.Logf("%d single-point and %d batched calls", c.Derivs.Load(), c.Batches.Load())
+	t.Logf("%d single-point and %d batched calls", c.Singles.Load(), c.Batches.Load())
 	// With the well given, only batched calls remain.
 	w, err := core.AnalyzeWell(p, core.WellSettings{})
 	require.NoError(t, err)
-	before := c.Derivs.Load()
+	before := c.Singles.Load()
 	_, err = Solve(p, m.mu, Settings{JMax: 2, Well: &w})
 	require.NoError(t, err)
-	assert.Equal(t, before, c.Derivs.Load(), "single-point calls with the well given")
+	assert.Equal(t, before, c.Singles.Load(), "single-point calls with the well given")
 }
 
 // TestBadInput checks that every invalid request is refused with the right
@@ -323,4 +323,27 @@ func TestBadInput(t *testing.T) {
 			t.Log(err)
 		})
 	}
+}
+
+// TestHighJ: at high J the number of bound levels falls with J until none
+// is left; every level returned is below the dissociation limit and
+// converged, the J = 0 ladder is complete (28 levels, Morse 1929), and
+// levels bound just below the limit that a grid cannot settle are counted
+// as unresolved rather than returned.
+func TestHighJ(t *testing.T) {
+	m := morseSets(t)[0] // H35Cl
+	res, err := Solve(m.potential(t), m.mu, Settings{JMax: 80})
+	require.NoError(t, err)
+	assert.Equal(t, 28, res.BoundLevels+res.Unresolved)
+	perJ := map[int]int{}
+	for _, l := range res.Levels {
+		perJ[l.J]++
+		assert.Less(t, l.Energy, res.Ceiling)
+		assert.LessOrEqual(t, l.Accuracy, DefaultTolerance)
+	}
+	for j := 1; j <= 80; j++ {
+		assert.LessOrEqual(t, perJ[j], perJ[j-1]+1, "J = %d", j)
+	}
+	assert.Equal(t, 0, perJ[80], "no level bound at J = 80 (Be·J(J+1) = 69000 cm⁻¹ > De)")
+	t.Logf("levels per J: %v; unresolved at J = 0: %d", perJ, res.Unresolved)
 }

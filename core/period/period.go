@@ -249,6 +249,7 @@ func (in *Integrator) Settings() Settings { return in.s }
 // scratch holds the buffers of a pass, reused by the next.
 type scratch struct {
 	r, v, dv   []float64 // scan points, turning points, nodes; V, V′ there
+	c          []float64 // Taylor coefficients of a pair call
 	owner      []int
 	sides      []side
 	probs      []core.RootProblem
@@ -283,7 +284,7 @@ func Exact(p core.Potential, w core.Well, mu, E float64, s Settings) (Result, er
 //
 // The turning points come from TurningPoints; the integral (see the package
 // documentation) is evaluated by Gauss–Legendre rules of n = MinNodes,
-// 2·MinNodes, … nodes, all V values of a rule in one p.Batch call, until
+// 2·MinNodes, … nodes, all V values of a rule in one p.Taylor call, until
 // two successive rules agree to the tolerance. The value of the larger rule
 // is returned, with the relative difference as its error estimate (a
 // pessimistic one: the convergence is exponential).
@@ -292,8 +293,8 @@ func Exact(p core.Potential, w core.Well, mu, E float64, s Settings) (Result, er
 // the turning points (and, for small E, everywhere): V is known only to an
 // absolute ε·|V|. Within a short distance of each turning point the
 // integrand therefore comes from the Taylor expansion of V there (orders up
-// to 5, from one p.Derivatives call per end, or one p.Batch call per order
-// for all the turning points of a sweep), which has no cancellation;
+// to 5, from one p.Taylor call for all the turning points of a sweep),
+// which has no cancellation;
 // elsewhere from the batched values. For small E, where the relative
 // rounding of the direct difference, 8ε·(|V(re)| + E)/E, exceeds 1e-13 and
 // the Taylor series at re (core.Expansion, from w.Series) is more accurate
@@ -310,7 +311,7 @@ func Exact(p core.Potential, w core.Well, mu, E float64, s Settings) (Result, er
 // which makes the integrand smooth and carries the logarithm in the length
 // of the u interval, so the rules converge exponentially and their
 // difference is a true estimate. T(E) itself is ill-conditioned there: the
-// rounding of V, δV ≈ 4ε·(2|V(re)| + E), acts like a shift of E and moves
+// rounding of V, δV ≈ 8ε·(2|V(re)| + E), acts like a shift of E and moves
 // T by |T′|·δV, without bound as E → E_top (E·T′/T = E/(2(De − E)) for
 // Morse). ErrorEstimate includes that term: δV/(E_top − E) up to 0.99·E_top,
 // above that |T′|·δV/T with T′ measured by the period at a second energy
@@ -322,9 +323,9 @@ func Exact(p core.Potential, w core.Well, mu, E float64, s Settings) (Result, er
 // plus the conditioning term. On the test grid of Morse, Lennard-Jones and
 // Buckingham wells from 0.01 to 0.999999 of the top, against periods
 // computed with mpmath at 40 digits (testdata/make_reference.py), it is
-// never below the true error (worst ratio error/estimate ≈ 0.8); the
-// worst error there is 4.6e-7, at 0.999999 of a barrier only 1.5e-6 eV
-// high, where the estimate says 1.2e-5.
+// never below the true error (worst ratio error/estimate ≈ 0.75); the
+// worst error there is 1.5e-6, at 0.99999 of a barrier only 1.5e-6 eV
+// high, where the estimate says 3.1e-6.
 //
 // Small E. When the rounding estimate exceeds both 1e-12 and the error of
 // the perturbative period (of order δ², δ from PerturbativeShift), the
@@ -385,6 +386,9 @@ type job struct {
 	// noise is the absolute rounding error of E − U at a node evaluated
 	// without the end expansions, eV.
 	noise float64
+	// ev evaluates the series at the nodes of a series job: the series
+	// trimmed to the terms that matter between the turning points.
+	ev core.Expansion
 }
 
 // points returns the number of quadrature nodes of the job for a rule of
@@ -413,9 +417,9 @@ func (jb *job) nodes(lv *level, r []float64) {
 // pass computes res[i], errs[i] = in.Exact(p, w, mu, energies[i]) for
 // every i, with the work of all energies batched: the turning points of all
 // in one scan and one Newton iteration at a time (see TurningPoints), the
-// Taylor expansions at all turning points in one p.Batch call per order,
-// and the nodes of each rule for all energies still being integrated in
-// one p.Batch call. Each energy's arithmetic is its own, so that its result
+// Taylor expansions at all turning points in one p.Taylor call, and the
+// nodes of each rule for all energies still being integrated in one
+// p.Taylor call. Each energy's arithmetic is its own, so that its result
 // does not depend on the other energies of the pass.
 func (in *Integrator) pass(p core.Potential, w core.Well, mu float64, energies []float64, res []Result, errs []error, sc *scratch) {
 	ec := energyCheck{p: p, w: w}
@@ -448,8 +452,8 @@ func (in *Integrator) pass(p core.Potential, w core.Well, mu float64, energies [
 }
 
 // The conditioning of T(E) near the top of the well. Rounding changes V
-// by about δV = 4ε·(2|V(re)| + E_top) (V(re) and V at the turning points,
-// each to 2 ulp), which shifts the effective energy by as much; T(E)
+// by about δV = 8ε·(2|V(re)| + E_top) (V(re) and V at the turning points,
+// each to 4 ulp), which shifts the effective energy by as much; T(E)
 // then moves by |T′(E)|·δV, which grows without bound as E approaches the
 // top E_top (T′/T = 1/(2(E_top − E)) for Morse, (1/2 + 1/n)/(E_top − E)
 // near the top for a −C/rⁿ tail, 1/(2(E_top − E)·ln(…)) below an inner
@@ -536,6 +540,7 @@ func (in *Integrator) passOne(p core.Potential, w core.Well, mu float64, energie
 			_, b1 := ex.Sum(xin[k], 2)
 			_, b2 := ex.Sum(xon[k], 2)
 			jb.noise = math.Max(b1, b2)
+			jb.ev = ex.Trim(math.Max(-xin[k], xon[k]))
 			// The series' uncertainty (the coefficients at re as
 			// located, see core.Expansion) is systematic, and felt by
 			// the end expansions too.
@@ -544,7 +549,7 @@ func (in *Integrator) passOne(p core.Potential, w core.Well, mu float64, energie
 			jobs = append(jobs, jb)
 			continue
 		}
-		dv := 4 * eps * (2*math.Abs(w.Energy) + math.Min(ec.top(), E))
+		dv := 8 * eps * (2*math.Abs(w.Energy) + math.Min(ec.top(), E))
 		res[i].deltaV = dv
 		round := roundingEstimate(w, E) + conditionModel(dv, ec.top(), E)
 		if len(w.Taylor) > 4 {
@@ -564,7 +569,7 @@ func (in *Integrator) passOne(p core.Potential, w core.Well, mu float64, energie
 }
 
 // quadrature integrates every job with the rules of in, all nodes of a
-// rule in one p.Batch call (none for series jobs), until two successive
+// rule in one p.Taylor call (none for series jobs), until two successive
 // rules agree (see Exact).
 func (in *Integrator) quadrature(p core.Potential, w core.Well, ex core.Expansion, mu float64, jobs []job, res []Result, errs []error, sc *scratch) {
 	scale := math.Sqrt(2*mu) * timeUnit()
@@ -650,7 +655,7 @@ func (in *Integrator) quadrature(p core.Potential, w core.Well, ex core.Expansio
 				// The bound of the series grows with |x|: that at
 				// the turning points covers every node.
 				for k, x := range r {
-					gap[k], noise[k] = jb.E-ex.Value(x), jb.noise
+					gap[k], noise[k] = jb.E-jb.ev.Value(x), jb.noise
 				}
 			}
 			integ := integrate
@@ -683,13 +688,16 @@ func (in *Integrator) quadrature(p core.Potential, w core.Well, ex core.Expansio
 	}
 }
 
-// batchGroups stores V⁽ⁿ⁾(r[k]) in v[k], where point k belongs to the
-// group group(k). When p reports a *core.PointError, the group of that
-// point is dropped, reported to drop with the index of the point within
-// its group, and the other points are evaluated again. Any other error is
-// returned.
+// batchGroups stores the Taylor coefficients c_0…c_n of V at r[k] in
+// v[k·(n+1) : (k+1)·(n+1)], where point k belongs to the group group(k),
+// with one Taylor call. When p reports a *core.PointError, the group of
+// that point is dropped, reported to drop with the index of the point
+// within its group, and the other points are evaluated again. Any other
+// error is returned.
 func batchGroups(p core.Potential, n int, r, v []float64, group func(k int) int, drop func(g int, pe *core.PointError)) error {
-	err := p.Batch(n, r, v)
+	w := n + 1
+	v = v[:w*len(r)]
+	err := p.Taylor(n, r, v)
 	if err == nil {
 		return nil
 	}
@@ -698,7 +706,7 @@ func batchGroups(p core.Potential, n int, r, v []float64, group func(k int) int,
 		pos[k] = k
 	}
 	rr := append([]float64(nil), r...)
-	vv := make([]float64, len(r))
+	vv := make([]float64, len(v))
 	for {
 		var pe *core.PointError
 		if !errors.As(err, &pe) || pe.Index < 0 || pe.Index >= len(rr) {
@@ -719,13 +727,13 @@ func batchGroups(p core.Potential, n int, r, v []float64, group func(k int) int,
 				k++
 			}
 		}
-		rr, pos, vv = rr[:k], pos[:k], vv[:k]
+		rr, pos, vv = rr[:k], pos[:k], vv[:w*k]
 		if k == 0 {
 			return nil
 		}
-		if err = p.Batch(n, rr, vv); err == nil {
+		if err = p.Taylor(n, rr, vv); err == nil {
 			for j, k := range pos {
-				v[k] = vv[j]
+				copy(v[k*w:(k+1)*w], vv[j*w:(j+1)*w])
 			}
 			return nil
 		}
@@ -756,11 +764,11 @@ func roundingEstimate(w core.Well, E float64) float64 {
 	return 16*eps + 8*eps*(math.Abs(w.Energy)+E)/E
 }
 
-// endExpansion is V and its derivatives at a turning point, for evaluating
-// E − U(r) near it without cancellation.
+// endExpansion is the Taylor expansion of V at a turning point, for
+// evaluating E − U(r) near it without cancellation.
 type endExpansion struct {
 	at    float64    // the turning point, Å
-	d     [8]float64 // V⁽ʲ⁾(at)/j! for j = 0, …, order
+	d     [8]float64 // c_j(at) = V⁽ʲ⁾(at)/j! for j = 0, …, order
 	order int        // highest term used
 	reach float64    // nodes closer than this use the expansion, Å
 	scale float64    // d of the split substitution y = d·sinh²u, Å
@@ -798,9 +806,8 @@ const maxEndOrder = 6
 // relative error ε·|V|/(|V′|·d) that grows without bound as d → 0. The
 // reach is where the truncation error |V⁽ᴷ⁺¹⁾|d^{K+1}/(K+1)! equals the
 // direct difference's rounding error 2ε·|V|, capped at the half-width h of
-// the interval. The derivatives come from one p.Batch call per order for
-// all turning points, or from one p.Derivatives call per turning point
-// when that is fewer calls.
+// the interval. The coefficients come from one p.Taylor call for all
+// turning points.
 func newEnds(p core.Potential, w core.Well, ex core.Expansion, jobs []job, res []Result, errs []error, sc *scratch) []job {
 	if len(jobs) == 0 {
 		return jobs
@@ -829,35 +836,22 @@ func newEnds(p core.Potential, w core.Well, ex core.Expansion, jobs []job, res [
 		}
 		return &jobs[k/2].hi
 	}
-	n := len(ends)
-	if n > 0 && n < top {
-		for _, k := range ends {
-			if _, ok := dropped[k/2]; ok {
-				continue
-			}
-			e := end(k)
-			if err := p.Derivatives(e.at, e.d[:top+1]); err != nil {
-				failEnd(k/2, fmt.Errorf("period: derivatives at the turning point %g Å: %w", e.at, err))
-			}
-		}
-	} else if n > 0 {
-		sc.r, sc.v = grow(sc.r, n), grow(sc.v, n)
+	if n := len(ends); n > 0 {
+		sc.r, sc.v = grow(sc.r, n), grow(sc.v, n*(top+1))
 		r, v := sc.r, sc.v
 		for q, k := range ends {
 			r[q] = end(k).at
 		}
-		for j := 1; j <= top; j++ { // V(r±) itself is not used
-			err := batchGroups(p, j, r, v, func(q int) int { return ends[q] / 2 }, func(a int, pe *core.PointError) {
-				failEnd(a, fmt.Errorf("period: derivatives at the turning point %g Å: %w", pe.R, pe.Err))
-			})
-			if err != nil {
-				for _, k := range ends {
-					failEnd(k/2, fmt.Errorf("period: derivatives at the turning points: %w", err))
-				}
-				break
+		err := batchGroups(p, top, r, v, func(q int) int { return ends[q] / 2 }, func(a int, pe *core.PointError) {
+			failEnd(a, fmt.Errorf("period: derivatives at the turning point %g Å: %w", pe.R, pe.Err))
+		})
+		if err != nil {
+			for _, k := range ends {
+				failEnd(k/2, fmt.Errorf("period: derivatives at the turning points: %w", err))
 			}
+		} else {
 			for q, k := range ends {
-				end(k).d[j] = v[q]
+				copy(end(k).d[:top+1], v[q*(top+1):(q+1)*(top+1)])
 			}
 		}
 	}
@@ -877,14 +871,7 @@ func newEnds(p core.Potential, w core.Well, ex core.Expansion, jobs []job, res [
 				e.order = jtop - 1
 			}
 		} else {
-			for _, e := range []*endExpansion{lo, hi} {
-				f := 1.0
-				for j := 2; j <= top; j++ {
-					f *= float64(j)
-					e.d[j] /= f
-				}
-				e.order = top - 1
-			}
+			lo.order, hi.order = top-1, top-1
 		}
 		vs := 2 * jb.noise
 		h := 0.5 * (hi.at - lo.at)

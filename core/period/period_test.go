@@ -171,8 +171,7 @@ func TestPerturbativeMorse(t *testing.T) {
 func TestErrors(t *testing.T) {
 	fs := forms(t)
 	morse, lj, bk, harm := fs[0], fs[1], fs[2], fs[3]
-	_, vb := bk.P.(core.Turnover).Barrier()
-	barrier := vb - bk.W.Energy
+	barrier := bk.P.Domain().BarrierEnergy - bk.W.Energy
 	tests := []struct {
 		name string
 		f    form
@@ -267,9 +266,8 @@ func BenchmarkSweep(b *testing.B) {
 		if f.W.Bounded() {
 			top = f.W.Depth
 		}
-		if t, ok := f.P.(core.Turnover); ok {
-			_, vb := t.Barrier()
-			top = min(top, vb-f.W.Energy)
+		if d := f.P.Domain(); d.Barrier {
+			top = min(top, d.BarrierEnergy-f.W.Energy)
 		}
 		for k := 1; k <= 1000; k++ {
 			grids[i] = append(grids[i], 0.95*top*float64(k)/1000)
@@ -310,7 +308,7 @@ func TestBatchedCalls(t *testing.T) {
 	}
 	calls := c.Calls()
 	assert.Less(t, calls, int64(60), "calls for 200 energies")
-	c.Derivs.Store(0)
+	c.Singles.Store(0)
 	c.Batches.Store(0)
 	_, err = in.Exact(c, f.W, mu, 0.3*f.W.Depth)
 	require.NoError(t, err)

@@ -37,9 +37,9 @@ func Sweep(p core.Potential, w core.Well, mu float64, energies []float64, s Sett
 // runtime.GOMAXPROCS(0) goroutines (up to 256 energies are computed in the
 // calling goroutine), and each chunk is computed in one batched pass: its turning points in one scan and one Newton
 // iteration at a time for all its energies, the Taylor expansions at the
-// turning points in one p.Batch call per order, and the quadrature nodes
-// of all its energies in one p.Batch call per rule. A chunk thus costs a
-// few tens of p.Batch calls whatever its size, which is what matters for
+// turning points in one p.Taylor call, and the quadrature nodes of all its
+// energies in one p.Taylor call per rule. A chunk thus costs a few tens of
+// p.Taylor calls whatever its size, which is what matters for
 // a potential in another process. p must be safe for concurrent use, as
 // core.Potential requires.
 //

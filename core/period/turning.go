@@ -70,8 +70,8 @@ func gridDisp(k int) float64 {
 // safeguarded by bisection, from the linear interpolation between the
 // bracketing grid points) to a few ulp, sampling instead of stepping where
 // V(r) − V(re) − E is within its rounding, ε·(|V(re)| + E). Both sides are
-// solved together, in about a dozen p.Batch calls: one of V and one of V′
-// per scan round and per iteration. Exact and Sweep solve all their
+// solved together, in about a dozen p.Taylor calls: one of order 1 (V and
+// V′) per scan round and per iteration. Exact and Sweep solve all their
 // energies the same way at once, with the same result for each. The
 // oscillation is assumed to be in a single well: V increases
 // monotonically away from re up to each turning point (V′ is checked at
@@ -133,18 +133,7 @@ func (c *energyCheck) barrier() {
 	}
 	c.barrierSet = true
 	d := c.p.Domain()
-	rb, vb := d.Min, math.NaN()
-	if t, ok := c.p.(core.Turnover); ok {
-		rb, vb = t.Barrier()
-	}
-	if math.IsNaN(vb) {
-		v, err := core.Value(c.p, math.Nextafter(d.Min, math.Inf(1)))
-		if err != nil {
-			c.barrierErr = fmt.Errorf("period: energy at the inner barrier: %w", err)
-		}
-		vb = v
-	}
-	c.rb, c.hb = rb, vb-c.w.Energy
+	c.rb, c.hb = d.Min, d.BarrierEnergy-c.w.Energy
 }
 
 // check validates E.
@@ -217,7 +206,7 @@ func (s *side) name() string {
 }
 
 // turningPoints computes the turning points of every energy in Es, all
-// checked and > 0, into inner, outer and errs, in a few p.Batch calls for
+// checked and > 0, into inner, outer and errs, in a few p.Taylor calls for
 // all of them. The result of each energy depends on that energy alone.
 func turningPoints(p core.Potential, w core.Well, Es, inner, outer []float64, errs []error, sc *scratch) {
 	sc.sides = grows(sc.sides, 2*len(Es))
@@ -287,7 +276,7 @@ func (s *side) next(d core.Domain, re float64, r []float64, m int) []float64 {
 }
 
 // scan brackets the turning point of every side: the scan points of all
-// sides go into one call of V and one of V′ per round.
+// sides go into one Taylor call of order 1 (V and V′) per round.
 func scan(p core.Potential, w core.Well, sides []side, sc *scratch) {
 	d := p.Domain()
 	r, owner, v, dv := sc.r[:0], sc.owner[:0], sc.v, sc.dv
@@ -334,10 +323,8 @@ func scan(p core.Potential, w core.Well, sides []side, sc *scratch) {
 		}
 		v, dv = grow(v, len(r)), grow(dv, len(r))
 		for {
-			err := p.Batch(0, r, v)
-			if err == nil {
-				err = p.Batch(1, r, dv)
-			}
+			var err error
+			sc.c, err = core.DerivativePair(p, 0, r, v, dv, sc.c)
 			if err == nil {
 				break
 			}
@@ -416,7 +403,7 @@ func maxima(p core.Potential, w core.Well, sides []side) {
 	}
 	if len(atRe) > 0 {
 		dre := make([]float64, len(atRe))
-		if err := p.Batch(1, atRe, dre); err != nil {
+		if _, err := core.DerivativeBatch(p, 1, atRe, dre, nil); err != nil {
 			for _, q := range qs {
 				sides[q].fail(fmt.Errorf("period: %s turning point: %w", sides[q].name(), err))
 			}
@@ -437,11 +424,10 @@ func maxima(p core.Potential, w core.Well, sides []side) {
 	}
 	rm := make([]float64, len(qs))
 	errs := make([]error, len(qs))
-	core.RootBatch(func(idx []int, x, fx, dfx []float64) error {
-		if err := p.Batch(1, x, fx); err != nil {
-			return err
-		}
-		return p.Batch(2, x[:len(dfx)], dfx)
+	var buf []float64
+	core.RootBatch(func(idx []int, x, fx, dfx []float64) (err error) {
+		buf, err = core.DerivativePair(p, 1, x, fx, dfx, buf)
+		return err
 	}, probs, rm, errs)
 	var found []float64
 	for k := range qs {
@@ -450,7 +436,7 @@ func maxima(p core.Potential, w core.Well, sides []side) {
 		}
 	}
 	vm := make([]float64, len(found))
-	verr := p.Batch(0, found, vm)
+	verr := p.Taylor(0, found, vm)
 	j := 0
 	for k, q := range qs {
 		s := &sides[q]
@@ -497,13 +483,14 @@ func refine(p core.Potential, w core.Well, sides []side, sc *scratch) {
 	sc.rs, sc.errs = grows(sc.rs, len(qs)), grows(sc.errs, len(qs))
 	roots, errs := sc.rs, sc.errs
 	sc.roots.Solve(func(idx []int, x, fx, dfx []float64) error {
-		if err := p.Batch(0, x, fx); err != nil {
+		var err error
+		if sc.c, err = core.DerivativePair(p, 0, x, fx, dfx, sc.c); err != nil {
 			return err
 		}
 		for k, i := range idx {
 			fx[k] = fx[k] - w.Energy - sides[qs[i]].E
 		}
-		return p.Batch(1, x[:len(dfx)], dfx)
+		return nil
 	}, probs, roots, errs)
 	for k, q := range qs {
 		s := &sides[q]

@@ -141,9 +141,8 @@ func newInspect(name string, inst core.Instance, order int, m Mass) (Inspect, co
 		Inflection: Number(w.Inflection),
 		MaxForce:   Number(w.MaxForce),
 	}
-	if t, ok := inst.Potential.(core.Turnover); ok && inst.Potential.Domain().Barrier {
-		br, bv := t.Barrier()
-		r.Barrier = &Barrier{R: br, Energy: bv}
+	if d := inst.Potential.Domain(); d.Barrier {
+		r.Barrier = &Barrier{R: d.Min, Energy: d.BarrierEnergy}
 	}
 	if m.Mu != 0 {
 		h, err := core.NewHarmonic(w.K, m.Mu)

@@ -187,7 +187,7 @@ func amplitudeEnergies(p core.Potential, w core.Well, xs []float64, energy []flo
 		rs = append(rs, r)
 	}
 	vs := make([]float64, len(rs))
-	if err := p.Batch(0, rs, vs); err != nil {
+	if err := p.Taylor(0, rs, vs); err != nil {
 		// Some point failed (e.g. V overflows): take them one by one.
 		for k, r := range rs {
 			v, err := core.Value(p, r)

@@ -118,7 +118,8 @@ type Point struct {
 	MeanClassical, ExpansionClassical, RMSClassical, ClassicalError float64
 	EdgePopulation                                                  float64
 	// Cubic-term estimate re − 3c₃k_BT/(4c₂²), its coefficient and the
-	// harmonic rms displacement √(k_BT/(2c₂)).
+	// harmonic rms displacement √(k_BT/(2c₂)); the first two are NaN for a
+	// form without analytic third derivatives (MaxOrder 2).
 	MeanCubic, ExpansionCubic, RMSHarmonic float64
 	// Quantum Boltzmann average over the levels (NaN without levels);
 	// LevelsUsed is how many levels have a population above 1e-300.
@@ -187,7 +188,7 @@ func New(p core.Potential, s Settings) (*Expansion, error) {
 		return nil, fmt.Errorf("thermal: %w: MaxNodes %d, must be ≥ %d", core.ErrParam, s.MaxNodes, 2*minNodes)
 	}
 	order := min(4, p.MaxOrder())
-	w, err := core.AnalyzeWell(p, core.WellSettings{Order: max(order, 3)})
+	w, err := core.AnalyzeWell(p, core.WellSettings{Order: max(order, 2)})
 	if err != nil {
 		return nil, fmt.Errorf("thermal: %w", err)
 	}
@@ -197,11 +198,7 @@ func New(p core.Potential, s Settings) (*Expansion, error) {
 	}
 	top := w.Depth
 	if d := p.Domain(); d.Barrier {
-		var v [1]float64
-		if err := evaluate(p, w.Energy, []float64{math.Nextafter(d.Min, math.Inf(1))}, v[:]); err != nil {
-			return nil, err
-		}
-		top = math.Min(top, v[0])
+		top = math.Min(top, d.BarrierEnergy-w.Energy)
 	}
 	if !math.IsInf(top, 1) {
 		e.ecut = s.Cutoff * top
@@ -331,7 +328,11 @@ func (e *Expansion) Points(temps []float64, levels []Level) ([]Point, error) {
 		return nil, err
 	}
 	out := make([]Point, len(temps))
-	c2, c3 := e.w.Taylor[2], e.w.Taylor[3]
+	// A form without a third derivative has no cubic-term estimate (NaN).
+	c2, c3 := e.w.Taylor[2], math.NaN()
+	if len(e.w.Taylor) > 3 {
+		c3 = e.w.Taylor[3]
+	}
 	eps := math.Nextafter(1, 2) - 1
 	for i, T := range temps {
 		a, b := panels[2*i], panels[2*i+1]

@@ -39,7 +39,7 @@ const (
 // order n (2, 3 or 4) of the well w of p, at tolerance s.Tolerance.
 //
 // On each side, displacements s from s₀ outward are scanned on a
-// geometric grid (ratio 1.02; both sides in one p.Batch call) up to the
+// geometric grid (ratio 1.02; both sides in one p.Taylor call) up to the
 // edge of the domain (compression) or 100·re (stretch); the first grid
 // point where |V_n − V| > τ·|V − V(re)| and the one before bracket the
 // crossing, which core.RootBatch refines to a few ulp, both sides together
@@ -209,7 +209,7 @@ func (sd *potentialSide) grid(p core.Potential, c *potCrit) {
 	}
 }
 
-// scanPotential evaluates V on the grids of all sides in one p.Batch call.
+// scanPotential evaluates V on the grids of all sides in one p.Taylor call.
 // A point where V is out of the domain ends the scan of its side there.
 func scanPotential(p core.Potential, w core.Well, sides []potentialSide) {
 	total := 0
@@ -232,7 +232,7 @@ func scanPotential(p core.Potential, w core.Well, sides []potentialSide) {
 			return
 		}
 		vs := make([]float64, len(rs))
-		err := p.Batch(0, rs, vs)
+		err := p.Taylor(0, rs, vs)
 		if err == nil {
 			j := 0
 			for k := range sides {
@@ -330,17 +330,15 @@ func crossings(p core.Potential, c *potCrit, sides []potentialSide) {
 	}
 	roots := make([]float64, len(probs))
 	errs := make([]error, len(probs))
-	var rs, dv []float64
+	var rs, dv, work []float64
 	core.RootBatch(func(idx []int, x, fx, dfx []float64) error {
 		rs = rs[:0]
 		for k, i := range idx {
 			rs = append(rs, w.Re+which[i].dir*x[k])
 		}
-		if err := p.Batch(0, rs, fx); err != nil {
-			return err
-		}
 		dv = append(dv[:0], make([]float64, len(dfx))...)
-		if err := p.Batch(1, rs[:len(dfx)], dv); err != nil {
+		var err error
+		if work, err = core.DerivativePair(p, 0, rs, fx, dv, work); err != nil {
 			return err
 		}
 		for k, i := range idx {
@@ -362,10 +360,7 @@ func crossings(p core.Potential, c *potCrit, sides []potentialSide) {
 		}
 	}
 	v, d1 = make([]float64, len(xs)), make([]float64, len(xs))
-	verr := p.Batch(0, xs, v)
-	if verr == nil {
-		verr = p.Batch(1, xs, d1)
-	}
+	_, verr := core.DerivativePair(p, 0, xs, v, d1, nil)
 	j := 0
 	for k, sd := range which {
 		if errs[k] != nil {
@@ -710,10 +705,7 @@ func topEnergy(p core.Potential, w core.Well) (float64, error) {
 		top = w.Depth
 	}
 	if d.Barrier {
-		if t, ok := p.(core.Turnover); ok {
-			_, vb := t.Barrier()
-			top = math.Min(top, vb-w.Energy)
-		}
+		top = math.Min(top, d.BarrierEnergy-w.Energy)
 	}
 	if !math.IsInf(top, 1) {
 		return top, nil

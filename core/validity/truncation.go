@@ -22,8 +22,9 @@ const MaxTruncationOrder = 100
 //
 // Its domain is (0, +Inf): the polynomial is defined at every separation,
 // wider than the domain of any pair potential. Domain.Limit is the limit
-// of V_N as r → ∞, ±Inf by the sign of c_N. Derivatives are analytic:
-// V_N⁽ʲ⁾ = Σ_{k≥j} c_k k!/(k−j)! (r − re)^{k−j}, and 0 for j > N.
+// of V_N as r → ∞, ±Inf by the sign of c_N; the equilibrium guess is re.
+// Its Taylor coefficients are exact: the polynomial shifted to r, and 0
+// above order N.
 type Truncation struct {
 	re float64
 	c  []float64 // c_0, …, c_N
@@ -57,16 +58,14 @@ func (t *Truncation) Re() float64 { return t.re }
 // Coefficients returns a copy of c_0, …, c_N (c₁ = 0).
 func (t *Truncation) Coefficients() []float64 { return append([]float64(nil), t.c...) }
 
-// Domain is (0, +Inf) with Limit ±Inf (the sign of c_N).
+// Domain is (0, +Inf) with Limit ±Inf (the sign of c_N) and the
+// equilibrium guess re.
 func (t *Truncation) Domain() core.Domain {
-	return core.Domain{Min: 0, Max: math.Inf(1), Limit: math.Copysign(math.Inf(1), t.c[len(t.c)-1])}
+	return core.Domain{Min: 0, Max: math.Inf(1), Limit: math.Copysign(math.Inf(1), t.c[len(t.c)-1]), EquilibriumGuess: t.re}
 }
 
 // MaxOrder returns MaxTruncationOrder.
 func (t *Truncation) MaxOrder() int { return MaxTruncationOrder }
-
-// EquilibriumGuess returns re.
-func (t *Truncation) EquilibriumGuess() float64 { return t.re }
 
 // eval returns V_N⁽ʲ⁾ at displacement x by Horner's scheme on the
 // coefficients c_k·k!/(k−j)!.
@@ -86,35 +85,37 @@ func (t *Truncation) eval(j int, x float64) float64 {
 	return s
 }
 
-// Derivatives stores V_N⁽ᵏ⁾(r) in dst[k] for k = 0, …, len(dst)−1.
-func (t *Truncation) Derivatives(r float64, dst []float64) error {
-	if err := core.CheckR(t.Domain(), r); err != nil {
-		return fmt.Errorf("taylor truncation: %w", err)
-	}
-	if err := core.CheckOrder(len(dst)-1, MaxTruncationOrder); err != nil {
-		return fmt.Errorf("taylor truncation: %w", err)
-	}
-	x := r - t.re
-	for k := range dst {
-		dst[k] = t.eval(k, x)
-	}
-	return nil
-}
-
-// Batch stores V_N⁽ⁿ⁾(r[i]) in dst[i].
-func (t *Truncation) Batch(n int, r, dst []float64) error {
-	if len(r) != len(dst) {
-		return fmt.Errorf("taylor truncation: %w: %d separations, %d results", core.ErrLength, len(r), len(dst))
-	}
-	if err := core.CheckOrder(n, MaxTruncationOrder); err != nil {
+// Taylor stores the coefficients of V_N about r[i],
+//
+//	c_j(r) = Σ_{k≥j} C(k, j)·c_k·(r − re)^{k−j},  0 for j > N,
+//
+// at dst[i·(n+1)+j], by the Taylor shift of the polynomial to r (repeated
+// synthetic division, O(N·n) per point).
+func (t *Truncation) Taylor(n int, r, dst []float64) error {
+	if err := core.CheckTaylor(n, MaxTruncationOrder, len(r), len(dst)); err != nil {
 		return fmt.Errorf("taylor truncation: %w", err)
 	}
 	d := t.Domain()
+	N := len(t.c) - 1
+	w := n + 1
+	var b [MaxTruncationOrder + 1]float64
 	for i, x := range r {
 		if err := core.CheckR(d, x); err != nil {
 			return &core.PointError{Index: i, R: x, Err: fmt.Errorf("taylor truncation: %w", err)}
 		}
-		dst[i] = t.eval(n, x-t.re)
+		h := x - t.re
+		copy(b[:], t.c)
+		row := dst[i*w : i*w+w]
+		for j := range row {
+			if j > N {
+				row[j] = 0
+				continue
+			}
+			for k := N - 1; k >= j; k-- {
+				b[k] += h * b[k+1]
+			}
+			row[j] = b[j]
+		}
 	}
 	return nil
 }

@@ -153,16 +153,16 @@ func TestTruncationDerivatives(t *testing.T) {
 			0,
 		}
 		got := make([]float64, len(want))
-		require.NoError(t, tr.Derivatives(r, got))
+		require.NoError(t, tr.Taylor(len(want)-1, []float64{r}, got))
 		for k := range want {
-			assert.InDelta(t, want[k], got[k], 1e-12*(1+math.Abs(want[k])), "V⁽%d⁾(%g)", k, r)
-			b := []float64{0}
-			require.NoError(t, tr.Batch(k, []float64{r}, b))
-			assert.Equal(t, got[k], b[0], "Batch order %d", k)
+			assert.InDelta(t, want[k], got[k]*core.Factorial(k), 1e-12*(1+math.Abs(want[k])), "V⁽%d⁾(%g)", k, r)
+			b := make([]float64, k+1)
+			require.NoError(t, tr.Taylor(k, []float64{r}, b))
+			assert.Equal(t, got[k], b[k], "prefix of order %d", k)
 		}
 	}
-	assert.ErrorIs(t, tr.Derivatives(0, make([]float64, 2)), core.ErrDomain)
-	assert.ErrorIs(t, tr.Batch(0, []float64{1}, nil), core.ErrLength)
+	assert.ErrorIs(t, tr.Taylor(1, []float64{0}, make([]float64, 2)), core.ErrDomain)
+	assert.ErrorIs(t, tr.Taylor(0, []float64{1}, nil), core.ErrLength)
 	assert.True(t, math.IsInf(tr.Domain().Limit, 1))
 	// c₄ < 0: both sides turn over; the lower maximum counts.
 	w.Taylor[4] = -0.5

@@ -341,29 +341,25 @@ func TestBuckinghamHardCore(t *testing.T) {
 // slowTail is V = A/r¹² − C/r³: its B₂ diverges.
 type slowTail struct{}
 
-func (slowTail) Derivatives(r float64, dst []float64) error {
-	for k := range dst {
-		if err := (slowTail{}).Batch(k, []float64{r}, dst[k:k+1]); err != nil {
-			return err
-		}
+func (slowTail) Taylor(n int, r, dst []float64) error {
+	if err := core.CheckTaylor(n, 4, len(r), len(dst)); err != nil {
+		return err
 	}
-	return nil
-}
-
-func (slowTail) Batch(n int, r, dst []float64) error {
 	for i, x := range r {
 		if err := core.CheckR(slowTail{}.Domain(), x); err != nil {
 			return &core.PointError{Index: i, R: x, Err: err}
 		}
-		// dⁿ/drⁿ r^{−m} = (−1)ⁿ m(m+1)…(m+n−1) r^{−m−n}
-		d := func(m float64) float64 {
-			c := 1.0
-			for k := 0; k < n; k++ {
-				c *= -(m + float64(k))
+		for k := 0; k <= n; k++ {
+			// dᵏ/drᵏ r^{−m}/k! = (−1)ᵏ m(m+1)…(m+k−1)/k!·r^{−m−k}
+			d := func(m float64) float64 {
+				c := 1.0
+				for j := 0; j < k; j++ {
+					c *= -(m + float64(j)) / float64(j+1)
+				}
+				return c * math.Pow(x, -m-float64(k))
 			}
-			return c * math.Pow(x, -m-float64(n))
+			dst[i*(n+1)+k] = d(12) - d(3)
 		}
-		dst[i] = d(12) - d(3)
 	}
 	return nil
 }

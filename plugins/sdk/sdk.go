@@ -1,9 +1,28 @@
 // Package sdk turns functional forms written in Go into a pairwell plugin.
 //
-// An author implements the same contract as a built-in form — a core.Model
-// whose New returns a core.Potential (optionally a core.Guesser,
-// core.Identifier and core.Turnover, and a core.Matcher model) — and calls
-// Serve from main:
+// The short way is Form: write V(r) once, as a Go function of the jet of r
+// (package core/jet), give the metadata, and Form is a complete model —
+// parameter and domain checks, batching, the normalized Taylor coefficients
+// c_k = V⁽ᵏ⁾/k! of every order by Taylor-mode automatic differentiation:
+//
+//	var morse = sdk.Form{
+//		Meta: core.ModelInfo{Key: "my-morse", Params: …},
+//		V: func(t *jet.Tape, r jet.Jet, p []float64) jet.Jet {
+//			y := t.Exp(t.Affine(r, -p[1], p[1]*p[2]))  // e^{−a(r − re)}
+//			return t.Mul(y, t.Affine(y, p[0], -2*p[0])) // De·y(y − 2)
+//		},
+//	}
+//
+//	func main() { sdk.Serve("1.0.0", morse) }
+//
+// (plugins/examples/mie is a complete example.) Alternatively, an author
+// implements the same contract as a built-in form by hand — a core.Model
+// (optionally a core.Matcher) whose New returns a core.Potential, whose one
+// evaluation method Taylor returns the normalized Taylor coefficients at
+// many separations, with its Domain (barrier energy and equilibrium guess
+// included) and, for "pairwell check", its published identities
+// (conformance.Identifier); plugins/examples/rydberg is written that way —
+// and calls Serve from main:
 //
 //	func main() {
 //		sdk.Serve("1.0.0", Rydberg{})
@@ -13,11 +32,10 @@
 // pairwell find it in PAIRWELL_PLUGIN_PATH, or pass it with --plugin PATH.
 // pairwell starts the plugin, asks for the models' metadata once, validates
 // each parameter set once (Model.New) and then sends whole batches of
-// separations to Potential.Batch; Potential.Derivatives serves single-point
-// requests for all orders up to n at once.
+// separations, with the highest order n wanted, to Potential.Taylor.
 //
 // Conventions the host relies on, as for built-in forms: units are eV, Å,
-// u, fs (derivatives in eV/Åⁿ); parameters arrive in the default unit of
+// u, fs (c_k in eV/Åᵏ); parameters arrive in the default unit of
 // their dimension, in the order of ModelInfo.Params; errors wrap
 // core.ErrDomain, core.ErrOrder, core.ErrParam, core.ErrNoMinimum so that
 // pairwell can tell bad input from a broken plugin; a failure at one point
@@ -25,7 +43,7 @@
 // an overflow as a domain error, never as ±Inf or NaN). ModelInfo.Origin and
 // ModelInfo.Version are set by the host from the plugin's path and the
 // version given to Serve. The helpers core.CheckParams, core.CheckR and
-// core.CheckOrder do the usual checks.
+// core.CheckTaylor do the usual checks.
 //
 // A panic in model code is recovered and reported as a failure of that call.
 // The plugin exits when pairwell stops it or exits itself.

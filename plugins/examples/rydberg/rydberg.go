@@ -4,6 +4,7 @@ import (
 	"fmt"
 	"math"
 
+	"github.com/pairwell/pairwell/conformance"
 	"github.com/pairwell/pairwell/core"
 	"github.com/pairwell/pairwell/core/units"
 )
@@ -11,9 +12,9 @@ import (
 const (
 	key       = "rydberg"
 	reference = "R. Rydberg, Z. Phys. 73, 376 (1931)"
-	// maxOrder is the highest derivative order served. The closed form
-	// holds at every order; values that overflow float64 are reported as
-	// domain errors.
+	// maxOrder is the highest Taylor order served. The closed form holds
+	// at every order; values that overflow float64 are reported as domain
+	// errors.
 	maxOrder = 100
 )
 
@@ -27,7 +28,10 @@ const (
 //
 //	V⁽ⁿ⁾(r) = −De(−a)ⁿ(1 − n + a·x)e^{−a·x},
 //
-// by induction: d/dx[(p + a·x)e^{−a·x}] = −a(p − 1 + a·x)e^{−a·x}.
+// by induction: d/dx[(p + a·x)e^{−a·x}] = −a(p − 1 + a·x)e^{−a·x}; the
+// potential serves the normalized Taylor coefficients c_n = V⁽ⁿ⁾/n!,
+// derived by hand. (The mie example shows the other style: V written once
+// over jets, every order derived automatically.)
 type Rydberg struct{}
 
 // Info returns the metadata of the form.
@@ -72,94 +76,54 @@ type Potential struct {
 	de, a, re float64
 }
 
-// Domain is (0, +Inf) with dissociation limit 0.
+// Domain is (0, +Inf) with dissociation limit 0; the minimum is at re.
 func (p *Potential) Domain() core.Domain {
-	return core.Domain{Min: 0, Max: math.Inf(1), Limit: 0}
+	return core.Domain{Min: 0, Max: math.Inf(1), Limit: 0, EquilibriumGuess: p.re}
 }
 
-// MaxOrder returns the highest derivative order served.
+// MaxOrder returns the highest Taylor order served.
 func (p *Potential) MaxOrder() int { return maxOrder }
-
-// EquilibriumGuess returns re, the exact minimum.
-func (p *Potential) EquilibriumGuess() float64 { return p.re }
 
 // Identities returns re, V(re) = −De and V⁽ⁿ⁾(re) = De(−a)ⁿ(n − 1) for
 // n = 2, 3, 4 (Rydberg 1931; the general term is the closed form above at
 // x = 0).
-func (p *Potential) Identities() []core.Identity {
+func (p *Potential) Identities() []conformance.Identity {
 	de, a := p.de, p.a
-	return []core.Identity{
-		{Name: "r_min = re", Quantity: core.EquilibriumR, Value: p.re, Source: reference},
-		{Name: "V(re) = −De", Quantity: core.MinimumEnergy, Value: -de, Source: reference},
-		{Name: "V″(re) = De·a²", Quantity: core.DerivativeAtMinimum, Order: 2, Value: de * a * a, Source: reference},
-		{Name: "V‴(re) = −2De·a³", Quantity: core.DerivativeAtMinimum, Order: 3, Value: -2 * de * a * a * a, Source: reference},
-		{Name: "V⁗(re) = 3De·a⁴", Quantity: core.DerivativeAtMinimum, Order: 4, Value: 3 * de * a * a * a * a, Source: reference},
+	return []conformance.Identity{
+		{Name: "r_min = re", Quantity: conformance.EquilibriumR, Value: p.re, Source: reference},
+		{Name: "V(re) = −De", Quantity: conformance.MinimumEnergy, Value: -de, Source: reference},
+		{Name: "V″(re) = De·a²", Quantity: conformance.DerivativeAtMinimum, Order: 2, Value: de * a * a, Source: reference},
+		{Name: "V‴(re) = −2De·a³", Quantity: conformance.DerivativeAtMinimum, Order: 3, Value: -2 * de * a * a * a, Source: reference},
+		{Name: "V⁗(re) = 3De·a⁴", Quantity: conformance.DerivativeAtMinimum, Order: 4, Value: 3 * de * a * a * a * a, Source: reference},
 	}
 }
 
-// term returns V⁽ⁿ⁾ from c = −De(−a)ⁿ, ax = a(r − re) and e = e^{−ax}.
-// Derivatives and Batch both use it, with c built by the same repeated
-// multiplication, so they give the same bits; the float64 conversions
-// forbid fused multiply-adds.
-func term(c float64, n int, ax, e float64) float64 {
-	return float64(float64(c*float64(float64(1-n)+ax)) * e)
-}
-
-func (p *Potential) check(r float64) error {
-	if !(r > 0 && r <= math.MaxFloat64) {
-		return fmt.Errorf("%s: %w", key, core.CheckR(p.Domain(), r))
-	}
-	return nil
-}
-
-func overflow(r float64, n int) error {
-	return fmt.Errorf("%s: r = %g Å: %w: V⁽%d⁾ overflows float64", key, r, core.ErrDomain, n)
-}
-
-// Derivatives stores V⁽ᵏ⁾(r) in dst[k], k = 0, …, len(dst)−1.
-func (p *Potential) Derivatives(r float64, dst []float64) error {
-	if err := p.check(r); err != nil {
-		return err
-	}
-	if len(dst) > maxOrder+1 {
-		return fmt.Errorf("%s: %w", key, core.CheckOrder(len(dst)-1, maxOrder))
-	}
-	ax := float64(p.a * (r - p.re))
-	e := math.Exp(-ax)
-	c := -p.de
-	for k := range dst {
-		v := term(c, k, ax, e)
-		if v-v != 0 {
-			return overflow(r, k)
-		}
-		dst[k] = v
-		c = float64(c * -p.a)
-	}
-	return nil
-}
-
-// Batch stores V⁽ⁿ⁾(r[i]) in dst[i].
-func (p *Potential) Batch(n int, r, dst []float64) error {
-	if len(r) != len(dst) {
-		return fmt.Errorf("%s: %w: len(r) = %d, len(dst) = %d", key, core.ErrLength, len(r), len(dst))
-	}
-	if err := core.CheckOrder(n, maxOrder); err != nil {
+// Taylor stores c_k(r[i]) = V⁽ᵏ⁾(r[i])/k! at dst[i·(n+1)+k]: with
+// x = r − re and q_k = −De(−a)ᵏ/k! (q_k = q_{k−1}·(−a)/k),
+//
+//	c_k = q_k·(1 − k + a·x)·e^{−a·x}.
+func (p *Potential) Taylor(n int, r, dst []float64) error {
+	if err := core.CheckTaylor(n, maxOrder, len(r), len(dst)); err != nil {
 		return fmt.Errorf("%s: %w", key, err)
 	}
-	c := -p.de
-	for k := 0; k < n; k++ {
-		c = float64(c * -p.a)
-	}
+	w := n + 1
 	for i, x := range r {
-		if err := p.check(x); err != nil {
-			return &core.PointError{Index: i, R: x, Err: err}
+		if !(x > 0 && x <= math.MaxFloat64) {
+			return &core.PointError{Index: i, R: x, Err: fmt.Errorf("%s: %w", key, core.CheckR(p.Domain(), x))}
 		}
-		ax := float64(p.a * (x - p.re))
-		v := term(c, n, ax, math.Exp(-ax))
-		if v-v != 0 {
-			return &core.PointError{Index: i, R: x, Err: overflow(x, n)}
+		ax := p.a * (x - p.re)
+		e := math.Exp(-ax)
+		q := -p.de
+		for k := 0; k <= n; k++ {
+			if k > 0 {
+				q *= -p.a / float64(k)
+			}
+			v := q * (float64(1-k) + ax) * e
+			if v-v != 0 {
+				return &core.PointError{Index: i, R: x, Err: fmt.Errorf("%s: %w", key, core.OverflowError(x, k))}
+			}
+			dst[i*w+k] = v
 		}
-		dst[i] = v
 	}
 	return nil
 }

@@ -22,11 +22,14 @@ import (
 // binary framing over a Unix socket, one request at a time per
 // connection, so that an evaluation costs one write and one read each way
 // instead of gRPC's goroutine hand-offs. All numbers are little-endian.
+// The request has the shape of EvaluateRequest (handle, highest order n,
+// separations) and the answer that of EvaluateResponse: the (n+1)·count
+// Taylor coefficients, row-major, c_k(r[i]) at i·(n+1)+k.
 //
 // Request: a 24-byte header, then count float64 separations.
 //
-//	u32 magic 0x31455750 ("PWE1")   u32 flags (bit 0: all orders)
-//	u64 handle                      i32 order   u32 count
+//	u32 magic 0x32455750 ("PWE2", protocol 2)   u32 reserved, 0
+//	u64 handle                                   i32 order n   u32 count
 //
 // Response: a 16-byte header, then the values or the failure.
 //
@@ -35,8 +38,7 @@ import (
 //	       point failure, the index of the point; failure, 0
 //	on failure: u32 length and the message in UTF-8
 const (
-	fastMagic       = 0x31455750
-	fastFlagAll     = 1
+	fastMagic       = 0x32455750
 	fastRequestHdr  = 24
 	fastResponseHdr = 16
 
@@ -98,7 +100,9 @@ func (s *Server) serveFastConn(c net.Conn) {
 		if le.Uint32(hdr[0:]) != fastMagic {
 			return
 		}
-		flags := le.Uint32(hdr[4:])
+		if le.Uint32(hdr[4:]) != 0 {
+			return
+		}
 		handle := le.Uint64(hdr[8:])
 		order := int(int32(le.Uint32(hdr[16:])))
 		count := int(le.Uint32(hdr[20:]))
@@ -110,7 +114,7 @@ func (s *Server) serveFastConn(c net.Conn) {
 		if raw, err = readFloats(br, r, raw); err != nil {
 			return
 		}
-		values, pf, f := s.evaluate(handle, order, flags&fastFlagAll != 0, r, vals)
+		values, pf, f := s.evaluate(handle, order, r, vals)
 		if cap(values) > cap(vals) {
 			vals = values
 		}
@@ -300,12 +304,12 @@ func (fc *FastClient) Close() {
 // values are stored in dst, and a response with another number of values
 // is an error wrapping ErrBadCount. A failure the plugin reported comes
 // back in pf or f. err is a transport error (a deadline: os.ErrDeadlineExceeded).
-func (fc *FastClient) Evaluate(timeout time.Duration, handle uint64, order int, allOrders bool, r, dst []float64) (pf *pb.PointFailure, f *pb.Failure, err error) {
+func (fc *FastClient) Evaluate(timeout time.Duration, handle uint64, order int, r, dst []float64) (pf *pb.PointFailure, f *pb.Failure, err error) {
 	c, err := fc.get(timeout)
 	if err != nil {
 		return nil, nil, err
 	}
-	pf, f, err = c.evaluate(timeout, handle, order, allOrders, r, dst)
+	pf, f, err = c.evaluate(timeout, handle, order, r, dst)
 	if err != nil && !errors.Is(err, ErrBadCount) {
 		fc.discard(c)
 		return nil, nil, err
@@ -317,18 +321,14 @@ func (fc *FastClient) Evaluate(timeout time.Duration, handle uint64, order int, 
 // ErrBadCount means a response carried another number of values than due.
 var ErrBadCount = errors.New("wrong number of values")
 
-func (c *fastConn) evaluate(timeout time.Duration, handle uint64, order int, allOrders bool, r, dst []float64) (*pb.PointFailure, *pb.Failure, error) {
+func (c *fastConn) evaluate(timeout time.Duration, handle uint64, order int, r, dst []float64) (*pb.PointFailure, *pb.Failure, error) {
 	if err := c.c.SetDeadline(time.Now().Add(timeout)); err != nil {
 		return nil, nil, err
 	}
 	le := binary.LittleEndian
-	var flags uint32
-	if allOrders {
-		flags = fastFlagAll
-	}
 	b := c.buf[:0]
 	b = le.AppendUint32(b, fastMagic)
-	b = le.AppendUint32(b, flags)
+	b = le.AppendUint32(b, 0)
 	b = le.AppendUint64(b, handle)
 	b = le.AppendUint32(b, uint32(int32(order)))
 	b = le.AppendUint32(b, uint32(len(r)))

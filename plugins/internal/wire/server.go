@@ -9,6 +9,7 @@ import (
 	"strings"
 	"sync"
 
+	"github.com/pairwell/pairwell/conformance"
 	"github.com/pairwell/pairwell/core"
 	pb "github.com/pairwell/pairwell/plugins/proto"
 )
@@ -112,11 +113,7 @@ func (s *Server) Open(_ context.Context, req *pb.OpenRequest) (resp *pb.OpenResp
 		return &pb.OpenResponse{Failure: &pb.Failure{Message: fmt.Sprintf("%s: New returned no potential and no error", req.GetModel())}}, nil
 	}
 	resp = &pb.OpenResponse{Domain: DomainToProto(pot.Domain())}
-	if g, ok := pot.(core.Guesser); ok {
-		v := g.EquilibriumGuess()
-		resp.EquilibriumGuess = &v
-	}
-	if id, ok := pot.(core.Identifier); ok {
+	if id, ok := pot.(conformance.Identifier); ok {
 		for _, x := range id.Identities() {
 			px, err := IdentityToProto(x)
 			if err != nil {
@@ -124,10 +121,6 @@ func (s *Server) Open(_ context.Context, req *pb.OpenRequest) (resp *pb.OpenResp
 			}
 			resp.Identities = append(resp.Identities, px)
 		}
-	}
-	if t, ok := pot.(core.Turnover); ok && pot.Domain().Barrier {
-		r, v := t.Barrier()
-		resp.Barrier = &pb.Barrier{R: r, V: v}
 	}
 	s.mu.Lock()
 	s.next++
@@ -147,13 +140,14 @@ func (s *Server) Potential(h uint64) (core.Potential, bool) {
 
 // Evaluate evaluates the potential under a handle.
 func (s *Server) Evaluate(_ context.Context, req *pb.EvaluateRequest) (*pb.EvaluateResponse, error) {
-	values, pf, f := s.evaluate(req.GetHandle(), int(req.GetOrder()), req.GetAllOrders(), req.GetR(), nil)
+	values, pf, f := s.evaluate(req.GetHandle(), int(req.GetOrder()), req.GetR(), nil)
 	return &pb.EvaluateResponse{Values: values, PointFailure: pf, Failure: f}, nil
 }
 
-// evaluate is Evaluate for both transports. It returns the values or one
-// of the failures. values reuses buf when it is large enough.
-func (s *Server) evaluate(handle uint64, n int, allOrders bool, r, buf []float64) (values []float64, pf *pb.PointFailure, f *pb.Failure) {
+// evaluate is Evaluate for both transports: one Taylor call of order n at
+// every r. It returns the (n+1)·len(r) coefficients or one of the
+// failures. values reuses buf when it is large enough.
+func (s *Server) evaluate(handle uint64, n int, r, buf []float64) (values []float64, pf *pb.PointFailure, f *pb.Failure) {
 	defer func() {
 		if p := recover(); p != nil {
 			values, pf, f = nil, nil, recovered("Evaluate", p)
@@ -163,24 +157,12 @@ func (s *Server) evaluate(handle uint64, n int, allOrders bool, r, buf []float64
 	if !ok {
 		return nil, nil, &pb.Failure{Message: fmt.Sprintf("unknown handle %d", handle)}
 	}
-	if n < 0 {
-		return nil, nil, FailureFromError(core.CheckOrder(n, pot.MaxOrder()))
-	}
-	if !allOrders {
-		values = grow(buf, len(r))
-		if err := pot.Batch(n, r, values); err != nil {
-			return nil, pointFailure(err), nonPointFailure(err)
-		}
-		return s.filter(handle, values), nil, nil
-	}
-	if n > pot.MaxOrder() {
-		return nil, nil, FailureFromError(core.CheckOrder(n, pot.MaxOrder()))
+	if err := core.CheckOrder(n, pot.MaxOrder()); err != nil {
+		return nil, nil, FailureFromError(err)
 	}
 	values = grow(buf, len(r)*(n+1))
-	for i, x := range r {
-		if err := pot.Derivatives(x, values[i*(n+1):(i+1)*(n+1)]); err != nil {
-			return nil, &pb.PointFailure{Index: int64(i), Failure: FailureFromError(err)}, nil
-		}
+	if err := pot.Taylor(n, r, values); err != nil {
+		return nil, pointFailure(err), nonPointFailure(err)
 	}
 	return s.filter(handle, values), nil, nil
 }
@@ -200,7 +182,7 @@ func grow(buf []float64, n int) []float64 {
 	return make([]float64, n)
 }
 
-// pointFailure returns the point failure of a Batch error, nil if err is
+// pointFailure returns the point failure of a Taylor error, nil if err is
 // not a *core.PointError.
 func pointFailure(err error) *pb.PointFailure {
 	var pe *core.PointError
@@ -214,7 +196,7 @@ func pointFailure(err error) *pb.PointFailure {
 	return &pb.PointFailure{Index: int64(pe.Index), Failure: FailureFromError(inner)}
 }
 
-// nonPointFailure returns the failure of a Batch error that is not a
+// nonPointFailure returns the failure of a Taylor error that is not a
 // *core.PointError, nil otherwise.
 func nonPointFailure(err error) *pb.Failure {
 	var pe *core.PointError
@@ -243,11 +225,7 @@ func (s *Server) Match(_ context.Context, req *pb.MatchRequest) (resp *pb.MatchR
 	if f != nil {
 		return &pb.MatchResponse{Failure: f}, nil
 	}
-	mm, ok := m.(core.Matcher)
-	if !ok {
-		return &pb.MatchResponse{Failure: &pb.Failure{Message: fmt.Sprintf("%s: the model does not match target wells", req.GetModel())}}, nil
-	}
-	params, notes, err := mm.Match(core.Target{Re: req.GetRe(), Depth: req.GetDepth(), K: req.GetK()})
+	params, notes, err := core.Match(m, core.Target{Re: req.GetRe(), Depth: req.GetDepth(), K: req.GetK()})
 	if err != nil {
 		return &pb.MatchResponse{Failure: FailureFromError(err)}, nil
 	}

@@ -13,6 +13,7 @@ import (
 	plugin "github.com/hashicorp/go-plugin"
 	"google.golang.org/grpc"
 
+	"github.com/pairwell/pairwell/conformance"
 	"github.com/pairwell/pairwell/core"
 	"github.com/pairwell/pairwell/core/units"
 	pb "github.com/pairwell/pairwell/plugins/proto"
@@ -23,7 +24,10 @@ import (
 const (
 	MagicCookieKey   = "PAIRWELL_PLUGIN"
 	MagicCookieValue = "pairwell-forms-7f3c9a1e5b2d4c68"
-	ProtocolVersion  = 1
+	// ProtocolVersion is the version of the plugin protocol this build
+	// speaks: 2, evaluation by Taylor coefficients (version 1 evaluated
+	// one derivative order per call and is refused).
+	ProtocolVersion = 2
 	// PluginName is the name of the one go-plugin plugin a pairwell plugin
 	// serves: the Forms service.
 	PluginName = "forms"
@@ -206,33 +210,42 @@ func CheckInfo(m *pb.ModelInfo) error {
 
 // DomainToProto converts d.
 func DomainToProto(d core.Domain) *pb.Domain {
-	return &pb.Domain{Min: d.Min, Max: d.Max, Barrier: d.Barrier, Limit: d.Limit}
+	return &pb.Domain{Min: d.Min, Max: d.Max, Barrier: d.Barrier, Limit: d.Limit,
+		BarrierEnergy: d.BarrierEnergy, EquilibriumGuess: d.EquilibriumGuess}
 }
 
-// DomainFromProto converts and checks d: Min < Max, neither NaN.
+// DomainFromProto converts and checks d: Min < Max, neither NaN; a finite
+// barrier energy when there is a barrier; a finite, non-negative guess.
 func DomainFromProto(d *pb.Domain) (core.Domain, error) {
 	if d == nil {
 		return core.Domain{}, errors.New("no domain")
 	}
-	out := core.Domain{Min: d.GetMin(), Max: d.GetMax(), Barrier: d.GetBarrier(), Limit: d.GetLimit()}
+	out := core.Domain{Min: d.GetMin(), Max: d.GetMax(), Barrier: d.GetBarrier(), Limit: d.GetLimit(),
+		BarrierEnergy: d.GetBarrierEnergy(), EquilibriumGuess: d.GetEquilibriumGuess()}
 	if !(out.Min < out.Max) || math.IsNaN(out.Limit) {
 		return core.Domain{}, fmt.Errorf("invalid domain (%g Å, %g Å), limit %g eV", out.Min, out.Max, out.Limit)
+	}
+	if out.Barrier && (math.IsNaN(out.BarrierEnergy) || math.IsInf(out.BarrierEnergy, 0)) {
+		return core.Domain{}, fmt.Errorf("the domain has an inner barrier but its energy is %g eV", out.BarrierEnergy)
+	}
+	if !(out.EquilibriumGuess >= 0) || math.IsInf(out.EquilibriumGuess, 0) {
+		return core.Domain{}, fmt.Errorf("invalid equilibrium guess %g Å", out.EquilibriumGuess)
 	}
 	return out, nil
 }
 
 var quantities = [...]struct {
-	q core.Quantity
+	q conformance.Quantity
 	p pb.Quantity
 }{
-	{core.EquilibriumR, pb.Quantity_QUANTITY_EQUILIBRIUM_R},
-	{core.MinimumEnergy, pb.Quantity_QUANTITY_MINIMUM_ENERGY},
-	{core.DerivativeAtMinimum, pb.Quantity_QUANTITY_DERIVATIVE_AT_MINIMUM},
-	{core.ValueAt, pb.Quantity_QUANTITY_VALUE_AT},
+	{conformance.EquilibriumR, pb.Quantity_QUANTITY_EQUILIBRIUM_R},
+	{conformance.MinimumEnergy, pb.Quantity_QUANTITY_MINIMUM_ENERGY},
+	{conformance.DerivativeAtMinimum, pb.Quantity_QUANTITY_DERIVATIVE_AT_MINIMUM},
+	{conformance.ValueAt, pb.Quantity_QUANTITY_VALUE_AT},
 }
 
 // IdentityToProto converts id.
-func IdentityToProto(id core.Identity) (*pb.Identity, error) {
+func IdentityToProto(id conformance.Identity) (*pb.Identity, error) {
 	for _, e := range quantities {
 		if e.q == id.Quantity {
 			return &pb.Identity{
@@ -245,16 +258,16 @@ func IdentityToProto(id core.Identity) (*pb.Identity, error) {
 }
 
 // IdentityFromProto converts id.
-func IdentityFromProto(id *pb.Identity) (core.Identity, error) {
+func IdentityFromProto(id *pb.Identity) (conformance.Identity, error) {
 	for _, e := range quantities {
 		if e.p == id.GetQuantity() {
-			return core.Identity{
+			return conformance.Identity{
 				Name: id.GetName(), Quantity: e.q, Order: int(id.GetOrder()), R: id.GetR(),
 				Value: id.GetValue(), Source: id.GetSource(),
 			}, nil
 		}
 	}
-	return core.Identity{}, fmt.Errorf("identity %q: unknown quantity %d", id.GetName(), int32(id.GetQuantity()))
+	return conformance.Identity{}, fmt.Errorf("identity %q: unknown quantity %d", id.GetName(), int32(id.GetQuantity()))
 }
 
 // kinds pairs each error kind with the core error it stands for.
@@ -268,6 +281,7 @@ var kinds = [...]struct {
 	{pb.ErrorKind_ERROR_KIND_NO_MINIMUM, core.ErrNoMinimum},
 	{pb.ErrorKind_ERROR_KIND_LENGTH, core.ErrLength},
 	{pb.ErrorKind_ERROR_KIND_NO_CONVERGENCE, core.ErrNoConvergence},
+	{pb.ErrorKind_ERROR_KIND_UNSUPPORTED, core.ErrUnsupported},
 }
 
 // FailureFromError classifies err for the wire.

@@ -117,42 +117,35 @@ func TestFastChannel(t *testing.T) {
 	require.NoError(t, err)
 
 	rs := []float64{0.9, 1.27, 2, 5}
-	got := make([]float64, len(rs))
-	pf, f, err := fc.Evaluate(time.Second, h, 3, false, rs, got)
+	got := make([]float64, 4*len(rs))
+	pf, f, err := fc.Evaluate(time.Second, h, 3, rs, got)
 	require.NoError(t, err)
 	require.Nil(t, pf)
 	require.Nil(t, f)
-	exp := make([]float64, len(rs))
-	require.NoError(t, want.Batch(3, rs, exp))
+	exp := make([]float64, 4*len(rs))
+	require.NoError(t, want.Taylor(3, rs, exp))
 	assert.Equal(t, exp, got, "bit-exact transport")
 
-	all := make([]float64, 2*3)
-	_, _, err = fc.Evaluate(time.Second, h, 2, true, rs[:2], all)
-	require.NoError(t, err)
-	d := make([]float64, 3)
-	require.NoError(t, want.Derivatives(rs[1], d))
-	assert.Equal(t, d, all[3:])
-
-	pf, _, err = fc.Evaluate(time.Second, h, 1, false, []float64{1, -1}, make([]float64, 2))
+	pf, _, err = fc.Evaluate(time.Second, h, 1, []float64{1, -1}, make([]float64, 4))
 	require.NoError(t, err)
 	require.NotNil(t, pf)
 	assert.Equal(t, int64(1), pf.GetIndex())
 	assert.ErrorIs(t, ErrorFromFailure(pf.GetFailure()), core.ErrDomain)
 
-	_, f, err = fc.Evaluate(time.Second, h+7, 0, false, []float64{1}, make([]float64, 1))
+	_, f, err = fc.Evaluate(time.Second, h+7, 0, []float64{1}, make([]float64, 1))
 	require.NoError(t, err)
 	assert.Contains(t, f.GetMessage(), "unknown handle")
 
 	// A wrong count is reported, and the connection stays usable.
 	extra.Store(true)
-	_, _, err = fc.Evaluate(time.Second, h, 0, false, []float64{1}, make([]float64, 1))
+	_, _, err = fc.Evaluate(time.Second, h, 0, []float64{1}, make([]float64, 1))
 	assert.ErrorIs(t, err, ErrBadCount)
 	extra.Store(false)
-	_, _, err = fc.Evaluate(time.Second, h, 0, false, []float64{1}, make([]float64, 1))
+	_, _, err = fc.Evaluate(time.Second, h, 0, []float64{1}, make([]float64, 1))
 	assert.NoError(t, err)
 
 	fc.Close()
-	_, _, err = fc.Evaluate(time.Second, h, 0, false, []float64{1}, make([]float64, 1))
+	_, _, err = fc.Evaluate(time.Second, h, 0, []float64{1}, make([]float64, 1))
 	assert.ErrorIs(t, err, net.ErrClosed)
 }
 

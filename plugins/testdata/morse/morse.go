@@ -9,6 +9,7 @@ import (
 	"os"
 	"time"
 
+	"github.com/pairwell/pairwell/conformance"
 	"github.com/pairwell/pairwell/core"
 	"github.com/pairwell/pairwell/core/units"
 )
@@ -21,7 +22,7 @@ const (
 	None      Fault = iota
 	Crash           // the process exits with status 3 in an evaluation
 	Hang            // an evaluation never returns
-	NaN             // V⁽ⁿ⁾ is NaN for n ≥ 2
+	NaN             // c_n is NaN for n ≥ 2
 	BadLength       // (served by testdata/faulty) one value too few
 	Third           // V‴ is 1.1 times the true value
 	ForceSign       // V′ has the wrong sign
@@ -83,93 +84,72 @@ type Potential struct {
 // Fault returns the potential's fault.
 func (p *Potential) Fault() Fault { return p.fault }
 
-// Domain is (0, ∞), limit 0.
-func (p *Potential) Domain() core.Domain { return core.Domain{Max: math.Inf(1)} }
+// Domain is (0, ∞), limit 0, minimum at re.
+func (p *Potential) Domain() core.Domain {
+	return core.Domain{Max: math.Inf(1), EquilibriumGuess: p.re}
+}
 
 // MaxOrder returns 60.
 func (p *Potential) MaxOrder() int { return maxOrder }
 
-// EquilibriumGuess returns re.
-func (p *Potential) EquilibriumGuess() float64 { return p.re }
-
 // Identities are the true Morse ones, whatever the fault.
-func (p *Potential) Identities() []core.Identity {
+func (p *Potential) Identities() []conformance.Identity {
 	de, a := p.de, p.a
-	return []core.Identity{
-		{Name: "r_min = re", Quantity: core.EquilibriumR, Value: p.re, Source: reference},
-		{Name: "V(re) = −De", Quantity: core.MinimumEnergy, Value: -de, Source: reference},
-		{Name: "V″(re) = 2De·a²", Quantity: core.DerivativeAtMinimum, Order: 2, Value: 2 * de * a * a, Source: reference},
-		{Name: "V‴(re) = −6De·a³", Quantity: core.DerivativeAtMinimum, Order: 3, Value: -6 * de * a * a * a, Source: reference},
+	return []conformance.Identity{
+		{Name: "r_min = re", Quantity: conformance.EquilibriumR, Value: p.re, Source: reference},
+		{Name: "V(re) = −De", Quantity: conformance.MinimumEnergy, Value: -de, Source: reference},
+		{Name: "V″(re) = 2De·a²", Quantity: conformance.DerivativeAtMinimum, Order: 2, Value: 2 * de * a * a, Source: reference},
+		{Name: "V‴(re) = −6De·a³", Quantity: conformance.DerivativeAtMinimum, Order: 3, Value: -6 * de * a * a * a, Source: reference},
 	}
 }
 
-// value returns V⁽ⁿ⁾(r) = De·y·[(−2a)ⁿ·y − 2(−a)ⁿ], y = e^{−a(r−re)},
-// with (−a)ⁿ from pn and (−2a)ⁿ = 2ⁿ(−a)ⁿ.
-func (p *Potential) value(n int, pn, r float64) (float64, error) {
-	if !(r > 0 && r <= math.MaxFloat64) {
-		return 0, fmt.Errorf("%s: %w", p.key, core.CheckR(p.Domain(), r))
-	}
-	switch p.fault {
-	case Crash:
-		f := os.NewFile(2, "stderr") // the real standard error, not go-plugin's redirect
-		fmt.Fprintln(f, "crash test plugin: exiting in the middle of a call")
-		os.Exit(3)
-	case Hang:
-		time.Sleep(time.Hour)
-	case Panic:
-		panic("panic test plugin")
-	}
-	y := math.Exp(-p.a * (r - p.re))
-	v := float64(p.de*y) * (float64(math.Ldexp(pn, n)*y) - 2*pn)
-	switch {
-	case p.fault == NaN && n >= 2:
-		v = math.NaN()
-	case p.fault == Third && n == 3:
-		v *= 1.1
-	case p.fault == ForceSign && n == 1:
-		v = -v
-	}
-	if v-v != 0 && !math.IsNaN(v) {
-		return 0, fmt.Errorf("%s: r = %g Å: %w: V⁽%d⁾ overflows", p.key, r, core.ErrDomain, n)
-	}
-	return v, nil
-}
-
-// Derivatives stores V⁽ᵏ⁾(r) in dst[k].
-func (p *Potential) Derivatives(r float64, dst []float64) error {
-	if len(dst) > maxOrder+1 {
-		return fmt.Errorf("%s: %w", p.key, core.CheckOrder(len(dst)-1, maxOrder))
-	}
-	pn := 1.0
-	for k := range dst {
-		v, err := p.value(k, pn, r)
-		if err != nil {
-			return err
-		}
-		dst[k] = v
-		pn *= -p.a
-	}
-	return nil
-}
-
-// Batch stores V⁽ⁿ⁾(r[i]) in dst[i].
-func (p *Potential) Batch(n int, r, dst []float64) error {
-	if len(r) != len(dst) {
-		return fmt.Errorf("%s: %w", p.key, core.ErrLength)
-	}
-	if err := core.CheckOrder(n, maxOrder); err != nil {
+// Taylor stores c_k(r[i]) = De·y·[2ᵏ·q_k·y − 2q_k] at dst[i·(n+1)+k], with
+// y = e^{−a(r−re)} and q_k = (−a)ᵏ/k! (so that (−2a)ᵏ/k! = 2ᵏq_k), the
+// fault applied to its order. It uses math.Exp and its own arrangement of
+// the terms, independently of the built-in.
+func (p *Potential) Taylor(n int, r, dst []float64) error {
+	if err := core.CheckTaylor(n, maxOrder, len(r), len(dst)); err != nil {
 		return fmt.Errorf("%s: %w", p.key, err)
 	}
-	pn := 1.0
-	for k := 0; k < n; k++ {
-		pn *= -p.a
+	// q[k] = (−a)ᵏ/k! and q2[k] = 2ᵏq[k] = (−2a)ᵏ/k!, once per call.
+	var q, q2 [maxOrder + 1]float64
+	q[0], q2[0] = 1, 1
+	for k := 1; k <= n; k++ {
+		q[k] = q[k-1] * -p.a / float64(k)
+		q2[k] = math.Ldexp(q[k], k)
 	}
 	for i, x := range r {
-		v, err := p.value(n, pn, x)
-		if err != nil {
-			return &core.PointError{Index: i, R: x, Err: err}
+		if !(x > 0 && x <= math.MaxFloat64) {
+			return &core.PointError{Index: i, R: x, Err: fmt.Errorf("%s: %w", p.key, core.CheckR(p.Domain(), x))}
 		}
-		dst[i] = v
+		switch p.fault {
+		case Crash:
+			f := os.NewFile(2, "stderr") // the real standard error, not go-plugin's redirect
+			fmt.Fprintln(f, "crash test plugin: exiting in the middle of a call")
+			os.Exit(3)
+		case Hang:
+			time.Sleep(time.Hour)
+		case Panic:
+			panic("panic test plugin")
+		}
+		y := math.Exp(-p.a * (x - p.re))
+		dy := p.de * y
+		row := dst[i*(n+1) : (i+1)*(n+1)]
+		for k := range row {
+			v := dy * (q2[k]*y - 2*q[k])
+			switch {
+			case p.fault == NaN && k >= 2:
+				v = math.NaN()
+			case p.fault == Third && k == 3:
+				v *= 1.1
+			case p.fault == ForceSign && k == 1:
+				v = -v
+			}
+			if v-v != 0 && !math.IsNaN(v) {
+				return &core.PointError{Index: i, R: x, Err: fmt.Errorf("%s: %w", p.key, core.OverflowError(x, k))}
+			}
+			row[k] = v
+		}
 	}
 	return nil
 }

@@ -4,7 +4,7 @@
 //
 //	crashing-morse   the process exits with status 3 in an evaluation
 //	hanging-morse    an evaluation never returns
-//	nan-morse        V⁽ⁿ⁾ is NaN for n ≥ 2
+//	nan-morse        c_n = V⁽ⁿ⁾/n! is NaN for n ≥ 2
 //	badlen-morse     evaluations return one value too few
 //	panicking-morse  an evaluation panics
 //	morse-bad3       V‴ is 10 % too large (its identities are Morse's)
@@ -14,15 +14,15 @@
 //	                 exits with status 3: a crash in the middle of a run
 //
 // and the built-in Buckingham form as "plugin-buckingham", whose inner
-// barrier (core.Turnover) travels through the protocol.
+// barrier (core.Domain.BarrierEnergy) travels through the protocol.
 //
-// Started under a name containing "badproto" (a symbolic link), it speaks
-// protocol version 2 instead, which pairwell refuses; under a name
-// containing "grpconly" it serves no direct evaluation channel. Under a
-// name containing "holdpipes" it first starts a child that inherits its
-// standard output and error and sleeps; under "setsid" that child also
-// leaves the process group and session (setsid). One executable keeps the
-// tests' build short.
+// Started under a name containing "oldproto" (a symbolic link), it answers
+// the handshake with protocol version 1, the one before Taylor
+// evaluation, which pairwell refuses; under a name containing "grpconly"
+// it serves no direct evaluation channel. Under a name containing
+// "holdpipes" it first starts a child that inherits its standard output
+// and error and sleeps; under "setsid" that child also leaves the process
+// group and session (setsid). One executable keeps the tests' build short.
 package main
 
 import (
@@ -45,7 +45,9 @@ import (
 	"github.com/pairwell/pairwell/plugins/testdata/morse"
 )
 
-// renamed serves a model under another key.
+// renamed serves a model under another key. Like every wrapper of a
+// model, it forwards Match (core.Match reports core.ErrUnsupported when
+// the inner model has none).
 type renamed struct {
 	core.Model
 	key string
@@ -55,6 +57,10 @@ func (m renamed) Info() core.ModelInfo {
 	info := m.Model.Info()
 	info.Key, info.Aliases = m.key, nil
 	return info
+}
+
+func (m renamed) Match(t core.Target) ([]float64, []string, error) {
+	return core.Match(m.Model, t)
 }
 
 // crashLater is a model whose potentials the evaluation filter counts.
@@ -138,8 +144,8 @@ func main() {
 		}
 	}
 	version := uint(wire.ProtocolVersion)
-	if strings.Contains(filepath.Base(os.Args[0]), "badproto") {
-		version++
+	if strings.Contains(filepath.Base(os.Args[0]), "oldproto") {
+		version = 1
 	}
 	plugin.Serve(wire.ServeConfig(version, srv, os.Stderr))
 }
