@@ -228,6 +228,36 @@ func (e Expansion) Value(x float64) float64 {
 	return f
 }
 
+// Trim returns the expansion without the terms beyond the order m where,
+// at every |x| ≤ xmax, the dropped terms together are below ε·c₂x²
+// (|c_k|·xmax^{k−2} summed over k > m, against ε·c₂): it evaluates faster
+// at small displacements and to the same precision. Take error bounds
+// (Sum) from the full series: those of the trimmed one are pessimistic.
+func (e Expansion) Trim(xmax float64) Expansion {
+	m := len(e.c) - 1
+	if m < 3 {
+		return e
+	}
+	xmax = math.Abs(xmax)
+	drop, p := 0.0, ipow(xmax, m-2)
+	for m > 2 {
+		drop += math.Abs(e.c[m]) * p
+		if !(drop <= eps*e.c[2]) {
+			break
+		}
+		m--
+		if xmax > 0 {
+			p /= xmax
+		}
+	}
+	if m == len(e.c)-1 {
+		return e
+	}
+	t := e
+	t.c = e.c[:m+1]
+	return t
+}
+
 // ipow returns x^n for n ≥ 0 by repeated squaring.
 func ipow(x float64, n int) float64 {
 	r := 1.0

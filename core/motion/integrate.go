@@ -330,6 +330,10 @@ func (in *integrator) run(st Start) (Result, error) {
 		}
 
 		res.Steps++
+		if s.MaxSteps > 0 && res.Steps > s.MaxSteps {
+			return Result{}, fmt.Errorf("motion: %w: %d steps reached at t = %.6g fs with %d of %d turning points found",
+				ErrTooManySteps, s.MaxSteps, t, len(tps), need)
+		}
 		if adaptive {
 			// Kahan summation keeps t accurate over many small steps.
 			y := hUsed - comp

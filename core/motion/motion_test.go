@@ -509,6 +509,27 @@ func TestNearBarrier(t *testing.T) {
 	assert.InDelta(t, 0, r.Period/ref-1, 1e-6)
 }
 
+// TestMaxSteps: a run that needs more steps than Settings.MaxSteps fails
+// with ErrTooManySteps, for fixed and adaptive steps; one within it is
+// unchanged.
+func TestMaxSteps(t *testing.T) {
+	o := morse(t)
+	st, err := o.FromEnergy(0.1 * morseDe)
+	require.NoError(t, err)
+	for _, m := range motion.Methods() {
+		full, err := o.Run(st, motion.Settings{Method: m, Periods: 2, Record: 1})
+		require.NoError(t, err)
+		_, err = o.Run(st, motion.Settings{Method: m, Periods: 2, Record: 1, MaxSteps: full.Steps - 1})
+		assert.ErrorIs(t, err, motion.ErrTooManySteps, m.String())
+		r, err := o.Run(st, motion.Settings{Method: m, Periods: 2, Record: 1, MaxSteps: full.Steps})
+		require.NoError(t, err, m.String())
+		assert.Equal(t, full.Period, r.Period)
+		assert.Len(t, r.Trajectory, full.Steps+1)
+	}
+	_, err = o.Run(st, motion.Settings{MaxSteps: -1})
+	assert.ErrorIs(t, err, core.ErrParam)
+}
+
 // TestEnergyFloor: at a tiny energy the energy of the steps comes from the
 // Taylor series at re, so the rounding floor stays small and the energy
 // error of the integrator is resolved; with only c₂ known (no series), the
