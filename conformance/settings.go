@@ -12,6 +12,10 @@ const (
 	// DefaultPoints is the number of separations at which derivatives
 	// are compared with finite differences.
 	DefaultPoints = 64
+	// MaxPoints bounds Points: the checks keep arrays of Points ×
+	// (MaxOrder + 1) values per stencil, and 10⁴ separations already
+	// resolve any feature of a pair potential.
+	MaxPoints = 10_000
 	// DefaultMaxOrder is the highest derivative order checked, when the
 	// form claims that many.
 	DefaultMaxOrder = 8
@@ -128,8 +132,8 @@ func (s Settings) resolved() (Settings, error) {
 	}
 	pos := func(v float64) bool { return v > 0 && !math.IsInf(v, 1) }
 	switch {
-	case s.Points < 8:
-		return bad("Points %d, must be at least 8", s.Points)
+	case s.Points < 8 || s.Points > MaxPoints:
+		return bad("Points %d, must be from 8 to %d", s.Points, MaxPoints)
 	case s.MaxOrder < 1:
 		return bad("MaxOrder %d, must be at least 1", s.MaxOrder)
 	case s.Goroutines < 1:

@@ -65,6 +65,10 @@ func NewExpansion(w Well) Expansion {
 	}
 	c = c[:m+1]
 	beta := 0.0
+	if m < 3 {
+		// Nothing is known beyond c₂: no bound on the remainder.
+		beta = math.Inf(1)
+	}
 	for k := max(3, m-3); k <= m; k++ {
 		if c[k] != 0 {
 			beta = math.Max(beta, math.Pow(math.Abs(c[k])/c[2], 1/float64(k-2)))
@@ -222,6 +226,36 @@ func (e Expansion) Slope(x float64, from int) float64 {
 func (e Expansion) Value(x float64) float64 {
 	f, _ := e.poly(x)
 	return f
+}
+
+// Trim returns the expansion without the terms beyond the order m where,
+// at every |x| ≤ xmax, the dropped terms together are below ε·c₂x²
+// (|c_k|·xmax^{k−2} summed over k > m, against ε·c₂): it evaluates faster
+// at small displacements and to the same precision. Take error bounds
+// (Sum) from the full series: those of the trimmed one are pessimistic.
+func (e Expansion) Trim(xmax float64) Expansion {
+	m := len(e.c) - 1
+	if m < 3 {
+		return e
+	}
+	xmax = math.Abs(xmax)
+	drop, p := 0.0, ipow(xmax, m-2)
+	for m > 2 {
+		drop += math.Abs(e.c[m]) * p
+		if !(drop <= eps*e.c[2]) {
+			break
+		}
+		m--
+		if xmax > 0 {
+			p /= xmax
+		}
+	}
+	if m == len(e.c)-1 {
+		return e
+	}
+	t := e
+	t.c = e.c[:m+1]
+	return t
 }
 
 // ipow returns x^n for n ≥ 0 by repeated squaring.

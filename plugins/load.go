@@ -22,6 +22,7 @@ import (
 	hclog "github.com/hashicorp/go-hclog"
 	plugin "github.com/hashicorp/go-plugin"
 	"github.com/hashicorp/go-plugin/runner"
+	"google.golang.org/grpc"
 	"google.golang.org/grpc/codes"
 	"google.golang.org/grpc/status"
 
@@ -82,7 +83,16 @@ type Options struct {
 	// Stderr, when not nil, receives the plugin's standard error as it
 	// comes. Either way its last lines are quoted in error messages.
 	Stderr io.Writer
+
+	// MaxReply bounds the size in bytes of one gRPC reply of the plugin
+	// (the direct channel has its own bound); a larger reply fails the
+	// call with ErrBadOutput. Zero means DefaultMaxReply.
+	MaxReply int
 }
+
+// DefaultMaxReply is the default of Options.MaxReply: 64 MiB, 8 Mi values,
+// a hundred times the largest batch pairwell asks for.
+const DefaultMaxReply = 64 << 20
 
 // Plugin is a running plugin. Its models are ready to register; they and
 // the potentials they build are safe for concurrent use and work until the
@@ -126,6 +136,10 @@ func Load(ctx context.Context, path string, opts Options) (*Plugin, error) {
 	if timeout <= 0 {
 		timeout = DefaultTimeout
 	}
+	maxReply := opts.MaxReply
+	if maxReply <= 0 {
+		maxReply = DefaultMaxReply
+	}
 	sweepSocketDirs()
 	dir, err := os.MkdirTemp("", socketDirPrefix())
 	if err != nil {
@@ -138,6 +152,7 @@ func Load(ctx context.Context, path string, opts Options) (*Plugin, error) {
 	p.ctx, p.cancel = context.WithCancel(context.Background())
 	p.client = plugin.NewClient(&plugin.ClientConfig{
 		UnixSocketConfig: &plugin.UnixSocketConfig{TempDir: dir},
+		GRPCDialOptions:  []grpc.DialOption{grpc.WithDefaultCallOptions(grpc.MaxCallRecvMsgSize(maxReply))},
 		HandshakeConfig:  wire.Handshake(wire.ProtocolVersion),
 		Plugins:          plugin.PluginSet{wire.PluginName: &wire.GRPCPlugin{}},
 		AllowedProtocols: []plugin.Protocol{plugin.ProtocolGRPC},
@@ -482,6 +497,9 @@ func (p *Plugin) failed(what string, err error, timedOut bool) error {
 			p.kill(e)
 			return e
 		}
+	}
+	if status.Code(err) == codes.ResourceExhausted {
+		return fmt.Errorf("plugin %s: %s: %w: %v", p.path, what, ErrBadOutput, status.Convert(err).Message())
 	}
 	if errors.Is(err, wire.ErrFastProtocol) {
 		return fmt.Errorf("plugin %s: %s: %w: %v", p.path, what, ErrBadOutput, err)

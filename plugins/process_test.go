@@ -146,3 +146,12 @@ func TestPinnedRunsTheHashedBytes(t *testing.T) {
 	_, err = plugins.Load(context.Background(), path, plugins.Options{SHA256: sum[:]})
 	assert.ErrorIs(t, err, plugins.ErrChecksum)
 }
+
+// TestReplySizeCapped: a gRPC reply larger than Options.MaxReply fails with
+// ErrBadOutput instead of being accepted (a 1 GiB reply was).
+func TestReplySizeCapped(t *testing.T) {
+	_, err := plugins.Load(context.Background(), bin.test, plugins.Options{MaxReply: 512})
+	require.ErrorIs(t, err, plugins.ErrBadOutput) // its Describe is larger
+	assert.Contains(t, err.Error(), "larger than max")
+	requireNoProcs(t)
+}

@@ -62,8 +62,8 @@ Exit status: 0 every check passed, 1 a check failed, 2 bad input.`,
 			if setPath != "" && len(args) > 0 {
 				return usageErr(errors.New("give SPEC arguments or --set FILE, not both"))
 			}
-			if points != 0 && points < 8 {
-				return usageErr(fmt.Errorf("--points %d: must be at least 8 (default %d)", points, conformance.DefaultPoints))
+			if points != 0 && (points < 8 || points > conformance.MaxPoints) {
+				return usageErr(fmt.Errorf("--points %d: must be from 8 to %d (default %d)", points, conformance.MaxPoints, conformance.DefaultPoints))
 			}
 			if maxOrder < 0 {
 				return usageErr(fmt.Errorf("--max-order %d: must be at least 1 (default %d)", maxOrder, conformance.DefaultMaxOrder))

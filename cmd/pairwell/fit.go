@@ -1,11 +1,11 @@
 package main
 
 import (
+	"bytes"
 	"errors"
 	"fmt"
 	"io"
 	"math"
-	"os"
 	"strings"
 	"sync"
 
@@ -49,6 +49,7 @@ type fitRun struct {
 	fits     []report.Fit
 	inputs   []report.FitInput
 	mass     report.Mass
+	metric   report.FitMetric
 }
 
 // settings parses the flags.
@@ -163,12 +164,13 @@ func (o *fitFlags) run(e *env, path string) (*fitRun, error) {
 	if err != nil {
 		return nil, err
 	}
-	data, err := refdata.Load(path)
+	raw, err := e.readInput("DATA", path, refdata.MaxSize)
 	if err != nil {
-		if errors.Is(err, refdata.ErrFormat) {
-			return nil, usageErr(err)
-		}
-		return nil, failErr(err)
+		return nil, err
+	}
+	data, err := refdata.Read(bytes.NewReader(raw), path)
+	if err != nil {
+		return nil, usageErr(err)
 	}
 	return fitAll(ms, data, path, s, report.FitMetric(strings.ToLower(o.rank)), mass)
 }
@@ -197,7 +199,7 @@ func fitAll(ms []core.Model, data fit.Data, path string, s fit.Settings, metric 
 	if err != nil {
 		return nil, usageErr(fmt.Errorf("--rank: %w", err))
 	}
-	return &fitRun{path: path, data: data, settings: s, fits: fits, inputs: inputs, mass: mass}, nil
+	return &fitRun{path: path, data: data, settings: s, fits: fits, inputs: inputs, mass: mass, metric: metric}, nil
 }
 
 func newFitCmd(e *env) *cobra.Command {
@@ -231,19 +233,21 @@ as logarithms so they keep their constraints. Reported per form, ranked by
 --rank: parameters with standard errors (from the Jacobian at the optimum,
 scaled by the residual variance) and their correlation matrix; RMSE, MAE and
 max |error| over all points and within 10 % and 50 % of the data's depth;
-re, depth, k and, with --pair/--mu, the harmonic wavenumber of the fitted
-form; iterations, convergence reason and gradient norm. -o FILE.toml writes
-the fitted forms as a model set for compare, baseline and plot.
+re, depth, k and, with --pair/--mu, the harmonic wavenumber, zero-point
+energy and fundamental (J = 0 levels) of the fitted form; iterations,
+convergence reason and gradient norm. -o FILE.toml writes the fitted forms
+as a model set for compare, baseline and plot.
 
 JSON is an array in rank order; each object has rank, form, name, origin,
 params, standard_errors (null where not determined), correlation, spec,
-energy_zero_ev, energy_zero_fitted, energy_zero_standard_error_ev, rmse_ev,
-mae_ev, max_abs_error_ev, windows [{depth_fraction, bound_ev, n_points,
-rmse_ev, mae_ev, max_abs_error_ev}], n_points, n_fitted, weighted_rss_ev2,
+energy_zero_ev, energy_zero_fitted, energy_zero_source (fitted, largest r
+or given), energy_zero_standard_error_ev, rmse_ev, mae_ev,
+max_abs_error_ev, windows [{depth_fraction, bound_ev, n_points, rmse_ev,
+mae_ev, max_abs_error_ev}], n_points, n_fitted, weighted_rss_ev2,
 iterations, evaluations, converged, reason, gradient_norm, jacobian, well
 {equilibrium_r_angstrom, well_depth_ev, force_constant_ev_per_angstrom2,
-pair, reduced_mass_u, harmonic_wavenumber_per_cm}, notes, and error for a
-form that could not be fitted.
+pair, reduced_mass_u, harmonic_wavenumber_per_cm, zero_point_energy_per_cm,
+fundamental_per_cm}, notes, and error for a form that could not be fitted.
 
 A fit says how well a classical model form reproduces the data given; it is
 not a validated force field for production or safety decisions.`,
@@ -258,12 +262,17 @@ not a validated force field for production or safety decisions.`,
 			return nil
 		},
 		RunE: func(cmd *cobra.Command, args []string) error {
+			if out != "" {
+				if err := e.checkOutput("-o", out); err != nil {
+					return err
+				}
+			}
 			run, err := o.run(e, args[0])
 			if err != nil {
 				return err
 			}
 			if out != "" {
-				if err := writeFitSet(out, run); err != nil {
+				if err := e.writeFitSet(out, run); err != nil {
 					return err
 				}
 			}
@@ -276,7 +285,7 @@ not a validated force field for production or safety decisions.`,
 }
 
 // writeFitSet writes the successful fits of run as a model set.
-func writeFitSet(path string, run *fitRun) error {
+func (e *env) writeFitSet(path string, run *fitRun) error {
 	set := &modelset.Set{Title: "Forms fitted to " + run.path}
 	for _, f := range run.fits {
 		if f.Error != "" {
@@ -301,15 +310,15 @@ func writeFitSet(path string, run *fitRun) error {
 		return computeErr(fmt.Errorf("-o %s: %w: no form could be fitted, nothing to write", path, core.ErrNoConvergence))
 	}
 	comment := fmt.Sprintf("Written by pairwell fit from %s (%d points), ranked by %s.\n"+
-		"Parameters in their default units. Fitted classical model forms, not validated force fields.", run.path, len(run.data.R), "the chosen metric")
+		"Parameters in their default units. Fitted classical model forms, not validated force fields.", run.path, len(run.data.R), run.metric)
 	data, err := modelset.Marshal(set, comment)
 	if err != nil {
 		return failErr(fmt.Errorf("-o %s: %w", path, err))
 	}
-	if err := os.WriteFile(path, data, 0o644); err != nil {
-		return failErr(fmt.Errorf("-o: %w", err))
-	}
-	return nil
+	return e.writeOutput("-o", path, func(w io.Writer) error {
+		_, err := w.Write(data)
+		return err
+	})
 }
 
 func fmtFull(v float64) string { return fmt.Sprintf("%.17g", v) }
@@ -414,9 +423,12 @@ func writeFitDetails(w io.Writer, run *fitRun) error {
 		for i, n := range f.Params.Names {
 			fmt.Fprintf(&b, "   %-*s = %-18s ± %-12s %s\n", width, n, num(f.Params.Values[i]), num(f.StandardErrors.Values[i]), f.Params.Units[i])
 		}
-		zero := "given"
-		if f.ZeroFitted {
+		zero := f.ZeroSource
+		switch {
+		case f.ZeroFitted:
 			zero = "fitted, ± " + num(float64(f.ZeroErr)) + " eV"
+		case f.ZeroSource == "largest r":
+			zero = "the energy at the largest r"
 		}
 		fmt.Fprintf(&b, "   energy zero %s eV (%s)\n", num(float64(f.Zero)), zero)
 		if f.Correlation != nil {

@@ -19,7 +19,7 @@ import (
 // fitKeys are the JSON keys of every fitted form (README, "pairwell fit").
 var fitKeys = []string{
 	"rank", "form", "name", "origin", "params", "standard_errors", "correlation", "spec",
-	"energy_zero_ev", "energy_zero_fitted", "energy_zero_standard_error_ev", "rmse_ev", "mae_ev",
+	"energy_zero_ev", "energy_zero_fitted", "energy_zero_source", "energy_zero_standard_error_ev", "rmse_ev", "mae_ev",
 	"max_abs_error_ev", "windows", "n_points", "n_fitted", "weighted_rss_ev2", "iterations",
 	"evaluations", "converged", "reason", "gradient_norm", "jacobian", "well",
 }
@@ -79,6 +79,12 @@ func TestFitJSON(t *testing.T) {
 	assert.Equal(t, true, best["converged"])
 	well := best["well"].(map[string]any)
 	assert.Contains(t, well, "harmonic_wavenumber_per_cm")
+	// Morse levels (Morse 1929): E(v) = ωe(v+½) − ωe·xe(v+½)², so the
+	// zero-point energy is ωe/2 − ωe·xe/4 and the fundamental ωe − 2ωe·xe;
+	// core/levels converges to 1e-6 cm⁻¹.
+	we, wexe := models.MorseSpectroscopic(4.6, 1.87, well["reduced_mass_u"].(float64))
+	assert.InDelta(t, we/2-wexe/4, well["zero_point_energy_per_cm"], 1e-4)
+	assert.InDelta(t, we-2*wexe, well["fundamental_per_cm"], 1e-4)
 	// the spec is accepted by inspect and gives the same well
 	code, out, errOut := runCLI(t, "inspect", best["spec"].(string), "--format", "json")
 	require.Equal(t, 0, code, errOut)
@@ -169,7 +175,10 @@ func TestFitErrors(t *testing.T) {
 		assert.Equal(t, 1, strings.Count(strings.TrimSpace(errOut), "\n")+1, "one line: %q", errOut)
 	}
 	code, _, _ := runCLI(t, "fit", filepath.Join(dir, "missing.csv"))
-	assert.Equal(t, 1, code, "a file that cannot be read")
+	assert.Equal(t, 2, code, "a missing input file is bad input (files policy)")
+	code, _, errOut := runCLI(t, "fit", good, "-o", good)
+	assert.Equal(t, 2, code, "the output may not replace the input")
+	assert.Contains(t, errOut, "-o")
 }
 
 // TestFitPluginRecovery fits the test plugin's Morse (an independent

@@ -12,6 +12,7 @@ import (
 	"syscall"
 	"testing"
 	"time"
+	"unicode/utf8"
 
 	"github.com/stretchr/testify/assert"
 	"github.com/stretchr/testify/require"
@@ -477,4 +478,116 @@ func TestPluginPathTrust(t *testing.T) {
 	assert.Equal(t, 0, code, errOut)
 	assert.Contains(t, errOut, "warning: plugin "+plugin)
 	assert.Contains(t, out, "rydberg")
+}
+
+// TestWorkBounded: requests whose work or output would be out of all
+// proportion are refused before the work starts (exit 2), with the limit.
+func TestWorkBounded(t *testing.T) {
+	morse := "morse:De=4.4,a=1.9,re=1.27"
+	tests := []struct {
+		args []string
+		want string
+	}{
+		// Died with a Go out-of-memory stack trace.
+		{[]string{"check", morse, "--points", "2000000000"}, "must be from 8 to 10000"},
+		// Ran for hours while memory grew.
+		{[]string{"motion", morse, "--mu", "1", "--amplitude", "0.1", "--method", "rk4", "--steps-per-period", "10000000",
+			"--periods", "100000", "--trajectory", filepath.Join(t.TempDir(), "t.csv")}, "the limit with --trajectory is 1000000"},
+		{[]string{"motion", morse, "--mu", "1", "--amplitude", "0.1", "--method", "rk4", "--steps-per-period", "10000000",
+			"--periods", "100"}, "the limit is 100000000"},
+		{[]string{"period", morse, "--mu", "1", "--amplitudes", "0.01:0.2:100001"}, "COUNT must be an integer from 1 to 100000"},
+		{[]string{"period", morse, "--mu", "1", "--amplitudes", "0.01:0.2:60000", "--energies", "0.01:0.2:60000"}, "the limit is 100000 rows"},
+	}
+	for _, tt := range tests {
+		code, _, errOut := runCLI(t, tt.args...)
+		assert.Equal(t, exitUsage, code, "%v: %s", tt.args, errOut)
+		assert.Contains(t, errOut, tt.want, "%v", tt.args)
+	}
+}
+
+// TestJSONRowsStreamed: rows streamed one by one are the same bytes as the
+// whole slice encoded at once.
+func TestJSONRowsStreamed(t *testing.T) {
+	type row struct {
+		A float64  `json:"a"`
+		B string   `json:"b"`
+		C []int    `json:"c"`
+		D *float64 `json:"d"`
+	}
+	for n := range 4 {
+		rows := make([]row, n)
+		for i := range rows {
+			rows[i] = row{A: float64(i) / 3, B: "<x>", C: []int{i, i + 1}}
+		}
+		var whole, streamed strings.Builder
+		require.NoError(t, writeJSON(&whole, rows))
+		require.NoError(t, writeJSONRows(&streamed, rows))
+		assert.Equal(t, whole.String(), streamed.String(), "n = %d", n)
+	}
+	code, out, errOut := runCLI(t, "period", "morse:De=4.4,a=1.9,re=1.27", "--mu", "1", "--amplitudes", "0.1,0.2", "--format", "json")
+	require.Equal(t, 0, code, errOut)
+	var rows []map[string]any
+	require.NoError(t, json.Unmarshal([]byte(out), &rows))
+	assert.Len(t, rows, 2)
+}
+
+// FuzzCleanWriter: whatever is written, split anywhere, comes out without
+// a character a terminal would act on, and clean text comes out unchanged.
+func FuzzCleanWriter(f *testing.F) {
+	f.Add("plain text\twith tab\n", 3)
+	f.Add("esc\x1b[2J c1\u009b bidi\u202e bad\xff\xfe é", 7)
+	f.Fuzz(func(t *testing.T, in string, cut int) {
+		var b strings.Builder
+		w := &cleanWriter{w: &b}
+		if cut < 0 || cut > len(in) {
+			cut = len(in) / 2
+		}
+		w.Write([]byte(in[:cut]))
+		w.Write([]byte(in[cut:]))
+		w.Write([]byte("\n")) // flushes a trailing incomplete sequence
+		out := b.String()
+		if !utf8.ValidString(out) {
+			t.Fatalf("invalid UTF-8 out of %q: %q", in, out)
+		}
+		for _, r := range out {
+			if dangerous(r) {
+				t.Fatalf("%U left in %q (from %q)", r, out, in)
+			}
+		}
+		clean := utf8.ValidString(in)
+		for _, r := range in {
+			clean = clean && !dangerous(r)
+		}
+		if clean && out != in+"\n" {
+			t.Fatalf("clean %q became %q", in, out)
+		}
+	})
+}
+
+// TestSignalLeavesNoFile: SIGINT or SIGTERM in the middle of a long motion
+// run with --trajectory leaves neither a temporary nor a partial file
+// (hidden .NAME.*.tmp files of hundreds of MB used to accumulate).
+func TestSignalLeavesNoFile(t *testing.T) {
+	if runtime.GOOS != "linux" {
+		t.Skip("signals")
+	}
+	requirePlugins(t)
+	for i, sig := range []syscall.Signal{syscall.SIGINT, syscall.SIGTERM} {
+		dir := t.TempDir()
+		cmd, done, _ := startPairwell(t, nil, "motion", "morse:De=4.4,a=1.9,re=1.27", "--mu", "1", "--amplitude", "0.1",
+			"--method", "rk4", "--steps-per-period", "1000", "--periods", "900", "--trajectory", filepath.Join(dir, "t.csv"))
+		time.Sleep(time.Duration(100+300*i) * time.Millisecond) // computing, then writing
+		require.NoError(t, cmd.Process.Signal(sig))
+		err := waitExit(t, done, 10*time.Second)
+		if err == nil {
+			t.Logf("%v: the run finished before the signal", sig)
+			continue
+		}
+		var exit *exec.ExitError
+		require.ErrorAs(t, err, &exit)
+		assert.True(t, exit.Sys().(syscall.WaitStatus).Signaled(), "%v: dies of the signal: %v", sig, err)
+		entries, rerr := os.ReadDir(dir)
+		require.NoError(t, rerr)
+		assert.Empty(t, entries, "%v left files", sig)
+	}
 }

@@ -2,6 +2,8 @@ package main
 
 import (
 	"encoding/json"
+	"fmt"
+	"io"
 	"os"
 	"path/filepath"
 	"runtime"
@@ -204,5 +206,107 @@ func TestCompareValidityOnlyWhenAsked(t *testing.T) {
 		code, out, errOut = runCLI(t, append([]string{"compare", morse, "--mu", "1", "--format", "json"}, flag...)...)
 		require.Equal(t, 0, code, errOut)
 		assert.Contains(t, out, `"validity"`, flag)
+	}
+}
+
+// TestInspectBatch: many SPECs and --set give one record per form, in input
+// order, as a JSON array, CSV rows whose header is the JSON keys, or a
+// table; a form without a minimum is a record with its error.
+func TestInspectBatch(t *testing.T) {
+	dir := t.TempDir()
+	set := filepath.Join(dir, "set.toml")
+	require.NoError(t, os.WriteFile(set, []byte(`
+[[entry]]
+name = "bond"
+spec = "morse:De=4.6,a=1.87,re=1.27"
+pair = "1H-35Cl"
+`), 0o644))
+	specs := []string{"lj:epsilon=120K,sigma=3.4", "buckingham:A=1500,rho=0.3,C=25", "buckingham:A=1,rho=0.3,C=25"}
+	args := append([]string{"inspect", "--set", set, "--mu", "20"}, specs...)
+
+	code, out, errOut := runCLI(t, append(args, "--format", "json")...)
+	require.Equal(t, 0, code, errOut)
+	var recs []map[string]any
+	require.NoError(t, json.Unmarshal([]byte(out), &recs), out)
+	require.Len(t, recs, 4)
+	assert.Equal(t, "bond", recs[0]["name"])
+	assert.Equal(t, "1H-35Cl", recs[0]["pair"]) // the entry's own mass
+	assert.Equal(t, specs[0], recs[1]["name"])
+	assert.InDelta(t, 20, recs[1]["reduced_mass_u"], 1e-12)
+	assert.Equal(t, "buckingham", recs[3]["model"])
+	assert.Contains(t, recs[3]["error"], "minimum")
+	// The single inspect object and a batch record have the same keys.
+	_, one, _ := runCLI(t, "inspect", specs[0], "--mu", "20", "--format", "json")
+	var obj map[string]any
+	require.NoError(t, json.Unmarshal([]byte(one), &obj))
+	for k := range obj {
+		assert.Contains(t, recs[1], k)
+	}
+
+	code, out, errOut = runCLI(t, append(args, "--format", "csv")...)
+	require.Equal(t, 0, code, errOut)
+	lines := strings.Split(strings.TrimSpace(out), "\n")
+	require.Len(t, lines, 5)
+	header := strings.Split(lines[0], ",")
+	assert.Equal(t, inspectCSVKeys, header)
+	// Every CSV column is a JSON key (nested ones joined by a dot).
+	for _, k := range header {
+		top, sub, nested := strings.Cut(k, ".")
+		if k == "error" || k == "barrier.r_angstrom" || k == "barrier.energy_ev" || k == "pair" {
+			continue // present only where they apply
+		}
+		assert.Contains(t, recs[1], top, k)
+		_ = sub
+		_ = nested
+	}
+	assert.Contains(t, lines[1], "bond,morse,built-in,De=4.6 a=1.87 re=1.27,1.27,")
+	// One spec alone in CSV: one header and one row, no vertical list.
+	code, out, _ = runCLI(t, "inspect", specs[0], "--format", "csv")
+	require.Equal(t, 0, code)
+	assert.Equal(t, 2, strings.Count(out, "\n"), out)
+
+	code, out, errOut = runCLI(t, args...)
+	require.Equal(t, 0, code, errOut)
+	assert.Contains(t, out, "name")
+	assert.Contains(t, out, "[1] buckingham:A=1,rho=0.3,C=25:")
+
+	// Every form failing is an error.
+	code, _, _ = runCLI(t, "inspect", specs[2], specs[2])
+	assert.Equal(t, 2, code)
+}
+
+// countingWriter counts the calls to Write.
+type countingWriter struct{ n int }
+
+func (c *countingWriter) Write(p []byte) (int, error) { c.n++; return len(p), nil }
+
+// TestOutputIsBuffered: a table of 2000 rows reaches stdout in a few large
+// writes, not one per cell (issue 17: 131 098 writes for 10 000 rows).
+func TestOutputIsBuffered(t *testing.T) {
+	args := []string{"inspect", "--mu", "1"}
+	for i := range 2000 {
+		args = append(args, fmt.Sprintf("morse:De=%g,a=1.87,re=1.27", 1+float64(i)/1000))
+	}
+	for _, format := range []string{"table", "csv", "json"} {
+		var w countingWriter
+		var errOut strings.Builder
+		code := run(append(args, "--format", format), strings.NewReader(""), &w, &errOut)
+		require.Equal(t, 0, code, errOut.String())
+		assert.Less(t, w.n, 100, format)
+	}
+}
+
+// BenchmarkInspectBatch is inspect of 10 000 Morse forms in-process, CSV to
+// a discarding writer (the issue's target, whole process, is 0.5 s).
+func BenchmarkInspectBatch(b *testing.B) {
+	args := []string{"inspect", "--mu", "1", "--format", "csv"}
+	for i := range 10000 {
+		args = append(args, fmt.Sprintf("morse:De=%g,a=1.87,re=1.27", 1+float64(i)/10000))
+	}
+	for b.Loop() {
+		var errOut strings.Builder
+		if code := run(args, strings.NewReader(""), io.Discard, &errOut); code != 0 {
+			b.Fatal(errOut.String())
+		}
 	}
 }

@@ -8,6 +8,7 @@
 package main
 
 import (
+	"bufio"
 	"fmt"
 	"io"
 	"os"
@@ -34,7 +35,11 @@ func truncateMessage(msg string) string {
 
 // run executes the command line args and returns the exit code.
 func run(args []string, stdin io.Reader, stdout, stderr io.Writer) int {
-	env := newEnv(stdout, stderr)
+	// Output goes through one buffer, written in large blocks (a table of
+	// 10 000 rows is a few dozen writes, not one per cell), and flushed
+	// before any error line so that the order on a shared terminal holds.
+	out := bufio.NewWriterSize(stdout, 64<<10)
+	env := newEnv(out, stderr)
 	stop := env.handleSignals()
 	defer stop()
 	defer env.close()
@@ -44,6 +49,9 @@ func run(args []string, stdin io.Reader, stdout, stderr io.Writer) int {
 	root.SetOut(env.stdout)
 	root.SetErr(env.stderr)
 	err := root.Execute()
+	if fErr := out.Flush(); fErr != nil && err == nil {
+		err = failErr(fmt.Errorf("writing output: %w", fErr))
+	}
 	if err == nil {
 		return 0
 	}

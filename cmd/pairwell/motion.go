@@ -5,6 +5,7 @@ import (
 	"errors"
 	"fmt"
 	"io"
+	"math"
 	"strconv"
 
 	"github.com/spf13/cobra"
@@ -75,11 +76,16 @@ JSON values are in eV, Å, u and fs, whatever the input units.`,
 			if err := checkMotionFlags(cmd, set); err != nil {
 				return err
 			}
+			set.MaxSteps = maxSteps
 			if trajectory != "" {
 				if err := e.checkOutput("--trajectory", trajectory); err != nil {
 					return err
 				}
 				set.Record = 1
+				set.MaxSteps = maxTrajectorySteps
+			}
+			if err := checkStepBudget(set, trajectory != ""); err != nil {
+				return err
 			}
 			inst, err := e.build(args[0])
 			if err != nil {
@@ -104,6 +110,8 @@ JSON values are in eV, Å, u and fs, whatever the input units.`,
 				return usageErr(fmt.Errorf("%s %s: %w", flag, value, se.Err))
 			case errors.Is(err, report.ErrTooLong):
 				return usageErr(err)
+			case errors.Is(err, motion.ErrTooManySteps):
+				return usageErr(fmt.Errorf("%w: the limit is %d steps (%d with --trajectory); ask for fewer --periods, fewer --steps-per-period or a larger --rtol", err, maxSteps, maxTrajectorySteps))
 			case err != nil:
 				return computeErr(err)
 			}
@@ -130,11 +138,40 @@ JSON values are in eV, Å, u and fs, whatever the input units.`,
 }
 
 // Bounds on the length of a run, so that a typo cannot start a run that
-// never ends: 10⁵ periods of 10⁷ steps each is already far beyond any use.
+// never ends or exhausts memory: 10⁸ steps take about a minute; a recorded
+// trajectory of 10⁶ steps is about 60 MB in memory and 80 MB of CSV.
 const (
-	maxPeriods        = 100_000
-	maxStepsPerPeriod = 10_000_000
+	maxPeriods         = 100_000
+	maxStepsPerPeriod  = 10_000_000
+	maxSteps           = 100_000_000
+	maxTrajectorySteps = 1_000_000
 )
+
+// checkStepBudget refuses, before any work, a fixed-step run whose
+// periods × steps per period exceed the step limit (an anharmonic period
+// longer than the harmonic one needs more; the integrator stops at the
+// limit).
+func checkStepBudget(s motion.Settings, recording bool) error {
+	if s.Method == motion.DormandPrince {
+		return nil
+	}
+	spp := s.StepsPerPeriod
+	if spp == 0 {
+		spp = s.Method.DefaultStepsPerPeriod()
+	}
+	periods := s.Periods
+	if periods == 0 {
+		periods = motion.DefaultPeriods
+	}
+	if total := int64(periods) * int64(spp); total > int64(s.MaxSteps) {
+		what := ""
+		if recording {
+			what = " with --trajectory"
+		}
+		return usageErr(fmt.Errorf("--periods %d × --steps-per-period %d = %d steps: the limit%s is %d", periods, spp, total, what, s.MaxSteps))
+	}
+	return nil
+}
 
 // checkMotionFlags rejects flags that do not apply to the method or are out
 // of range.
@@ -182,7 +219,11 @@ func motionTable(r report.Motion) *table {
 	t.add("perturbative period (2nd order)", num(float64(r.PerturbativePeriod)), "fs")
 	t.add("period spread (std. dev.)", fmt.Sprintf("%.3g", r.PeriodSpread), "fs")
 	t.add("periods measured", strconv.Itoa(r.PeriodsMeasured), "")
-	t.add("relative energy drift (max)", fmt.Sprintf("%.3g", r.RelativeEnergyDrift), "")
+	if d := float64(r.RelativeEnergyDrift); math.IsNaN(d) {
+		t.add("relative energy drift (max)", fmt.Sprintf("below the rounding floor (%.2g)", r.RelativeEnergyFloor), "")
+	} else {
+		t.add("relative energy drift (max)", fmt.Sprintf("%.3g", d), "")
+	}
 	if r.RTol != nil {
 		t.add("tolerances rtol, atol", fmt.Sprintf("%g, %g", *r.RTol, *r.ATol), "")
 		t.add("mean time step", num(r.TimeStep), "fs")
@@ -195,6 +236,9 @@ func motionTable(r report.Motion) *table {
 	}
 	t.add("force evaluations", strconv.Itoa(r.ForceEvals), "")
 	t.add("integrated time", num(r.Duration), "fs")
+	for _, n := range r.Notes {
+		t.add("note", n, "")
+	}
 	if r.Trajectory != "" {
 		t.add("trajectory file", fmt.Sprintf("%s (%d samples)", r.Trajectory, r.TrajectorySamples), "")
 	}

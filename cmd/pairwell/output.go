@@ -1,6 +1,8 @@
 package main
 
 import (
+	"bufio"
+	"bytes"
 	"encoding/csv"
 	"encoding/json"
 	"fmt"
@@ -104,6 +106,49 @@ func (e *env) emit(v any, t *table) error {
 		return failErr(fmt.Errorf("writing output: %w", err))
 	}
 	return nil
+}
+
+// emitRows writes rows in the chosen format like emit, but JSON is
+// streamed row by row (the same bytes as writeJSON of the slice, without
+// holding the whole document in memory) and the table is built only when
+// it is printed.
+func emitRows[T any](e *env, rows []T, t func() *table) error {
+	if e.format != "json" {
+		return e.emit(nil, t())
+	}
+	if err := writeJSONRows(e.stdout, rows); err != nil {
+		return failErr(fmt.Errorf("writing output: %w", err))
+	}
+	return nil
+}
+
+// writeJSONRows writes rows as an indented JSON array, one element at a
+// time, exactly as writeJSON(w, rows) would.
+func writeJSONRows[T any](w io.Writer, rows []T) error {
+	if len(rows) == 0 {
+		_, err := io.WriteString(w, "[]\n")
+		return err
+	}
+	bw := bufio.NewWriter(w)
+	bw.WriteString("[\n")
+	var buf bytes.Buffer
+	enc := json.NewEncoder(&buf)
+	enc.SetEscapeHTML(false)
+	enc.SetIndent("  ", "  ")
+	for i, r := range rows {
+		buf.Reset()
+		if err := enc.Encode(r); err != nil {
+			return err
+		}
+		bw.WriteString("  ")
+		bw.Write(bytes.TrimSuffix(buf.Bytes(), []byte("\n")))
+		if i < len(rows)-1 {
+			bw.WriteString(",")
+		}
+		bw.WriteString("\n")
+	}
+	bw.WriteString("]\n")
+	return bw.Flush()
 }
 
 // num formats a value for tables: 10 significant digits, "—" for NaN,

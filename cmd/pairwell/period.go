@@ -14,8 +14,14 @@ import (
 	"github.com/pairwell/pairwell/core/units"
 )
 
-// maxSweepCount caps the COUNT of a FROM:TO:COUNT range.
-const maxSweepCount = 1_000_000
+// maxSweepCount caps the COUNT of a FROM:TO:COUNT range, and maxSweepRows
+// the rows of a sweep (amplitudes and energies together, lists included):
+// a row is about 1 KB of JSON and one quadrature, so 10⁵ rows are about
+// 100 MB of output and minutes of work.
+const (
+	maxSweepCount = 100_000
+	maxSweepRows  = 100_000
+)
 
 // parseSweep reads a list "V1,V2,..." or a range "FROM:TO:COUNT" (COUNT
 // evenly spaced values, both ends included) of values of dimension d, each
@@ -130,6 +136,9 @@ JSON values are in eV, Å, u and fs, whatever the input units.`,
 					return usageErr(fmt.Errorf("--energies: %w", err))
 				}
 			}
+			if n := len(xs) + len(es); n > maxSweepRows {
+				return usageErr(fmt.Errorf("%d amplitudes and energies: the limit is %d rows", n, maxSweepRows))
+			}
 			if len(xs)+len(es) == 0 {
 				return usageErr(errors.New("give --amplitudes LIST|FROM:TO:COUNT (Å) or --energies LIST|FROM:TO:COUNT (eV)"))
 			}
@@ -173,7 +182,7 @@ JSON values are in eV, Å, u and fs, whatever the input units.`,
 			if failed > 0 {
 				fmt.Fprintf(e.stderr, "pairwell: %d of %d rows have no period (see their error)\n", failed, len(rows))
 			}
-			if err := e.emit(rows, periodTable(rows, set.Measure)); err != nil {
+			if err := emitRows(e, rows, func() *table { return periodTable(rows, set.Measure) }); err != nil {
 				return err
 			}
 			errs := make([]error, len(rows))

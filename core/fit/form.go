@@ -4,6 +4,7 @@ import (
 	"errors"
 	"fmt"
 	"math"
+	"sync/atomic"
 
 	"gonum.org/v1/gonum/mat"
 
@@ -89,6 +90,9 @@ type Result struct {
 	Zero       float64
 	ZeroFitted bool
 	ZeroErr    float64
+	// ZeroSource says where the zero came from: "fitted", "largest r"
+	// (the energy at the largest r) or "given".
+	ZeroSource string
 	// RSS is the weighted residual sum of squares at the optimum, eV².
 	RSS float64
 	// Iterations, Evaluations (potential builds with one batched call
@@ -217,27 +221,28 @@ func better(a, b Result) bool {
 
 // formProblem is the least-squares problem of one form and data set.
 type formProblem struct {
-	m         core.Model
-	info      core.ModelInfo
-	d         Data
-	rows      []int     // indices of the points with non-zero weight
-	r         []float64 // their separations
-	e         []float64 // their energies
-	f         []float64 // their forces, nil when none
-	sw        []float64 // √wᵢ
-	swf       []float64 // √(w_F wᵢ)
-	np        int       // model parameters
-	fitZero   bool
-	zero      float64 // the zero when not fitted; the estimate when fitted
-	log       []bool  // parameter j fitted as its logarithm
-	v, g      []float64
-	analytic  bool
-	evals     int
-	notes     []string
-	dataDepth float64 // zero estimate − E_min, for the windows
-	unbounded bool    // the form has no dissociation limit
-	central   bool    // Settings.Central
-	floor     []float64
+	m          core.Model
+	info       core.ModelInfo
+	d          Data
+	rows       []int     // indices of the points with non-zero weight
+	r          []float64 // their separations
+	e          []float64 // their energies
+	f          []float64 // their forces, nil when none
+	sw         []float64 // √wᵢ
+	swf        []float64 // √(w_F wᵢ)
+	np         int       // model parameters
+	fitZero    bool
+	zero       float64 // the zero when not fitted; the estimate when fitted
+	log        []bool  // parameter j fitted as its logarithm
+	g          []float64
+	analytic   bool
+	evals      atomic.Int64
+	notes      []string
+	dataDepth  float64 // zero estimate − E_min, for the windows
+	unbounded  bool    // the form has no dissociation limit
+	central    bool    // Settings.Central
+	floor      []float64
+	zeroSource string
 }
 
 // constraintFloor bounds a parameter fitted as a logarithm from below, at
@@ -256,10 +261,11 @@ func newFormProblem(m core.Model, d Data, w []float64, s Settings) (*formProblem
 	top := d.E[len(d.E)-1]
 	switch s.Offset.Mode {
 	case OffsetAuto:
-		p.zero = top
+		p.zero, p.zeroSource = top, "largest r"
 	case OffsetFit:
 		p.zero, p.fitZero = top, true
 	case OffsetValue:
+		p.zeroSource = "given"
 		if !finite(s.Offset.Value) {
 			return nil, fmt.Errorf("%w: energy zero %g eV is not finite", core.ErrParam, s.Offset.Value)
 		}
@@ -273,6 +279,9 @@ func newFormProblem(m core.Model, d Data, w []float64, s Settings) (*formProblem
 	if p.unbounded && !p.fitZero {
 		p.fitZero = true
 		p.notes = append(p.notes, fmt.Sprintf("%s has no dissociation limit (its zero is at its minimum): its energy zero is fitted", info.Key))
+	}
+	if p.fitZero {
+		p.zeroSource = "fitted"
 	}
 	fw := s.ForceWeight
 	if fw == 0 {
@@ -304,7 +313,6 @@ func newFormProblem(m core.Model, d Data, w []float64, s Settings) (*formProblem
 	for j, q := range info.Params {
 		p.log[j] = q.Constraint == core.Positive || q.Constraint == core.NonNegative
 	}
-	p.v = make([]float64, len(p.r))
 	p.g = make([]float64, len(p.r)*p.np)
 	return p, nil
 }
@@ -365,6 +373,8 @@ func (p *formProblem) theta(params []float64, zero float64) ([]float64, error) {
 	return out, nil
 }
 
+// residuals may run concurrently (the central differences of a
+// Jacobian): it allocates its own scratch.
 func (p *formProblem) residuals(theta, dst []float64) error {
 	params, zero := p.params(theta)
 	for j, v := range params {
@@ -372,15 +382,16 @@ func (p *formProblem) residuals(theta, dst []float64) error {
 			return fmt.Errorf("%w: %s = %g has fallen below %g·(its start): the fit runs into the constraint %s", ErrInfeasible, p.info.Params[j].Name, v, constraintFloor, p.info.Params[j].Constraint)
 		}
 	}
-	p.evals++
+	p.evals.Add(1)
 	pot, err := build(p.m, params)
 	if err != nil {
 		return err
 	}
-	if err := energies(pot, p.r, p.v); err != nil {
+	vals := make([]float64, len(p.r))
+	if err := energies(pot, p.r, vals); err != nil {
 		return err
 	}
-	for i, v := range p.v {
+	for i, v := range vals {
 		dst[i] = p.sw[i] * (v + zero - p.e[i])
 	}
 	if p.f != nil {
@@ -502,7 +513,7 @@ func (p *formProblem) run(params []float64, ls LMSettings) (Result, error) {
 	if err != nil {
 		return Result{}, fmt.Errorf("%w: %w", ErrInfeasible, err)
 	}
-	pr := Problem{N: p.nres(), P: p.nparams(), Residuals: p.residuals}
+	pr := Problem{N: p.nres(), P: p.nparams(), Residuals: p.residuals, Concurrent: true}
 	if p.f == nil && !p.central {
 		pot, err := build(p.m, params)
 		if err != nil {
@@ -513,7 +524,7 @@ func (p *formProblem) run(params []float64, ls LMSettings) (Result, error) {
 			p.analytic = true
 		}
 	}
-	p.evals = 0
+	p.evals.Store(0)
 	p.floor = make([]float64, p.np)
 	for j, v := range params {
 		p.floor[j] = constraintFloor * v
@@ -527,9 +538,10 @@ func (p *formProblem) run(params []float64, ls LMSettings) (Result, error) {
 		Instance:    core.Instance{Model: p.m, Params: fitted},
 		Zero:        zero,
 		ZeroFitted:  p.fitZero,
+		ZeroSource:  p.zeroSource,
 		RSS:         lm.RSS,
 		Iterations:  lm.Iterations,
-		Evaluations: p.evals,
+		Evaluations: int(p.evals.Load()),
 		Reason:      lm.Reason,
 		GradNorm:    lm.GradNorm,
 		Start:       append([]float64(nil), params...),

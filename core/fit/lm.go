@@ -4,6 +4,8 @@ import (
 	"errors"
 	"fmt"
 	"math"
+	"sync"
+	"sync/atomic"
 
 	"gonum.org/v1/gonum/floats"
 	"gonum.org/v1/gonum/mat"
@@ -34,6 +36,10 @@ type Problem struct {
 	// once per accepted point. When nil, the engine uses central
 	// differences, see LMSettings.Step.
 	Jacobian func(theta, dst []float64) error
+	// Concurrent says that Residuals may be called from several
+	// goroutines at once; the 2P evaluations of a central-difference
+	// Jacobian then run concurrently.
+	Concurrent bool
 }
 
 // Reason says why a minimisation stopped.
@@ -173,8 +179,9 @@ func Minimize(p Problem, start []float64, s LMSettings) (LMResult, error) {
 	r := make([]float64, n)
 	rt := make([]float64, n)
 	tt := make([]float64, np)
+	var evals atomic.Int64
 	eval := func(theta, dst []float64) error {
-		res.Evaluations++
+		evals.Add(1)
 		if err := p.Residuals(theta, dst); err != nil {
 			return err
 		}
@@ -203,7 +210,7 @@ func Minimize(p Problem, start []float64, s LMSettings) (LMResult, error) {
 		if p.Jacobian != nil {
 			return p.Jacobian(theta, jac.RawMatrix().Data)
 		}
-		return centralJacobian(eval, theta, r, s.Step, jac, rt, make([]float64, n))
+		return centralJacobian(eval, theta, r, s.Step, jac, p.Concurrent)
 	}
 	d := make([]float64, np) // scaling: the column norms of J
 	var svd mat.SVD
@@ -223,6 +230,7 @@ func Minimize(p Problem, start []float64, s LMSettings) (LMResult, error) {
 			return LMResult{}, err
 		}
 		res.Jacobian = jac
+		res.Evaluations = int(evals.Load())
 		g := mat.NewVecDense(np, nil)
 		g.MulVec(jac.T(), mat.NewVecDense(n, r))
 		res.GradNorm = mat.Norm(g, 2)
@@ -446,50 +454,76 @@ func reduced(r, rt []float64) float64 {
 // column j is (r(θ + hⱼeⱼ) − r(θ − hⱼeⱼ))/(2hⱼ), hⱼ = step·|θⱼ| (step at 0),
 // the difference taken with the step actually represented in floating
 // point. Where one side is infeasible (a step across the edge of a form's
-// domain) the one-sided difference with r0 = r(θ) is taken instead.
-func centralJacobian(eval func(theta, dst []float64) error, theta, r0 []float64, step float64, jac *mat.Dense, rp, rm []float64) error {
+// domain) the one-sided difference with r0 = r(θ) is taken instead. With
+// concurrent, the 2P evaluations run at once (each in its own goroutine):
+// for a potential in another process their round trips then overlap.
+func centralJacobian(eval func(theta, dst []float64) error, theta, r0 []float64, step float64, jac *mat.Dense, concurrent bool) error {
 	n, np := jac.Dims()
-	t := append([]float64(nil), theta...)
-	j0 := 0
-	side := func(dst []float64, x float64) (float64, bool, error) {
-		t[j0] = x
-		err := eval(t, dst)
-		d := x - theta[j0]
-		t[j0] = theta[j0]
-		if errors.Is(err, ErrInfeasible) {
-			return d, false, nil
-		}
-		return d, err == nil, err
+	type side struct {
+		h   float64 // the step represented, signed
+		ok  bool
+		err error
+		r   []float64
 	}
-	for j := 0; j < np; j++ {
-		j0 = j
+	sides := make([]side, 2*np)
+	one := func(k int) {
+		j, sign := k/2, 1.0
+		if k%2 == 1 {
+			sign = -1
+		}
 		h := step * math.Abs(theta[j])
 		if h == 0 {
 			h = step
 		}
-		hp, okp, err := side(rp, theta[j]+h)
-		if err != nil {
-			return fmt.Errorf("central difference in parameter %d: %w", j, err)
+		t := append([]float64(nil), theta...)
+		t[j] = theta[j] + sign*h
+		sd := side{h: t[j] - theta[j], r: make([]float64, n)}
+		err := eval(t, sd.r)
+		switch {
+		case err == nil:
+			sd.ok = true
+		case !errors.Is(err, ErrInfeasible):
+			sd.err = err
 		}
-		hm, okm, err := side(rm, theta[j]-h)
-		if err != nil {
-			return fmt.Errorf("central difference in parameter %d: %w", j, err)
+		sides[k] = sd
+	}
+	if concurrent {
+		var wg sync.WaitGroup
+		for k := range sides {
+			wg.Add(1)
+			go func() {
+				defer wg.Done()
+				one(k)
+			}()
+		}
+		wg.Wait()
+	} else {
+		for k := range sides {
+			one(k)
+		}
+	}
+	for j := 0; j < np; j++ {
+		p, m := sides[2*j], sides[2*j+1]
+		for _, sd := range []side{p, m} {
+			if sd.err != nil {
+				return fmt.Errorf("central difference in parameter %d: %w", j, sd.err)
+			}
 		}
 		switch {
-		case okp && okm:
+		case p.ok && m.ok:
 			for i := 0; i < n; i++ {
-				jac.Set(i, j, (rp[i]-rm[i])/(hp-hm))
+				jac.Set(i, j, (p.r[i]-m.r[i])/(p.h-m.h))
 			}
-		case okp:
+		case p.ok:
 			for i := 0; i < n; i++ {
-				jac.Set(i, j, (rp[i]-r0[i])/hp)
+				jac.Set(i, j, (p.r[i]-r0[i])/p.h)
 			}
-		case okm:
+		case m.ok:
 			for i := 0; i < n; i++ {
-				jac.Set(i, j, (rm[i]-r0[i])/hm)
+				jac.Set(i, j, (m.r[i]-r0[i])/m.h)
 			}
 		default:
-			return fmt.Errorf("central difference in parameter %d: %w: both sides of θ = %g ± %g", j, ErrInfeasible, theta[j], h)
+			return fmt.Errorf("central difference in parameter %d: %w: both sides of θ = %g ± %g", j, ErrInfeasible, theta[j], p.h)
 		}
 	}
 	return nil

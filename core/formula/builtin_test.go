@@ -123,3 +123,28 @@ func termScale(t *testing.T, c builtinCase, n int, r float64) float64 {
 	}
 	return math.Max(s, math.SmallestNonzeroFloat64)
 }
+
+// The domains agree too: the formula Buckingham's inner maximum (the
+// barrier, found by a scan and bisection on V′) is the built-in's closed
+// one, and the limits found numerically are the built-ins' (0 up to the
+// r⁻⁶ tail at 10¹² Å; +Inf for the harmonic form, declared "none").
+func TestBuiltinDomains(t *testing.T) {
+	for _, c := range builtinCases {
+		form, err := formula.NewForm(c.decl)
+		require.NoError(t, err)
+		fp, err := form.New(c.params)
+		require.NoError(t, err)
+		bp, err := c.builtin.New(c.params)
+		require.NoError(t, err)
+		got, want := fp.Domain(), bp.Domain()
+		assert.Equal(t, want.Barrier, got.Barrier, c.decl.Key)
+		assert.InDelta(t, want.Min, got.Min, 1e-13*math.Max(1, want.Min), c.decl.Key)
+		assert.InDelta(t, want.BarrierEnergy, got.BarrierEnergy, 1e-13*math.Abs(want.BarrierEnergy), c.decl.Key)
+		if math.IsInf(want.Limit, 1) {
+			assert.Equal(t, want.Limit, got.Limit, c.decl.Key)
+		} else {
+			// V(10¹² Å): the r⁻⁶ tails leave ~1e-71 eV.
+			assert.InDelta(t, want.Limit, got.Limit, 1e-60, c.decl.Key)
+		}
+	}
+}

@@ -221,6 +221,11 @@ func (f *Form) New(params []float64) (core.Potential, error) {
 		dom.Min = v
 	}
 	p := newPotential(f, scal, dom)
+	if rb, vb, ok := p.innerBarrier(); ok {
+		// Below an inner maximum the form collapses: the domain ends
+		// there, as for the built-in Buckingham form.
+		p.dom.Min, p.dom.Barrier, p.dom.BarrierEnergy = rb, true, vb
+	}
 	if f.noLimit {
 		return p, nil
 	}

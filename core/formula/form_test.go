@@ -108,6 +108,12 @@ func TestExp6(t *testing.T) {
 		assert.InDelta(t, c[1], w.Re, 1e-13*c[1], "%v", c)
 		assert.InDelta(t, -c[0], w.Energy, 1e-14*c[0], "%v", c)
 		assert.InDelta(t, c[0], w.Depth, 1e-14*c[0], "%v", c)
+		// The form turns over at short range: its inner maximum bounds
+		// the domain, below r_m, above V(r_m).
+		d := p.Domain()
+		assert.True(t, d.Barrier, "%v", c)
+		assert.Less(t, d.Min, c[1])
+		assert.Greater(t, d.BarrierEnergy, -c[0])
 	}
 }
 
@@ -175,6 +181,7 @@ func TestNewDomainAndLimit(t *testing.T) {
 		}
 		require.NoError(t, err, tt.d.Formula)
 		d := p.Domain()
+		assert.False(t, d.Barrier, tt.d.Formula)
 		assert.Equal(t, tt.min, d.Min, tt.d.Formula)
 		assert.Equal(t, tt.limit, d.Limit, tt.d.Formula)
 	}

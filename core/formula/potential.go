@@ -38,8 +38,8 @@ func newPotential(f *Form, scal []float64, dom core.Domain) *potential {
 // as a *core.PointError wrapping core.ErrDomain.
 func (p *potential) coeffs(from, order int, rs []float64, emit func(i0 int, l jet.Layout, c []float64)) error {
 	for i, r := range rs {
-		if err := core.CheckR(p.dom, r); err != nil {
-			return &core.PointError{Index: i, R: r, Err: err}
+		if !p.dom.Contains(r) {
+			return &core.PointError{Index: i, R: r, Err: core.CheckR(p.dom, r)}
 		}
 	}
 	prog := p.form.f.prog
@@ -54,7 +54,7 @@ func (p *potential) coeffs(from, order int, rs []float64, emit func(i0 int, l je
 		c := prog.Eval(w, l, p.scal, blk)
 		for k := from; k <= order; k++ {
 			for i, v := range c[k*l.Points : (k+1)*l.Points] {
-				if math.IsNaN(v) || math.IsInf(v, 0) {
+				if v-v != 0 { // NaN or ±Inf
 					return &core.PointError{Index: i0 + i, R: blk[i], Err: fmt.Errorf("r = %.10g Å: %w: the formula gives %g for its coefficient of order %d there, inside the declared domain %s (declare r_min where the formula is not defined)", blk[i], core.ErrDomain, v, k, p.form.info.Domain)}
 				}
 			}
@@ -140,4 +140,78 @@ func (p *potential) growth(v []float64, far float64) (float64, bool, error) {
 		return 0, false, fmt.Errorf("%w: V decreases without bound as r → ∞ (V(%g Å) = %g eV): no bound well", core.ErrNoMinimum, far, v[n-1])
 	}
 	return 0, false, nil
+}
+
+// Separations in Å of the scan for an inner maximum (as the well
+// analysis scans for the minimum): barrierScan points, logarithmic, from
+// the lower end of the domain (at least barrierScanMin) to barrierScanMax.
+const (
+	barrierScan    = 512
+	barrierScanMin = 0.01
+	barrierScanMax = 1000.0
+)
+
+// innerBarrier looks for a maximum of V below the first minimum — a form
+// that turns over at short range and collapses below it, as the exp-6
+// forms do — from the sign changes of V′ on a logarithmic scan (one
+// batched call), and locates it by bisection on V′ to a few ulp. ok is
+// false when there is none, or when the scan cannot be evaluated (the
+// well analysis then reports the failure).
+func (p *potential) innerBarrier() (rb, vb float64, ok bool) {
+	a := math.Max(p.dom.Min*(1+1e-9), barrierScanMin)
+	b := math.Min(p.dom.Max, barrierScanMax)
+	if !(a < b) {
+		return 0, 0, false
+	}
+	rs := make([]float64, barrierScan)
+	ratio := math.Pow(b/a, 1/float64(barrierScan-1))
+	x := a
+	for i := range rs {
+		rs[i] = x
+		x *= ratio
+	}
+	rs[len(rs)-1] = math.Nextafter(b, 0)
+	d1 := make([]float64, len(rs))
+	if err := p.coeffs(1, 1, rs, func(i0 int, l jet.Layout, c []float64) { copy(d1[i0:], c[l.Points:2*l.Points]) }); err != nil {
+		return 0, 0, false
+	}
+	top := -1
+	for i := 1; i < len(rs); i++ {
+		if d1[i-1] > 0 && d1[i] < 0 {
+			top = i - 1
+		}
+		if d1[i-1] < 0 && d1[i] > 0 {
+			break // the minimum: only a maximum below it counts
+		}
+	}
+	if top < 0 {
+		return 0, 0, false
+	}
+	lo, hi := rs[top], rs[top+1] // V′(lo) > 0 > V′(hi)
+	var c [2]float64
+	var one [1]float64
+	slope := func(r float64) (float64, bool) {
+		one[0] = r
+		err := p.coeffs(0, 1, one[:], func(_ int, _ jet.Layout, v []float64) { c[0], c[1] = v[0], v[1] })
+		return c[1], err == nil
+	}
+	for range 200 {
+		mid := lo + (hi-lo)/2
+		if mid <= lo || mid >= hi {
+			break
+		}
+		s, good := slope(mid)
+		if !good {
+			return 0, 0, false
+		}
+		if s > 0 {
+			lo = mid
+		} else {
+			hi = mid
+		}
+	}
+	if _, good := slope(lo); !good {
+		return 0, 0, false
+	}
+	return lo, c[0], true
 }

@@ -212,3 +212,43 @@ func TestLinearMethods(t *testing.T) {
 		assert.Equal(t, g, h, "SquareLinear order %d", order)
 	}
 }
+
+// Square at orders 2–4 (a separate loop) gives the bits of the general
+// loop at higher orders: coefficient k does not depend on the order.
+func TestSquareSameBitsAtEveryOrder(t *testing.T) {
+	rng := rand.New(rand.NewPCG(3, 4))
+	big := Layout{Order: 8, Points: 5}
+	a := randJet(rng, big, -2, 2)
+	want := make([]float64, big.Len())
+	big.Square(want, a)
+	for order := 0; order <= 7; order++ {
+		l := Layout{Order: order, Points: 5}
+		got := make([]float64, l.Len())
+		l.Square(got, a[:l.Len()])
+		assert.Equal(t, want[:l.Len()], got, "order %d", order)
+	}
+}
+
+// The tape takes the linear recurrences for jets it knows to be linear;
+// they agree with the general ones.
+func TestTapeLinear(t *testing.T) {
+	xs := []float64{0.7, 1.3, 2.9}
+	tp := NewTape(10, len(xs))
+	l := tp.Layout()
+	x := tp.Var(xs)
+	u := tp.Affine(tp.Sub(x, tp.Scale(x, 0.25)), -1.5, 4) // linear
+	gen := make([]float64, l.Len())
+	work := make([]float64, 2*l.Len())
+	l.Exp(gen, u.Coeffs())
+	assertJets(t, l, tp.Exp(u).Coeffs(), gen, 1e-15, "Exp")
+	l.Square(gen, u.Coeffs())
+	assertJets(t, l, tp.Square(u).Coeffs(), gen, 1e-15, "Square")
+	l.PowInt(gen, x.Coeffs(), -6, work)
+	assertJets(t, l, tp.PowInt(x, -6).Coeffs(), gen, 1e-14, "PowInt")
+	l.Pow(gen, x.Coeffs(), 1.5)
+	assertJets(t, l, tp.Pow(x, 1.5).Coeffs(), gen, 1e-14, "Pow")
+	// A product is not linear: Exp of it takes the general recurrence.
+	sq := tp.Mul(x, x)
+	l.Exp(gen, sq.Coeffs())
+	assert.Equal(t, gen, tp.Exp(sq).Coeffs())
+}

@@ -176,6 +176,10 @@ func (l Layout) Mul(dst, a, b []float64) {
 //	c_k = 2 Σ_{j<k−j} a_j a_{k−j} + [k even] a_{k/2}².
 func (l Layout) Square(dst, a []float64) {
 	l.check(dst, a)
+	if l.Order >= 2 && l.Order <= 4 {
+		l.squareSmall(dst, a)
+		return
+	}
 	for k := 0; k <= l.Order; k++ {
 		dk := l.row(dst, k)
 		if k%2 == 0 {
@@ -207,6 +211,43 @@ func (l Layout) Square(dst, a []float64) {
 		}
 		for i := range dk {
 			dk[i] *= 2
+		}
+	}
+}
+
+// squareSmall is Square for orders 2…4, one point at a time with the same
+// operations in the same order (so the same bits) as the general loop.
+func (l Layout) squareSmall(dst, a []float64) {
+	m := l.Points
+	a0, a1, a2 := a[:m], a[m:2*m], a[2*m:3*m]
+	d0, d1, d2 := dst[:m], dst[m:2*m], dst[2*m:3*m]
+	switch l.Order {
+	case 2:
+		for i := range d0 {
+			x0, x1, x2 := a0[i], a1[i], a2[i]
+			d0[i] = x0 * x0
+			d1[i] = 2 * (x0 * x1)
+			d2[i] = 2*(x0*x2) + x1*x1
+		}
+	case 3:
+		a3, d3 := a[3*m:4*m], dst[3*m:4*m]
+		for i := range d0 {
+			x0, x1, x2, x3 := a0[i], a1[i], a2[i], a3[i]
+			d0[i] = x0 * x0
+			d1[i] = 2 * (x0 * x1)
+			d2[i] = 2*(x0*x2) + x1*x1
+			d3[i] = 2 * (x0*x3 + x1*x2)
+		}
+	case 4:
+		a3, d3 := a[3*m:4*m], dst[3*m:4*m]
+		a4, d4 := a[4*m:5*m], dst[4*m:5*m]
+		for i := range d0 {
+			x0, x1, x2, x3, x4 := a0[i], a1[i], a2[i], a3[i], a4[i]
+			d0[i] = x0 * x0
+			d1[i] = 2 * (x0 * x1)
+			d2[i] = 2*(x0*x2) + x1*x1
+			d3[i] = 2 * (x0*x3 + x1*x2)
+			d4[i] = 2*(x0*x4+x1*x3) + x2*x2
 		}
 	}
 }

@@ -6,8 +6,9 @@ import "fmt"
 // evaluation point, laid out as described by Layout. A Jet is a view into
 // memory owned by its Tape and stays valid until the Tape's next Reset.
 type Jet struct {
-	c []float64
-	l Layout
+	c   []float64
+	l   Layout
+	lin bool // linear in the variable: coefficients of order ≥ 2 vanish
 }
 
 // Layout returns the jet's layout.
@@ -25,7 +26,9 @@ const chunkMin = 4096
 
 // Tape is a workspace for jet arithmetic at a fixed Layout. Its methods
 // return new jets computed from their operands with the recurrences of the
-// Layout methods of the same name; operands are never modified, so a Jet
+// Layout methods of the same name (or, for Exp, Square, Pow and negative
+// PowInt of a jet the tape knows to be linear in the variable — Var, Const
+// and their sums and affine maps — the Linear versions); operands are never modified, so a Jet
 // may be used any number of times. A Tape hands out memory from chunks
 // that it keeps across Reset, so that evaluating the same function again
 // after Reset allocates nothing. The zero Tape is not usable: call NewTape.
@@ -101,6 +104,7 @@ func (t *Tape) own(j ...Jet) {
 func (t *Tape) Var(x []float64) Jet {
 	j := t.newJet()
 	t.l.Var(j.c, x)
+	j.lin = true
 	return j
 }
 
@@ -108,6 +112,7 @@ func (t *Tape) Var(x []float64) Jet {
 func (t *Tape) Const(c float64) Jet {
 	j := t.newJet()
 	t.l.Const(j.c, c)
+	j.lin = true
 	return j
 }
 
@@ -124,6 +129,7 @@ func (t *Tape) Add(a, b Jet) Jet {
 	t.own(a, b)
 	j := t.newJet()
 	t.l.Add(j.c, a.c, b.c)
+	j.lin = a.lin && b.lin
 	return j
 }
 
@@ -132,6 +138,7 @@ func (t *Tape) Sub(a, b Jet) Jet {
 	t.own(a, b)
 	j := t.newJet()
 	t.l.Sub(j.c, a.c, b.c)
+	j.lin = a.lin && b.lin
 	return j
 }
 
@@ -140,6 +147,7 @@ func (t *Tape) Neg(a Jet) Jet {
 	t.own(a)
 	j := t.newJet()
 	t.l.Neg(j.c, a.c)
+	j.lin = a.lin
 	return j
 }
 
@@ -148,6 +156,7 @@ func (t *Tape) Scale(a Jet, s float64) Jet {
 	t.own(a)
 	j := t.newJet()
 	t.l.Scale(j.c, a.c, s)
+	j.lin = a.lin
 	return j
 }
 
@@ -156,6 +165,7 @@ func (t *Tape) AddConst(a Jet, c float64) Jet {
 	t.own(a)
 	j := t.newJet()
 	t.l.AddConst(j.c, a.c, c)
+	j.lin = a.lin
 	return j
 }
 
@@ -164,6 +174,7 @@ func (t *Tape) Affine(a Jet, s, c float64) Jet {
 	t.own(a)
 	j := t.newJet()
 	t.l.Affine(j.c, a.c, s, c)
+	j.lin = a.lin
 	return j
 }
 
@@ -179,7 +190,11 @@ func (t *Tape) Mul(a, b Jet) Jet {
 func (t *Tape) Square(a Jet) Jet {
 	t.own(a)
 	j := t.newJet()
-	t.l.Square(j.c, a.c)
+	if a.lin {
+		t.l.SquareLinear(j.c, a.c)
+	} else {
+		t.l.Square(j.c, a.c)
+	}
 	return j
 }
 
@@ -211,7 +226,11 @@ func (t *Tape) Sqrt(a Jet) Jet {
 func (t *Tape) Exp(a Jet) Jet {
 	t.own(a)
 	j := t.newJet()
-	t.l.Exp(j.c, a.c)
+	if a.lin {
+		t.l.ExpLinear(j.c, a.c)
+	} else {
+		t.l.Exp(j.c, a.c)
+	}
 	return j
 }
 
@@ -227,7 +246,11 @@ func (t *Tape) Log(a Jet) Jet {
 func (t *Tape) Pow(a Jet, p float64) Jet {
 	t.own(a)
 	j := t.newJet()
-	t.l.Pow(j.c, a.c, p)
+	if a.lin {
+		t.l.PowLinear(j.c, a.c, p)
+	} else {
+		t.l.Pow(j.c, a.c, p)
+	}
 	return j
 }
 
@@ -235,7 +258,11 @@ func (t *Tape) Pow(a Jet, p float64) Jet {
 func (t *Tape) PowInt(a Jet, n int) Jet {
 	t.own(a)
 	j := t.newJet()
-	t.l.PowInt(j.c, a.c, n, t.allocN(2*t.l.Len()))
+	if a.lin && n < 0 {
+		t.l.PowLinear(j.c, a.c, float64(n))
+	} else {
+		t.l.PowInt(j.c, a.c, n, t.allocN(2*t.l.Len()))
+	}
 	return j
 }
 

@@ -105,6 +105,8 @@ func TestBuildErrors(t *testing.T) {
 func FuzzParse(f *testing.F) {
 	f.Add(example)
 	f.Add("[[entry]]\nname=\"a\"\nspec=\"lj:epsilon=1,sigma=1\"")
+	f.Add("x = {a = {b = [[1], '[{'], c = \"\"\"{[\"\"\"}} # [[\n" + "[[entry]]\nname=\"a\"\nspec=\"lj:epsilon=1,sigma=1\"")
+	f.Add("x = " + strings.Repeat("[", 9) + strings.Repeat("]", 9))
 	reg := models.NewRegistry()
 	f.Fuzz(func(t *testing.T, doc string) {
 		s, err := modelset.Parse([]byte(doc), "fuzz.toml")

@@ -31,10 +31,55 @@ type integrator struct {
 	maxE   float64 // energy above V(re) at which the motion is unbound, eV
 	scaleX float64 // s_x of the DP error norm, Å
 	scaleV float64 // s_v of the DP error norm, Å/fs
+
+	// The potential energy of displacements in (xLo, xHi) comes from the
+	// Taylor series at re, which is more accurate there than
+	// V(r) − V(re) (see seriesRange).
+	ex       core.Expansion
+	xLo, xHi float64
+	// The extreme displacements reached, for the rounding floor.
+	xMin, xMax float64
+}
+
+// seriesRange returns the displacements (lo, hi) around 0 within which
+// the series ex is more accurate than the direct difference
+// (core.Expansion.UseSeries), scanned geometrically from 1e-12·re in
+// ratio 1.1 on each side.
+func seriesRange(ex core.Expansion, re float64) (lo, hi float64) {
+	for k, dir := range []float64{-1, 1} {
+		x := 1e-12 * re
+		last := 0.0
+		for ; x < re; x *= 1.1 {
+			if ok, _, _ := ex.UseSeries(dir * x); !ok {
+				break
+			}
+			last = x
+		}
+		if k == 0 {
+			lo = -last
+		} else {
+			hi = last
+		}
+	}
+	return lo, hi
+}
+
+// energyBound returns a bound on the rounding error of V(re + x) − V(re)
+// as the run computes it: the series bound inside (xLo, xHi), else that
+// of the direct difference.
+func (in *integrator) energyBound(x, u float64) float64 {
+	if x > in.xLo && x < in.xHi {
+		_, b := in.ex.Sum(x, 2)
+		return b
+	}
+	return in.ex.DirectBound(in.vre + u)
 }
 
 func newIntegrator(o *Oscillator, s Settings, amplitude float64) *integrator {
+	ex := core.NewExpansion(o.well)
+	lo, hi := seriesRange(ex, o.well.Re)
 	return &integrator{
+		ex: ex, xLo: lo, xHi: hi,
 		p:      o.p,
 		re:     o.well.Re,
 		vre:    o.well.Energy,
@@ -58,6 +103,10 @@ func (in *integrator) at(x, v float64) (state, error) {
 	}
 	in.evals++
 	a, u := in.acc*in.buf[1], in.buf[0]-in.vre
+	if x > in.xLo && x < in.xHi {
+		u = in.ex.Value(x)
+	}
+	in.xMin, in.xMax = math.Min(in.xMin, x), math.Max(in.xMax, x)
 	if math.IsNaN(a) || math.IsInf(a, 0) || math.IsNaN(u) || math.IsInf(u, 0) {
 		return state{}, fmt.Errorf("r = %g Å: %w: force or energy not finite", r, core.ErrDomain)
 	}
@@ -281,6 +330,10 @@ func (in *integrator) run(st Start) (Result, error) {
 		}
 
 		res.Steps++
+		if s.MaxSteps > 0 && res.Steps > s.MaxSteps {
+			return Result{}, fmt.Errorf("motion: %w: %d steps reached at t = %.6g fs with %d of %d turning points found",
+				ErrTooManySteps, s.MaxSteps, t, len(tps), need)
+		}
 		if adaptive {
 			// Kahan summation keeps t accurate over many small steps.
 			y := hUsed - comp
@@ -328,6 +381,11 @@ func (in *integrator) run(st Start) (Result, error) {
 	res.ForceEvals = in.evals
 	res.EnergyDrift = maxDrift / e0
 	res.FinalEnergyError = (in.energy(last) - e0) / e0
+	// The rounding floor of E(t) − E0: the potential energy at the
+	// extreme displacements (where it is largest) to its bound, twice
+	// (E(t) and E0), and the kinetic energy to a few ulp.
+	fl := math.Max(in.energyBound(in.xMin, e0), in.energyBound(in.xMax, e0))
+	res.EnergyFloor = (2*fl + 8*eps*e0) / e0
 	return res, nil
 }
 
@@ -394,3 +452,6 @@ func ulp(x float64) float64 {
 	x = math.Abs(x)
 	return math.Nextafter(x, math.Inf(1)) - x
 }
+
+// eps is the float64 machine epsilon 2⁻⁵².
+const eps = 0x1p-52

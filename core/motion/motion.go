@@ -108,6 +108,10 @@ func (m Method) MarshalText() ([]byte, error) {
 // ErrMethod means a method name or value is not one of the integrators.
 var ErrMethod = errors.New("unknown integration method")
 
+// ErrTooManySteps is wrapped by the error of a run that exceeds
+// Settings.MaxSteps.
+var ErrTooManySteps = errors.New("step limit exceeded")
+
 // ParseMethod returns the method named s, case-insensitively: "heun",
 // "rk4", "verlet" (or "velocity-verlet"), "dopri" (or "dopri5",
 // "dormand-prince").
@@ -132,9 +136,14 @@ func ParseMethod(s string) (Method, error) {
 // covalent-bond-like parameters), over 10 periods, the worst relative error
 // of the measured period against the exact one (quadrature to 1e-12) was:
 //
-//	Heun    800 steps  2.2e-5  (target 1e-4; h² error, θ²/6 at E → 0, θ = ω0h)
-//	Verlet  600 steps  2.4e-5  (target 1e-4; h² error, θ²/24 at E → 0)
-//	RK4     200 steps  1.0e-7  (target 1e-6; h⁴ error)
+//	Heun    800 steps  2.5e-5  (target 1e-4; h² error, θ²/6 at E → 0, θ = ω0h)
+//	Verlet  600 steps  2.5e-5  (target 1e-4; h² error, θ²/24 at E → 0)
+//	RK4     200 steps  1.1e-7  (target 1e-6; h⁴ error)
+//
+// (re-measured on a grid of E in steps of 0.01 against period.Exact:
+// 2.24e-5, 2.35e-5, 1.03e-7; an independent check at 30–70 digits on other
+// invented parameter sets found 2.48e-5, 2.49e-5, 1.12e-7: the larger,
+// rounded up, is given)
 //
 // all at E/De = 0.5 on Lennard-Jones (compression start), except Heun's
 // harmonic limit. They stay within the targets over 100 periods (Heun
@@ -147,7 +156,8 @@ const (
 )
 
 // Default tolerances of DormandPrince. By the same measurement the worst
-// relative period error was 3.1e-9 (target 1e-7) over 10 periods and
+// relative period error was 3.3e-9 (target 1e-7; 3.08e-9 on our grid,
+// 3.27e-9 in the independent check) over 10 periods and
 // 2.7e-8 over 100, with 80–160 accepted steps per harmonic period. The
 // error follows the tolerance: about 3·RTol for RTol = ATol from 1e-7 to
 // 1e-12 (4.5e-12 at 1e-12, the limit of float64 rounding over a run).
@@ -155,6 +165,26 @@ const (
 	DefaultRTol = 1e-9
 	DefaultATol = 1e-9
 )
+
+// ValidatedFraction is the largest oscillation energy, as a fraction of
+// the limit of bound motion (the depth, or an inner barrier when lower), at
+// which the default steps were validated (see DefaultHeunSteps and
+// DefaultRTol): above it their period error may exceed Method.Target (on
+// Morse at E/De = 0.99 Heun's error is 4.5e-3, dopri's 1.25e-6).
+const ValidatedFraction = 0.5
+
+// Target returns the relative period error the default step of m was
+// chosen to stay within up to ValidatedFraction: 1e-4 (Heun, Verlet), 1e-6
+// (RK4), 1e-7 (DormandPrince).
+func (m Method) Target() float64 {
+	switch m {
+	case Heun, Verlet:
+		return 1e-4
+	case RK4:
+		return 1e-6
+	}
+	return 1e-7
+}
 
 // DefaultPeriods is the number of periods measured when Settings.Periods is 0.
 const DefaultPeriods = 10
@@ -210,6 +240,12 @@ type Settings struct {
 	// Record, when positive, keeps the start and every Record-th accepted
 	// step in Result.Trajectory (1 keeps every step). Zero keeps none.
 	Record int
+
+	// MaxSteps, when positive, bounds the number of accepted steps (and
+	// with it the time and the memory of a recorded trajectory): a run
+	// that needs more fails with an error wrapping ErrTooManySteps. Zero
+	// means no bound.
+	MaxSteps int
 }
 
 // Start is the initial condition of a run: at rest at r0 = re + x0.
@@ -277,6 +313,14 @@ type Result struct {
 	EnergyDrift float64
 	// FinalEnergyError is (E_end − E_0)/E_0, signed, at the last step.
 	FinalEnergyError float64
+	// EnergyFloor is the relative rounding floor of E_k − E_0: a bound
+	// on the rounding of the energies themselves (V(r) − V(re) from the
+	// Taylor series at re where that is more accurate, see
+	// core.Expansion, else the direct difference, whose rounding
+	// ≈ 8ε·|V(re)| dominates small E_0). EnergyDrift and
+	// FinalEnergyError at or below it are rounding, not integration
+	// error.
+	EnergyFloor float64
 
 	// Trajectory holds the recorded samples when Settings.Record > 0.
 	Trajectory []Sample
@@ -473,6 +517,9 @@ func (s Settings) withDefaults(t0 float64) (Settings, error) {
 	}
 	if s.Record < 0 {
 		return s, fmt.Errorf("motion: %w: record %d, must be ≥ 0", core.ErrParam, s.Record)
+	}
+	if s.MaxSteps < 0 {
+		return s, fmt.Errorf("motion: %w: max steps %d, must be ≥ 0", core.ErrParam, s.MaxSteps)
 	}
 	if s.StepsPerPeriod == 0 {
 		s.StepsPerPeriod = s.Method.DefaultStepsPerPeriod()

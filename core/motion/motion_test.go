@@ -508,3 +508,50 @@ func TestNearBarrier(t *testing.T) {
 	ref := quadPeriod(t, bond.p, bond.mu, st.Energy, 800)
 	assert.InDelta(t, 0, r.Period/ref-1, 1e-6)
 }
+
+// TestMaxSteps: a run that needs more steps than Settings.MaxSteps fails
+// with ErrTooManySteps, for fixed and adaptive steps; one within it is
+// unchanged.
+func TestMaxSteps(t *testing.T) {
+	o := morse(t)
+	st, err := o.FromEnergy(0.1 * morseDe)
+	require.NoError(t, err)
+	for _, m := range motion.Methods() {
+		full, err := o.Run(st, motion.Settings{Method: m, Periods: 2, Record: 1})
+		require.NoError(t, err)
+		_, err = o.Run(st, motion.Settings{Method: m, Periods: 2, Record: 1, MaxSteps: full.Steps - 1})
+		assert.ErrorIs(t, err, motion.ErrTooManySteps, m.String())
+		r, err := o.Run(st, motion.Settings{Method: m, Periods: 2, Record: 1, MaxSteps: full.Steps})
+		require.NoError(t, err, m.String())
+		assert.Equal(t, full.Period, r.Period)
+		assert.Len(t, r.Trajectory, full.Steps+1)
+	}
+	_, err = o.Run(st, motion.Settings{MaxSteps: -1})
+	assert.ErrorIs(t, err, core.ErrParam)
+}
+
+// TestEnergyFloor: at a tiny energy the energy of the steps comes from the
+// Taylor series at re, so the rounding floor stays small and the energy
+// error of the integrator is resolved; with only c₂ known (no series), the
+// floor is that of V(r) − V(re), ≈ 8ε·De/E, and the error lies below it.
+func TestEnergyFloor(t *testing.T) {
+	o := morse(t)
+	st, err := o.FromEnergy(1e-12)
+	require.NoError(t, err)
+	res, err := o.Run(st, motion.Settings{Method: motion.RK4})
+	require.NoError(t, err)
+	assert.Less(t, res.EnergyFloor, 1e-13)
+	assert.Greater(t, res.EnergyDrift, res.EnergyFloor)
+
+	w := o.Well()
+	w.Series, w.Taylor = nil, w.Taylor[:3]
+	bare, err := motion.NewFromWell(morsePot(t), w, morseMu)
+	require.NoError(t, err)
+	st, err = bare.FromEnergy(1e-12)
+	require.NoError(t, err)
+	res, err = bare.Run(st, motion.Settings{Method: motion.DormandPrince})
+	require.NoError(t, err)
+	// 8ε·De/E = 8·2.2e-16·4.4/1e-12 ≈ 7.8e-3, counted twice.
+	assert.Greater(t, res.EnergyFloor, 1e-3)
+	assert.LessOrEqual(t, res.EnergyDrift, res.EnergyFloor)
+}

@@ -311,7 +311,7 @@ func Exact(p core.Potential, w core.Well, mu, E float64, s Settings) (Result, er
 // which makes the integrand smooth and carries the logarithm in the length
 // of the u interval, so the rules converge exponentially and their
 // difference is a true estimate. T(E) itself is ill-conditioned there: the
-// rounding of V, δV ≈ 4ε·(2|V(re)| + E), acts like a shift of E and moves
+// rounding of V, δV ≈ 8ε·(2|V(re)| + E), acts like a shift of E and moves
 // T by |T′|·δV, without bound as E → E_top (E·T′/T = E/(2(De − E)) for
 // Morse). ErrorEstimate includes that term: δV/(E_top − E) up to 0.99·E_top,
 // above that |T′|·δV/T with T′ measured by the period at a second energy
@@ -323,9 +323,9 @@ func Exact(p core.Potential, w core.Well, mu, E float64, s Settings) (Result, er
 // plus the conditioning term. On the test grid of Morse, Lennard-Jones and
 // Buckingham wells from 0.01 to 0.999999 of the top, against periods
 // computed with mpmath at 40 digits (testdata/make_reference.py), it is
-// never below the true error (worst ratio error/estimate ≈ 0.8); the
-// worst error there is 4.6e-7, at 0.999999 of a barrier only 1.5e-6 eV
-// high, where the estimate says 1.2e-5.
+// never below the true error (worst ratio error/estimate ≈ 0.75); the
+// worst error there is 1.5e-6, at 0.99999 of a barrier only 1.5e-6 eV
+// high, where the estimate says 3.1e-6.
 //
 // Small E. When the rounding estimate exceeds both 1e-12 and the error of
 // the perturbative period (of order δ², δ from PerturbativeShift), the
@@ -386,6 +386,9 @@ type job struct {
 	// noise is the absolute rounding error of E − U at a node evaluated
 	// without the end expansions, eV.
 	noise float64
+	// ev evaluates the series at the nodes of a series job: the series
+	// trimmed to the terms that matter between the turning points.
+	ev core.Expansion
 }
 
 // points returns the number of quadrature nodes of the job for a rule of
@@ -449,8 +452,8 @@ func (in *Integrator) pass(p core.Potential, w core.Well, mu float64, energies [
 }
 
 // The conditioning of T(E) near the top of the well. Rounding changes V
-// by about δV = 4ε·(2|V(re)| + E_top) (V(re) and V at the turning points,
-// each to 2 ulp), which shifts the effective energy by as much; T(E)
+// by about δV = 8ε·(2|V(re)| + E_top) (V(re) and V at the turning points,
+// each to 4 ulp), which shifts the effective energy by as much; T(E)
 // then moves by |T′(E)|·δV, which grows without bound as E approaches the
 // top E_top (T′/T = 1/(2(E_top − E)) for Morse, (1/2 + 1/n)/(E_top − E)
 // near the top for a −C/rⁿ tail, 1/(2(E_top − E)·ln(…)) below an inner
@@ -537,6 +540,7 @@ func (in *Integrator) passOne(p core.Potential, w core.Well, mu float64, energie
 			_, b1 := ex.Sum(xin[k], 2)
 			_, b2 := ex.Sum(xon[k], 2)
 			jb.noise = math.Max(b1, b2)
+			jb.ev = ex.Trim(math.Max(-xin[k], xon[k]))
 			// The series' uncertainty (the coefficients at re as
 			// located, see core.Expansion) is systematic, and felt by
 			// the end expansions too.
@@ -545,7 +549,7 @@ func (in *Integrator) passOne(p core.Potential, w core.Well, mu float64, energie
 			jobs = append(jobs, jb)
 			continue
 		}
-		dv := 4 * eps * (2*math.Abs(w.Energy) + math.Min(ec.top(), E))
+		dv := 8 * eps * (2*math.Abs(w.Energy) + math.Min(ec.top(), E))
 		res[i].deltaV = dv
 		round := roundingEstimate(w, E) + conditionModel(dv, ec.top(), E)
 		if len(w.Taylor) > 4 {
@@ -651,7 +655,7 @@ func (in *Integrator) quadrature(p core.Potential, w core.Well, ex core.Expansio
 				// The bound of the series grows with |x|: that at
 				// the turning points covers every node.
 				for k, x := range r {
-					gap[k], noise[k] = jb.E-ex.Value(x), jb.noise
+					gap[k], noise[k] = jb.E-jb.ev.Value(x), jb.noise
 				}
 			}
 			integ := integrate

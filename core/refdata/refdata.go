@@ -35,6 +35,10 @@ import (
 	"github.com/pairwell/pairwell/core/units"
 )
 
+// MaxSize is the largest reference-data file read, 16 MiB (about 400 000
+// lines of three numbers).
+const MaxSize = 16 << 20
+
 // ErrFormat means a reference-data file is malformed.
 var ErrFormat = errors.New("invalid reference data")
 

@@ -128,3 +128,29 @@ func BenchmarkCompareNoValidity(b *testing.B) {
 		}
 	}
 }
+
+func TestInspectAllInOrder(t *testing.T) {
+	var in []InspectInput
+	for _, c := range morseInputs(t, 2*InspectChunk+7) {
+		if c.Err == nil {
+			in = append(in, InspectInput{Name: c.Name, Instance: c.Instance, Mass: c.Mass})
+		}
+	}
+	var names []string
+	err := InspectAll(in, 4, 3, func(i int, r Inspect, err error) error {
+		require.NoError(t, err)
+		assert.Equal(t, in[i].Name, r.Name)
+		want, err := NewInspect(in[i].Name, in[i].Instance, 4, in[i].Mass)
+		require.NoError(t, err)
+		assert.Equal(t, want, r)
+		names = append(names, r.Name)
+		return nil
+	})
+	require.NoError(t, err)
+	assert.Len(t, names, len(in))
+	stop := errors.New("stop")
+	calls := 0
+	err = InspectAll(in, 4, 2, func(int, Inspect, error) error { calls++; return stop })
+	assert.ErrorIs(t, err, stop)
+	assert.Equal(t, 1, calls)
+}

@@ -9,6 +9,8 @@ import (
 
 	"github.com/pairwell/pairwell/core"
 	"github.com/pairwell/pairwell/core/fit"
+	"github.com/pairwell/pairwell/core/levels"
+	"github.com/pairwell/pairwell/core/units"
 )
 
 // FitMetric names the error by which fits are ranked.
@@ -45,6 +47,10 @@ type FitWell struct {
 	Pair       string   `json:"pair,omitempty"`
 	Mu         *float64 `json:"reduced_mass_u,omitempty"`
 	Wavenumber *float64 `json:"harmonic_wavenumber_per_cm,omitempty"`
+	// ZPE is E(v=0) − V(re) and Fundamental E(v=1) − E(v=0) of the
+	// fitted well, J = 0, from core/levels, in cm⁻¹ (with a mass only).
+	ZPE         *float64 `json:"zero_point_energy_per_cm,omitempty"`
+	Fundamental *float64 `json:"fundamental_per_cm,omitempty"`
 }
 
 // Fit is the fit of one form to reference data, as pairwell fit reports
@@ -60,6 +66,7 @@ type Fit struct {
 	Spec           string      `json:"spec,omitempty"`
 	Zero           Number      `json:"energy_zero_ev"`
 	ZeroFitted     bool        `json:"energy_zero_fitted"`
+	ZeroSource     string      `json:"energy_zero_source"`
 	ZeroErr        Number      `json:"energy_zero_standard_error_ev"`
 	RMSE           Number      `json:"rmse_ev"`
 	MAE            Number      `json:"mae_ev"`
@@ -151,7 +158,7 @@ func newFit(x FitInput, metric FitMetric, m Mass) Fit {
 		}
 	}
 	f.Spec = FitSpec(info.Key, info.Params, r.Instance.Params)
-	f.Zero, f.ZeroFitted, f.ZeroErr = Number(r.Zero), r.ZeroFitted, Number(r.ZeroErr)
+	f.Zero, f.ZeroFitted, f.ZeroErr, f.ZeroSource = Number(r.Zero), r.ZeroFitted, Number(r.ZeroErr), r.ZeroSource
 	f.RMSE, f.MAE, f.Max = Number(r.All.RMSE), Number(r.All.MAE), Number(r.All.Max)
 	for _, w := range r.Windows {
 		f.Windows = append(f.Windows, FitWindow{Fraction: w.Fraction, Bound: w.Bound, N: w.N,
@@ -179,6 +186,13 @@ func newFit(x FitInput, metric FitMetric, m Mass) Fit {
 		if m.Mu != 0 {
 			if h, err := core.NewHarmonic(w.K, m.Mu); err == nil {
 				fw.Pair, fw.Mu, fw.Wavenumber = m.Pair, &h.Mu, &h.Wavenumber
+			}
+			if lv, err := levels.Solve(r.Instance.Potential, m.Mu, levels.Settings{Count: 2}); err != nil {
+				f.Notes = append(f.Notes, fmt.Sprintf("zero-point energy and fundamental not given: %v", err))
+			} else if len(lv.Levels) >= 2 {
+				zpe := (lv.Levels[0].Energy - lv.Minimum) / units.WavenumberEV
+				fund := (lv.Levels[1].Energy - lv.Levels[0].Energy) / units.WavenumberEV
+				fw.ZPE, fw.Fundamental = &zpe, &fund
 			}
 		}
 		f.Well = fw

@@ -37,13 +37,21 @@ type Motion struct {
 	HarmonicPeriod float64 `json:"harmonic_period_fs"`
 	// PerturbativePeriod is NaN (null) where the expansion breaks down
 	// or c₄ is unknown.
-	PerturbativePeriod  Number  `json:"perturbative_period_fs"`
-	PeriodSpread        float64 `json:"period_spread_fs"`
-	PeriodsMeasured     int     `json:"periods_measured"`
-	InnerTurningPoint   float64 `json:"inner_turning_point_angstrom"`
-	OuterTurningPoint   float64 `json:"outer_turning_point_angstrom"`
-	RelativeEnergyDrift float64 `json:"relative_energy_drift"`
-	FinalEnergyError    float64 `json:"final_relative_energy_error"`
+	PerturbativePeriod Number  `json:"perturbative_period_fs"`
+	PeriodSpread       float64 `json:"period_spread_fs"`
+	PeriodsMeasured    int     `json:"periods_measured"`
+	InnerTurningPoint  float64 `json:"inner_turning_point_angstrom"`
+	OuterTurningPoint  float64 `json:"outer_turning_point_angstrom"`
+	// RelativeEnergyDrift and FinalEnergyError are null when they are at
+	// or below RelativeEnergyFloor, the rounding floor of the energies
+	// (motion.Result.EnergyFloor): then they measure rounding, not the
+	// integrator.
+	RelativeEnergyDrift Number  `json:"relative_energy_drift"`
+	FinalEnergyError    Number  `json:"final_relative_energy_error"`
+	RelativeEnergyFloor float64 `json:"relative_energy_rounding_floor"`
+	// Notes are remarks on the accuracy of the run, e.g. an energy above
+	// the range in which the default step was validated.
+	Notes []string `json:"notes,omitempty"`
 
 	TimeStep       float64 `json:"time_step_fs"`
 	StepsPerPeriod float64 `json:"steps_per_period"`
@@ -177,8 +185,9 @@ func NewMotion(inst core.Instance, m Mass, start MotionStart, s motion.Settings)
 		PeriodsMeasured:     res.PeriodsMeasured,
 		InnerTurningPoint:   ex.Inner,
 		OuterTurningPoint:   ex.Outer,
-		RelativeEnergyDrift: res.EnergyDrift,
-		FinalEnergyError:    res.FinalEnergyError,
+		RelativeEnergyDrift: aboveFloor(res.EnergyDrift, res.EnergyFloor),
+		FinalEnergyError:    aboveFloor(res.FinalEnergyError, res.EnergyFloor),
+		RelativeEnergyFloor: res.EnergyFloor,
 		TimeStep:            res.TimeStep,
 		StepsPerPeriod:      res.StepsPerPeriod,
 		Steps:               res.Steps,
@@ -188,6 +197,14 @@ func NewMotion(inst core.Instance, m Mass, start MotionStart, s motion.Settings)
 	}
 	if !math.IsInf(lim, 1) {
 		r.EnergyFraction = st.Energy / lim
+	}
+	if r.EnergyFraction > motion.ValidatedFraction && s.StepsPerPeriod == 0 && s.RTol == 0 && s.ATol == 0 {
+		r.Notes = append(r.Notes, fmt.Sprintf("E is %.3g of the limit of bound motion, above the %.2g up to which the default step of %s was validated "+
+			"(period error target %.0e): that accuracy is not guaranteed here; compare with a finer step (%s)",
+			r.EnergyFraction, motion.ValidatedFraction, res.Method, res.Method.Target(), finer(res.Method)))
+	}
+	if math.IsNaN(float64(r.RelativeEnergyDrift)) {
+		r.Notes = append(r.Notes, fmt.Sprintf("the energy error is below the rounding floor of the energies (%.2g relative): it is not resolved", res.EnergyFloor))
 	}
 	if res.Method == motion.DormandPrince {
 		rt, at := s.RTol, s.ATol
@@ -200,4 +217,21 @@ func NewMotion(inst core.Instance, m Mass, start MotionStart, s motion.Settings)
 		r.RTol, r.ATol = &rt, &at
 	}
 	return r, res.Trajectory, nil
+}
+
+// aboveFloor returns v, or NaN (null) when |v| is at or below the rounding
+// floor.
+func aboveFloor(v, floor float64) Number {
+	if math.Abs(v) <= floor {
+		return Number(math.NaN())
+	}
+	return Number(v)
+}
+
+// finer names the option that refines the step of m.
+func finer(m motion.Method) string {
+	if m == motion.DormandPrince {
+		return "--rtol, --atol"
+	}
+	return "--steps-per-period"
 }

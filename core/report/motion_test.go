@@ -133,3 +133,22 @@ func startErr(is error, text string) func(t *testing.T, err error) {
 		assert.False(t, errors.Is(err, ErrTooLong))
 	}
 }
+
+// TestMotionNotes: above the energies the default steps were validated for
+// (half the limit of bound motion) the report says that the default
+// accuracy is not guaranteed; with a step of the user's own it does not.
+func TestMotionNotes(t *testing.T) {
+	inst := build(t, morseSpec)
+	start := MotionStart{Energy: 0.9 * morseDe, ByEnergy: true}
+	r, _, err := NewMotion(inst, Mass{Mu: testMu}, start, motion.Settings{Method: motion.RK4, Periods: 2})
+	require.NoError(t, err)
+	require.Len(t, r.Notes, 1)
+	assert.Contains(t, r.Notes[0], "not guaranteed")
+	r, _, err = NewMotion(inst, Mass{Mu: testMu}, start, motion.Settings{Method: motion.RK4, Periods: 2, StepsPerPeriod: 2000})
+	require.NoError(t, err)
+	assert.Empty(t, r.Notes)
+	r, _, err = NewMotion(inst, Mass{Mu: testMu}, MotionStart{Energy: 0.2 * morseDe, ByEnergy: true}, motion.Settings{Periods: 2})
+	require.NoError(t, err)
+	assert.Empty(t, r.Notes)
+	assert.Greater(t, float64(r.RelativeEnergyDrift), r.RelativeEnergyFloor)
+}

@@ -198,11 +198,7 @@ func New(p core.Potential, s Settings) (*Expansion, error) {
 	}
 	top := w.Depth
 	if d := p.Domain(); d.Barrier {
-		var v [1]float64
-		if err := evaluate(p, w.Energy, []float64{math.Nextafter(d.Min, math.Inf(1))}, v[:]); err != nil {
-			return nil, err
-		}
-		top = math.Min(top, v[0])
+		top = math.Min(top, d.BarrierEnergy-w.Energy)
 	}
 	if !math.IsInf(top, 1) {
 		e.ecut = s.Cutoff * top

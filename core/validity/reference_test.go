@@ -67,3 +67,38 @@ func TestPotentialReference(t *testing.T) {
 	}
 	t.Logf("worst relative error of the potential limits: %.2g", worst)
 }
+
+// TestPeriodReference: the period-criterion limit of the matched Buckingham
+// of `compare --match re=2,De=1,k=0.05` (a well whose inner barrier is far
+// below its depth, so the limit lies at 4.4e-9 eV) agrees with the mpmath
+// reference of testdata/reference.json (period_cases: mpmath 1.3.0 at 36
+// digits, checked against 30) to 1e-9 relative (it was 1.9e-6 before the
+// periods of small energies came from the series at re).
+func TestPeriodReference(t *testing.T) {
+	data, err := os.ReadFile("testdata/reference.json")
+	require.NoError(t, err)
+	var ref struct {
+		Period []struct {
+			Spec      string  `json:"spec"`
+			Order     int     `json:"order"`
+			Tolerance float64 `json:"tolerance"`
+			Energy    string  `json:"energy_ev"`
+		} `json:"period_cases"`
+	}
+	require.NoError(t, json.Unmarshal(data, &ref))
+	require.NotEmpty(t, ref.Period)
+	reg := models.NewRegistry()
+	for _, c := range ref.Period {
+		inst, err := reg.Build(c.Spec)
+		require.NoError(t, err)
+		w, err := core.AnalyzeWell(inst.Potential, core.WellSettings{})
+		require.NoError(t, err)
+		e, err := PeriodRange(inst.Potential, w, c.Order, Settings{Tolerance: c.Tolerance})
+		require.NoError(t, err)
+		want, err := strconv.ParseFloat(c.Energy, 64)
+		require.NoError(t, err)
+		rel := math.Abs(e.Energy/want - 1)
+		assert.LessOrEqual(t, rel, 1e-9, "%s: %.15g eV, want %.15g", c.Spec, e.Energy, want)
+		t.Logf("%s order %d: period limit error %.2g", c.Spec, c.Order, rel)
+	}
+}

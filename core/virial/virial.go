@@ -242,10 +242,7 @@ func New(p core.Potential, s Settings) (*Calculator, error) {
 	c.depth = -v[0]
 	if d.Barrier {
 		c.hardCore = d.Min
-		if err := evaluate(p, d.Limit, []float64{math.Nextafter(d.Min, math.Inf(1))}, v[:], nil); err != nil {
-			return nil, err
-		}
-		c.barrier = v[0]
+		c.barrier = d.BarrierEnergy - d.Limit
 	}
 	if err := c.checkTail(); err != nil {
 		return nil, err

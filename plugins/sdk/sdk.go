@@ -1,11 +1,28 @@
 // Package sdk turns functional forms written in Go into a pairwell plugin.
 //
-// An author implements the same contract as a built-in form — a core.Model
+// The short way is Form: write V(r) once, as a Go function of the jet of r
+// (package core/jet), give the metadata, and Form is a complete model —
+// parameter and domain checks, batching, the normalized Taylor coefficients
+// c_k = V⁽ᵏ⁾/k! of every order by Taylor-mode automatic differentiation:
+//
+//	var morse = sdk.Form{
+//		Meta: core.ModelInfo{Key: "my-morse", Params: …},
+//		V: func(t *jet.Tape, r jet.Jet, p []float64) jet.Jet {
+//			y := t.Exp(t.Affine(r, -p[1], p[1]*p[2]))  // e^{−a(r − re)}
+//			return t.Mul(y, t.Affine(y, p[0], -2*p[0])) // De·y(y − 2)
+//		},
+//	}
+//
+//	func main() { sdk.Serve("1.0.0", morse) }
+//
+// (plugins/examples/mie is a complete example.) Alternatively, an author
+// implements the same contract as a built-in form by hand — a core.Model
 // (optionally a core.Matcher) whose New returns a core.Potential, whose one
-// evaluation method Taylor returns the normalized Taylor coefficients
-// c_k = V⁽ᵏ⁾/k! at many separations, with its Domain (barrier energy and
-// equilibrium guess included) and, for "pairwell check", its published
-// identities (conformance.Identifier) — and calls Serve from main:
+// evaluation method Taylor returns the normalized Taylor coefficients at
+// many separations, with its Domain (barrier energy and equilibrium guess
+// included) and, for "pairwell check", its published identities
+// (conformance.Identifier); plugins/examples/rydberg is written that way —
+// and calls Serve from main:
 //
 //	func main() {
 //		sdk.Serve("1.0.0", Rydberg{})

@@ -14,5 +14,5 @@ import "github.com/pairwell/pairwell/plugins/sdk"
 const version = "1.0.0"
 
 func main() {
-	sdk.Serve(version, Mie{})
+	sdk.Serve(version, Mie())
 }

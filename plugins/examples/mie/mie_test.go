@@ -18,7 +18,7 @@ const eps, sigma = 0.0104, 3.4
 
 func newMie(t *testing.T, n, m float64) core.Potential {
 	t.Helper()
-	p, err := Mie{}.New([]float64{eps, sigma, n, m})
+	p, err := Mie().New([]float64{eps, sigma, n, m})
 	require.NoError(t, err)
 	return p
 }
@@ -101,11 +101,17 @@ func TestIdentitiesHold(t *testing.T) {
 
 func TestErrors(t *testing.T) {
 	for _, params := range [][]float64{{eps, sigma, 6, 6}, {eps, sigma, 6, 12}, {eps, sigma, 12}, {-eps, sigma, 12, 6}} {
-		_, err := Mie{}.New(params)
+		_, err := Mie().New(params)
 		assert.ErrorIs(t, err, core.ErrParam, "%v", params)
 	}
 	p := newMie(t, 12, 6)
 	assert.ErrorIs(t, coretest.Derivatives(p, 0, make([]float64, 1)), core.ErrDomain)
 	assert.ErrorIs(t, coretest.Batch(p, 2, []float64{1e-200}, make([]float64, 1)), core.ErrDomain, "overflow is a domain error")
 	assert.ErrorIs(t, coretest.Batch(p, maxOrder+1, []float64{1}, make([]float64, 1)), core.ErrOrder)
+}
+
+// TestConformance runs the conformance suite on the jet-written form, as
+// a plugin author would.
+func TestConformance(t *testing.T) {
+	conformance.Test(t, Mie(), []float64{eps, sigma, 12, 6}, []float64{eps, sigma, 13.5, 5.5})
 }
