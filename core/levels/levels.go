@@ -639,5 +639,9 @@ func (sv *solver) finish(sp, prev *spectrum, diffs [][]float64, keep []int) (*Re
 			res.Unresolved = sp.unheld + len(sp.e[0]) - n
 		}
 	}
+	if res.BoundLevels == 0 {
+		return nil, fmt.Errorf("%w: no level converged at J = 0: the only level(s) the grids show lie so close to the dissociation limit that grids of up to %d points do not agree on them",
+			core.ErrNoConvergence, sv.maxPoints)
+	}
 	return res, nil
 }

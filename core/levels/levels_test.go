@@ -4,6 +4,7 @@ import (
 	"errors"
 	"fmt"
 	"math"
+	"math/rand/v2"
 	"testing"
 
 	"github.com/stretchr/testify/assert"
@@ -291,6 +292,8 @@ func TestBadInput(t *testing.T) {
 	require.NoError(t, err)
 	buck, err := models.Buckingham{}.New(bk)
 	require.NoError(t, err)
+	lj3K, err := models.LennardJones{}.New([]float64{3 * units.BoltzmannEV, 2.6})
+	require.NoError(t, err)
 	for _, tc := range []struct {
 		name string
 		p    core.Potential
@@ -313,6 +316,9 @@ func TestBadInput(t *testing.T) {
 		{"no level below the barrier", buck, 7, Settings{}, core.ErrParam, "below its inner barrier"},
 		{"above the barrier", buck, 7, Settings{Count: 2}, core.ErrParam, "barrier"},
 		{"grid too large", morse, 0.98, Settings{MaxPoints: 20}, core.ErrParam, "points"},
+		// ε = 3 K, σ = 2.6 Å, μ(⁴He₂) = 2.0013 u (invented, helium-sized):
+		// at most a level at the threshold, which no grid settles.
+		{"level at the threshold", lj3K, 2.0013, Settings{}, core.ErrNoConvergence, "dissociation limit"},
 	} {
 		t.Run(tc.name, func(t *testing.T) {
 			res, err := Solve(tc.p, tc.mu, tc.s)
@@ -346,4 +352,50 @@ func TestHighJ(t *testing.T) {
 	}
 	assert.Equal(t, 0, perJ[80], "no level bound at J = 80 (Be·J(J+1) = 69000 cm⁻¹ > De)")
 	t.Logf("levels per J: %v; unresolved at J = 0: %d", perJ, res.Unresolved)
+}
+
+// TestRandomWells is a property test: for random Morse, Lennard-Jones and
+// Buckingham wells and masses (fixed seed), Solve either refuses with a
+// sentinel error or returns levels ordered by J then v, increasing in v,
+// below the ceiling and converged to the tolerance; it never panics.
+func TestRandomWells(t *testing.T) {
+	rng := rand.New(rand.NewPCG(13, 1))
+	logu := func(lo, hi float64) float64 { return lo * math.Pow(hi/lo, rng.Float64()) }
+	solved, refused := 0, 0
+	defer func() { t.Logf("%d solved, %d refused", solved, refused) }()
+	for i := 0; i < 45; i++ {
+		var (
+			m      core.Model
+			params []float64
+		)
+		switch i % 3 {
+		case 0:
+			m, params = models.Morse{}, []float64{logu(0.005, 10), logu(0.5, 4), logu(0.7, 4)}
+		case 1:
+			m, params = models.LennardJones{}, []float64{logu(1e-3, 0.1), logu(2.5, 4)}
+		default:
+			m, params = models.Buckingham{}, []float64{logu(500, 5e4), logu(0.2, 0.4), logu(5, 100)}
+		}
+		p, err := m.New(params)
+		if err != nil {
+			continue // no well for this set
+		}
+		mu := logu(0.5, 60)
+		s := Settings{JMax: rng.IntN(4), Tolerance: logu(1e-7, 1e-3)}
+		res, err := Solve(p, mu, s)
+		if err != nil {
+			assert.True(t, errors.Is(err, core.ErrParam) || errors.Is(err, core.ErrNoConvergence) || errors.Is(err, core.ErrNoMinimum), "%s %v μ=%g: %v", m.Info().Key, params, mu, err)
+			refused++
+			continue
+		}
+		solved++
+		for k, l := range res.Levels {
+			assert.Less(t, l.Energy, res.Ceiling)
+			assert.LessOrEqual(t, l.Accuracy, s.Tolerance*(1+1e-12), "%s %v μ=%g v=%d J=%d", m.Info().Key, params, mu, l.V, l.J)
+			if k > 0 && res.Levels[k-1].J == l.J {
+				assert.Equal(t, res.Levels[k-1].V+1, l.V)
+				assert.Greater(t, l.Energy, res.Levels[k-1].Energy)
+			}
+		}
+	}
 }

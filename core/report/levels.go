@@ -194,6 +194,9 @@ func NewLevels(inst core.Instance, m Mass, s LevelsSettings) (Levels, error) {
 		byJ[l.J] = append(byJ[l.J], l)
 	}
 	j0 := byJ[0]
+	if len(j0) == 0 {
+		return fail(fmt.Errorf("%w: no level at J = 0", core.ErrNoConvergence))
+	}
 	cm := func(e float64) float64 { return e / units.WavenumberEV }
 	r.ZPEeV = j0[0].Energy - w.Energy
 	r.ZPE = cm(r.ZPEeV)
