@@ -26,6 +26,7 @@ func newCompareCmd(e *env) *cobra.Command {
 		order     int
 		tolerance float64
 		withValid bool
+		eunit     string
 	)
 	cmd := &cobra.Command{
 		Use:   "compare [SPEC...] [--set FILE.toml] [--match re=R,De=D,k=K] (--pair A-B | --mu M) [--validity]",
@@ -83,13 +84,17 @@ table).`,
 			if err != nil {
 				return err
 			}
+			uname, perUnit, err := energyUnit(eunit)
+			if err != nil {
+				return usageErr(err)
+			}
 			f := cmd.Flags()
 			withValid = withValid || f.Changed(truncationFlag) || f.Changed("order") || f.Changed("tolerance")
 			rows, err := e.compare(inputs, report.CompareSettings{Order: order, Tolerance: tolerance, Validity: withValid})
 			if err != nil {
 				return err
 			}
-			if err := e.emitCompare(rows); err != nil {
+			if err := e.emitCompare(rows, uname, perUnit); err != nil {
 				return err
 			}
 			errs := make([]error, len(rows))
@@ -107,6 +112,7 @@ table).`,
 	f.StringVar(&match, "match", "", "match every built-in form to a target well: re=R,De=D,k=K (any subset, units allowed)")
 	truncationVar(f, &order, report.DefaultValidityOrder, "order N of the truncated Taylor potential V_N whose validity is reported (2, 3 or 4)")
 	toleranceVar(f, &tolerance, "the validity criteria")
+	energyUnitVar(f, &eunit, "the table (JSON and CSV stay in eV)")
 	f.BoolVar(&withValid, "validity", false, "also compute how far the truncated Taylor potential holds (implied by --truncation and --tolerance)")
 	return cmd
 }
@@ -268,11 +274,14 @@ func (e *env) compare(inputs []report.CompareInput, s report.CompareSettings) ([
 
 // emitCompare writes the rows: JSON as the rows themselves, a table (with
 // notes and errors as numbered footnotes) or CSV (with them in a column).
-func (e *env) emitCompare(rows []report.CompareRow) error {
+func (e *env) emitCompare(rows []report.CompareRow, unit string, perUnit float64) error {
 	if e.format == "json" {
 		return e.emit(rows, nil)
 	}
 	t, notes := compareTable(rows, e.format == "csv")
+	if e.format == "table" && unit != "eV" {
+		convertEnergies(t, unit, perUnit, short)
+	}
 	if err := e.emit(rows, t); err != nil {
 		return err
 	}

@@ -151,3 +151,48 @@ func energyUnit(s string) (name string, perUnit float64, err error) {
 func energyUnitVar(f *pflag.FlagSet, v *string, what string) {
 	f.StringVar(v, "energy-unit", "eV", "unit of the energies of "+what+": "+strings.Join(energyUnits, ", "))
 }
+
+// convertEnergies rewrites the energies of a table in another unit: in a
+// table with a "unit" column, the "value" cell of every row whose unit
+// starts with "eV" (eV, eV/Å², eV/Å³ …); in a table with units in the
+// headers, every column whose unit starts with "eV". Values are divided by
+// perUnit, the unit's value in eV; cells that are not numbers (∞, —) stay.
+// JSON and CSV are never converted: they keep the documented units.
+func convertEnergies(t *table, name string, perUnit float64, format func(float64) string) {
+	conv := func(cell string) string {
+		v, err := strconv.ParseFloat(cell, 64)
+		if err != nil {
+			return cell
+		}
+		return format(v / perUnit)
+	}
+	unitCol, valueCol := -1, -1
+	for i, c := range t.cols {
+		switch c.Title {
+		case "unit":
+			unitCol = i
+		case "value":
+			valueCol = i
+		}
+	}
+	if unitCol >= 0 && valueCol >= 0 {
+		for _, r := range t.rows {
+			if u := r[unitCol]; strings.HasPrefix(u, "eV") && valueCol < len(r) {
+				r[valueCol] = conv(r[valueCol])
+				r[unitCol] = name + strings.TrimPrefix(u, "eV")
+			}
+		}
+		return
+	}
+	for i, c := range t.cols {
+		if !strings.HasPrefix(c.Unit, "eV") {
+			continue
+		}
+		t.cols[i].Unit = name + strings.TrimPrefix(c.Unit, "eV")
+		for _, r := range t.rows {
+			if i < len(r) {
+				r[i] = conv(r[i])
+			}
+		}
+	}
+}

@@ -310,3 +310,23 @@ func BenchmarkInspectBatch(b *testing.B) {
 		}
 	}
 }
+
+// TestEnergyUnitTables: --energy-unit converts the energies of inspect and
+// compare tables; JSON stays in eV. ε = 120 K·k_B (CODATA 2018 k_B).
+func TestEnergyUnitTables(t *testing.T) {
+	lj := "lj:epsilon=120K,sigma=3.4" // argon-sized, illustrative
+	code, out, errOut := runCLI(t, "inspect", lj, "--energy-unit", "k")
+	require.Equal(t, 0, code, errOut)
+	assert.Regexp(t, `well depth V\(∞\) − V\(re\)\s+120\s+K\n`, out)
+	assert.Regexp(t, `force constant k = V″\(re\)\s+\S+\s+K/Å²`, out)
+	code, out, _ = runCLI(t, "inspect", lj, "--energy-unit", "K", "--format", "json")
+	require.Equal(t, 0, code)
+	assert.Contains(t, out, `"well_depth_ev": 0.01034079`)
+	code, out, errOut = runCLI(t, "compare", lj, "--mu", "20", "--energy-unit", "kcal/mol")
+	require.Equal(t, 0, code, errOut)
+	assert.Contains(t, out, "depth [kcal/mol]")
+	assert.Contains(t, out, "0.238") // 120 K·k_B·N_A = 0.2385 kcal/mol
+	code, _, errOut = runCLI(t, "inspect", lj, "--energy-unit", "furlong")
+	assert.Equal(t, 2, code)
+	assert.Contains(t, errOut, "allowed: eV, meV, K, kcal/mol, kJ/mol, cm-1, hartree")
+}

@@ -2,6 +2,7 @@ package main
 
 import (
 	"fmt"
+	"strconv"
 	"strings"
 
 	"github.com/spf13/cobra"
@@ -16,6 +17,7 @@ func newInspectCmd(e *env) *cobra.Command {
 		mass    massFlags
 		order   int
 		setPath string
+		eunit   string
 	)
 	cmd := &cobra.Command{
 		Use:   "inspect SPEC... [--set FILE.toml]",
@@ -50,6 +52,10 @@ and cm⁻¹, whatever the input units.`,
 			if order < 2 {
 				return usageErr(fmt.Errorf("--%s %d: must be at least 2", coefficientsFlag, order))
 			}
+			uname, perUnit, err := energyUnit(eunit)
+			if err != nil {
+				return usageErr(err)
+			}
 			if len(args) == 0 && setPath == "" {
 				return usageErr(fmt.Errorf("inspect needs a SPEC (or several, or --set FILE.toml); see %s --help", cmd.CommandPath()))
 			}
@@ -62,7 +68,12 @@ and cm⁻¹, whatever the input units.`,
 				if err != nil {
 					return computeErr(err)
 				}
-				return e.emit(r, inspectTable(r))
+				t := inspectTable(r)
+				if uname != "eV" {
+					// The cells hold 10 digits; converted, 9 are certain.
+					convertEnergies(t, uname, perUnit, func(v float64) string { return strconv.FormatFloat(v, 'g', 9, 64) })
+				}
+				return e.emit(r, t)
 			}
 			inputs, err := e.inspectInputs(args, setPath, m)
 			if err != nil {
@@ -74,6 +85,7 @@ and cm⁻¹, whatever the input units.`,
 	mass.register(cmd)
 	coefficientsVar(cmd.Flags(), &order, 4, "highest Taylor coefficient c_N to show (≥ 2)")
 	cmd.Flags().StringVar(&setPath, "set", "", "model-set file (TOML) naming the forms to inspect")
+	energyUnitVar(cmd.Flags(), &eunit, "the table (JSON and CSV stay in eV)")
 	return cmd
 }
 
