@@ -26,7 +26,7 @@ func newLevelsCmd(e *env) *cobra.Command {
   −ħ²/(2μ) χ″ + [V(r) + ħ²J(J+1)/(2μr²)] χ = E χ,
 
 for the bound levels E(v, J), v = 0…V (--v-max; default every bound level) and
-J = 0…J (--j-max; default 0), each converged to T (--tolerance, default 1e-6
+J = 0…J (--j-max; default 10), each converged to T (--tolerance, default 1e-6
 cm⁻¹; a bare number is in cm⁻¹, units such as 1e-9eV are accepted). The method
 is a Colbert–Miller discrete variable representation on a grid chosen from the
 well and refined until two grids agree; the accuracy reported is that
@@ -108,7 +108,7 @@ are in cm⁻¹ (eV where the key says so), Å and u.`,
 	}
 	mass.register(cmd)
 	cmd.Flags().IntVar(&vmax, "v-max", -1, "highest vibrational level v (default: every bound level; required for the harmonic form)")
-	cmd.Flags().IntVar(&jmax, "j-max", 0, "highest rotational level J")
+	cmd.Flags().IntVar(&jmax, "j-max", 10, "highest rotational level J")
 	cmd.Flags().StringVar(&tolerance, "tolerance", "", "accuracy of the levels, cm⁻¹ unless a unit is given (default 1e-6)")
 	return cmd
 }
