@@ -116,6 +116,7 @@ field: do not base production or safety decisions on its numbers alone.`,
 		newFitCmd(e),
 		newVirialCmd(e),
 		newExpansionCmd(e),
+		newMixCmd(e),
 		newVersionCmd(e),
 	)
 	root.Version = toolVersion()
