@@ -61,12 +61,11 @@ package thermal
 import (
 	"fmt"
 	"math"
-	"sync"
 
 	"github.com/pairwell/pairwell/core"
+	"github.com/pairwell/pairwell/core/internal/gauss"
 	"github.com/pairwell/pairwell/core/period"
 	"github.com/pairwell/pairwell/core/units"
-	"gonum.org/v1/gonum/integrate/quad"
 )
 
 // Defaults of Settings and fixed parameters of the method.
@@ -140,25 +139,11 @@ type Expansion struct {
 	// scans outward from re on each side: displacement |x| and ΔV,
 	// truncated at the first point beyond the cut.
 	side  [2]scan
-	rules []rule
+	rules []gauss.Rule
 }
 
 type scan struct {
 	r, dv []float64
-}
-
-type rule struct {
-	once sync.Once
-	n    int
-	x, w []float64
-}
-
-func (r *rule) init() {
-	r.once.Do(func() {
-		r.x = make([]float64, r.n)
-		r.w = make([]float64, r.n)
-		quad.Legendre{}.FixedLocations(r.x, r.w, -1, 1)
-	})
 }
 
 // New prepares the thermal expansion of the well of p. Errors wrap
@@ -194,7 +179,7 @@ func New(p core.Potential, s Settings) (*Expansion, error) {
 	}
 	e := &Expansion{p: p, s: s, w: w, ecut: math.Inf(1), lo: math.NaN(), hi: math.NaN()}
 	for n := minNodes; n <= s.MaxNodes; n *= 2 {
-		e.rules = append(e.rules, rule{n: n})
+		e.rules = append(e.rules, gauss.Rule{N: n})
 	}
 	top := w.Depth
 	if d := p.Domain(); d.Barrier {
@@ -440,14 +425,13 @@ func (e *Expansion) integrate(temps, betas []float64, panels []panel) error {
 			}
 			if pn.level >= len(e.rules) {
 				return fmt.Errorf("thermal: at %.6g K: %w: the quadrature did not reach the tolerance %g with %d nodes",
-					temps[pn.t], core.ErrNoConvergence, e.s.Tolerance, e.rules[len(e.rules)-1].n)
+					temps[pn.t], core.ErrNoConvergence, e.s.Tolerance, e.rules[len(e.rules)-1].N)
 			}
-			rl := &e.rules[pn.level]
-			rl.init()
+			rx, rw := e.rules[pn.level].Nodes()
 			h := (pn.b - pn.a) / 2
-			for i, x := range rl.x {
+			for i, x := range rx {
 				r = append(r, pn.a+h*(x+1))
-				wts = append(wts, math.Abs(h)*rl.w[i])
+				wts = append(wts, math.Abs(h)*rw[i])
 				owner = append(owner, k)
 			}
 		}

@@ -83,11 +83,10 @@ import (
 	"errors"
 	"fmt"
 	"math"
-	"sync"
 
 	"github.com/pairwell/pairwell/core"
+	"github.com/pairwell/pairwell/core/internal/gauss"
 	"github.com/pairwell/pairwell/core/units"
-	"gonum.org/v1/gonum/integrate/quad"
 )
 
 // Defaults of Settings and fixed parameters of the method.
@@ -180,22 +179,7 @@ type Calculator struct {
 	// below the last point the integrand is bounded and the panel may
 	// start at r = 0.
 	scanReachesZero bool
-	rules           []rule
-}
-
-// rule is a Gauss–Legendre rule on [−1, 1].
-type rule struct {
-	once sync.Once
-	n    int
-	x, w []float64
-}
-
-func (r *rule) init() {
-	r.once.Do(func() {
-		r.x = make([]float64, r.n)
-		r.w = make([]float64, r.n)
-		quad.Legendre{}.FixedLocations(r.x, r.w, -1, 1)
-	})
+	rules           []gauss.Rule
 }
 
 // New prepares the computation of B₂ for p. It returns an error wrapping
@@ -233,7 +217,7 @@ func New(p core.Potential, s Settings) (*Calculator, error) {
 	}
 	c := &Calculator{p: p, s: s, limit: d.Limit, re: re}
 	for n := minNodes; n <= s.MaxNodes; n *= 2 {
-		c.rules = append(c.rules, rule{n: n})
+		c.rules = append(c.rules, gauss.Rule{N: n})
 	}
 	var v [1]float64
 	if err := evaluate(p, d.Limit, []float64{re}, v[:], nil); err != nil {
@@ -456,20 +440,19 @@ func (c *Calculator) integrate(ts []temp, panels []panel, quantum bool) error {
 			if pn.level >= len(c.rules) {
 				t := ts[pn.t]
 				return fmt.Errorf("virial: at %.6g K: %w: the quadrature did not reach the tolerance %g with %d nodes per panel",
-					t.T, core.ErrNoConvergence, c.s.Tolerance, c.rules[len(c.rules)-1].n)
+					t.T, core.ErrNoConvergence, c.s.Tolerance, c.rules[len(c.rules)-1].N)
 			}
-			rl := &c.rules[pn.level]
-			rl.init()
-			for i, x := range rl.x {
+			rx, rw := c.rules[pn.level].Nodes()
+			for i, x := range rx {
 				var rr, ww float64
 				if pn.tail {
 					u := (x + 1) / 2
 					rr = pn.a / u
-					ww = rl.w[i] / 2 * pn.a * pn.a * pn.a / (u * u * u * u)
+					ww = rw[i] / 2 * pn.a * pn.a * pn.a / (u * u * u * u)
 				} else {
 					h := (pn.b - pn.a) / 2
 					rr = pn.a + h*(x+1)
-					ww = h * rl.w[i] * rr * rr
+					ww = h * rw[i] * rr * rr
 				}
 				r, wts, owner = append(r, rr), append(wts, ww), append(owner, k)
 			}
@@ -514,7 +497,7 @@ func (c *Calculator) integrate(ts []temp, panels []panel, quantum bool) error {
 		for k := range panels {
 			pn := &panels[k]
 			if !pn.done {
-				ts[pn.t].nodes += c.rules[pn.level].n
+				ts[pn.t].nodes += c.rules[pn.level].N
 			}
 		}
 		c.checkRound(ts, panels, quantum)
