@@ -9,7 +9,7 @@ import (
 	"strings"
 	"time"
 
-	"github.com/pairwell/pairwell/internal/fileio"
+	"github.com/pairwell/pairwell/core/fileio"
 )
 
 // JUnit XML, the format CI systems (Jenkins, GitLab, GitHub actions that

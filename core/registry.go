@@ -6,7 +6,7 @@ import (
 	"sort"
 	"strings"
 
-	"github.com/pairwell/pairwell/internal/suggest"
+	"github.com/pairwell/pairwell/core/suggest"
 )
 
 // ErrUnknownModel means no model of the registry has the key or alias

@@ -5,8 +5,8 @@ import (
 	"fmt"
 	"strings"
 
+	"github.com/pairwell/pairwell/core/suggest"
 	"github.com/pairwell/pairwell/core/units"
-	"github.com/pairwell/pairwell/internal/suggest"
 )
 
 // ErrSpec means a model spec could not be parsed or does not fit its model.

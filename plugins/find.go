@@ -13,7 +13,7 @@ import (
 	"sort"
 	"strings"
 
-	"github.com/pairwell/pairwell/internal/fileio"
+	"github.com/pairwell/pairwell/core/fileio"
 )
 
 // ErrRef means a plugin reference, a plugin path list or a lock file is

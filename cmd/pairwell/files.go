@@ -5,7 +5,7 @@ import (
 	"fmt"
 	"io"
 
-	"github.com/pairwell/pairwell/internal/fileio"
+	"github.com/pairwell/pairwell/core/fileio"
 )
 
 // readInput reads an input file of the run with a size cap (and records
@@ -29,7 +29,7 @@ func (e *env) checkOutput(flag, path string) error {
 	return nil
 }
 
-// writeOutput writes an output file under the policy of internal/fileio.
+// writeOutput writes an output file under the policy of core/fileio.
 func (e *env) writeOutput(flag, path string, write func(io.Writer) error) error {
 	if err := e.files.WriteFile(path, write); err != nil {
 		return fileErr(flag, err)

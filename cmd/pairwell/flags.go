@@ -8,9 +8,9 @@ import (
 
 	"github.com/spf13/pflag"
 
+	"github.com/pairwell/pairwell/core/suggest"
 	"github.com/pairwell/pairwell/core/units"
 	"github.com/pairwell/pairwell/core/validity"
-	"github.com/pairwell/pairwell/internal/suggest"
 )
 
 // The flags whose meaning is shared by several commands are defined here,

@@ -9,8 +9,8 @@ import (
 	"github.com/spf13/pflag"
 
 	"github.com/pairwell/pairwell/core"
-	"github.com/pairwell/pairwell/internal/fileio"
-	"github.com/pairwell/pairwell/internal/suggest"
+	"github.com/pairwell/pairwell/core/fileio"
+	"github.com/pairwell/pairwell/core/suggest"
 	"github.com/pairwell/pairwell/models"
 )
 

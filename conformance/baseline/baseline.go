@@ -45,9 +45,9 @@ import (
 	"strconv"
 
 	"github.com/pairwell/pairwell/core"
+	"github.com/pairwell/pairwell/core/fileio"
 	"github.com/pairwell/pairwell/core/modelset"
 	"github.com/pairwell/pairwell/core/validity"
-	"github.com/pairwell/pairwell/internal/fileio"
 )
 
 // Format and Version identify baseline documents. Version changes when the
@@ -212,7 +212,7 @@ func (b *Baseline) Write(w io.Writer) error {
 }
 
 // WriteFile writes b to path under pairwell's output-file policy
-// (internal/fileio): atomically, through a temporary file in the same
+// (core/fileio): atomically, through a temporary file in the same
 // directory, synced and renamed over path, so that path never holds a
 // half-written baseline; a symbolic link, device, FIFO or directory is
 // refused, and a replaced file keeps its mode.

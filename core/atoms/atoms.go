@@ -17,7 +17,7 @@ import (
 	"strconv"
 	"strings"
 
-	"github.com/pairwell/pairwell/internal/suggest"
+	"github.com/pairwell/pairwell/core/suggest"
 )
 
 // Sentinel errors, wrapped by the errors of this package; use errors.Is.

@@ -3,7 +3,7 @@ package figure
 import (
 	"bytes"
 	"fmt"
-	"github.com/pairwell/pairwell/internal/fileio"
+	"github.com/pairwell/pairwell/core/fileio"
 	"image/color"
 	"image/png"
 	"io"
@@ -103,7 +103,7 @@ func (f *Figure) WriteFile(path string) error {
 }
 
 // writeAtomic writes data to path under pairwell's output-file policy
-// (internal/fileio).
+// (core/fileio).
 func writeAtomic(path string, data []byte) error {
 	return fileio.WriteFile(path, func(w io.Writer) error {
 		_, err := w.Write(data)

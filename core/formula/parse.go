@@ -8,7 +8,7 @@ import (
 	"strings"
 	"unicode/utf8"
 
-	"github.com/pairwell/pairwell/internal/suggest"
+	"github.com/pairwell/pairwell/core/suggest"
 )
 
 // kind is the kind of a syntax-tree node.

@@ -44,10 +44,10 @@ import (
 
 	"github.com/pairwell/pairwell/core"
 	"github.com/pairwell/pairwell/core/atoms"
+	"github.com/pairwell/pairwell/core/fileio"
 	"github.com/pairwell/pairwell/core/formsfile"
 	"github.com/pairwell/pairwell/core/formula"
 	"github.com/pairwell/pairwell/core/units"
-	"github.com/pairwell/pairwell/internal/fileio"
 )
 
 // ErrFormat means a model-set file is malformed.

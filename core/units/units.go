@@ -33,7 +33,7 @@ import (
 	"strings"
 	"unicode/utf8"
 
-	"github.com/pairwell/pairwell/internal/suggest"
+	"github.com/pairwell/pairwell/core/suggest"
 )
 
 // Dimension is the physical dimension of a quantity: a product of integer
