@@ -46,7 +46,8 @@ V″(re), Be from re), perturbative (Dunham 1932, from the Taylor coefficients:
 constants differ by more than 2 %, and when the classical harmonic range of
 validity (period criterion, 1 %) lies below the zero-point energy.
 
-CSV has one row per level; the summary is in the table and in JSON. JSON values
+CSV has one row per level, after the model, params, pair and reduced_mass_u
+columns; the summary is in the table and in JSON. JSON values
 are in cm⁻¹ (eV where the key says so), Å and u.`,
 		Example: `  pairwell levels morse:De=4.6,a=1.87,re=1.27 --pair 1H-35Cl
   pairwell levels lj:epsilon=120K,sigma=3.4 --pair Ar-Ar --j-max 2 --format json
@@ -84,19 +85,19 @@ are in cm⁻¹ (eV where the key says so), Å and u.`,
 				return computeErr(err)
 			}
 			if e.format != "table" {
-				return e.emit(r, levelsTable(r))
+				return e.emitRecords(r, "levels", levelsTable(r))
 			}
 			mass := "μ = " + strconv.FormatFloat(r.Mu, 'g', 10, 64) + " u"
 			if r.Pair != "" {
-				mass = r.Pair + ", " + mass
+				mass = string(r.Pair) + ", " + mass
 			}
 			fmt.Fprintf(e.stdout, "%s (%s), %s: levels to %g cm⁻¹ (achieved %.2g cm⁻¹, %d grid points)\n",
 				r.Model, r.Params, mass, r.Tolerance, r.Accuracy, r.Grid.Points)
-			if err := writeTable(e.stdout, levelsTable(r)); err != nil {
+			if err := e.writeTable(levelsTable(r)); err != nil {
 				return failErr(err)
 			}
 			fmt.Fprintln(e.stdout)
-			if err := writeTable(e.stdout, levelsSummary(r)); err != nil {
+			if err := e.writeTable(levelsSummary(r)); err != nil {
 				return failErr(err)
 			}
 			for _, n := range r.Notes {
@@ -107,6 +108,7 @@ are in cm⁻¹ (eV where the key says so), Å and u.`,
 		},
 	}
 	mass.register(cmd)
+	e.energyUnitFlag(cmd, tableEnergies)
 	cmd.Flags().IntVar(&vmax, "v-max", -1, "highest vibrational level v (default: every bound level; required for the harmonic form)")
 	cmd.Flags().IntVar(&jmax, "j-max", 10, "highest rotational level J")
 	cmd.Flags().StringVar(&tolerance, "tolerance", "", "accuracy of the levels, cm⁻¹ unless a unit is given (default 1e-6)")

@@ -65,7 +65,7 @@ level, at most 120; required for the harmonic form); --tolerance as for
 			return e.writePlot(f, &out)
 		},
 	}
-	out.register(cmd)
+	out.register(e, cmd)
 	mass.register(cmd)
 	cmd.Flags().IntVar(&vmax, "v-max", -1, "highest vibrational level drawn (default: every bound level; required for the harmonic form)")
 	cmd.Flags().StringVar(&tolerance, "tolerance", "", "accuracy of the levels, cm⁻¹ unless a unit is given (default 1e-6)")
