@@ -19,7 +19,19 @@ var ErrUnknownModel = errors.New("unknown model")
 type Registry struct {
 	models []Model
 	byName map[string]Model
+	cutoff CutoffFunc
 }
+
+// CutoffFunc wraps a model in the cutoff scheme described by the
+// assignments after '@' of a spec (e.g. cut=force-shift, rc=8). Errors
+// wrap ErrSpec (unknown option, bad value) or ErrParam. Package
+// core/cutoff provides the one pairwell uses (cutoff.FromSpec).
+type CutoffFunc func(m Model, opts []Assignment) (Model, error)
+
+// SetCutoff installs the function that reads the cutoff of a spec
+// (SPEC@...) for Build and BuildParsed; nil (the zero value) refuses every
+// spec with a cutoff.
+func (r *Registry) SetCutoff(f CutoffFunc) { r.cutoff = f }
 
 // NewRegistry returns a registry holding the given models.
 func NewRegistry(models ...Model) (*Registry, error) {
