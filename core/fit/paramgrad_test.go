@@ -76,7 +76,9 @@ func (m countedModel) New(params []float64) (core.Potential, error) {
 	return w, nil
 }
 
-func (m countedModel) Match(t core.Target) ([]float64, []string, error) { return core.Match(m.Model, t) }
+func (m countedModel) Match(t core.Target) ([]float64, []string, error) {
+	return core.Match(m.Model, t)
+}
 
 // TestParamGradientSurvivesWrapping checks that a wrapper of a potential
 // forwards core.ParamGradient bit for bit, reports core.ErrUnsupported
