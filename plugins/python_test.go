@@ -29,8 +29,8 @@ import (
 	"github.com/pairwell/pairwell/conformance"
 	"github.com/pairwell/pairwell/core"
 	"github.com/pairwell/pairwell/plugins"
-	pb "github.com/pairwell/pairwell/plugins/proto"
 	"github.com/pairwell/pairwell/plugins/plugintest"
+	pb "github.com/pairwell/pairwell/plugins/proto"
 )
 
 // linnettParams are invented, bond-sized parameters of the Python
