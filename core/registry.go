@@ -69,8 +69,26 @@ func (r *Registry) Add(m Model) error {
 }
 
 // Lookup returns the model with the given key or alias. Its error wraps
-// ErrUnknownModel and names the near misses ("did you mean …?").
+// ErrUnknownModel and names the near misses ("did you mean …?"). A name
+// with a cutoff, KEY@cut=…, is the model cut by it (see SetCutoff).
 func (r *Registry) Lookup(name string) (Model, error) {
+	if key, _, ok := strings.Cut(name, "@"); ok {
+		s, err := ParseSpec(name)
+		if err != nil {
+			return nil, err
+		}
+		m, err := r.Lookup(key)
+		if err != nil || r.cutoff == nil {
+			if err == nil {
+				err = fmt.Errorf("%w: %s: this registry knows no cutoff schemes (Registry.SetCutoff)", ErrSpec, key)
+			}
+			return nil, err
+		}
+		if len(s.Params) > 0 {
+			return nil, fmt.Errorf("%w %q: a model name takes no parameters", ErrSpec, name)
+		}
+		return r.cutoff(m, s.Cutoff)
+	}
 	if m, ok := r.byName[strings.ToLower(strings.TrimSpace(name))]; ok {
 		return m, nil
 	}

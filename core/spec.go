@@ -129,18 +129,17 @@ func (r *Registry) Build(spec string) (Instance, error) {
 // in the cutoff of s.Cutoff (if any) with the registry's CutoffFunc, and
 // builds the potential. The instance's Model is then the wrapped model.
 func (r *Registry) BuildParsed(s Spec) (Instance, error) {
-	m, err := r.Lookup(s.Model)
-	if err != nil {
-		return Instance{}, fmt.Errorf("%w: %w", ErrSpec, err)
-	}
+	name := s.Model
 	if len(s.Cutoff) > 0 {
-		if r.cutoff == nil {
-			return Instance{}, fmt.Errorf("%w: %s: this registry knows no cutoff schemes (Registry.SetCutoff)", ErrSpec, s.Model)
-		}
-		if m, err = r.cutoff(m, s.Cutoff); err != nil {
-			return Instance{}, err
-		}
+		name += "@" + joinAssignments(s.Cutoff)
 		s.Cutoff = nil
+	}
+	m, err := r.Lookup(name)
+	if err != nil {
+		if errors.Is(err, ErrUnknownModel) {
+			err = fmt.Errorf("%w: %w", ErrSpec, err)
+		}
+		return Instance{}, err
 	}
 	return BuildSpec(m, s)
 }

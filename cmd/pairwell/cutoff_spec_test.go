@@ -21,6 +21,7 @@ func TestCutSpecEverywhere(t *testing.T) {
 		{"period", morse, "--pair", "H-Cl", "--amplitudes", "0.1"},
 		{"check", lj, morse},
 		{"plot", "taylor", morse, "-o", filepath.Join(dir, "t.png")},
+		{"fit", "demodata/invented-scan.csv", "--mu", "7", "--form", "morse@cut=shift,rc=6", "--start", "morse:De=3,a=1.5,re=1.5@cut=shift,rc=6"},
 	} {
 		code, _, errOut := runCLI(t, args...)
 		assert.Equal(t, 0, code, "%v: %s", args, errOut)

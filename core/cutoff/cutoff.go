@@ -181,7 +181,11 @@ func (s Settings) Suffix() string {
 // the bare well at the target, not the cut one (a shift moves the depth
 // by V(r_c), a force shift also re and k), so forwarding it would return
 // parameters that miss the target without saying so. Commands then treat
-// the cut form as one without a match (fit needs a start).
+// the cut form as one without a match (fit needs a start). Nor is
+// core.SetEvaluator: the bare model's batched evaluation of many sets would
+// skip the checks each set's cut needs (r_c beyond that set's minimum, a
+// minimum left), which only New makes; core.EvaluateSets falls back to New
+// and Taylor per set, which makes them.
 type Model struct {
 	inner core.Model
 	s     Settings
@@ -247,13 +251,13 @@ func (m *Model) Example() []float64 {
 // one Taylor call of the bare potential per call.
 //
 // Capabilities: Taylor, Domain (Limit 0, the barrier energy of the cut
-// form, the bare minimum as guess, Kinks at r_on and r_c) and MaxOrder
-// are forwarded; so is the parameter gradient of fit (ParamGradient,
-// ∂V/∂p) where the bare potential has it, except for ForceShift, whose
-// gradient needs ∂V′(r_c)/∂p, which the bare gradient does not give (fit
-// then uses central differences). The declared identities
-// (conformance.Identifier) are not forwarded: they are identities of the
-// bare form, not of the cut one.
+// form, its minimum as guess, Kinks at r_on and r_c) and MaxOrder are
+// forwarded; so is core.ParamGradient (∂V/∂p), through
+// core.ParamDerivatives, except for ForceShift, whose gradient needs
+// ∂V′(r_c)/∂p, which the bare gradient does not give (it reports
+// core.ErrUnsupported, and a fit uses central differences). The declared
+// identities (conformance.Identifier) are not forwarded: they are
+// identities of the bare form, not of the cut one.
 type Potential struct {
 	inner    core.Potential
 	s        Settings
@@ -267,19 +271,6 @@ type Potential struct {
 	bufs sync.Pool // *buffers for calls with points beyond r_c
 }
 
-// paramGradient is fit.ParamGradient (not imported, to keep this package
-// free of the fitting code): ∂V(r[i])/∂pⱼ in dst[i·P+j].
-type paramGradient interface {
-	ParamGradient(r, dst []float64) error
-}
-
-// gradPotential is a Potential whose bare potential has a parameter
-// gradient that the scheme can carry.
-type gradPotential struct {
-	*Potential
-	g paramGradient
-}
-
 // Switch polynomials S(x) = 1 − smoothstep(x), coefficients of x⁰, x¹, ….
 var (
 	cubicSwitch   = []float64{1, 0, -3, 2}
@@ -289,15 +280,14 @@ var (
 // New cuts p by s. Errors wrap core.ErrParam and ErrSettings: r_c ≤ 0,
 // r_on ≥ r_c, r_c (or r_on) outside the domain of p, r_c at or before the
 // minimum of p (inside its repulsive wall), r_on for a scheme without a
-// switch. A p without a minimum is accepted (there is no wall to check). The
-// result is a *Potential, or a type that also carries the parameter gradient
-// of p (see Potential).
-func New(p core.Potential, s Settings) (core.Potential, error) {
+// switch, and a cut that leaves no minimum (core.ErrNoMinimum). A p
+// without a minimum is accepted (there is no wall to check).
+func New(p core.Potential, s Settings) (*Potential, error) {
 	s, err := s.resolved()
 	if err != nil {
 		return nil, err
 	}
-	bad := func(format string, args ...any) (core.Potential, error) {
+	bad := func(format string, args ...any) (*Potential, error) {
 		return nil, fmt.Errorf("%w: %w: "+format, append([]any{core.ErrParam, ErrSettings}, args...)...)
 	}
 	dom := p.Domain()
@@ -357,9 +347,6 @@ func New(p core.Potential, s Settings) (core.Potential, error) {
 				core.ErrNoMinimum, ErrSettings, s.Scheme, s.Cutoff, c.re, err)
 		}
 		c.dom.EquilibriumGuess = cre
-	}
-	if g, ok := p.(paramGradient); ok && s.Scheme != ForceShift {
-		return &gradPotential{Potential: c, g: g}, nil
 	}
 	return c, nil
 }
@@ -587,10 +574,15 @@ func (p *Potential) switchRow(n int, r float64, v []float64) {
 
 // ParamGradient stores ∂V_cut(r[i])/∂pⱼ in dst[i·P+j]: the bare gradient g
 // for Truncate below r_c, g(r) − g(r_c) for Shift, S(r)·g(r) for the
-// switches (S does not depend on the parameters), 0 beyond r_c.
-func (p *gradPotential) ParamGradient(r, dst []float64) error {
+// switches (S does not depend on the parameters), 0 beyond r_c. It
+// reports core.ErrUnsupported for ForceShift and for a bare potential
+// without a gradient.
+func (p *Potential) ParamGradient(r, dst []float64) error {
+	if p.s.Scheme == ForceShift {
+		return fmt.Errorf("%w: the force shift's ∂V/∂p needs ∂V′(r_c)/∂p, which the bare form's parameter gradient does not give", core.ErrUnsupported)
+	}
 	if len(r) == 0 {
-		return p.g.ParamGradient(r, dst)
+		return core.ParamDerivatives(p.inner, r, dst)
 	}
 	if len(dst)%len(r) != 0 {
 		return fmt.Errorf("%w: %d separations, dst has %d values", core.ErrLength, len(r), len(dst))
@@ -609,7 +601,7 @@ func (p *gradPotential) ParamGradient(r, dst []float64) error {
 	}
 	xs = append(xs, rc)
 	g := make([]float64, np*len(xs))
-	if err := p.g.ParamGradient(xs, g); err != nil {
+	if err := core.ParamDerivatives(p.inner, xs, g); err != nil {
 		return err
 	}
 	gc := g[len(r)*np:]

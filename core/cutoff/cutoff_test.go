@@ -11,7 +11,6 @@ import (
 	"github.com/pairwell/pairwell/conformance"
 	"github.com/pairwell/pairwell/core"
 	"github.com/pairwell/pairwell/core/cutoff"
-	"github.com/pairwell/pairwell/core/fit"
 	"github.com/pairwell/pairwell/core/jet"
 	"github.com/pairwell/pairwell/models"
 )
@@ -29,17 +28,10 @@ func ljBare(t testing.TB) core.Potential {
 	return p
 }
 
-// cutPot is what New returns: a *cutoff.Potential, or a type embedding it.
-type cutPot interface {
-	core.Potential
-	Piece(n int, r float64, dst []float64) error
-	AtCutoff() (v, dv float64)
-}
-
-func cut(t testing.TB, p core.Potential, s cutoff.Settings) cutPot {
+func cut(t testing.TB, p core.Potential, s cutoff.Settings) *cutoff.Potential {
 	c, err := cutoff.New(p, s)
 	require.NoError(t, err, "%+v", s)
-	return c.(cutPot)
+	return c
 }
 
 // allSchemes are the settings of every scheme for the LJ pair at rc = 8.5 Å.
@@ -324,14 +316,13 @@ func TestParamGradient(t *testing.T) {
 		require.NoError(t, err)
 		p, err := w.New(ljParams)
 		require.NoError(t, err)
-		g, ok := p.(fit.ParamGradient)
+		got := make([]float64, 2*len(rs))
+		err = core.ParamDerivatives(p, rs, got)
 		if s.Scheme == cutoff.ForceShift {
-			assert.False(t, ok, "force shift must not claim a gradient")
+			assert.ErrorIs(t, err, core.ErrUnsupported, "force shift must not claim a gradient")
 			continue
 		}
-		require.True(t, ok, s.Scheme)
-		got := make([]float64, 2*len(rs))
-		require.NoError(t, g.ParamGradient(rs, got))
+		require.NoError(t, err, s.Scheme)
 		for j := range ljParams {
 			h := 1e-6 * ljParams[j]
 			vals := [2][]float64{make([]float64, len(rs)), make([]float64, len(rs))}
@@ -348,6 +339,14 @@ func TestParamGradient(t *testing.T) {
 			}
 		}
 	}
+}
+
+// TestParamGradientUnsupported: a bare form without a gradient gives a cut
+// form without one.
+func TestParamGradientUnsupported(t *testing.T) {
+	c := cut(t, constant{}, cutoff.Settings{Scheme: cutoff.Shift, Cutoff: 3})
+	err := core.ParamDerivatives(c, []float64{1, 2}, make([]float64, 2))
+	assert.ErrorIs(t, err, core.ErrUnsupported)
 }
 
 // TestModel: the cut model's metadata, Example and no Match.
