@@ -104,6 +104,14 @@ func TestPythonPluginCommands(t *testing.T) {
 		assert.Contains(t, out, "plugin "+filepath.Join(dir, "pairwell-plugin-linnett")+" (version 1.0.0)")
 	})
 
+	t.Run("pinned", func(t *testing.T) {
+		// A pin runs a sealed copy of the launcher, away from its Python
+		// files: refused with a message saying so.
+		code, _, errOut := runPython(t, nil, "--plugin", launcher+"@sha256:"+sha256Hex(t, launcher), "models")
+		assert.Equal(t, 1, code, errOut)
+		assert.Contains(t, errOut, "do not pin it with @sha256:")
+	})
+
 	t.Run("bad parameters", func(t *testing.T) {
 		code, _, errOut := runPython(t, nil, "--plugin", launcher, "inspect", "linnett:De=4.6,re=1.27,m=3,n=2.5")
 		assert.Equal(t, 2, code, errOut)
