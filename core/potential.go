@@ -121,8 +121,9 @@ var (
 	// ErrLength means the slices passed to Taylor do not fit each other:
 	// len(dst) ≠ (n+1)·len(r).
 	ErrLength = errors.New("slice lengths do not fit")
-	// ErrUnsupported means a model does not offer an optional capability
-	// (Matcher); see Match.
+	// ErrUnsupported means a model or potential does not offer an
+	// optional capability (Matcher, ParamGradient); see Match and
+	// ParamDerivatives.
 	ErrUnsupported = errors.New("not supported by this form")
 )
 
