@@ -8,7 +8,7 @@ import (
 )
 
 // Derivatives of the built-in forms with respect to their parameters, the
-// optional fit.ParamGradient: ∂V(r[i])/∂pⱼ in dst[i·P+j], row-major, in the
+// optional core.ParamGradient: ∂V(r[i])/∂pⱼ in dst[i·P+j], row-major, in the
 // order and default units of each form's parameters. They let a fit use an
 // analytic Jacobian instead of central differences. Each checks the domain
 // as Taylor does.

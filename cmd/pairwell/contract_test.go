@@ -71,7 +71,8 @@ var contractCases = map[string]contractCase{
 	"validity": {args: fixed("validity", contractHarm)},
 	"compare": {args: fixed("compare", contractMorse, contractLJ, contractBuck, contractHarm, "--pair", "H-Cl", "--validity",
 		"--match", "re=1.2,De=4")},
-	"levels": {args: fixed("levels", contractMorse, "--pair", "1H-35Cl", "--v-max", "1", "--j-max", "1"), records: "levels"},
+	"levels": {args: fixed("levels", contractMorse, contractLJ, "nope:x=1", "--pair", "1H-35Cl", "--v-max", "1", "--j-max", "1"),
+		records: "levels"},
 	"fit": {args: fixed("fit", filepath.Join("demodata", "invented-scan.csv"), "--form", "morse", "--form", "harmonic", "--pair", "H-Cl"),
 		records: ""},
 	"virial": {args: func(t *testing.T, dir string) []string {
@@ -244,29 +245,36 @@ func TestOutputContract(t *testing.T) {
 	}
 }
 
-// contractRecords are the records of the JSON document v (see emitRecords).
+// contractRecords are the records of the JSON document v (see
+// emitRecords): the elements of an array, or of an object, those of its
+// arrays at the paths records, else the object itself.
 func contractRecords(t *testing.T, v any, records string) []map[string]any {
 	t.Helper()
-	var out []map[string]any
-	switch x := v.(type) {
-	case []any:
-		for _, el := range x {
-			out = append(out, el.(map[string]any))
+	if a, ok := v.([]any); ok {
+		var out []map[string]any
+		for _, el := range a {
+			out = append(out, contractRecords(t, el, records)...)
 		}
 		return out
-	case map[string]any:
-		if records == "" {
-			return []map[string]any{x}
+	}
+	x := v.(map[string]any)
+	var out []map[string]any
+	found := false
+	for _, path := range strings.Split(records, ",") {
+		var cur any = x
+		for _, k := range strings.Split(path, ".") {
+			m, _ := cur.(map[string]any)
+			cur = m[k]
 		}
-		for _, path := range strings.Split(records, ",") {
-			var cur any = x
-			for _, k := range strings.Split(path, ".") {
-				cur = cur.(map[string]any)[k]
-			}
-			for _, el := range cur.([]any) {
+		if a, ok := cur.([]any); ok {
+			found = true
+			for _, el := range a {
 				out = append(out, el.(map[string]any))
 			}
 		}
+	}
+	if !found {
+		return []map[string]any{x}
 	}
 	return out
 }

@@ -111,6 +111,93 @@ func TestFitModelSet(t *testing.T) {
 	pic := filepath.Join(t.TempDir(), "forms.svg")
 	code, _, errOut = runCLI(t, "plot", "compare", "--set", set, "-o", pic)
 	require.Equal(t, 0, code, errOut)
+
+	// levels reads it: the entries keep their mass; the fitted Morse's
+	// zero-point energy is Morse's (P. M. Morse, Phys. Rev. 34, 57
+	// (1929)) E₀ = ωe/2 − ωexe/4 with ωexe = ωe²/(4De), De in cm⁻¹
+	// (1 eV = 8065.543937 cm⁻¹, CODATA 2018), to the levels' 1e-6 cm⁻¹
+	// tolerance (10× margin for rounding of ωe).
+	code, out, errOut = runCLI(t, "levels", "--set", set, "--j-max", "0", "--format", "json")
+	require.Equal(t, 0, code, errOut)
+	var lv []map[string]any
+	require.NoError(t, json.Unmarshal([]byte(out), &lv), out)
+	require.Len(t, lv, 2)
+	assert.Equal(t, "morse-fit", lv[0]["name"])
+	assert.Equal(t, "morse", lv[0]["model"])
+	assert.Equal(t, "lennard-jones-fit", lv[1]["name"])
+	assert.Nil(t, lv[1]["error"], "%v", lv[1]["error"])
+	assert.InDelta(t, 0.98, lv[0]["reduced_mass_u"], 1e-15)
+	we := lv[0]["harmonic"].(map[string]any)["omega_e_per_cm"].(float64)
+	de := 4.6 * 8065.543937
+	assert.InDelta(t, we/2-we*we/(16*de), lv[0]["zero_point_energy_per_cm"], 1e-5)
+	// the same as levels of the fitted spec
+	cp := rows[0]["params"].(map[string]any)
+	spec := fmt.Sprintf("morse:De=%.17g,a=%.17g,re=%.17g", cp["De"], cp["a"], cp["re"])
+	code, out, errOut = runCLI(t, "levels", spec, "--mu", "0.98", "--j-max", "0", "--format", "json")
+	require.Equal(t, 0, code, errOut)
+	var one map[string]any
+	require.NoError(t, json.Unmarshal([]byte(out), &one))
+	assert.InDelta(t, one["zero_point_energy_per_cm"], lv[0]["zero_point_energy_per_cm"], 1e-9)
+	// CSV: one row per level, the form's name first; the table: one
+	// block per form
+	code, out, errOut = runCLI(t, "levels", "--set", set, "--j-max", "0", "--v-max", "1", "--format", "csv")
+	require.Equal(t, 0, code, errOut)
+	lines := strings.Split(strings.TrimSpace(out), "\n")
+	require.Len(t, lines, 5, out)
+	assert.True(t, strings.HasPrefix(lines[0], "name,model,params,pair,reduced_mass_u,v,j,"), lines[0])
+	assert.True(t, strings.HasPrefix(lines[1], "morse-fit,morse,"), lines[1])
+	assert.Contains(t, lines[1], ",0.98,0,0,")
+	assert.True(t, strings.HasPrefix(lines[4], "lennard-jones-fit,lennard-jones,"), lines[4])
+	assert.Contains(t, lines[4], ",0.98,1,0,")
+	code, out, errOut = runCLI(t, "levels", "--set", set, "--j-max", "0", "--v-max", "1")
+	require.Equal(t, 0, code, errOut)
+	assert.Contains(t, out, "== morse-fit\n")
+	assert.Contains(t, out, "== lennard-jones-fit\n")
+
+	// baseline records and verifies it unchanged
+	base := filepath.Join(t.TempDir(), "fitted.baseline.json")
+	code, _, errOut = runCLI(t, "baseline", "record", "--set", set, "-o", base)
+	require.Equal(t, 0, code, errOut)
+	code, out, errOut = runCLI(t, "baseline", "verify", "--set", set, base)
+	require.Equal(t, 0, code, errOut)
+	assert.Contains(t, out, "0 changes")
+}
+
+// TestLevelsSetErrors: a form of a set that cannot be solved is a record
+// with its error (the others are solved); the command fails only when
+// every form does; no SPEC and no --set is a usage error.
+func TestLevelsSetErrors(t *testing.T) {
+	dir := t.TempDir()
+	set := filepath.Join(dir, "set.toml")
+	require.NoError(t, os.WriteFile(set, []byte(`
+[[entry]]
+name = "spring"
+spec = "harmonic:k=30,r0=1.2"
+mu = 7
+[[entry]]
+name = "bond"
+spec = "morse:De=4.6,a=1.87,re=1.27"
+pair = "1H-35Cl"
+`), 0o644))
+	code, out, errOut := runCLI(t, "levels", "--set", set, "--j-max", "0", "--format", "json")
+	require.Equal(t, 0, code, errOut)
+	var lv []map[string]any
+	require.NoError(t, json.Unmarshal([]byte(out), &lv), out)
+	require.Len(t, lv, 2)
+	assert.Equal(t, "harmonic", lv[0]["model"])
+	assert.Contains(t, lv[0]["error"], "--v-max")
+	assert.Equal(t, "1H-35Cl", lv[1]["pair"])
+	assert.NotEmpty(t, lv[1]["levels"])
+
+	code, _, errOut = runCLI(t, "levels", "harmonic:k=30,r0=1.2", "morse:De=4.6,a=1.87,re=1.27", "--j-max", "0")
+	assert.Equal(t, 2, code, "every form fails: the specs have no mass")
+	assert.Contains(t, errOut, "no form")
+	code, _, errOut = runCLI(t, "levels", "--mu", "1")
+	assert.Equal(t, 2, code)
+	assert.Contains(t, errOut, "levels needs a SPEC")
+	code, _, errOut = runCLI(t, "levels", "morse:De=4.6,a=1.87,re=1.27")
+	assert.Equal(t, 2, code)
+	assert.Contains(t, errOut, "reduced mass")
 }
 
 func TestFitCSVAndPlot(t *testing.T) {

@@ -6,6 +6,7 @@ import (
 
 	"github.com/spf13/cobra"
 
+	"github.com/pairwell/pairwell/core"
 	"github.com/pairwell/pairwell/core/levels"
 	"github.com/pairwell/pairwell/core/report"
 	"github.com/pairwell/pairwell/core/units"
@@ -17,9 +18,10 @@ func newLevelsCmd(e *env) *cobra.Command {
 		vmax      int
 		jmax      int
 		tolerance string
+		setPath   string
 	)
 	cmd := &cobra.Command{
-		Use:   "levels SPEC (--pair A-B | --mu M) [--v-max V] [--j-max J] [--tolerance T]",
+		Use:   "levels SPEC... | --set FILE.toml (--pair A-B | --mu M) [--v-max V] [--j-max J] [--tolerance T]",
 		Short: "Quantum vibration–rotation levels, zero-point energy, D0 and spectroscopic constants",
 		Long: `levels solves the radial Schrödinger equation of the pair in the well of SPEC,
 
@@ -46,16 +48,22 @@ V″(re), Be from re), perturbative (Dunham 1932, from the Taylor coefficients:
 constants differ by more than 2 %, and when the classical harmonic range of
 validity (period criterion, 1 %) lies below the zero-point energy.
 
-CSV has one row per level, after the model, params, pair and reduced_mass_u
-columns; the summary is in the table and in JSON. JSON values
+Many forms at once: several SPECs and/or --set FILE.toml (a model set, such as
+the one "pairwell fit -o" writes; entries with their own pair or mu, else
+--pair/--mu) solve each form in turn: a JSON array of levels objects, each with
+"name" (a form that fails has "name", "model", "error"), CSV rows with the form's
+name first, or one table block per form.
+
+CSV has one row per level, after the name, model, params, pair and
+reduced_mass_u columns; the summary is in the table and in JSON. JSON values
 are in cm⁻¹ (eV where the key says so), Å and u.`,
 		Example: `  pairwell levels morse:De=4.6,a=1.87,re=1.27 --pair 1H-35Cl
   pairwell levels lj:epsilon=120K,sigma=3.4 --pair Ar-Ar --j-max 2 --format json
   pairwell levels harmonic:k=30,r0=1.2 --mu 7 --v-max 5
-  pairwell levels buckingham:A=1500,rho=0.3,C=25 --mu 20 --format csv`,
-		Args: exactArgs(1, "SPEC"),
+  pairwell levels buckingham:A=1500,rho=0.3,C=25 --mu 20 --format csv
+  pairwell levels --set fitted.toml --pair 1H-35Cl --j-max 0`,
 		RunE: func(cmd *cobra.Command, args []string) error {
-			m, err := mass.resolve(true)
+			m, err := mass.resolve(false)
 			if err != nil {
 				return err
 			}
@@ -76,43 +84,125 @@ are in cm⁻¹ (eV where the key says so), Å and u.`,
 				}
 				tol = ev / units.WavenumberEV
 			}
-			inst, err := e.build(args[0])
+			ls := report.LevelsSettings{VMax: vmax, JMax: jmax, Tolerance: tol}
+			switch {
+			case len(args) == 0 && setPath == "":
+				return usageErr(fmt.Errorf("levels needs a SPEC (or several, or --set FILE.toml); see %s --help", cmd.CommandPath()))
+			case len(args) == 1 && setPath == "":
+				if m.Mu == 0 {
+					_, err := mass.resolve(true)
+					return err
+				}
+				inst, err := e.build(args[0])
+				if err != nil {
+					return err
+				}
+				r, err := report.NewLevels(inst, m, ls)
+				if err != nil {
+					return computeErr(err)
+				}
+				if e.format != "table" {
+					return e.emitRecords(r, "levels", levelsTable(r))
+				}
+				return writeLevels(e, r)
+			}
+			inputs, err := e.inspectInputs(args, setPath, m)
 			if err != nil {
 				return err
 			}
-			r, err := report.NewLevels(inst, m, report.LevelsSettings{VMax: vmax, JMax: jmax, Tolerance: tol})
-			if err != nil {
-				return computeErr(err)
-			}
-			if e.format != "table" {
-				return e.emitRecords(r, "levels", levelsTable(r))
-			}
-			mass := "μ = " + strconv.FormatFloat(r.Mu, 'g', 10, 64) + " u"
-			if r.Pair != "" {
-				mass = string(r.Pair) + ", " + mass
-			}
-			fmt.Fprintf(e.stdout, "%s (%s), %s: levels to %g cm⁻¹ (achieved %.2g cm⁻¹, %d grid points)\n",
-				r.Model, r.Params, mass, r.Tolerance, r.Accuracy, r.Grid.Points)
-			if err := e.writeTable(levelsTable(r)); err != nil {
-				return failErr(err)
-			}
-			fmt.Fprintln(e.stdout)
-			if err := e.writeTable(levelsSummary(r)); err != nil {
-				return failErr(err)
-			}
-			for _, n := range r.Notes {
-				fmt.Fprintln(e.stdout, n)
-			}
-			fmt.Fprintln(e.stdout, r.Caution)
-			return nil
+			return e.levelsAll(inputs, ls)
 		},
 	}
 	mass.register(cmd)
 	e.energyUnitFlag(cmd, tableEnergies)
+	cmd.Flags().StringVar(&setPath, "set", "", "model-set file (TOML) naming the forms, e.g. one written by fit -o")
 	cmd.Flags().IntVar(&vmax, "v-max", -1, "highest vibrational level v (default: every bound level; required for the harmonic form)")
 	cmd.Flags().IntVar(&jmax, "j-max", 10, "highest rotational level J")
 	cmd.Flags().StringVar(&tolerance, "tolerance", "", "accuracy of the levels, cm⁻¹ unless a unit is given (default 1e-6)")
 	return cmd
+}
+
+// writeLevels prints the table layout of one form's levels.
+func writeLevels(e *env, r report.Levels) error {
+	mass := "μ = " + strconv.FormatFloat(r.Mu, 'g', 10, 64) + " u"
+	if r.Pair != "" {
+		mass = string(r.Pair) + ", " + mass
+	}
+	fmt.Fprintf(e.stdout, "%s (%s), %s: levels to %g cm⁻¹ (achieved %.2g cm⁻¹, %d grid points)\n",
+		r.Model, r.Params, mass, r.Tolerance, r.Accuracy, r.Grid.Points)
+	if err := e.writeTable(levelsTable(r)); err != nil {
+		return failErr(err)
+	}
+	fmt.Fprintln(e.stdout)
+	if err := e.writeTable(levelsSummary(r)); err != nil {
+		return failErr(err)
+	}
+	for _, n := range r.Notes {
+		fmt.Fprintln(e.stdout, n)
+	}
+	fmt.Fprintln(e.stdout, r.Caution)
+	return nil
+}
+
+// namedLevels is one form's record when levels solves several: its name
+// and the levels report, or the error that stopped it.
+type namedLevels struct {
+	Name  string `json:"name"`
+	Model string `json:"model"`
+	*report.Levels
+	Error report.Text `json:"error"`
+}
+
+// levelsAll solves the levels of several forms (model-set entries with
+// their own mass, else --pair/--mu, then the SPECs) one after the other. A
+// form that fails (its spec cannot be built, no mass, a harmonic form
+// without --v-max) is a record with its error; the command fails (exit 2
+// for bad input, 1 for a failure) only when every form did. JSON is an
+// array of records, CSV one row per level with the form's name and model
+// block first (a form that failed: one row with its error), the table one
+// block per form.
+func (e *env) levelsAll(inputs []report.InspectInput, ls report.LevelsSettings) error {
+	var (
+		recs  []namedLevels
+		first error
+	)
+	failed := 0
+	for _, in := range inputs {
+		err := in.Err
+		var r report.Levels
+		if err == nil && in.Mass.Mu == 0 {
+			err = fmt.Errorf("%w: no reduced mass: the entry has no pair or mu; give --pair A-B or --mu M", core.ErrParam)
+		}
+		if err == nil {
+			r, err = report.NewLevels(in.Instance, in.Mass, ls)
+		}
+		if err != nil {
+			failed++
+			if first == nil {
+				first = err
+			}
+			recs = append(recs, namedLevels{Name: in.Name, Model: inputModel(in), Error: report.Text(err.Error())})
+			if e.format == "table" {
+				fmt.Fprintf(e.stdout, "== %s: %v\n\n", in.Name, err)
+			}
+			continue
+		}
+		recs = append(recs, namedLevels{Name: in.Name, Levels: &r, Model: r.Model})
+		if e.format == "table" {
+			fmt.Fprintf(e.stdout, "== %s\n", in.Name)
+			if err := writeLevels(e, r); err != nil {
+				return err
+			}
+			fmt.Fprintln(e.stdout)
+		}
+	}
+	if failed == len(inputs) && first != nil {
+		return computeErr(fmt.Errorf("no form's levels could be solved: %w", first))
+	}
+	if e.format == "table" {
+		return nil
+	}
+	return e.emitRecords(recs, "levels", nil)
 }
 
 // optNum formats an optional value.

@@ -199,7 +199,8 @@ func checkTruncationOrder(order int) error {
 //
 //   - a record is an element of the JSON array, the JSON object itself, or
 //     an element of the object's array under the records key (then
-//     prefixed by the object's model block, modelBlockKeys);
+//     prefixed by the object's model block, modelBlockKeys; for an array
+//     of such objects, each one's records);
 //   - a nested object's keys are joined with a dot (barrier.r_angstrom),
 //     an array of objects adds the index (windows.0.rmse_ev);
 //   - an object of parameter values (paramKeys) is one cell
@@ -215,7 +216,7 @@ func checkTruncationOrder(order int) error {
 
 // modelBlockKeys are the keys of the object around nested records that
 // each CSV row repeats: what the records are of.
-var modelBlockKeys = map[string]bool{"model": true, "origin": true, "params": true, "pair": true, "reduced_mass_u": true}
+var modelBlockKeys = map[string]bool{"name": true, "model": true, "origin": true, "params": true, "pair": true, "reduced_mass_u": true}
 
 // paramKeys are the objects of parameter values, written as one CSV cell.
 var paramKeys = map[string]bool{"params": true, "params_a": true, "params_b": true, "standard_errors": true}
@@ -305,42 +306,60 @@ func (f *flatRecord) set(k, v string) {
 	f.cells[k] = v
 }
 
-// csvRecordsOf returns the flattened records of doc.
+// csvRecordsOf returns the flattened records of doc: the elements of an
+// array (each one's nested records when records is set and it has them),
+// or the records of an object (see nestedRecords).
 func csvRecordsOf(doc any, records string) []*flatRecord {
-	newRec := func() *flatRecord { return &flatRecord{cells: map[string]string{}} }
-	var out []*flatRecord
 	switch d := doc.(type) {
 	case []any:
+		var out []*flatRecord
 		for _, el := range d {
-			r := newRec()
+			if obj, ok := el.(jsonObject); ok {
+				out = append(out, nestedRecords(obj, records)...)
+				continue
+			}
+			r := newFlatRecord()
 			flattenInto(r, "", el)
 			out = append(out, r)
 		}
+		return out
 	case jsonObject:
-		var recs []any
-		found := false
-		for _, path := range strings.Split(records, ",") {
-			if v, ok := lookup(d, path); ok {
-				a, _ := v.([]any)
-				recs = append(recs, a...)
-				found = true
+		return nestedRecords(d, records)
+	}
+	return nil
+}
+
+func newFlatRecord() *flatRecord { return &flatRecord{cells: map[string]string{}} }
+
+// nestedRecords are the elements of the arrays of d at the comma-separated
+// key paths records, each prefixed by d's model block; d itself is the
+// one record when it has none of those arrays (an object without nested
+// records, or the record of a form that failed).
+func nestedRecords(d jsonObject, records string) []*flatRecord {
+	var recs []any
+	found := false
+	for _, path := range strings.Split(records, ",") {
+		if v, ok := lookup(d, path); ok {
+			a, _ := v.([]any)
+			recs = append(recs, a...)
+			found = true
+		}
+	}
+	if !found {
+		r := newFlatRecord()
+		flattenInto(r, "", d)
+		return []*flatRecord{r}
+	}
+	out := make([]*flatRecord, 0, len(recs))
+	for _, el := range recs {
+		r := newFlatRecord()
+		for _, f := range d {
+			if modelBlockKeys[f.key] {
+				flattenInto(r, f.key, f.val)
 			}
 		}
-		if !found {
-			r := newRec()
-			flattenInto(r, "", d)
-			return []*flatRecord{r}
-		}
-		for _, el := range recs {
-			r := newRec()
-			for _, f := range d {
-				if modelBlockKeys[f.key] {
-					flattenInto(r, f.key, f.val)
-				}
-			}
-			flattenInto(r, "", el)
-			out = append(out, r)
-		}
+		flattenInto(r, "", el)
+		out = append(out, r)
 	}
 	return out
 }

@@ -10,8 +10,9 @@ import (
 // Counting wraps a potential and counts the calls made to it, so that a
 // test can check that a hot loop batches its evaluations (a plugin potential
 // pays a process round trip per call). It forwards everything the contract
-// carries (Domain holds the barrier and the equilibrium guess), so the
-// analysis takes the same path with and without the counter. It is safe for
+// carries (Domain holds the barrier and the equilibrium guess) and the
+// optional core.ParamGradient, so the analysis takes the same path with and
+// without the counter. It is safe for
 // concurrent use.
 type Counting struct {
 	core.Potential
@@ -28,6 +29,13 @@ func (c *Counting) Taylor(n int, r, dst []float64) error {
 		c.Batches.Add(1)
 	}
 	return c.Potential.Taylor(n, r, dst)
+}
+
+// ParamGradient forwards the parameter derivatives of the wrapped
+// potential (core.ParamDerivatives: an error wrapping core.ErrUnsupported
+// when it has none), uncounted.
+func (c *Counting) ParamGradient(r, dst []float64) error {
+	return core.ParamDerivatives(c.Potential, r, dst)
 }
 
 // Calls returns the number of calls so far, single-point and batched.

@@ -11,17 +11,6 @@ import (
 // each is one batched call for all points, since a potential may live in
 // another process.
 
-// ParamGradient is implemented by potentials that evaluate the derivatives
-// of V with respect to their own parameters analytically. FitForm then
-// uses them for the Jacobian instead of central differences.
-type ParamGradient interface {
-	// ParamGradient stores ∂V(r[i])/∂pⱼ in dst[i·P+j] (row-major), P the
-	// number of parameters, in the order and default units of the
-	// model's Info().Params: eV per unit of pⱼ. len(dst) must be
-	// len(r)·P.
-	ParamGradient(r, dst []float64) error
-}
-
 // build makes the potential of params, an error wrapping ErrInfeasible
 // when the model refuses the set (constraints, no minimum).
 func build(m core.Model, params []float64) (core.Potential, error) {
@@ -54,13 +43,14 @@ func forces(p core.Potential, r, dst []float64) error {
 func equilibrium(p core.Potential) (float64, error) { return core.Equilibrium(p) }
 
 // paramGradient stores ∂V(r[i])/∂pⱼ in dst when p evaluates it
-// analytically; ok is false when it does not.
+// analytically (core.ParamGradient, also through wrappers); ok is false
+// when it does not.
 func paramGradient(p core.Potential, r, dst []float64) (ok bool, err error) {
-	g, ok := p.(ParamGradient)
-	if !ok {
+	err = core.ParamDerivatives(p, r, dst)
+	if errors.Is(err, core.ErrUnsupported) {
 		return false, nil
 	}
-	return true, infeasible(g.ParamGradient(r, dst))
+	return true, infeasible(err)
 }
 
 // infeasible wraps errors that mean "this parameter set cannot describe

@@ -47,7 +47,7 @@ type Settings struct {
 	// the model's order and default units.
 	Start []float64
 	// Central makes the Jacobian central differences even for a
-	// potential that implements ParamGradient (for comparisons).
+	// potential that implements core.ParamGradient (for comparisons).
 	Central bool
 	// LM controls the least-squares engine.
 	LM LMSettings
@@ -113,7 +113,7 @@ type Result struct {
 	// positive depth).
 	All     Errors
 	Windows []WindowErrors
-	// Analytic reports that the Jacobian came from ParamGradient rather
+	// Analytic reports that the Jacobian came from core.ParamGradient rather
 	// than from central differences.
 	Analytic bool
 	// Notes say what the reader must know (a fitted zero for a form with
@@ -407,7 +407,7 @@ func (p *formProblem) residuals(theta, dst []float64) error {
 }
 
 // jacobian is the analytic Jacobian of the residuals in θ, available when
-// the potential implements ParamGradient and the data have no forces.
+// the potential implements core.ParamGradient and the data have no forces.
 func (p *formProblem) jacobian(theta, dst []float64) error {
 	params, _ := p.params(theta)
 	pot, err := build(p.m, params)
@@ -519,7 +519,7 @@ func (p *formProblem) run(params []float64, ls LMSettings) (Result, error) {
 		if err != nil {
 			return Result{}, err
 		}
-		if _, ok := pot.(ParamGradient); ok {
+		if ok, err := paramGradient(pot, p.r, p.g); ok && err == nil {
 			pr.Jacobian = p.jacobian
 			p.analytic = true
 		}

@@ -9,6 +9,7 @@ import (
 	"gonum.org/v1/gonum/diff/fd"
 
 	"github.com/pairwell/pairwell/core"
+	"github.com/pairwell/pairwell/core/coretest"
 	"github.com/pairwell/pairwell/core/fit"
 	"github.com/pairwell/pairwell/models"
 )
@@ -34,7 +35,7 @@ func TestParamGradient(t *testing.T) {
 		t.Run(c.model.Info().Key, func(t *testing.T) {
 			pot, err := c.model.New(c.params)
 			require.NoError(t, err)
-			g, ok := pot.(fit.ParamGradient)
+			g, ok := pot.(core.ParamGradient)
 			require.True(t, ok)
 			np := len(c.params)
 			dst := make([]float64, len(c.r)*np)
@@ -61,3 +62,57 @@ func TestParamGradient(t *testing.T) {
 		})
 	}
 }
+
+// countedModel wraps a model so that its potentials are wrapped in a
+// coretest.Counting, as a test of batching would.
+type countedModel struct{ core.Model }
+
+func (m countedModel) New(params []float64) (core.Potential, error) {
+	p, err := m.Model.New(params)
+	if err != nil {
+		return nil, err
+	}
+	w, _ := coretest.Count(p)
+	return w, nil
+}
+
+func (m countedModel) Match(t core.Target) ([]float64, []string, error) {
+	return core.Match(m.Model, t)
+}
+
+// TestParamGradientSurvivesWrapping checks that a wrapper of a potential
+// forwards core.ParamGradient bit for bit, reports core.ErrUnsupported
+// for an inner potential without it, and that a fit through the wrapper
+// still uses the analytic Jacobian.
+func TestParamGradientSurvivesWrapping(t *testing.T) {
+	for _, c := range builtinSets {
+		t.Run(c.model.Info().Key, func(t *testing.T) {
+			pot, err := c.model.New(c.params)
+			require.NoError(t, err)
+			w, _ := coretest.Count(pot)
+			ww, _ := coretest.Count(w)
+			np := len(c.params)
+			want := make([]float64, len(c.r)*np)
+			got := make([]float64, len(c.r)*np)
+			require.NoError(t, core.ParamDerivatives(pot, c.r, want))
+			require.NoError(t, core.ParamDerivatives(ww, c.r, got))
+			assert.Equal(t, want, got, "twice wrapped: bit for bit")
+		})
+	}
+	pot, err := models.Morse{}.New([]float64{4.6, 1.87, 1.27})
+	require.NoError(t, err)
+	w, _ := coretest.Count(opaque{pot})
+	assert.ErrorIs(t, core.ParamDerivatives(w, []float64{1.2}, make([]float64, 3)), core.ErrUnsupported)
+
+	truth := []float64{4.6, 1.87, 1.27}
+	d := scan(t, models.Morse{}, truth, 0.95, 4, 40, 0)
+	res, err := fit.FitForm(countedModel{models.Morse{}}, d, fit.Settings{Offset: fit.Offset{Mode: fit.OffsetValue}})
+	require.NoError(t, err)
+	assert.True(t, res.Analytic, "the analytic Jacobian survives the wrapper")
+	for j, want := range truth {
+		assert.InDelta(t, 1, res.Instance.Params[j]/want, 1e-8, "parameter %d", j)
+	}
+}
+
+// opaque hides every optional capability of a potential.
+type opaque struct{ core.Potential }

@@ -68,6 +68,12 @@ type crashLater struct{ core.Model }
 
 type crashLaterPotential struct{ core.Potential }
 
+// ParamGradient forwards the inner potential's parameter derivatives, as
+// every wrapper of a potential does.
+func (p crashLaterPotential) ParamGradient(r, dst []float64) error {
+	return core.ParamDerivatives(p.Potential, r, dst)
+}
+
 func (m crashLater) New(params []float64) (core.Potential, error) {
 	p, err := m.Model.New(params)
 	if err != nil {
