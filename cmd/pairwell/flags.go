@@ -3,11 +3,14 @@ package main
 import (
 	"fmt"
 	"io"
+	"math"
 	"strconv"
 	"strings"
 
 	"github.com/spf13/pflag"
 
+	"github.com/pairwell/pairwell/core/levels"
+	"github.com/pairwell/pairwell/core/motion"
 	"github.com/pairwell/pairwell/core/suggest"
 	"github.com/pairwell/pairwell/core/units"
 	"github.com/pairwell/pairwell/core/validity"
@@ -71,6 +74,46 @@ func (toleranceValue) Type() string { return "TOL" }
 func toleranceVar(f *pflag.FlagSet, v *float64, what string) {
 	*v = validity.DefaultTolerance
 	f.Var(toleranceValue{v}, "tolerance", "relative tolerance of "+what+", a fraction (0.01) or a percentage (1%)")
+}
+
+// accuracyFlag is the absolute accuracy of quantum levels (levels, plot
+// levels): an energy, cm⁻¹ unless a unit is given. It was --tolerance, a
+// name that everywhere else means a relative tolerance.
+const accuracyFlag = "accuracy"
+
+// accuracyVar registers --accuracy E, and the deprecated --tolerance as its
+// alias (hidden; it still works, with a warning, see warnDeprecated).
+func accuracyVar(f *pflag.FlagSet, v *string) {
+	f.StringVar(v, accuracyFlag, "", fmt.Sprintf("absolute accuracy of the levels, an energy, cm⁻¹ unless a unit is given (e.g. 1e-4, 1e-9eV) (default %g)",
+		levels.DefaultTolerance))
+	f.StringVar(v, "tolerance", "", "deprecated: use --"+accuracyFlag)
+	_ = f.MarkHidden("tolerance")
+	_ = f.SetAnnotation("tolerance", "deprecated", []string{"--" + accuracyFlag + " (an absolute accuracy in cm⁻¹; --tolerance elsewhere is relative)"})
+}
+
+// parseAccuracy returns the value of --accuracy in cm⁻¹, 0 (the default)
+// when s is empty.
+func parseAccuracy(s string) (float64, error) {
+	if s == "" {
+		return 0, nil
+	}
+	ev, err := units.ParseIn(s, units.Energy, "cm-1")
+	if err != nil {
+		return 0, fmt.Errorf("--%s: %w", accuracyFlag, err)
+	}
+	if !(ev > 0) || math.IsInf(ev, 1) {
+		return 0, fmt.Errorf("--%s %s: must be a finite energy > 0", accuracyFlag, s)
+	}
+	return ev / units.WavenumberEV, nil
+}
+
+// defaultMethod is the integrator of --method where the flag has a default
+// (motion, plot motion).
+const defaultMethod = motion.DormandPrince
+
+// methodVar registers --method with defaultMethod.
+func methodVar(f *pflag.FlagSet, v *string) {
+	f.StringVar(v, "method", defaultMethod.String(), "integrator: heun, rk4, verlet or dopri")
 }
 
 // truncationVar registers --truncation N, and the deprecated --order as its

@@ -9,27 +9,27 @@ import (
 	"github.com/pairwell/pairwell/core"
 	"github.com/pairwell/pairwell/core/levels"
 	"github.com/pairwell/pairwell/core/report"
-	"github.com/pairwell/pairwell/core/units"
 )
 
 func newLevelsCmd(e *env) *cobra.Command {
 	var (
-		mass      massFlags
-		vmax      int
-		jmax      int
-		tolerance string
-		setPath   string
+		mass     massFlags
+		vmax     int
+		jmax     int
+		accuracy string
+		setPath  string
 	)
 	cmd := &cobra.Command{
-		Use:   "levels SPEC... | --set FILE.toml (--pair A-B | --mu M) [--v-max V] [--j-max J] [--tolerance T]",
+		Use:   "levels SPEC... | --set FILE.toml (--pair A-B | --mu M) [--v-max V] [--j-max J] [--accuracy E]",
 		Short: "Quantum vibration–rotation levels, zero-point energy, D0 and spectroscopic constants",
 		Long: `levels solves the radial Schrödinger equation of the pair in the well of SPEC,
 
   −ħ²/(2μ) χ″ + [V(r) + ħ²J(J+1)/(2μr²)] χ = E χ,
 
 for the bound levels E(v, J), v = 0…V (--v-max; default every bound level) and
-J = 0…J (--j-max; default 10), each converged to T (--tolerance, default 1e-6
-cm⁻¹; a bare number is in cm⁻¹, units such as 1e-9eV are accepted). The method
+J = 0…J (--j-max; default 10), each converged to the absolute accuracy E
+(--accuracy, default ` + fmt.Sprint(levels.DefaultTolerance) + ` cm⁻¹; a bare number is in cm⁻¹, units such as 1e-9eV
+are accepted; the old name --tolerance still works, with a warning). The method
 is a Colbert–Miller discrete variable representation on a grid chosen from the
 well and refined until two grids agree; the accuracy reported is that
 difference, not an assumption. Levels above an inner (Buckingham) barrier are
@@ -72,16 +72,9 @@ are in cm⁻¹ (eV where the key says so), Å and u.`,
 			if jmax < 0 || jmax > levels.MaxJ {
 				return usageErr(fmt.Errorf("--j-max %d: must be between 0 and %d", jmax, levels.MaxJ))
 			}
-			tol := 0.0
-			if tolerance != "" {
-				ev, err := units.ParseIn(tolerance, units.Energy, "cm-1")
-				if err != nil {
-					return usageErr(fmt.Errorf("--tolerance: %w", err))
-				}
-				if !(ev > 0) {
-					return usageErr(fmt.Errorf("--tolerance %s: must be > 0", tolerance))
-				}
-				tol = ev / units.WavenumberEV
+			tol, err := parseAccuracy(accuracy)
+			if err != nil {
+				return usageErr(err)
 			}
 			ls := report.LevelsSettings{VMax: vmax, JMax: jmax, Tolerance: tol}
 			switch {
@@ -116,7 +109,7 @@ are in cm⁻¹ (eV where the key says so), Å and u.`,
 	cmd.Flags().StringVar(&setPath, "set", "", "model-set file (TOML) naming the forms, e.g. one written by fit -o")
 	cmd.Flags().IntVar(&vmax, "v-max", -1, "highest vibrational level v (default: every bound level; required for the harmonic form)")
 	cmd.Flags().IntVar(&jmax, "j-max", 10, "highest rotational level J")
-	cmd.Flags().StringVar(&tolerance, "tolerance", "", "accuracy of the levels, cm⁻¹ unless a unit is given (default 1e-6)")
+	accuracyVar(cmd.Flags(), &accuracy)
 	return cmd
 }
 

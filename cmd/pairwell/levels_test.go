@@ -120,8 +120,8 @@ func TestLevelsBadInput(t *testing.T) {
 		{[]string{"morse:De=4.6,a=1.87,re=1.27", "--mu", "1", "--v-max", "40"}, 2, "bound levels"},
 		{[]string{"morse:De=4.6,a=1.87,re=1.27", "--mu", "1", "--v-max", "-2"}, 2, "--v-max"},
 		{[]string{"morse:De=4.6,a=1.87,re=1.27", "--mu", "1", "--j-max", "-1"}, 2, "--j-max"},
-		{[]string{"morse:De=4.6,a=1.87,re=1.27", "--mu", "1", "--tolerance", "0"}, 2, "--tolerance"},
-		{[]string{"morse:De=4.6,a=1.87,re=1.27", "--mu", "1", "--tolerance", "abc"}, 2, "--tolerance"},
+		{[]string{"morse:De=4.6,a=1.87,re=1.27", "--mu", "1", "--accuracy", "0"}, 2, "--accuracy"},
+		{[]string{"morse:De=4.6,a=1.87,re=1.27", "--mu", "1", "--accuracy", "abc"}, 2, "--accuracy"},
 		{[]string{"morse:De=1e-4,a=1,re=3", "--mu", "1"}, 2, "too shallow"},
 		{[]string{"buckingham:A=1500,rho=0.3,C=25", "--mu", "20", "--v-max", "30"}, 2, "bound levels"},
 	} {

@@ -37,10 +37,10 @@ quadrature, the harmonic period 2π/ω0 and the second-order perturbative
 (Lindstedt–Poincaré) period.
 
 Integrators (--method):
-  heun    Heun / explicit trapezoid, order 2        default 800 steps per harmonic period
-  verlet  velocity Verlet, order 2, symplectic      default 600 steps per harmonic period
-  rk4     classical Runge–Kutta, order 4            default 200 steps per harmonic period
-  dopri   adaptive Dormand–Prince 5(4) (default)    default --rtol = --atol = 1e-9
+  heun    Heun / explicit trapezoid, order 2        default ` + strconv.Itoa(motion.DefaultHeunSteps) + ` steps per harmonic period
+  verlet  velocity Verlet, order 2, symplectic      default ` + strconv.Itoa(motion.DefaultVerletSteps) + ` steps per harmonic period
+  rk4     classical Runge–Kutta, order 4            default ` + strconv.Itoa(motion.DefaultRK4Steps) + ` steps per harmonic period
+  dopri   adaptive Dormand–Prince 5(4) (default)    default --rtol ` + fmt.Sprint(motion.DefaultRTol) + `, --atol ` + fmt.Sprint(motion.DefaultATol) + `
 At the defaults the measured period is within 1e-4 of the exact one for heun
 and verlet, 1e-6 for rk4 and 1e-7 for dopri, at energies up to half the depth
 (measured on Morse, Lennard-Jones and Buckingham wells over 10 periods).
@@ -128,11 +128,12 @@ JSON values are in eV, Å, u and fs, whatever the input units.`,
 	f := cmd.Flags()
 	f.StringVar(&amplitude, "amplitude", "", "starting displacement r0 − re at rest, in Å unless a unit is given (e.g. 0.2, -0.1, 20pm); positive stretches, negative compresses")
 	f.StringVar(&energy, "energy", "", "oscillation energy above V(re), in eV unless a unit is given (e.g. 0.5, 300K, 1000cm-1); starts at the stretch-side turning point")
-	f.StringVar(&method, "method", "dopri", "integrator: heun, rk4, verlet or dopri")
-	f.IntVar(&stepsPerPeriod, "steps-per-period", 0, "fixed steps per harmonic period 2π/ω0 (heun, rk4, verlet; 0: heun 800, verlet 600, rk4 200)")
+	methodVar(f, &method)
+	f.IntVar(&stepsPerPeriod, "steps-per-period", 0, fmt.Sprintf("fixed steps per harmonic period 2π/ω0 (heun, rk4, verlet; 0: heun %d, verlet %d, rk4 %d)",
+		motion.DefaultHeunSteps, motion.DefaultVerletSteps, motion.DefaultRK4Steps))
 	f.IntVar(&periods, "periods", motion.DefaultPeriods, "number of full periods to measure")
-	f.Float64Var(&rtol, "rtol", 0, "relative tolerance of dopri (0: 1e-9)")
-	f.Float64Var(&atol, "atol", 0, "absolute tolerance of dopri, relative to the amplitude (0: 1e-9)")
+	f.Float64Var(&rtol, "rtol", 0, fmt.Sprintf("relative tolerance of dopri (0: %g)", motion.DefaultRTol))
+	f.Float64Var(&atol, "atol", 0, fmt.Sprintf("absolute tolerance of dopri, relative to the amplitude (0: %g)", motion.DefaultATol))
 	f.StringVar(&trajectory, "trajectory", "", "write every step to this CSV file (t_fs, r_angstrom, x_angstrom, v_angstrom_per_fs, energy_ev)")
 	return cmd
 }

@@ -6,6 +6,7 @@ import (
 	"io"
 	"os"
 	"path/filepath"
+	"strconv"
 	"strings"
 
 	"github.com/spf13/cobra"
@@ -463,8 +464,8 @@ func newPlotMotionCmd(e *env) *cobra.Command {
 		Short: "Draw the displacement against time, with the harmonic motion overlaid",
 		Long: `motion integrates the vibration of the pair in the well of SPEC from rest at
 r = re + X (--amplitude; positive stretches, negative compresses) with --method
-(heun, rk4, verlet or dopri, default dopri; see "pairwell motion") over
---periods periods (default 3), and draws the displacement x(t) = r(t) − re of
+(heun, rk4, verlet or dopri, default ` + defaultMethod.String() + `; see "pairwell motion") over
+--periods periods (default ` + strconv.Itoa(motion.DefaultPeriods) + `), and draws the displacement x(t) = r(t) − re of
 every step against the harmonic motion x0·cos(ω0 t), ω0 = √(k/μ), started the
 same way. The title gives the measured, exact and harmonic periods.`,
 		Example: `  pairwell plot motion morse:De=4.6,a=1.87,re=1.27 --pair H-Cl --amplitude 0.5 -o motion.png
@@ -508,7 +509,7 @@ same way. The title gives the measured, exact and harmonic periods.`,
 	mass.register(cmd)
 	f := cmd.Flags()
 	f.StringVar(&amplitude, "amplitude", "", "starting displacement r0 − re at rest, Å unless a unit is given (e.g. 0.2, -0.1, 20pm)")
-	f.StringVar(&method, "method", "dopri", "integrator: heun, rk4, verlet or dopri")
+	methodVar(f, &method)
 	f.IntVar(&periods, "periods", motion.DefaultPeriods, "number of periods to integrate")
 	return cmd
 }
