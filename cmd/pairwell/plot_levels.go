@@ -57,7 +57,7 @@ level, at most 120; required for the harmonic form); --accuracy as for
 			return e.writePlot(f, &out)
 		},
 	}
-	out.register(cmd)
+	out.register(e, cmd)
 	mass.register(cmd)
 	cmd.Flags().IntVar(&vmax, "v-max", -1, "highest vibrational level drawn (default: every bound level; required for the harmonic form)")
 	accuracyVar(cmd.Flags(), &accuracy)
