@@ -81,6 +81,8 @@ var contractCases = map[string]contractCase{
 	"expansion": {args: fixed("expansion", contractMorse, "--pair", "H-Cl", "--temperatures", "100,300"), records: "rows"},
 	"mix": {args: fixed("mix", "lj:epsilon=119.8K,sigma=3.405", "lj:epsilon=164K,sigma=3.636", "--all-rules", "--pair", "Ar-Kr"),
 		records: "rules"},
+	"cutoff": {args: fixed("cutoff", contractLJ, "--cutoff", "8.5", "--switch-on", "7", "--pair", "Ar-Ar", "--density", "0.02"),
+		records: "schemes"},
 	"check":   {args: fixed("check", contractMorse)},
 	"models":  {args: fixed("models")},
 	"demo":    {args: fixed("demo", "--no-pictures"), noCSV: true},

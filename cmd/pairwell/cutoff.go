@@ -9,6 +9,7 @@ import (
 
 	"github.com/spf13/cobra"
 
+	"github.com/pairwell/pairwell/core"
 	"github.com/pairwell/pairwell/core/atoms"
 	"github.com/pairwell/pairwell/core/cutoff"
 	"github.com/pairwell/pairwell/core/report"
@@ -84,16 +85,13 @@ These are properties of a classical model potential, not of a validated force fi
 			if err != nil {
 				return computeErr(err)
 			}
-			out := cutoffOutput{Spec: strings.TrimSpace(args[0]), Params: report.NewParams(inst), Pair: m.Pair, Report: &r}
-			if e.format == "csv" {
-				return e.emit(nil, cutoffCSV(r))
-			}
+			out := newCutoffOutput(strings.TrimSpace(args[0]), inst, m, &r)
 			if e.format == "table" {
 				if err := writeCutoffHead(e, out); err != nil {
 					return err
 				}
 			}
-			if err := e.emit(out, cutoffTable(r)); err != nil {
+			if err := e.emitRecords(out, "schemes", cutoffTable(r)); err != nil {
 				return err
 			}
 			if e.format == "table" {
@@ -106,15 +104,32 @@ These are properties of a classical model potential, not of a validated force fi
 	cmd.Flags().StringVar(&on, "switch-on", "", "start r_on of the switching region of the switches (default 0.9·r_c)")
 	cmd.Flags().StringVar(&densityIn, "density", "", "number density for the tail corrections: atoms/Å³ (0.021, 21/nm^3) or a mass density (1.40g/cm3, with --pair A-A or --mu)")
 	mass.register(cmd)
+	e.energyUnitFlag(cmd, tableEnergies)
 	return cmd
 }
 
-// cutoffOutput is the JSON object of cutoff: the form and the report.
+// cutoffOutput is the JSON object of cutoff: the form, its mass and the
+// report (CSV: one row per scheme). Its model, mass and tail source shadow
+// the report's so that they come first and are null where they do not
+// apply.
 type cutoffOutput struct {
+	Model  string        `json:"model"`
 	Spec   string        `json:"spec"`
 	Params report.Params `json:"params"`
-	Pair   string        `json:"pair,omitempty"`
+	Pair   report.Text   `json:"pair"`
+	Mu     *float64      `json:"reduced_mass_u"`
 	*cutoff.Report
+	TailSource report.Text `json:"tail_correction_source"`
+}
+
+func newCutoffOutput(spec string, inst core.Instance, m report.Mass, r *cutoff.Report) cutoffOutput {
+	out := cutoffOutput{Model: r.Model, Spec: spec, Params: report.NewParams(inst), Pair: report.Text(m.Pair), Report: r,
+		TailSource: report.Text(r.TailSource)}
+	if m.Mu > 0 {
+		mu := m.Mu
+		out.Mu = &mu
+	}
+	return out
 }
 
 // parseLength reads a length flag > 0.
@@ -237,30 +252,6 @@ func cutoffTable(r cutoff.Report) *table {
 	row("  at r", "Å", "—", func(s cutoff.SchemeReport) string { return opt(s.MaxEnergyErrorR) })
 	row("max |F_cut − F| below r_c", "eV/Å", "—", func(s cutoff.SchemeReport) string { return num(s.MaxForceError) })
 	row("  at r", "Å", "—", func(s cutoff.SchemeReport) string { return opt(s.MaxForceErrorR) })
-	return t
-}
-
-// cutoffCSVKeys are the columns of cutoff's CSV, one row per scheme: the
-// JSON keys of a scheme object (well.* nested).
-var cutoffCSVKeys = []string{
-	"scheme", "spec_suffix", "energy_jump_ev", "force_jump_ev_per_angstrom", "curvature_jump_ev_per_angstrom2",
-	"well.equilibrium_r_angstrom", "well.well_depth_ev", "well.force_constant_ev_per_angstrom2", "well.harmonic_wavenumber_per_cm",
-	"re_shift_angstrom", "depth_shift_ev", "k_shift_ev_per_angstrom2", "wavenumber_shift_per_cm",
-	"max_energy_error_ev", "max_energy_error_r_angstrom", "max_force_error_ev_per_angstrom", "max_force_error_r_angstrom",
-}
-
-// cutoffCSV is one row per scheme, the JSON keys as header.
-func cutoffCSV(r cutoff.Report) *table {
-	t := &table{}
-	for _, k := range cutoffCSVKeys {
-		t.cols = append(t.cols, column{Title: k})
-	}
-	for _, s := range r.Schemes {
-		t.add(s.Scheme, s.Suffix, num(s.EnergyJump), num(s.ForceJump), opt(s.CurvatureJump),
-			num(s.Well.Re), opt(s.Well.Depth), num(s.Well.K), opt(s.Well.Wavenumber),
-			num(s.ReShift), opt(s.DepthShift), num(s.KShift), opt(s.WavenumberShift),
-			num(s.MaxEnergyError), opt(s.MaxEnergyErrorR), num(s.MaxForceError), opt(s.MaxForceErrorR))
-	}
 	return t
 }
 

@@ -1,6 +1,7 @@
 package cutoff
 
 import (
+	"encoding/json"
 	"fmt"
 	"math"
 
@@ -34,9 +35,22 @@ type AnalysisSettings struct {
 // Well is the minimum of a form: bare or cut.
 type Well struct {
 	Re         float64  `json:"equilibrium_r_angstrom"`
-	Depth      *float64 `json:"well_depth_ev"` // V(∞) − V(re); null when unbounded
+	Depth      *float64 `json:"well_depth_ev"` // V(∞) − V(re); nil when unbounded ("Infinity" in JSON)
 	K          float64  `json:"force_constant_ev_per_angstrom2"`
-	Wavenumber *float64 `json:"harmonic_wavenumber_per_cm,omitempty"` // with a mass
+	Wavenumber *float64 `json:"harmonic_wavenumber_per_cm"` // with a mass; null without
+}
+
+// MarshalJSON encodes w with an unbounded depth as "Infinity", as every
+// pairwell output does (README "Output contract").
+func (w Well) MarshalJSON() ([]byte, error) {
+	type plain Well
+	if w.Depth != nil {
+		return json.Marshal(plain(w))
+	}
+	return json.Marshal(struct {
+		plain
+		Depth string `json:"well_depth_ev"`
+	}{plain(w), "Infinity"})
 }
 
 // SchemeReport is what one scheme changes. Jumps are the value just
@@ -55,7 +69,7 @@ type SchemeReport struct {
 	ReShift         float64  `json:"re_shift_angstrom"`
 	DepthShift      *float64 `json:"depth_shift_ev"` // null when the bare depth is unbounded
 	KShift          float64  `json:"k_shift_ev_per_angstrom2"`
-	WavenumberShift *float64 `json:"wavenumber_shift_per_cm,omitempty"`
+	WavenumberShift *float64 `json:"wavenumber_shift_per_cm"`
 	MaxEnergyError  float64  `json:"max_energy_error_ev"`
 	MaxEnergyErrorR *float64 `json:"max_energy_error_r_angstrom"`
 	MaxForceError   float64  `json:"max_force_error_ev_per_angstrom"`
@@ -81,7 +95,7 @@ type Report struct {
 	Bare       Well           `json:"bare"`                             // the uncut form
 	Schemes    []SchemeReport `json:"schemes"`                          // in the order of Schemes()
 	Scan       ErrorScan      `json:"error_scan"`                       // how the errors were found
-	Tail       *Tail          `json:"tail_correction,omitempty"`        // with a density
+	Tail       *Tail          `json:"tail_correction"`                  // with a density; null without
 	TailSource string         `json:"tail_correction_source,omitempty"` // literature of the formulas
 	Notes      []string       `json:"notes"`                            // what a reader must know
 	Caution    string         `json:"caution"`
