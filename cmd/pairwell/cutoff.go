@@ -9,7 +9,6 @@ import (
 
 	"github.com/spf13/cobra"
 
-	"github.com/pairwell/pairwell/core"
 	"github.com/pairwell/pairwell/core/atoms"
 	"github.com/pairwell/pairwell/core/cutoff"
 	"github.com/pairwell/pairwell/core/report"
@@ -85,7 +84,7 @@ These are properties of a classical model potential, not of a validated force fi
 			if err != nil {
 				return computeErr(err)
 			}
-			out := newCutoffOutput(strings.TrimSpace(args[0]), inst, m, &r)
+			out := cutoffOutput{Model: r.Model, Spec: strings.TrimSpace(args[0]), Params: report.NewParams(inst), Pair: report.Text(m.Pair), Report: &r}
 			if e.format == "table" {
 				if err := writeCutoffHead(e, out); err != nil {
 					return err
@@ -108,28 +107,13 @@ These are properties of a classical model potential, not of a validated force fi
 	return cmd
 }
 
-// cutoffOutput is the JSON object of cutoff: the form, its mass and the
-// report (CSV: one row per scheme). Its model, mass and tail source shadow
-// the report's so that they come first and are null where they do not
-// apply.
+// cutoffOutput is the JSON object of cutoff: the form and the report.
 type cutoffOutput struct {
-	Model  string        `json:"model"`
+	Model  string        `json:"model"` // first, as in every command (the report's own is the same)
 	Spec   string        `json:"spec"`
 	Params report.Params `json:"params"`
-	Pair   report.Text   `json:"pair"`
-	Mu     *float64      `json:"reduced_mass_u"`
+	Pair   report.Text   `json:"pair"` // null without --pair
 	*cutoff.Report
-	TailSource report.Text `json:"tail_correction_source"`
-}
-
-func newCutoffOutput(spec string, inst core.Instance, m report.Mass, r *cutoff.Report) cutoffOutput {
-	out := cutoffOutput{Model: r.Model, Spec: spec, Params: report.NewParams(inst), Pair: report.Text(m.Pair), Report: r,
-		TailSource: report.Text(r.TailSource)}
-	if m.Mu > 0 {
-		mu := m.Mu
-		out.Mu = &mu
-	}
-	return out
 }
 
 // parseLength reads a length flag > 0.
@@ -234,12 +218,7 @@ func cutoffTable(r cutoff.Report) *table {
 	row("V″ jump at r_c", "eV/Å²", "—", func(s cutoff.SchemeReport) string { return opt(s.CurvatureJump) })
 	row("re", "Å", num(r.Bare.Re), func(s cutoff.SchemeReport) string { return num(s.Well.Re) })
 	row("re shift", "Å", "—", func(s cutoff.SchemeReport) string { return num(s.ReShift) })
-	depth := func(d *float64) string {
-		if d == nil {
-			return "∞"
-		}
-		return num(*d)
-	}
+	depth := func(d cutoff.Depth) string { return num(float64(d)) }
 	row("well depth", "eV", depth(r.Bare.Depth), func(s cutoff.SchemeReport) string { return depth(s.Well.Depth) })
 	row("depth shift", "eV", "—", func(s cutoff.SchemeReport) string { return opt(s.DepthShift) })
 	row("k = V″(re)", "eV/Å²", num(r.Bare.K), func(s cutoff.SchemeReport) string { return num(s.Well.K) })
@@ -276,7 +255,7 @@ func writeCutoffFoot(e *env, r cutoff.Report) error {
 		if t.Accuracy > 0 {
 			acc = fmt.Sprintf("relative accuracy %.2g", t.Accuracy)
 		}
-		fmt.Fprintf(&b, "Tail corrections for r > r_c at ρ = %s atoms/Å³ (%s, %s; %s):\n", num(t.Density), t.Method, acc, r.TailSource)
+		fmt.Fprintf(&b, "Tail corrections for r > r_c at ρ = %s atoms/Å³ (%s, %s; %s):\n", num(t.Density), t.Method, acc, *r.TailSource)
 		fmt.Fprintf(&b, "  energy per particle u_tail  %s eV\n  pressure p_tail             %s eV/Å³ = %s bar\n", num(t.Energy), num(t.Pressure), num(t.PressureBar))
 	}
 	for _, n := range r.Notes {
