@@ -42,6 +42,8 @@ const SeriesOrder = 24
 // to the direct difference.
 type Expansion struct {
 	c    []float64 // c_0, …, c_M with c_1 = 0
+	ca   []float64 // |c_k|
+	cs   []float64 // (k+1)·|c_{k+1}| for k < M, 0 for k = M
 	v0   float64   // |V(re)|
 	beta float64   // the decay rate β of the coefficients, 1/Å
 	dre  float64   // the uncertainty of re, Å (Well.ReError)
@@ -74,7 +76,14 @@ func NewExpansion(w Well) Expansion {
 			beta = math.Max(beta, math.Pow(math.Abs(c[k])/c[2], 1/float64(k-2)))
 		}
 	}
-	return Expansion{c: c, v0: math.Abs(w.Energy), beta: 1.25 * beta, dre: w.ReError}
+	ca, cs := make([]float64, m+1), make([]float64, m+1)
+	for k := range ca {
+		ca[k] = math.Abs(c[k])
+		if k < m {
+			cs[k] = float64(k+1) * math.Abs(c[k+1]) // cs[M] stays 0, unused
+		}
+	}
+	return Expansion{c: c, ca: ca, cs: cs, v0: math.Abs(w.Energy), beta: 1.25 * beta, dre: w.ReError}
 }
 
 // Order returns M, the highest order of the series (0 for the zero value).
@@ -90,32 +99,62 @@ func (e Expansion) Order() int {
 // rounding bound (see Expansion). The bound is +Inf where the series does
 // not converge fast enough (q ≥ 1/2) or the expansion has no terms.
 func (e Expansion) Sum(x float64, from int) (s, bound float64) {
+	s, bound, _, _ = e.sums(x, from, true)
+	return s, bound
+}
+
+// Sums returns Sum(x, from) and Sum(x, 2) together, from one pass of
+// Horner's scheme over the coefficients (the partial sum from c_from on is
+// a stage of the full one), with the same values as the two calls. The
+// sums are not computed where the bound is +Inf (q ≥ 1/2): there s and s2
+// are 0 (Sum returns them only with an infinite bound).
+func (e Expansion) Sums(x float64, from int) (s, bound, s2, bound2 float64) {
+	return e.sums(x, from, false)
+}
+
+// sums is Sums; with always, the sums are computed also where the bound
+// is +Inf.
+func (e Expansion) sums(x float64, from int, always bool) (s, bound, s2, bound2 float64) {
 	m := len(e.c) - 1
-	if m < 2 || from > m {
-		return 0, math.Inf(1)
+	if m < 2 || max(from, 2) > m {
+		return 0, math.Inf(1), 0, math.Inf(1)
 	}
 	from = max(from, 2)
-	abs, shift := 0.0, 0.0
-	for k := m; k >= from; k-- {
-		s = s*x + e.c[k]
-		abs = abs*math.Abs(x) + math.Abs(e.c[k])
-		if k < m {
-			shift = shift*math.Abs(x) + float64(k+1)*math.Abs(e.c[k+1])
-		}
-	}
-	xf := ipow(x, from)
-	s *= xf
-	abs *= math.Abs(xf)
-	shift *= math.Abs(xf) * e.dre
 	q := e.beta * math.Abs(x)
 	tail := 0.0
 	if e.beta > 0 {
 		if !(q < 0.5) {
-			return s, math.Inf(1)
+			if !always {
+				return 0, math.Inf(1), 0, math.Inf(1)
+			}
+			tail = math.Inf(1)
+		} else {
+			tail = e.c[2] * x * x * ipow(q, m-1) / (1 - q)
 		}
-		tail = e.c[2] * x * x * ipow(q, m-1) / (1 - q)
 	}
-	return s, tail + 4*eps*abs + shift
+	ax := math.Abs(x)
+	c, ca, cs := e.c[:m+1], e.ca[:m+1], e.cs[:m+1]
+	s, abs, shift := c[m], ca[m], 0.0
+	for k := m - 1; k >= from; k-- {
+		s = s*x + c[k]
+		abs = abs*ax + ca[k]
+		shift = shift*ax + cs[k]
+	}
+	sf, absf, shiftf := s, abs, shift
+	for k := from - 1; k >= 2; k-- {
+		s = s*x + c[k]
+		abs = abs*ax + ca[k]
+		shift = shift*ax + cs[k]
+	}
+	xf := ipow(x, from)
+	x2 := x * x
+	sf *= xf
+	absf *= math.Abs(xf)
+	shiftf *= math.Abs(xf) * e.dre
+	s *= x2
+	abs *= x2
+	shift *= x2 * e.dre
+	return sf, tail + 4*eps*absf + shiftf, s, tail + 4*eps*abs + shift
 }
 
 // DirectBound is the bound 4ε·(|V(re)| + |v|) on the rounding error of
@@ -254,7 +293,7 @@ func (e Expansion) Trim(xmax float64) Expansion {
 		return e
 	}
 	t := e
-	t.c = e.c[:m+1]
+	t.c, t.ca, t.cs = e.c[:m+1], e.ca[:m+1], e.cs[:m+1]
 	return t
 }
 

@@ -53,20 +53,32 @@
 // In Go, implement core.Model and core.Potential as for a built-in form
 // and call sdk.Serve from main; see package sdk and the examples in
 // plugins/examples. In another language, implement the Forms service of
-// proto/pairwell.proto (package pairwell.plugin.v1) and go-plugin's
-// handshake:
+// proto/pairwell.proto (package pairwell.plugin.v1) and the parts of
+// go-plugin's protocol the host uses; plugins/examples/python is a complete
+// plugin in Python that does:
 //
 //   - pairwell starts the executable with no arguments, standard input
 //     from /dev/null, and, in its environment, PAIRWELL_PLUGIN set to the
 //     value of MagicCookieValue (exit with a message if it is missing: a
-//     user ran the plugin directly), PLUGIN_PROTOCOL_VERSIONS=1 and
+//     user ran the plugin directly), PLUGIN_PROTOCOL_VERSIONS=2 and
 //     PLUGIN_UNIX_SOCKET_DIR, a private directory for sockets;
-//   - the plugin listens on a Unix socket in that directory, serves Forms
-//     there over gRPC (plaintext HTTP/2) and prints one line to standard
-//     output: "1|1|unix|SOCKET_PATH|grpc|" (go-plugin's core protocol 1,
-//     pairwell's ProtocolVersion 1);
-//   - it serves until pairwell kills it. Whatever it writes to standard
-//     error is quoted in pairwell's messages when it fails.
+//   - the plugin listens on a Unix socket in that directory and serves
+//     there over gRPC (plaintext HTTP/2): Forms; grpc.health.v1.Health,
+//     answering SERVING for the service "plugin"; and, so that a graceful
+//     close ends it at once, go-plugin's plugin.GRPCController/Shutdown
+//     (an empty message each way). go-plugin's stdio and broker services
+//     may be left out: the host gets UNIMPLEMENTED and does without them;
+//   - once it listens, it prints one line to standard output:
+//     "1|2|unix|SOCKET_PATH|grpc|" (go-plugin's core protocol 1,
+//     pairwell's ProtocolVersion 2, network, address, protocol, no
+//     certificate), and writes nothing else there;
+//   - DescribeResponse.fast_path may stay empty: the direct evaluation
+//     channel is an optimisation of the Go SDK, and pairwell evaluates a
+//     plugin without one over Evaluate;
+//   - it serves until pairwell kills it (SIGKILL), and should exit by
+//     itself on Shutdown, SIGTERM and when its parent process is gone.
+//     Whatever it writes to standard error is quoted in pairwell's
+//     messages when it fails.
 //
 // # Regenerating the protocol code
 //

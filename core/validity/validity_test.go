@@ -221,6 +221,36 @@ func TestOrdersImprove(t *testing.T) {
 	}
 }
 
+// TestPeriodSeriesAgrees: the period limits found with the amplitude
+// series (period.AmplitudeSeries, used wherever its bound is below a tenth
+// of the quadrature's tolerance) agree with those found from the
+// quadrature alone to 1e-9 relative, the resolution of the limit (the
+// periods to ≈ 1e-12 resolve E to ≈ 1e-12/(τ·dlnR/dlnE)), for the bounded
+// built-in forms at every order and tolerances from 1e-4 to 0.3.
+func TestPeriodSeriesAgrees(t *testing.T) {
+	worst := 0.0
+	for _, f := range forms(t)[:3] {
+		for n := 2; n <= 4; n++ {
+			for _, tol := range []float64{1e-4, 1e-3, 0.01, 0.1, 0.3} {
+				s := Settings{Tolerance: tol}
+				got, err := periodRange(f.P, f.W, n, s, true)
+				require.NoError(t, err, "%s n=%d τ=%g", f.Name, n, tol)
+				want, err := periodRange(f.P, f.W, n, s, false)
+				require.NoError(t, err, "%s n=%d τ=%g", f.Name, n, tol)
+				if math.IsInf(want.Energy, 1) {
+					assert.True(t, math.IsInf(got.Energy, 1), "%s n=%d τ=%g", f.Name, n, tol)
+					continue
+				}
+				assert.InEpsilon(t, want.Energy, got.Energy, 1e-9, "%s n=%d τ=%g", f.Name, n, tol)
+				worst = math.Max(worst, math.Abs(got.Energy/want.Energy-1))
+				assert.InEpsilon(t, want.Compression, got.Compression, 1e-9, "%s n=%d τ=%g", f.Name, n, tol)
+				assert.InEpsilon(t, want.Stretch, got.Stretch, 1e-9, "%s n=%d τ=%g", f.Name, n, tol)
+			}
+		}
+	}
+	t.Logf("worst relative difference of the period limits: %.2g", worst)
+}
+
 // BenchmarkAnalyze is both criteria at n = 2 for the four built-in forms.
 func BenchmarkAnalyze(b *testing.B) {
 	fs := forms(b)
@@ -245,4 +275,24 @@ func TestBatchedCalls(t *testing.T) {
 	require.NoError(t, err)
 	assert.Equal(t, want, r)
 	assert.Less(t, c.Calls(), int64(200))
+}
+
+// BenchmarkCriteria is each criterion at n = 2 for each built-in form.
+func BenchmarkCriteria(b *testing.B) {
+	for _, f := range forms(b) {
+		b.Run(f.Name+"/potential", func(b *testing.B) {
+			for b.Loop() {
+				if _, err := PotentialRange(f.P, f.W, 2, Settings{}); err != nil {
+					b.Fatal(err)
+				}
+			}
+		})
+		b.Run(f.Name+"/period", func(b *testing.B) {
+			for b.Loop() {
+				if _, err := PeriodRange(f.P, f.W, 2, Settings{}); err != nil {
+					b.Fatal(err)
+				}
+			}
+		})
+	}
 }

@@ -11,6 +11,7 @@ import (
 	"runtime"
 	"strconv"
 	"strings"
+	"testing"
 )
 
 // Module is the import path prefix of pairwell's packages.
@@ -76,4 +77,97 @@ func Build(dir string, pkgs ...string) error {
 		return fmt.Errorf("building %v: %v\n%s", pkgs, err, out)
 	}
 	return nil
+}
+
+// PythonLauncher returns the absolute path of the launcher of the example
+// plugin written in Python (plugins/examples/python), found from this
+// source file's location.
+func PythonLauncher() string {
+	_, file, _, _ := runtime.Caller(0)
+	return filepath.Join(filepath.Dir(file), "..", "examples", "python", "pairwell-plugin-linnett")
+}
+
+// pythonCandidates are the interpreters the launcher tries, in its order.
+func pythonCandidates() []string {
+	var c []string
+	if py := os.Getenv("PAIRWELL_PYTHON"); py != "" {
+		return []string{py}
+	}
+	if py, err := exec.LookPath("python3"); err == nil {
+		c = append(c, py)
+	}
+	return append(c, "/usr/bin/python3", "/usr/local/bin/python3")
+}
+
+// FindPython returns the interpreter the Python example plugin's launcher
+// will pick: the first of $PAIRWELL_PYTHON (alone, if set), python3 on
+// PATH, /usr/bin/python3 and /usr/local/bin/python3 that imports grpc and
+// google.protobuf. The error says what each candidate lacked and how to
+// install the modules.
+func FindPython() (string, error) {
+	var tried []string
+	for _, py := range pythonCandidates() {
+		out, err := exec.Command(py, "-c", "import grpc, google.protobuf").CombinedOutput()
+		if err == nil {
+			return py, nil
+		}
+		msg := strings.TrimSpace(string(out))
+		if i := strings.LastIndexByte(msg, '\n'); i >= 0 {
+			msg = msg[i+1:]
+		}
+		if msg == "" {
+			msg = err.Error()
+		}
+		tried = append(tried, py+": "+msg)
+	}
+	return "", fmt.Errorf("no python3 with the grpc and google.protobuf modules (%s); install them, "+
+		"on Debian with apt-get install -y python3-grpcio python3-protobuf (as .ci/run does), "+
+		"elsewhere pip install grpcio protobuf, or point PAIRWELL_PYTHON at a python3 that has them",
+		strings.Join(tried, "; "))
+}
+
+// RequirePython returns the Python example plugin's launcher and the
+// interpreter it will run. Without a suitable python3 it skips the test,
+// saying what is missing and how to install it — except under CI=true,
+// where it fails: CI installs the modules, so their absence is a defect.
+func RequirePython(tb testing.TB) (launcher, python string) {
+	tb.Helper()
+	py, err := FindPython()
+	if err != nil {
+		if os.Getenv("CI") == "true" {
+			tb.Fatalf("CI=true: %v", err)
+		}
+		tb.Skipf("skipping the Python example plugin: %v", err)
+	}
+	return PythonLauncher(), py
+}
+
+// ProcsWithArg returns the running processes one of whose arguments
+// (argv[0] included) is arg, such as the script an interpreter runs.
+// Zombies are left out. On systems without /proc it returns nil.
+func ProcsWithArg(arg string) []int {
+	entries, err := os.ReadDir("/proc")
+	if err != nil {
+		return nil
+	}
+	var pids []int
+	for _, e := range entries {
+		pid, err := strconv.Atoi(e.Name())
+		if err != nil || pid == os.Getpid() {
+			continue
+		}
+		cl, err := os.ReadFile(filepath.Join("/proc", e.Name(), "cmdline"))
+		if err != nil {
+			continue
+		}
+		for _, a := range strings.Split(string(cl), "\x00") {
+			if a == arg {
+				if st, err := os.ReadFile(filepath.Join("/proc", e.Name(), "stat")); err != nil || !strings.Contains(string(st), ") Z ") {
+					pids = append(pids, pid)
+				}
+				break
+			}
+		}
+	}
+	return pids
 }

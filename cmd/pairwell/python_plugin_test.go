@@ -1,0 +1,112 @@
+package main
+
+import (
+	"encoding/json"
+	"math"
+	"os"
+	"path/filepath"
+	"runtime"
+	"strings"
+	"testing"
+
+	"github.com/stretchr/testify/assert"
+	"github.com/stretchr/testify/require"
+
+	"github.com/pairwell/pairwell/plugins/plugintest"
+)
+
+// linnettSpec is an invented, bond-sized parameter set of the Linnett form
+// served by the Python example plugin (plugins/examples/python).
+const linnettSpec = "linnett:De=4.6,re=1.27,m=6,n=2.5"
+
+// runPython runs pairwell in process with the Python example plugin, then
+// checks that no Python plugin process is left.
+func runPython(t *testing.T, env []string, args ...string) (int, string, string) {
+	t.Helper()
+	launcher, _ := plugintest.RequirePython(t)
+	code, out, errOut := runCLIEnv(t, env, args...)
+	if runtime.GOOS == "linux" {
+		dir, err := filepath.EvalSymlinks(filepath.Dir(launcher))
+		require.NoError(t, err)
+		assert.Empty(t, plugintest.ProcsWithArg(filepath.Join(dir, "linnett.py")),
+			"Python plugin processes left after pairwell %s", strings.Join(args, " "))
+	}
+	return code, out, errOut
+}
+
+// TestPythonPluginCommands runs the plugin written in Python through
+// inspect, compare and check, by --plugin and found in
+// PAIRWELL_PLUGIN_PATH. Reference values: reference.py beside the plugin
+// (mpmath 1.3.0 at 50 digits on Linnett's own a/r^m − b·exp(−n·r)), output
+// in plugins/examples/python/testdata/reference.txt.
+func TestPythonPluginCommands(t *testing.T) {
+	launcher, _ := plugintest.RequirePython(t)
+
+	t.Run("inspect", func(t *testing.T) {
+		code, out, errOut := runPython(t, nil, "--plugin", launcher, "inspect", linnettSpec, "--pair", "H-Cl", "--format", "json")
+		require.Equal(t, 0, code, errOut)
+		var got struct {
+			Model      string    `json:"model"`
+			Origin     string    `json:"origin"`
+			Re         float64   `json:"equilibrium_r_angstrom"`
+			Depth      float64   `json:"well_depth_ev"`
+			K          float64   `json:"force_constant_ev_per_angstrom2"`
+			Taylor     []float64 `json:"taylor_coefficients"`
+			Inflection float64   `json:"inflection_r_angstrom"`
+			MaxForce   float64   `json:"max_restoring_force_ev_per_angstrom"`
+		}
+		require.NoError(t, json.Unmarshal([]byte(out), &got), out)
+		assert.Equal(t, "linnett", got.Model)
+		assert.Equal(t, launcher, got.Origin)
+		assert.InDelta(t, 1.27, got.Re, 1e-12)
+		assert.InDelta(t, 4.6, got.Depth, 1e-12)
+		assert.InDelta(t, 73.562817922096021183, got.K, 1e-11) // mpmath: minimum
+		require.Len(t, got.Taylor, 5)
+		for k, want := range []float64{-4.6, 0, 36.781408961048011, -115.89585789791049, 234.50101470659704} { // mpmath: c_k at r = 1.27
+			assert.InDelta(t, want, got.Taylor[k], 1e-12*(1+math.Abs(want)), "c_%d", k)
+		}
+		assert.InDelta(t, 1.5120972821422646291, got.Inflection, 1e-9) // mpmath: inflection
+		assert.InDelta(t, 6.1334083857445194164, got.MaxForce, 1e-9)   // mpmath: max restoring force
+	})
+
+	t.Run("compare", func(t *testing.T) {
+		code, out, errOut := runPython(t, nil, "--plugin", launcher, "compare", linnettSpec,
+			"morse:De=4.6,a=1.87,re=1.27", "--pair", "H-Cl", "--validity", "--format", "json")
+		require.Equal(t, 0, code, errOut)
+		var rows []struct {
+			Model    string          `json:"model"`
+			K        float64         `json:"force_constant_ev_per_angstrom2"`
+			Validity json.RawMessage `json:"validity"`
+			Error    string          `json:"error"`
+		}
+		require.NoError(t, json.Unmarshal([]byte(out), &rows), out)
+		require.Len(t, rows, 2)
+		assert.Equal(t, "linnett", rows[0].Model)
+		assert.Empty(t, rows[0].Error)
+		assert.InDelta(t, 73.562817922096021183, rows[0].K, 1e-11) // mpmath
+		assert.NotEmpty(t, rows[0].Validity)
+		assert.Equal(t, "morse", rows[1].Model)
+	})
+
+	t.Run("check", func(t *testing.T) {
+		code, out, errOut := runPython(t, nil, "--plugin", launcher, "check", linnettSpec,
+			"linnett:De=0.0104,re=3.8,m=12,n=1.5") // a second, argon-sized invented set
+		require.Equal(t, 0, code, "%s\n%s", out, errOut)
+		assert.Contains(t, out, "40 checks on 2 forms: 40 passed, 0 failed, 0 skipped")
+	})
+
+	t.Run("discovered", func(t *testing.T) {
+		dir := t.TempDir()
+		require.NoError(t, os.Symlink(launcher, filepath.Join(dir, "pairwell-plugin-linnett")))
+		code, out, errOut := runPython(t, []string{"PAIRWELL_PLUGIN_PATH=" + dir}, "models")
+		require.Equal(t, 0, code, errOut)
+		assert.Contains(t, out, "A(re/r)^m − B·exp(−n(r − re))")
+		assert.Contains(t, out, "plugin "+filepath.Join(dir, "pairwell-plugin-linnett")+" (version 1.0.0)")
+	})
+
+	t.Run("bad parameters", func(t *testing.T) {
+		code, _, errOut := runPython(t, nil, "--plugin", launcher, "inspect", "linnett:De=4.6,re=1.27,m=3,n=2.5")
+		assert.Equal(t, 2, code, errOut)
+		assert.Contains(t, errOut, "must be less than m")
+	})
+}
