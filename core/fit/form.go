@@ -241,6 +241,7 @@ type formProblem struct {
 	dataDepth  float64 // zero estimate − E_min, for the windows
 	unbounded  bool    // the form has no dissociation limit
 	central    bool    // Settings.Central
+	sets       bool    // the model is a core.SetEvaluator
 	floor      []float64
 	zeroSource string
 }
@@ -254,6 +255,7 @@ const constraintFloor = 1e-12
 func newFormProblem(m core.Model, d Data, w []float64, s Settings) (*formProblem, error) {
 	info := m.Info()
 	p := &formProblem{m: m, info: info, d: d, np: len(info.Params), central: s.Central}
+	_, p.sets = m.(core.SetEvaluator)
 	emin := math.Inf(1)
 	for _, e := range d.E {
 		emin = math.Min(emin, e)
@@ -373,14 +375,33 @@ func (p *formProblem) theta(params []float64, zero float64) ([]float64, error) {
 	return out, nil
 }
 
-// residuals may run concurrently (the central differences of a
-// Jacobian): it allocates its own scratch.
-func (p *formProblem) residuals(theta, dst []float64) error {
+// feasible converts θ to the model's parameters and the zero, with an
+// error wrapping ErrInfeasible for a parameter below its floor.
+func (p *formProblem) feasible(theta []float64) ([]float64, float64, error) {
 	params, zero := p.params(theta)
 	for j, v := range params {
 		if p.log[j] && v < p.floor[j] {
-			return fmt.Errorf("%w: %s = %g has fallen below %g·(its start): the fit runs into the constraint %s", ErrInfeasible, p.info.Params[j].Name, v, constraintFloor, p.info.Params[j].Constraint)
+			return nil, 0, fmt.Errorf("%w: %s = %g has fallen below %g·(its start): the fit runs into the constraint %s", ErrInfeasible, p.info.Params[j].Name, v, constraintFloor, p.info.Params[j].Constraint)
 		}
+	}
+	return params, zero, nil
+}
+
+// residuals may run concurrently (the central differences of a
+// Jacobian): it allocates its own scratch. For a model that evaluates
+// parameter sets in one call (core.SetEvaluator: a plugin) it is one
+// such call, without building a potential.
+func (p *formProblem) residuals(theta, dst []float64) error {
+	if p.sets {
+		var errs [1]error
+		if err := p.batch([][]float64{theta}, [][]float64{dst}, errs[:]); err != nil {
+			return err
+		}
+		return errs[0]
+	}
+	params, zero, err := p.feasible(theta)
+	if err != nil {
+		return err
 	}
 	p.evals.Add(1)
 	pot, err := build(p.m, params)
@@ -391,17 +412,79 @@ func (p *formProblem) residuals(theta, dst []float64) error {
 	if err := energies(pot, p.r, vals); err != nil {
 		return err
 	}
-	for i, v := range vals {
-		dst[i] = p.sw[i] * (v + zero - p.e[i])
-	}
+	var fd []float64
 	if p.f != nil {
-		fd := dst[len(p.r):]
+		fd = make([]float64, len(p.r))
 		if err := forces(pot, p.r, fd); err != nil {
 			return err
 		}
+	}
+	p.weigh(vals, fd, zero, dst)
+	return nil
+}
+
+// weigh stores the weighted residuals of the energies v (and the forces
+// f, when the data have them) with the energy zero in dst.
+func (p *formProblem) weigh(v, f []float64, zero float64, dst []float64) {
+	for i := range v {
+		dst[i] = p.sw[i] * (v[i] + zero - p.e[i])
+	}
+	if p.f != nil {
+		fd := dst[len(p.r):]
 		for i := range fd {
-			fd[i] = p.swf[i] * (fd[i] - p.f[i])
+			fd[i] = p.swf[i] * (f[i] - p.f[i])
 		}
+	}
+}
+
+// batch evaluates the residuals at many θ in one call of the model
+// (core.EvaluateSets; Problem.Batch).
+func (p *formProblem) batch(thetas, dsts [][]float64, errs []error) error {
+	order := 0
+	if p.f != nil {
+		order = 1 // V and V′ together
+	}
+	var flat, zeros []float64
+	var idx []int
+	for k, t := range thetas {
+		params, zero, err := p.feasible(t)
+		if err != nil {
+			errs[k] = err
+			continue
+		}
+		errs[k] = nil
+		flat = append(flat, params...)
+		zeros = append(zeros, zero)
+		idx = append(idx, k)
+	}
+	if len(idx) == 0 {
+		return nil
+	}
+	p.evals.Add(int64(len(idx)))
+	w := order + 1
+	vals := make([]float64, len(idx)*len(p.r)*w)
+	es := make([]error, len(idx))
+	if err := evaluateSets(p.m, order, flat, p.r, vals, es); err != nil {
+		return err
+	}
+	v := make([]float64, len(p.r))
+	var f []float64
+	if p.f != nil {
+		f = make([]float64, len(p.r))
+	}
+	for s, k := range idx {
+		if es[s] != nil {
+			errs[k] = infeasible(es[s])
+			continue
+		}
+		blk := vals[s*len(p.r)*w : (s+1)*len(p.r)*w]
+		for i := range v {
+			v[i] = blk[i*w]
+			if f != nil {
+				f[i] = -blk[i*w+1]
+			}
+		}
+		p.weigh(v, f, zeros[s], dsts[k])
 	}
 	return nil
 }
@@ -514,6 +597,9 @@ func (p *formProblem) run(params []float64, ls LMSettings) (Result, error) {
 		return Result{}, fmt.Errorf("%w: %w", ErrInfeasible, err)
 	}
 	pr := Problem{N: p.nres(), P: p.nparams(), Residuals: p.residuals, Concurrent: true}
+	if p.sets {
+		pr.Batch = p.batch
+	}
 	if p.f == nil && !p.central {
 		pot, err := build(p.m, params)
 		if err != nil {
