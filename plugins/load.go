@@ -112,7 +112,7 @@ type Plugin struct {
 	// so sets are opened and evaluated one by one.
 	fastSets bool
 	noSets   atomic.Bool
-	stderr *tail
+	stderr   *tail
 
 	ctx    context.Context // canceled when the plugin stops
 	cancel context.CancelFunc
