@@ -176,6 +176,10 @@ func derivative(p core.Potential, n int, r float64) (float64, error) {
 // f·re. The point is kept inside a finite Domain.Max. Without a minimum,
 // re is the declared equilibrium distance or the top of the sampled range,
 // and the depth is the largest |V − Limit| over the sampled points.
+//
+// A form that declares a slow tail (Domain.TailPower = p > 0, e.g. the
+// Coulomb-like 1/r tail of the Kratzer form) is checked on its tail
+// instead (checkTail): no fixed far point shows such a limit to 1e-6.
 func (c *subject) checkAsymptote() Result {
 	lim := c.dom.Limit
 	r := c.result(CheckAsymptote, "V → Domain.Limit")
@@ -211,20 +215,13 @@ func (c *subject) checkAsymptote() Result {
 		}
 		return r
 	}
-	depth := math.NaN()
-	if !math.IsNaN(c.re) {
-		if v, err := derivative(c.p, 0, c.re); err == nil {
-			depth = lim - v
-		}
+	if c.dom.TailPower > 0 {
+		return c.checkTail(r, ref, clip)
 	}
+	depth := c.depth()
 	how := "the well depth Limit − V(re)"
-	if !(depth > 0) {
-		depth, how = 0, "the largest |V − Limit| over the sampled points"
-		if c.ev.vals[0] != nil {
-			for _, v := range c.ev.vals[0] {
-				depth = math.Max(depth, math.Abs(v-lim))
-			}
-		}
+	if !(lim-c.vre() > 0) {
+		how = "the largest |V − Limit| over the sampled points"
 	}
 	r.Tolerance = c.s.AsymptoteTolerance
 	dev := math.Abs(vs[2] - lim)
@@ -240,6 +237,77 @@ func (c *subject) checkAsymptote() Result {
 		r.Error, far, c.s.AsymptoteFactor, math.Abs(vs[0]-lim)/depth, near, lim, depth, how)
 	if !r.Passed {
 		r.Message = "V does not approach the declared limit: " + r.Message
+	}
+	return r
+}
+
+// vre returns V(re), NaN without a minimum or when it cannot be evaluated.
+func (c *subject) vre() float64 {
+	if math.IsNaN(c.re) {
+		return math.NaN()
+	}
+	v, err := derivative(c.p, 0, c.re)
+	if err != nil {
+		return math.NaN()
+	}
+	return v
+}
+
+// depth is the scale of the asymptote checks: the well depth Limit − V(re),
+// or without a well the largest |V − Limit| over the sampled points.
+func (c *subject) depth() float64 {
+	lim := c.dom.Limit
+	if d := lim - c.vre(); d > 0 {
+		return d
+	}
+	depth := 0.0
+	if c.ev.vals[0] != nil {
+		for _, v := range c.ev.vals[0] {
+			depth = math.Max(depth, math.Abs(v-lim))
+		}
+	}
+	return depth
+}
+
+// checkTail checks a declared slow tail V − Limit ≈ C·r^−p (p =
+// Domain.TailPower): the tail amplitude A(R) = (V(R) − Limit)·(R/re)^p must
+// be the same at R₁ = f·re and R₂ = 10·f·re (f = AsymptoteFactor) to
+// AsymptoteTolerance relative to |A(R₂)|. A wrong Limit makes A grow as
+// R^p and a wrong power makes it change by 10^(p−q) between the points, so
+// both fail; a V that equals Limit at both points passes. The amplitude of
+// a tail with corrections of relative size b·re/R drifts by about b·re/R₁
+// (Kratzer: 4.5e-7 at the default factor 10⁶).
+func (c *subject) checkTail(r Result, ref float64, clip func(float64) float64) Result {
+	lim, p := c.dom.Limit, c.dom.TailPower
+	xs := []float64{clip(c.s.AsymptoteFactor * ref), clip(10 * c.s.AsymptoteFactor * ref)}
+	r.Name = fmt.Sprintf("V → Domain.Limit as r^-%g (declared tail)", p)
+	r.WorstR = xs[1]
+	r.Tolerance = c.s.AsymptoteTolerance
+	if xs[0] >= xs[1] {
+		r.Message = fmt.Sprintf("the domain ends at %g Å, below %g·re: a declared tail cannot be checked", c.dom.Max, 10*c.s.AsymptoteFactor)
+		return r
+	}
+	vs := make([]float64, 2)
+	if err := c.p.Taylor(0, xs, vs); err != nil {
+		r.Message = fmt.Sprintf("evaluating V at %g and %g Å: %s", xs[0], xs[1], errString(err))
+		return r
+	}
+	a1 := (vs[0] - lim) * math.Pow(xs[0]/ref, p)
+	a2 := (vs[1] - lim) * math.Pow(xs[1]/ref, p)
+	switch {
+	case a1 == a2:
+		r.Error = 0
+	default:
+		r.Error = math.Abs(a1-a2) / math.Abs(a2)
+	}
+	if math.IsNaN(r.Error) {
+		r.Error = math.Inf(1)
+	}
+	r.Passed = r.Error <= r.Tolerance
+	r.Message = fmt.Sprintf("tail amplitude (V − Limit)·(r/re)^%g = %.9g eV at %.4g Å, %.9g eV at %.4g Å: relative change %.3g; Limit %g eV, depth %.6g eV",
+		p, a1, xs[0], a2, xs[1], r.Error, lim, c.depth())
+	if !r.Passed {
+		r.Message = "V does not approach the declared limit as the declared power of r: " + r.Message
 	}
 	return r
 }

@@ -78,6 +78,15 @@ type Domain struct {
 	// +Inf for forms that grow without bound (harmonic).
 	Limit float64
 
+	// TailPower p > 0 declares that V approaches a finite Limit as a power
+	// law, V − Limit ≈ C·r^−p, too slowly for V at one far point to show
+	// the limit — a Coulomb-like 1/r tail (p = 1) as in the Kratzer form.
+	// 0 means not declared: the approach is fast (exponential, or r^−6 and
+	// faster). It documents the form and tells the conformance suite to
+	// check the tail's power instead of the value at one far point; no
+	// analysis depends on it. Plugins (protocol 2) cannot declare it.
+	TailPower float64
+
 	// EquilibriumGuess is an estimate in Å of the position of the minimum,
 	// typically the closed form of the model; the well analysis starts its
 	// bracket there and still verifies it. 0 means no estimate.

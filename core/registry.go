@@ -19,6 +19,9 @@ var ErrUnknownModel = errors.New("unknown model")
 type Registry struct {
 	models []Model
 	byName map[string]Model
+	// soft holds the lower-case keys of the models added with
+	// AddReplaceable (models need not be comparable, keys are unique).
+	soft map[string]bool
 }
 
 // NewRegistry returns a registry holding the given models.
@@ -33,27 +36,80 @@ func NewRegistry(models ...Model) (*Registry, error) {
 }
 
 // Add adds a model. Keys and aliases are case-insensitive and must be
-// unique across the registry.
+// unique across the registry, except that a model added with
+// AddReplaceable gives way: it is removed, with all its names, when m
+// claims one of them (see AddReplacing).
 func (r *Registry) Add(m Model) error {
+	_, err := r.AddReplacing(m)
+	return err
+}
+
+// AddReplaceable adds a model that gives way to a later Add of a model with
+// one of its names (the forms library: a user's forms file or a plugin that
+// serves the same key takes precedence). Among themselves replaceable
+// models must have distinct names.
+func (r *Registry) AddReplaceable(m Model) error {
+	if _, err := r.add(m, false); err != nil {
+		return err
+	}
+	if r.soft == nil {
+		r.soft = make(map[string]bool)
+	}
+	r.soft[strings.ToLower(m.Info().Key)] = true
+	return nil
+}
+
+// AddReplacing adds m like Add and returns the replaceable models it
+// replaced, in the order they were added, so that the caller can say so.
+func (r *Registry) AddReplacing(m Model) (replaced []Model, err error) {
+	return r.add(m, true)
+}
+
+func (r *Registry) add(m Model, replace bool) ([]Model, error) {
 	info := m.Info()
 	names := append([]string{info.Key}, info.Aliases...)
 	if r.byName == nil {
 		r.byName = make(map[string]Model)
 	}
+	gone := map[string]bool{} // lower-case keys of the models m replaces
 	for _, n := range names {
 		k := strings.ToLower(n)
 		if k == "" {
-			return fmt.Errorf("model %q: empty key or alias", info.Key)
+			return nil, fmt.Errorf("model %q: empty key or alias", info.Key)
 		}
-		if prev, ok := r.byName[k]; ok {
-			return fmt.Errorf("model %q (%s): name %q already used by %q (%s)", info.Key, info.Origin, n, prev.Info().Key, prev.Info().Origin)
+		prev, ok := r.byName[k]
+		if !ok {
+			continue
 		}
+		if pk := strings.ToLower(prev.Info().Key); replace && r.soft[pk] {
+			gone[pk] = true
+			continue
+		}
+		return nil, fmt.Errorf("model %q (%s): name %q already used by %q (%s)", info.Key, info.Origin, n, prev.Info().Key, prev.Info().Origin)
+	}
+	var replaced []Model
+	if len(gone) > 0 {
+		kept := r.models[:0:0]
+		for _, old := range r.models {
+			info := old.Info()
+			k := strings.ToLower(info.Key)
+			if !gone[k] {
+				kept = append(kept, old)
+				continue
+			}
+			replaced = append(replaced, old)
+			delete(r.soft, k)
+			for _, n := range append([]string{info.Key}, info.Aliases...) {
+				delete(r.byName, strings.ToLower(n))
+			}
+		}
+		r.models = kept
 	}
 	for _, n := range names {
 		r.byName[strings.ToLower(n)] = m
 	}
 	r.models = append(r.models, m)
-	return nil
+	return replaced, nil
 }
 
 // Lookup returns the model with the given key or alias. Its error wraps

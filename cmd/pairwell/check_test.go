@@ -65,11 +65,15 @@ func (p thirdTimes) Taylor(n int, r, dst []float64) error {
 func TestCheckBuiltins(t *testing.T) {
 	code, out, errOut := runCLI(t, "check")
 	require.Equal(t, 0, code, errOut)
-	for _, key := range []string{"morse:", "lennard-jones:", "buckingham:", "harmonic:"} {
+	for _, key := range []string{"morse:", "lennard-jones:", "buckingham:", "harmonic:", "mie:", "kratzer:", "tang-toennies:"} {
 		assert.Contains(t, out, key)
 	}
 	assert.Contains(t, out, "V‴ vs dV″/dr")
-	assert.Contains(t, out, "83 checks on 4 forms: 83 passed, 0 failed, 0 skipped")
+	// The four built-ins (83 checks, all pass) and the nine library forms at
+	// their representative sets; skipped: the minimum of born-mayer (none)
+	// and the identities of the library forms that declare none.
+	assert.Contains(t, out, "245 checks on 13 forms: 235 passed, 0 failed, 10 skipped")
+	assert.Contains(t, out, "V → Domain.Limit as r^-1 (declared tail)")
 	assert.NotContains(t, out, "FAIL")
 }
 
@@ -150,7 +154,7 @@ func TestCheckFailureExitsOne(t *testing.T) {
 	code, out, errOut = runWithModel(t, wrongThird{}, "check")
 	require.Equal(t, 0, code, errOut)
 	assert.Contains(t, out, "wrong-third (test) has no representative parameter set")
-	assert.Contains(t, out, "1 skipped")
+	assert.Contains(t, out, "11 skipped") // and the 10 of the library forms
 }
 
 func TestCheckBadInput(t *testing.T) {

@@ -150,7 +150,8 @@ func (e *env) compareInputs(specs []string, setPath, match string, m report.Mass
 			return nil, usageErr(fmt.Errorf("--match: %w", err))
 		}
 		for _, m := range e.registry.Models() {
-			if _, ok := m.(core.Matcher); !ok {
+			// The library's forms never match; only a user's form is worth a note.
+			if _, ok := m.(core.Matcher); !ok && modelKind(m) != "library" {
 				fmt.Fprintf(e.stderr, "pairwell: note: --match: %s (%s) declares nothing to match a target with, so it is left out\n", m.Info().Key, modelKind(m))
 			}
 		}

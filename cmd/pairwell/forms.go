@@ -11,6 +11,7 @@ import (
 
 	"github.com/spf13/cobra"
 
+	"github.com/pairwell/pairwell/core"
 	"github.com/pairwell/pairwell/core/formsfile"
 	"github.com/pairwell/pairwell/core/formula"
 )
@@ -101,11 +102,61 @@ func (e *env) addForms(decls []formula.Decl) error {
 		fmt.Fprintf(e.stderr, "pairwell: warning: %s\n", oneLine(w))
 	}
 	for _, f := range forms {
-		if err := e.registry.Add(f); err != nil {
-			return usageErr(fmt.Errorf("%s: %w", f.Info().Origin, err))
+		if err := e.addModel(f, f.Info().Origin); err != nil {
+			return usageErr(err)
 		}
 	}
 	return nil
+}
+
+// addModel registers a user's form (forms file, model set or plugin; where
+// names it in messages). A form with the key of a library form replaces
+// it; when the two differ in their parameters (names, dimensions or
+// default units, in order) — so that a spec written for the library form
+// would mean something else or fail — a warning on standard error says so.
+// Any other clash of keys is an error.
+func (e *env) addModel(m core.Model, where string) error {
+	replaced, err := e.registry.AddReplacing(m)
+	if err != nil {
+		return fmt.Errorf("%s: %w", where, err)
+	}
+	for _, old := range replaced {
+		if sameParams(old.Info().Params, m.Info().Params) {
+			continue
+		}
+		fmt.Fprintf(e.stderr, "pairwell: warning: %s: form %q replaces the library form %q (%s), whose parameters differ: %s\n",
+			where, m.Info().Key, old.Info().Key, old.Info().Origin, paramList(old.Info().Params))
+	}
+	return nil
+}
+
+// sameParams reports whether two forms take the same parameters: names,
+// dimensions and default units, in order.
+func sameParams(a, b []core.Param) bool {
+	if len(a) != len(b) {
+		return false
+	}
+	unit := func(p core.Param) string {
+		if p.Unit == "" {
+			return p.Dimension.DefaultUnit()
+		}
+		return p.Unit
+	}
+	for i := range a {
+		if a[i].Name != b[i].Name || a[i].Dimension != b[i].Dimension || unit(a[i]) != unit(b[i]) {
+			return false
+		}
+	}
+	return true
+}
+
+// paramList is "NAME [UNIT], ..." of a form's parameters.
+func paramList(ps []core.Param) string {
+	s := make([]string, len(ps))
+	for i, p := range ps {
+		s[i] = p.String()
+	}
+	return strings.Join(s, ", ")
 }
 
 // caretOf returns the picture of the place a formula error points at, or ""

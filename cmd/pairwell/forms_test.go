@@ -324,3 +324,77 @@ unit = "A"
 	require.NoError(t, json.Unmarshal([]byte(out), &obj))
 	assert.InDelta(t, 2, obj["equilibrium_r_angstrom"].(float64), 1e-14)
 }
+
+// TestLibraryForms: the forms library is in every command without --forms;
+// `check` passes on each form at its representative set.
+func TestLibraryForms(t *testing.T) {
+	for _, args := range [][]string{
+		{"inspect", "mie:epsilon=0.0104,sigma=3.4,n=12,m=6", "--pair", "Ar-Ar"},
+		{"inspect", "kratzer:De=4.6,re=1.27", "--pair", "H-Cl"},
+		{"compare", "rydberg:De=4.6,a=2.6,re=1.27", "morse:De=4.6,a=1.87,re=1.27", "--pair", "H-Cl"},
+		{"levels", "varshni:De=4.6,re=1.27,beta=0.5", "--pair", "H-Cl", "--j-max", "0"},
+		{"check", "tang-toennies:A=20362,b=3.838,C6=38.43,C8=271.6,C10=2299", "exp6:epsilon=120K,rm=3.8,alpha=13"},
+	} {
+		code, _, errOut := runCLI(t, args...)
+		assert.Equal(t, 0, code, "%v: %s", args, errOut)
+		assert.Empty(t, errOut, "%v", args)
+	}
+	// Mie 12-6 is Lennard-Jones (G. Mie 1903): the same well to 1e-12.
+	mie := inspectJSON(t, "mie:epsilon=0.0104,sigma=3.4,n=12,m=6")
+	lj := inspectJSON(t, "lj:epsilon=0.0104,sigma=3.4")
+	for _, k := range []string{"equilibrium_r_angstrom", "well_depth_ev", "force_constant_ev_per_angstrom2"} {
+		assert.InEpsilon(t, lj[k].(float64), mie[k].(float64), 1e-12, k)
+	}
+}
+
+func inspectJSON(t *testing.T, spec string) map[string]any {
+	t.Helper()
+	code, out, errOut := runCLI(t, "inspect", spec, "--format", "json")
+	require.Equal(t, 0, code, errOut)
+	var m map[string]any
+	require.NoError(t, json.Unmarshal([]byte(out), &m))
+	return m
+}
+
+// TestLibraryPrecedence: a user's form with a library key replaces the
+// library form — silently when the parameters are the same, with one
+// warning line when they differ; a user's form never replaces a built-in
+// one, and two user forms with one key still clash.
+func TestLibraryPrecedence(t *testing.T) {
+	const other = "[[form]]\nkey = \"varshni\"\nformula = \"De*(1 - (re/r)*exp(-b*(r - re)))^2 - De\"\nlimit = 0\n" +
+		"[[form.param]]\nname = \"De\"\nunit = \"kcal/mol\"\nconstraint = \"> 0\"\n" +
+		"[[form.param]]\nname = \"re\"\nunit = \"A\"\nconstraint = \"> 0\"\n" +
+		"[[form.param]]\nname = \"b\"\nunit = \"1/A\"\nconstraint = \"> 0\"\n"
+	same := writeForms(t, formulaForms) // its varshni has the library's parameters
+	diff := writeForms(t, other)
+
+	code, out, errOut := runCLI(t, "--forms", same, "models", "--format", "json")
+	require.Equal(t, 0, code, errOut)
+	assert.Empty(t, errOut)
+	assert.Contains(t, out, same+":59")
+
+	code, out, errOut = runCLI(t, "--forms", diff, "inspect", "varshni:De=106,re=1.27,b=2", "--format", "json")
+	require.Equal(t, 0, code, errOut)
+	assert.Equal(t, 1, strings.Count(errOut, "\n"), errOut)
+	assert.Contains(t, errOut, `warning: `+diff+`:1: form "varshni" replaces the library form "varshni" (library/forms.toml:`)
+	assert.Contains(t, errOut, "whose parameters differ: De [eV, > 0], re [Å, > 0], beta [1/Å², > 0]")
+	var m map[string]any
+	require.NoError(t, json.Unmarshal([]byte(out), &m))
+	assert.InEpsilon(t, 106*0.0433641043, m["well_depth_ev"].(float64), 1e-6) // 1 kcal/mol = 0.0433641043 eV (CODATA 2018)
+
+	// The same key in a model set's [[form]] table replaces it too.
+	dir := t.TempDir()
+	set := writeSet(t, dir, other+"[[entry]]\nname = \"v\"\nspec = \"varshni:De=106,re=1.27,b=2\"\nmu = 1\n")
+	code, _, errOut = runCLI(t, "compare", "--set", set)
+	require.Equal(t, 0, code, errOut)
+	assert.Contains(t, errOut, "replaces the library form")
+
+	// Two user files with one key, and a user's built-in key: errors.
+	code, _, errOut = runCLI(t, "--forms", same, "--forms", diff, "models")
+	assert.Equal(t, 2, code)
+	assert.Contains(t, errOut, `already used by "varshni"`)
+	clash := writeForms(t, strings.Replace(other, `key = "varshni"`, `key = "morse"`, 1))
+	code, _, errOut = runCLI(t, "--forms", clash, "models")
+	assert.Equal(t, 2, code)
+	assert.Contains(t, errOut, `already used by "morse" (built-in)`)
+}

@@ -112,7 +112,19 @@ func TestModelsListsBuiltins(t *testing.T) {
 	for _, m := range list {
 		keys = append(keys, m["key"].(string))
 	}
-	assert.Equal(t, []string{"morse", "lennard-jones", "buckingham", "harmonic"}, keys)
+	// The built-in Go forms, then the forms library (models/library), in
+	// the order of its file.
+	assert.Equal(t, []string{"morse", "lennard-jones", "buckingham", "harmonic",
+		"mie", "exp6", "born-mayer", "rydberg", "varshni", "kratzer", "poschl-teller",
+		"hulburt-hirschfelder", "tang-toennies"}, keys)
+	for _, m := range list[4:] {
+		assert.Equal(t, "library", m["kind"], m["key"])
+		assert.Contains(t, m["origin"], "library/forms.toml:", m["key"])
+		assert.NotEmpty(t, m["reference"], m["key"])
+		for _, p := range m["params"].([]any) {
+			assert.NotEmpty(t, p.(map[string]any)["meaning"], m["key"])
+		}
+	}
 	code, out, _ = runCLI(t, "models")
 	require.Equal(t, 0, code)
 	assert.Contains(t, out, "½k(r−r0)²") // the ½ convention is stated

@@ -178,9 +178,13 @@ func TestPlotLevels(t *testing.T) {
 	}
 }
 
-// TestLevelsFormulaForm runs levels on a form typed as a formula.
+// TestLevelsFormulaForm runs levels on forms typed as formulas: one of the
+// README's example forms file and one of the forms library.
 func TestLevelsFormulaForm(t *testing.T) {
-	code, out, errOut := runCLI(t, "--forms", "../../examples/forms.toml", "levels", "varshni:De=4.6,re=1.27,beta=0.5", "--pair", "H-Cl", "--format", "json")
+	code, out, errOut := runCLI(t, "--forms", "../../examples/forms.toml", "levels", "morse-k:De=4.6,k=32.17,re=1.27", "--pair", "H-Cl", "--format", "json")
+	require.Equal(t, 0, code, errOut)
+	checkLevelsJSON(t, out, true)
+	code, out, errOut = runCLI(t, "levels", "varshni:De=4.6,re=1.27,beta=0.5", "--pair", "H-Cl", "--format", "json")
 	require.Equal(t, 0, code, errOut)
 	checkLevelsJSON(t, out, true)
 }

@@ -8,6 +8,7 @@ import (
 
 	"github.com/pairwell/pairwell/core"
 	"github.com/pairwell/pairwell/core/formula"
+	"github.com/pairwell/pairwell/models/library"
 )
 
 // modelParam is the JSON form of a parameter description.
@@ -35,10 +36,14 @@ type modelEntry struct {
 	Version   string       `json:"version,omitempty"`
 }
 
-// modelKind says where a form comes from: "built-in", "plugin" or
-// "formula" (a forms file).
+// modelKind says where a form comes from: "built-in", "library" (the
+// forms library built into the binary), "plugin" or "formula" (a forms
+// file).
 func modelKind(m core.Model) string {
-	if _, ok := m.(*formula.Form); ok {
+	switch m.(type) {
+	case *library.Form:
+		return "library"
+	case *formula.Form:
 		return "formula"
 	}
 	if m.Info().Origin == "built-in" {
@@ -71,12 +76,18 @@ func newModelsCmd(e *env) *cobra.Command {
 	return &cobra.Command{
 		Use:   "models",
 		Short: "List the functional forms with their formulas and parameters",
-		Long: `models lists every form pairwell knows — the built-in ones and those served by
-plugins — with its formula, parameters (default unit and constraint), domain and
-literature reference. The KEY (or an alias) starts a spec: KEY:NAME=VALUE,...`,
+		Long: `models lists every form pairwell knows — the built-in ones, the forms
+library's, those of forms files and those served by plugins — with its formula, parameters (default unit and constraint), domain and
+literature reference. The KEY (or an alias) starts a spec: KEY:NAME=VALUE,...
+
+Where they come from, in order of precedence: the built-in forms, then your
+forms (--forms, PAIRWELL_FORMS_PATH, [[form]] tables of a model set, plugins),
+then the forms library built into pairwell (published forms typed as formulas).
+A form of yours with the key of a library form replaces it, with a warning;
+any other clash of keys is an error.`,
 		Example: `  pairwell models
   pairwell models --format json
-  pairwell --plugin ./pairwell-plugin-rydberg models     # with a plugin's forms`,
+  pairwell --plugin ./pairwell-plugin-rydberg models     # with a plugin's forms (its rydberg replaces the library's)`,
 		Args: exactArgs(0, "no arguments"),
 		RunE: func(cmd *cobra.Command, args []string) error {
 			var entries []modelEntry
@@ -94,6 +105,8 @@ literature reference. The KEY (or an alias) starts a spec: KEY:NAME=VALUE,...`,
 				}
 				origin := info.Origin
 				switch modelKind(m) {
+				case "library":
+					origin = "forms library " + origin
 				case "formula":
 					origin = "forms file " + origin
 				case "plugin":

@@ -155,8 +155,8 @@ func (f *pluginFlags) load(e *env) error {
 			continue
 		}
 		for _, m := range p.Models() {
-			if err := e.registry.Add(m); err != nil {
-				return usageErr(fmt.Errorf("plugin %s: %w", p.Path(), err))
+			if err := e.addModel(m, "plugin "+p.Path()); err != nil {
+				return usageErr(err)
 			}
 		}
 	}

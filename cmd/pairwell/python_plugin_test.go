@@ -4,6 +4,7 @@ import (
 	"encoding/json"
 	"math"
 	"os"
+	"os/exec"
 	"path/filepath"
 	"runtime"
 	"strings"
@@ -102,6 +103,25 @@ func TestPythonPluginCommands(t *testing.T) {
 		require.Equal(t, 0, code, errOut)
 		assert.Contains(t, out, "A(re/r)^m − B·exp(−n(r − re))")
 		assert.Contains(t, out, "plugin "+filepath.Join(dir, "pairwell-plugin-linnett")+" (version 1.0.0)")
+	})
+
+	t.Run("pinned", func(t *testing.T) {
+		// A pin runs a sealed copy of the launcher, away from its Python
+		// files: it fails to start. (Whether its last words are quoted
+		// depends on how soon the host reads them; the copy below shows
+		// them.)
+		code, _, errOut := runPython(t, nil, "--plugin", launcher+"@sha256:"+sha256Hex(t, launcher), "models")
+		assert.Equal(t, 1, code, errOut)
+		assert.Contains(t, errOut, "plugin handshake failed")
+
+		alone := filepath.Join(t.TempDir(), "pairwell-plugin-linnett")
+		b, err := os.ReadFile(launcher)
+		require.NoError(t, err)
+		require.NoError(t, os.WriteFile(alone, b, 0o755))
+		out, err := exec.Command(alone).CombinedOutput()
+		require.Error(t, err)
+		assert.Contains(t, string(out), "linnett.py is not beside this launcher")
+		assert.Contains(t, string(out), "do not pin it with @sha256:")
 	})
 
 	t.Run("bad parameters", func(t *testing.T) {

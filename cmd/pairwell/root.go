@@ -12,6 +12,7 @@ import (
 	"github.com/pairwell/pairwell/core/fileio"
 	"github.com/pairwell/pairwell/core/suggest"
 	"github.com/pairwell/pairwell/models"
+	"github.com/pairwell/pairwell/models/library"
 )
 
 // env is the state one invocation of pairwell shares between its commands.
@@ -72,6 +73,9 @@ field: do not base production or safety decisions on its numbers alone.`,
 				return usageErr(err)
 			}
 			e.format = f
+			if err := library.Register(e.registry); err != nil {
+				return failErr(err) // the embedded library is tested: a broken binary
+			}
 			if err := loadPlugins(); err != nil {
 				return err
 			}

@@ -12,6 +12,7 @@
 //	notes = "energy zero at dissociation"                          # optional
 //	r_min = "0"        # optional: lower end of the domain (formula of the parameters, Å)
 //	limit = "0"        # optional: V(∞) (formula of the parameters, eV), or "none"
+//	tail = 1           # optional: the power p of a slow tail V − V(∞) ∝ r^−p (Coulomb-like: 1)
 //	[[form.param]]
 //	name = "De"
 //	unit = "eV"          # default unit and so dimension: eV*A^8, 1/A^2, kcal/mol*A^6, 1, …
@@ -48,6 +49,7 @@ type Form struct {
 	Notes     string  `toml:"notes"`
 	RMin      any     `toml:"r_min"`
 	Limit     any     `toml:"limit"`
+	Tail      float64 `toml:"tail"`
 	Param     []Param `toml:"param"`
 }
 
@@ -60,7 +62,7 @@ type Param struct {
 }
 
 // Keys lists the keys of a [[form]] table, for messages.
-const Keys = "form.key, form.name, form.formula, form.reference, form.notes, form.r_min, form.limit, form.param.name, form.param.unit, form.param.constraint, form.param.meaning"
+const Keys = "form.key, form.name, form.formula, form.reference, form.notes, form.r_min, form.limit, form.tail, form.param.name, form.param.unit, form.param.constraint, form.param.meaning"
 
 type file struct {
 	Form []Form `toml:"form"`
@@ -133,7 +135,7 @@ func Decls(forms []Form, data []byte, source string) ([]formula.Decl, error) {
 			return nil, fmt.Errorf("%w %s: limit: %v", ErrFormat, where, err)
 		}
 		d := formula.Decl{Key: f.Key, Name: f.Name, Formula: f.Formula, Reference: f.Reference,
-			Notes: f.Notes, RMin: rmin, Limit: limit, Origin: origin}
+			Notes: f.Notes, RMin: rmin, Limit: limit, Tail: f.Tail, Origin: origin}
 		for j, p := range f.Param {
 			if p.Name == "" {
 				return nil, fmt.Errorf("%w %s: parameter %d has no name", ErrFormat, where, j+1)

@@ -79,3 +79,20 @@ func FuzzParse(f *testing.F) {
 		_, _, _ = Build(decls)
 	})
 }
+
+// TestTail: the optional tail key (a number, the power of a slow tail)
+// reaches the declaration; a string is refused.
+func TestTail(t *testing.T) {
+	const doc = "[[form]]\nkey = \"k\"\nformula = \"De*((re/r)^2 - 2*re/r)\"\nlimit = 0\ntail = %s\n" +
+		"[[form.param]]\nname = \"De\"\nunit = \"eV\"\n[[form.param]]\nname = \"re\"\nunit = \"A\"\n"
+	for _, tt := range []struct {
+		tail string
+		want float64
+	}{{"1", 1}, {"1.5", 1.5}} {
+		decls, err := Parse([]byte(strings.Replace(doc, "%s", tt.tail, 1)), "t.toml")
+		require.NoError(t, err)
+		assert.Equal(t, tt.want, decls[0].Tail)
+	}
+	_, err := Parse([]byte(strings.Replace(doc, "%s", `"1/r"`, 1)), "t.toml")
+	assert.ErrorIs(t, err, ErrFormat)
+}

@@ -29,6 +29,10 @@ type Decl struct {
 	// energy (a bare number is in eV), or "none" for a form that grows
 	// without bound. Empty means: found numerically for each parameter set.
 	Limit string
+	// Tail is the power p of a slow approach to the limit, V − V(∞) ≈ C·r^−p
+	// (1 for a Coulomb-like tail), core.Domain.TailPower; 0 means not
+	// declared (a fast approach). It needs a finite limit.
+	Tail float64
 	// Origin says where the declaration comes from, e.g. "forms.toml:12".
 	Origin string
 }
@@ -53,6 +57,7 @@ type Form struct {
 	rmin     *Expr // nil: 0
 	limit    *Expr // nil: numerical, unless unbounded
 	noLimit  bool  // Limit = "none"
+	tail     float64
 	warnings []string
 }
 
@@ -131,6 +136,16 @@ func NewForm(d Decl) (*Form, error) {
 		form.limit = e
 		limitNote = "dissociation limit V(∞) = " + s
 	}
+	if d.Tail != 0 {
+		if !(d.Tail > 0 && d.Tail <= 6) {
+			return fail("tail %g: the power of a slow tail must be > 0 and at most 6 (faster tails need no declaration)", d.Tail)
+		}
+		if form.noLimit {
+			return fail("tail %g: a form that grows without bound (limit = \"none\") has no tail", d.Tail)
+		}
+		form.tail = d.Tail
+		limitNote += fmt.Sprintf(", approached as r^-%g", d.Tail)
+	}
 	name := d.Name
 	if name == "" {
 		name = d.Key
@@ -202,6 +217,7 @@ func (f *Form) base(params []float64) (*potential, error) {
 		}
 		dom.Min = v
 	}
+	dom.TailPower = f.tail
 	return newPotential(f, scal, dom), nil
 }
 

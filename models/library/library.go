@@ -1,6 +1,6 @@
 // Package library holds pairwell's forms library: published pair-potential
 // forms typed as formulas (Mie n–m, exp-6 in (ε, r_m, α), Born–Mayer,
-// Rydberg, Varshni, Pöschl–Teller, Hulburt–Hirschfelder,
+// Rydberg, Varshni, Kratzer, Pöschl–Teller, Hulburt–Hirschfelder,
 // Tang–Toennies) in the forms file forms.toml, embedded in the binary and
 // compiled by package core/formula like any forms file.
 //
@@ -14,6 +14,7 @@ import (
 	_ "embed"
 	"fmt"
 
+	"github.com/pairwell/pairwell/core"
 	"github.com/pairwell/pairwell/core/formsfile"
 	"github.com/pairwell/pairwell/core/formula"
 )
@@ -70,4 +71,22 @@ func Forms() ([]*Form, error) {
 		out[i] = &Form{Form: f, example: ex}
 	}
 	return out, nil
+}
+
+// Register adds the library's forms to reg as replaceable models
+// (core.Registry.AddReplaceable): the precedence is built-in Go forms, then
+// a user's forms (forms files, model sets, plugins), then the library. A
+// library key that clashes with a built-in form is an error; a user's form
+// with a library key replaces the library form of that key.
+func Register(reg *core.Registry) error {
+	fs, err := Forms()
+	if err != nil {
+		return err
+	}
+	for _, f := range fs {
+		if err := reg.AddReplaceable(f); err != nil {
+			return fmt.Errorf("forms library: %w", err)
+		}
+	}
+	return nil
 }

@@ -49,7 +49,7 @@ func TestKeys(t *testing.T) {
 			assert.NotEmpty(t, p.Meaning, info.Key+"."+p.Name)
 		}
 	}
-	assert.Equal(t, []string{"mie", "exp6", "born-mayer", "rydberg", "varshni",
+	assert.Equal(t, []string{"mie", "exp6", "born-mayer", "rydberg", "varshni", "kratzer",
 		"poschl-teller", "hulburt-hirschfelder", "tang-toennies"}, keys)
 	// No clash with the built-in forms.
 	reg := models.NewRegistry()
@@ -93,6 +93,8 @@ func TestMinima(t *testing.T) {
 			"R. Rydberg 1931: V(re) = −De, V″(re) = De·a²"},
 		{"varshni", "varshni", []float64{De, re, 0.5}, re, -De, 2 * De * math.Pow(1/re+2*0.5*re, 2),
 			"Y. P. Varshni 1957: V(re) = −De; V″(re) = 2De(1/re + 2βre)² (differentiate the form)"},
+		{"kratzer", "kratzer", []float64{De, re}, re, -De, 2 * De / (re * re),
+			"A. Kratzer 1920: V = De((r − re)/r)² − De has its minimum −De at re and V″(re) = 2De/re² (k = 2De/re²)"},
 		{"poschl-teller", "poschl-teller", []float64{De, 1.9, re}, re, -De, 2 * De * 1.9 * 1.9,
 			"Pöschl & Teller 1933: −De sech²(a(r−re)), sech²x = 1 − x² + …, so V″(re) = 2De·a²"},
 		{"hulburt-hirschfelder", "hulburt-hirschfelder", []float64{De, 1.87, re, 0.1, 0.05}, re, -De, 2 * De * 1.87 * 1.87,
@@ -175,4 +177,36 @@ func TestTangToennies(t *testing.T) {
 	require.NoError(t, err)
 	assert.InEpsilon(t, 3.76, w.Re, 0.02)
 	assert.InEpsilon(t, 0.0123, w.Depth, 0.03)
+}
+
+// TestKratzerTail: the Kratzer form approaches 0 as −2De·re/r (A. Kratzer
+// 1920: V = De(re²/r² − 2re/r)), declared as a tail of power 1; V‴(re) =
+// −12De/re³ (differentiate the form three times). Tolerances 1e-12
+// relative.
+func TestKratzerTail(t *testing.T) {
+	const De, re = 4.6, 1.27
+	p := build(t, "kratzer", De, re)
+	assert.Equal(t, 1.0, p.Domain().TailPower)
+	assert.Equal(t, 0.0, p.Domain().Limit)
+	for _, r := range []float64{1e4, 1e6, 1e8} {
+		v, err := core.Value(p, r)
+		require.NoError(t, err)
+		assert.InEpsilon(t, De*(re*re/(r*r)-2*re/r), v, 1e-13, "V at %g Å", r)
+		// The next term, De·re²/r², is re/(2r) of the leading one.
+		assert.InEpsilon(t, -2*De*re/r, v, re/r, "tail at %g Å", r)
+	}
+	v3, err := core.Derivative(p, 3, re)
+	require.NoError(t, err)
+	assert.InEpsilon(t, -12*De/(re*re*re), v3, 1e-12)
+	// The declared tail is checked on its amplitude (conformance); without
+	// the declaration the check fails (conformance/tail_test.go).
+	rep, err := conformance.Run(forms(t)["kratzer"], [][]float64{{De, re}}, conformance.Settings{})
+	require.NoError(t, err)
+	for _, res := range rep.Results {
+		if res.Check == conformance.CheckAsymptote {
+			assert.True(t, res.Passed, res.Message)
+			assert.Less(t, res.Error, 1e-6)
+			assert.Greater(t, res.Error, 1e-7, "the amplitude drifts by re/(2R₁)·0.9 = 4.5e-7")
+		}
+	}
 }
