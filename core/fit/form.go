@@ -4,6 +4,8 @@ import (
 	"errors"
 	"fmt"
 	"math"
+	"slices"
+	"sync"
 	"sync/atomic"
 
 	"gonum.org/v1/gonum/mat"
@@ -170,7 +172,21 @@ func FitForm(m core.Model, d Data, s Settings) (Result, error) {
 	var bestErr error
 	found := false
 	mainRSS := math.Inf(1)
-	for i, st := range starts {
+	seen := map[string]bool{}
+	for i := range starts {
+		st := &starts[i]
+		if st.params == nil && st.err == nil {
+			// Matched only when reached: a numerical match (formula
+			// forms) costs more than a fit step.
+			st.params, _, st.err = core.Match(pr.m, st.target)
+			if st.err == nil {
+				key := fmt.Sprint(st.params)
+				if seen[key] {
+					continue // the form ignores what was varied
+				}
+				seen[key] = true
+			}
+		}
 		if st.err != nil {
 			if bestErr == nil {
 				bestErr = st.err
@@ -221,27 +237,31 @@ func better(a, b Result) bool {
 
 // formProblem is the least-squares problem of one form and data set.
 type formProblem struct {
-	m          core.Model
-	info       core.ModelInfo
-	d          Data
-	rows       []int     // indices of the points with non-zero weight
-	r          []float64 // their separations
-	e          []float64 // their energies
-	f          []float64 // their forces, nil when none
-	sw         []float64 // √wᵢ
-	swf        []float64 // √(w_F wᵢ)
-	np         int       // model parameters
-	fitZero    bool
-	zero       float64 // the zero when not fitted; the estimate when fitted
-	log        []bool  // parameter j fitted as its logarithm
-	g          []float64
-	analytic   bool
-	evals      atomic.Int64
-	notes      []string
-	dataDepth  float64 // zero estimate − E_min, for the windows
-	unbounded  bool    // the form has no dissociation limit
-	central    bool    // Settings.Central
-	sets       bool    // the model is a core.SetEvaluator
+	m         core.Model
+	info      core.ModelInfo
+	d         Data
+	rows      []int     // indices of the points with non-zero weight
+	r         []float64 // their separations
+	e         []float64 // their energies
+	f         []float64 // their forces, nil when none
+	sw        []float64 // √wᵢ
+	swf       []float64 // √(w_F wᵢ)
+	np        int       // model parameters
+	fitZero   bool
+	zero      float64 // the zero when not fitted; the estimate when fitted
+	log       []bool  // parameter j fitted as its logarithm
+	g         []float64
+	analytic  bool
+	evals     atomic.Int64
+	notes     []string
+	dataDepth float64 // zero estimate − E_min, for the windows
+	unbounded bool    // the form has no dissociation limit
+	central   bool    // Settings.Central
+	sets      bool    // the model is a core.SetEvaluator
+
+	lastMu     sync.Mutex // guards the potential the last residuals built
+	lastParams []float64
+	lastPot    core.Potential
 	floor      []float64
 	zeroSource string
 }
@@ -408,6 +428,9 @@ func (p *formProblem) residuals(theta, dst []float64) error {
 	if err != nil {
 		return err
 	}
+	p.lastMu.Lock()
+	p.lastParams, p.lastPot = params, pot
+	p.lastMu.Unlock()
 	vals := make([]float64, len(p.r))
 	if err := energies(pot, p.r, vals); err != nil {
 		return err
@@ -493,7 +516,7 @@ func (p *formProblem) batch(thetas, dsts [][]float64, errs []error) error {
 // the potential implements core.ParamGradient and the data have no forces.
 func (p *formProblem) jacobian(theta, dst []float64) error {
 	params, _ := p.params(theta)
-	pot, err := build(p.m, params)
+	pot, err := p.potential(params)
 	if err != nil {
 		return err
 	}
@@ -520,9 +543,24 @@ func (p *formProblem) jacobian(theta, dst []float64) error {
 	return nil
 }
 
-// start is one starting point, or why it could not be made.
+// potential returns the potential of params: the one the last residuals
+// built when they were for the same parameters (the engine asks for the
+// Jacobian at the point it has just accepted), else a new one.
+func (p *formProblem) potential(params []float64) (core.Potential, error) {
+	p.lastMu.Lock()
+	pot, same := p.lastPot, slices.Equal(p.lastParams, params)
+	p.lastMu.Unlock()
+	if same {
+		return pot, nil
+	}
+	return build(p.m, params)
+}
+
+// start is one starting point (given, or the match to target, made when
+// the start is reached), or why it could not be made.
 type start struct {
 	params []float64
+	target core.Target
 	what   string
 	err    error
 }
@@ -570,22 +608,9 @@ func (p *formProblem) starts(s Settings) ([]start, error) {
 		n = 0
 	}
 	n = min(n, len(restartTargets))
-	var out []start
-	seen := map[string]bool{}
-	add := func(tt core.Target, what string) {
-		params, _, err := core.Match(p.m, tt)
-		if err == nil {
-			key := fmt.Sprint(params)
-			if seen[key] {
-				return // the form ignores what was varied
-			}
-			seen[key] = true
-		}
-		out = append(out, start{params: params, what: what, err: err})
-	}
-	add(t, "main start")
+	out := []start{{target: t, what: "main start"}}
 	for _, v := range restartTargets[:n] {
-		add(core.Target{Re: t.Re * v.re, Depth: t.Depth * v.depth, K: t.K * v.k}, v.what)
+		out = append(out, start{target: core.Target{Re: t.Re * v.re, Depth: t.Depth * v.depth, K: t.K * v.k}, what: v.what})
 	}
 	return out, nil
 }

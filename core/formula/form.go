@@ -5,6 +5,7 @@ import (
 	"fmt"
 	"math"
 	"strings"
+	"sync"
 
 	"github.com/pairwell/pairwell/core"
 	"github.com/pairwell/pairwell/core/units"
@@ -52,11 +53,14 @@ type ParamDecl struct {
 
 // Form is a core.Model whose potential is a compiled formula.
 type Form struct {
-	info     core.ModelInfo
-	f        *Formula
-	rmin     *Expr // nil: 0
-	limit    *Expr // nil: numerical, unless unbounded
-	noLimit  bool  // Limit = "none"
+	info    core.ModelInfo
+	f       *Formula
+	rmin    *Expr // nil: 0
+	limit   *Expr // nil: numerical, unless unbounded
+	noLimit bool  // Limit = "none"
+
+	gradOnce sync.Once
+	gradient *gradient // nil until grad, and when a derivative cannot be compiled
 	tail     float64
 	warnings []string
 }

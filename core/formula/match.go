@@ -73,6 +73,7 @@ func (f *Form) Match(t core.Target) ([]float64, []string, error) {
 	}
 	var best []float64
 	bestCost := math.Inf(1)
+	w := f.f.prog.NewWorkspace(jet.Layout{Order: 2, Points: 1})
 	var lastErr error
 	for _, st := range matchStarts {
 		theta0 := make([]float64, np)
@@ -96,7 +97,7 @@ func (f *Form) Match(t core.Target) ([]float64, []string, error) {
 			if err := core.CheckParams(f.info, p); err != nil {
 				return fmt.Errorf("%w: %w", fit.ErrInfeasible, err)
 			}
-			c, lim, err := f.wellAt(p, t.Re, depth)
+			c, lim, err := f.wellAt(w, p, t.Re, depth)
 			if err != nil {
 				return fmt.Errorf("%w: %w", fit.ErrInfeasible, err)
 			}
@@ -176,15 +177,20 @@ var matchStarts = []struct {
 
 // wellAt returns c₀, c₁, c₂ of the potential of params at r and, with
 // limit, V(∞) (declared or found numerically), without the barrier search
-// of New.
-func (f *Form) wellAt(params []float64, r float64, limit bool) ([3]float64, float64, error) {
+// of New; w is the workspace of the evaluation at r.
+func (f *Form) wellAt(w *Workspace, params []float64, r float64, limit bool) ([3]float64, float64, error) {
 	var c [3]float64
 	p, err := f.base(params)
 	if err != nil {
 		return c, 0, err
 	}
-	if err := p.coeffs(0, 2, []float64{r}, func(_ int, l jet.Layout, v []float64) { c[0], c[1], c[2] = v[0], v[1], v[2] }); err != nil {
-		return c, 0, err
+	if !p.dom.Contains(r) {
+		return c, 0, core.CheckR(p.dom, r)
+	}
+	v := f.f.prog.Eval(w, jet.Layout{Order: 2, Points: 1}, p.scal, []float64{r})
+	c = [3]float64{v[0], v[1], v[2]}
+	if c[0]-c[0] != 0 || c[1]-c[1] != 0 || c[2]-c[2] != 0 {
+		return c, 0, fmt.Errorf("%w: the formula is not finite at r = %g Å", core.ErrDomain, r)
 	}
 	if !limit {
 		return c, 0, nil
