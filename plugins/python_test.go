@@ -299,7 +299,9 @@ func TestPythonCodeCurrent(t *testing.T) {
 		clearJSONNames(fd.MessageType)
 	}
 	assert.True(t, proto.Equal(goDesc, &py),
-		"plugins/examples/python/pairwell_pb2.py is out of date: run sh plugins/examples/python/generate.sh")
+		"plugins/examples/python/pairwell_pb2*.py are out of date with plugins/proto/pairwell.proto: "+
+			"regenerate them with apt-get install -y protobuf-compiler protobuf-compiler-grpc && "+
+			"sh plugins/examples/python/generate.sh, and commit them")
 }
 
 func clearJSONNames(msgs []*descriptorpb.DescriptorProto) {

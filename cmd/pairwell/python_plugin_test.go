@@ -2,6 +2,7 @@ package main
 
 import (
 	"encoding/json"
+	"fmt"
 	"math"
 	"os"
 	"os/exec"
@@ -94,6 +95,38 @@ func TestPythonPluginCommands(t *testing.T) {
 			"linnett:De=0.0104,re=3.8,m=12,n=1.5") // a second, argon-sized invented set
 		require.Equal(t, 0, code, "%s\n%s", out, errOut)
 		assert.Contains(t, out, "40 checks on 2 forms: 40 passed, 0 failed, 0 skipped")
+	})
+
+	t.Run("fit", func(t *testing.T) {
+		// Recovery: points of the form itself (invented parameters
+		// linnettSpec, closed form in Go) are fitted back from another
+		// start through the plugin (a plugin without EvaluateSets: one
+		// Open per parameter set).
+		const de, re, m, n = 4.6, 1.27, 6.0, 2.5
+		a, b := de*n*re/(m-n*re), de*m/(m-n*re)
+		var csv strings.Builder
+		csv.WriteString("r_angstrom,energy_ev\n")
+		for i := range 40 {
+			r := 0.95 + 0.06*float64(i)
+			fmt.Fprintf(&csv, "%.6f,%.15g\n", r, a*math.Pow(re/r, m)-b*math.Exp(-n*(r-re)))
+		}
+		data := filepath.Join(t.TempDir(), "linnett.csv")
+		require.NoError(t, os.WriteFile(data, []byte(csv.String()), 0o644))
+		code, out, errOut := runPython(t, nil, "--plugin", launcher, "fit", data, "--offset", "0",
+			"--start", "linnett:De=4,re=1.3,m=7,n=2", "--format", "json")
+		require.Equal(t, 0, code, errOut)
+		var fits []struct {
+			Form   string             `json:"form"`
+			Params map[string]float64 `json:"params"`
+			RMSE   float64            `json:"rmse_ev"`
+		}
+		require.NoError(t, json.Unmarshal([]byte(out), &fits), out)
+		require.NotEmpty(t, fits)
+		assert.Equal(t, "linnett", fits[0].Form, "the generating form ranks first")
+		for name, want := range map[string]float64{"De": de, "re": re, "m": m, "n": n} {
+			assert.InDelta(t, want, fits[0].Params[name], 1e-8*want, name)
+		}
+		assert.Less(t, fits[0].RMSE, 1e-10)
 	})
 
 	t.Run("discovered", func(t *testing.T) {
