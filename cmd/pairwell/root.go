@@ -125,6 +125,7 @@ field: do not base production or safety decisions on its numbers alone.`,
 		newVirialCmd(e),
 		newExpansionCmd(e),
 		newMixCmd(e),
+		newCutoffCmd(e),
 		newVersionCmd(e),
 	)
 	root.Version = toolVersion()
