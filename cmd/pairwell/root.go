@@ -121,6 +121,7 @@ field: do not base production or safety decisions on its numbers alone.`,
 		newVirialCmd(e),
 		newExpansionCmd(e),
 		newMixCmd(e),
+		newTableCmd(e),
 		newVersionCmd(e),
 	)
 	root.Version = toolVersion()
