@@ -50,6 +50,7 @@ func (c *subject) evaluate() *evaluation {
 		ev.rs[i] = lo + (hi-lo)*float64(i)/float64(n-1)
 	}
 	d := c.dom
+	offKinks(ev.rs, d.Kinks)
 	for i, r := range ev.rs {
 		h := stepInit * r
 		if d.Min > 0 || r-2*h <= 0 {
@@ -57,6 +58,9 @@ func (c *subject) evaluate() *evaluation {
 		}
 		if !math.IsInf(d.Max, 1) {
 			h = math.Min(h, 0.5*(d.Max-r))
+		}
+		for _, k := range d.Kinks {
+			h = math.Min(h, 0.5*math.Abs(r-k))
 		}
 		for l := 0; l < levels; l++ {
 			// The exact difference of representable abscissae, so that
@@ -81,6 +85,30 @@ func (c *subject) evaluate() *evaluation {
 	}
 	c.evalOrders(ev, xs, n, m)
 	return ev
+}
+
+// kinkGap is the smallest distance, relative to r, of a sample point from a
+// kink (Domain.Kinks): a point closer is moved to that distance on its side
+// (a point on the kink to the outer side), so that its stencil, kept
+// within half the distance to the kink, still has steps large enough for
+// the extrapolation.
+const kinkGap = 0.005
+
+// offKinks moves the sample points rs away from the kinks, see kinkGap.
+// Points on both sides of a kink stay checked, each with stencils on its
+// own side.
+func offKinks(rs, kinks []float64) {
+	for i, r := range rs {
+		for _, k := range kinks {
+			gap := kinkGap * k
+			switch {
+			case r >= k && r < k+gap:
+				rs[i] = k + gap
+			case r < k && r > k-gap:
+				rs[i] = k - gap
+			}
+		}
+	}
 }
 
 // evalOrders fills ev from one Taylor call of order c.order at the n

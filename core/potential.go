@@ -91,6 +91,13 @@ type Domain struct {
 	// typically the closed form of the model; the well analysis starts its
 	// bracket there and still verifies it. 0 means no estimate.
 	EquilibriumGuess float64
+
+	// Kinks lists separations in Å, in increasing order, at which V or
+	// one of its derivatives is not continuous (a cutoff r_c, the start
+	// r_on of a switch); at a kink the coefficients are those of the
+	// outer side. Finite-difference stencils must not straddle one. Nil
+	// for a form smooth over its whole domain.
+	Kinks []float64
 }
 
 // Contains reports whether r lies in the open interval (Min, Max).

@@ -19,10 +19,22 @@ var ErrUnknownModel = errors.New("unknown model")
 type Registry struct {
 	models []Model
 	byName map[string]Model
+	cutoff CutoffFunc
 	// soft holds the lower-case keys of the models added with
 	// AddReplaceable (models need not be comparable, keys are unique).
 	soft map[string]bool
 }
+
+// CutoffFunc wraps a model in the cutoff scheme described by the
+// assignments after '@' of a spec (e.g. cut=force-shift, rc=8). Errors
+// wrap ErrSpec (unknown option, bad value) or ErrParam. Package
+// core/cutoff provides the one pairwell uses (cutoff.FromSpec).
+type CutoffFunc func(m Model, opts []Assignment) (Model, error)
+
+// SetCutoff installs the function that reads the cutoff of a spec
+// (SPEC@...) for Build and BuildParsed; nil (the zero value) refuses every
+// spec with a cutoff.
+func (r *Registry) SetCutoff(f CutoffFunc) { r.cutoff = f }
 
 // NewRegistry returns a registry holding the given models.
 func NewRegistry(models ...Model) (*Registry, error) {
@@ -113,8 +125,26 @@ func (r *Registry) add(m Model, replace bool) ([]Model, error) {
 }
 
 // Lookup returns the model with the given key or alias. Its error wraps
-// ErrUnknownModel and names the near misses ("did you mean …?").
+// ErrUnknownModel and names the near misses ("did you mean …?"). A name
+// with a cutoff, KEY@cut=…, is the model cut by it (see SetCutoff).
 func (r *Registry) Lookup(name string) (Model, error) {
+	if key, _, ok := strings.Cut(name, "@"); ok {
+		s, err := ParseSpec(name)
+		if err != nil {
+			return nil, err
+		}
+		m, err := r.Lookup(key)
+		if err != nil || r.cutoff == nil {
+			if err == nil {
+				err = fmt.Errorf("%w: %s: this registry knows no cutoff schemes (Registry.SetCutoff)", ErrSpec, key)
+			}
+			return nil, err
+		}
+		if len(s.Params) > 0 {
+			return nil, fmt.Errorf("%w %q: a model name takes no parameters", ErrSpec, name)
+		}
+		return r.cutoff(m, s.Cutoff)
+	}
 	if m, ok := r.byName[strings.ToLower(strings.TrimSpace(name))]; ok {
 		return m, nil
 	}

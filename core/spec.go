@@ -19,47 +19,90 @@ type Assignment struct {
 }
 
 // Spec is a parsed model spec, KEY:NAME=VALUE[UNIT],... such as
-// "morse:De=4.4,a=1.9,re=1.27" or "lj:epsilon=120K,sigma=3.4".
+// "morse:De=4.4,a=1.9,re=1.27" or "lj:epsilon=120K,sigma=3.4", optionally
+// followed by a cutoff, @NAME=VALUE,... such as
+// "lj:epsilon=120K,sigma=3.4@cut=force-shift,rc=8.5" (the options are read
+// by the registry's CutoffFunc, see Registry.SetCutoff).
 type Spec struct {
 	Model  string
 	Params []Assignment
+	// Cutoff holds the assignments after '@', in order; empty for a bare
+	// form.
+	Cutoff []Assignment
 }
 
 // String formats s back to spec syntax.
 func (s Spec) String() string {
-	parts := make([]string, len(s.Params))
-	for i, a := range s.Params {
+	out := s.Model + ":" + joinAssignments(s.Params)
+	if len(s.Cutoff) > 0 {
+		out += "@" + joinAssignments(s.Cutoff)
+	}
+	return out
+}
+
+func joinAssignments(as []Assignment) string {
+	parts := make([]string, len(as))
+	for i, a := range as {
 		parts[i] = a.Name + "=" + a.Value
 	}
-	return s.Model + ":" + strings.Join(parts, ",")
+	return strings.Join(parts, ",")
 }
 
 // ParseSpec splits a spec into its model name and assignments. It checks
 // only the syntax; Registry.Build checks names, values and units.
 func ParseSpec(s string) (Spec, error) {
 	s = strings.TrimSpace(s)
+	form, cut, hasCut := strings.Cut(s, "@")
+	if hasCut {
+		spec, err := ParseSpec(form)
+		if err != nil {
+			return Spec{}, err
+		}
+		if strings.Contains(cut, "@") {
+			return Spec{}, fmt.Errorf("%w %q: more than one '@': a form takes one cutoff, e.g. @cut=force-shift,rc=8", ErrSpec, s)
+		}
+		if spec.Cutoff, err = parseAssignments(s, cut); err != nil {
+			return Spec{}, err
+		}
+		if len(spec.Cutoff) == 0 {
+			return Spec{}, fmt.Errorf("%w %q: nothing after '@': expected a cutoff such as @cut=force-shift,rc=8", ErrSpec, s)
+		}
+		return spec, nil
+	}
 	key, rest, found := strings.Cut(s, ":")
 	key = strings.TrimSpace(key)
 	if key == "" {
 		return Spec{}, fmt.Errorf("%w %q: expected KEY:NAME=VALUE,... e.g. morse:De=4.4,a=1.9,re=1.27", ErrSpec, s)
 	}
 	spec := Spec{Model: key}
-	if !found || strings.TrimSpace(rest) == "" {
+	if !found {
 		return spec, nil
 	}
+	var err error
+	spec.Params, err = parseAssignments(s, rest)
+	return spec, err
+}
+
+// parseAssignments reads NAME=VALUE,... of the spec s; an empty list is
+// nil.
+func parseAssignments(s, rest string) ([]Assignment, error) {
+	if strings.TrimSpace(rest) == "" {
+		return nil, nil
+	}
+	var out []Assignment
 	for _, part := range strings.Split(rest, ",") {
 		name, value, ok := strings.Cut(part, "=")
 		name, value = strings.TrimSpace(name), strings.TrimSpace(value)
 		if !ok || name == "" || value == "" {
-			return Spec{}, fmt.Errorf("%w %q: %q is not NAME=VALUE", ErrSpec, s, strings.TrimSpace(part))
+			return nil, fmt.Errorf("%w %q: %q is not NAME=VALUE", ErrSpec, s, strings.TrimSpace(part))
 		}
 		if f := strings.Fields(value); len(f) > 1 && strings.Contains(value, "=") {
-			return Spec{}, fmt.Errorf("%w %q: %q: separate the parameters with commas, e.g. %s", ErrSpec, s, strings.TrimSpace(part),
+			return nil, fmt.Errorf("%w %q: %q: separate the parameters with commas, e.g. %s", ErrSpec, s, strings.TrimSpace(part),
 				name+"="+strings.Join(strings.Fields(strings.ReplaceAll(value, ",", " ")), ","))
 		}
-		spec.Params = append(spec.Params, Assignment{Name: name, Value: value})
+		out = append(out, Assignment{Name: name, Value: value})
 	}
-	return spec, nil
+	return out, nil
 }
 
 // Instance is a model with a validated parameter set and its potential.
@@ -79,16 +122,36 @@ func (r *Registry) Build(spec string) (Instance, error) {
 	if err != nil {
 		return Instance{}, err
 	}
-	m, err := r.Lookup(s.Model)
+	return r.BuildParsed(s)
+}
+
+// BuildParsed is Build for a parsed spec: it looks the model up, wraps it
+// in the cutoff of s.Cutoff (if any) with the registry's CutoffFunc, and
+// builds the potential. The instance's Model is then the wrapped model.
+func (r *Registry) BuildParsed(s Spec) (Instance, error) {
+	name := s.Model
+	if len(s.Cutoff) > 0 {
+		name += "@" + joinAssignments(s.Cutoff)
+		s.Cutoff = nil
+	}
+	m, err := r.Lookup(name)
 	if err != nil {
-		return Instance{}, fmt.Errorf("%w: %w", ErrSpec, err)
+		if errors.Is(err, ErrUnknownModel) {
+			err = fmt.Errorf("%w: %w", ErrSpec, err)
+		}
+		return Instance{}, err
 	}
 	return BuildSpec(m, s)
 }
 
-// BuildSpec is Build for a parsed spec whose model is already known.
+// BuildSpec is Build for a parsed spec whose model is already known. A
+// spec with a cutoff is refused (ErrSpec): wrapping needs the registry's
+// CutoffFunc, see Registry.BuildParsed.
 func BuildSpec(m Model, s Spec) (Instance, error) {
 	info := m.Info()
+	if len(s.Cutoff) > 0 {
+		return Instance{}, fmt.Errorf("%w: %s: a cutoff (@%s) needs Registry.BuildParsed", ErrSpec, info.Key, joinAssignments(s.Cutoff))
+	}
 	values := make([]float64, len(info.Params))
 	set := make([]bool, len(info.Params))
 	for _, a := range s.Params {

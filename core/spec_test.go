@@ -69,7 +69,7 @@ func TestBuildErrors(t *testing.T) {
 }
 
 func FuzzParseSpec(f *testing.F) {
-	for _, s := range []string{"morse:De=4.4,a=1.9,re=1.27", "lj:epsilon=120K,sigma=3.4", "x", ":", "a:b=", "a:=1,,"} {
+	for _, s := range []string{"morse:De=4.4,a=1.9,re=1.27", "lj:epsilon=120K,sigma=3.4", "x", ":", "a:b=", "a:=1,,", "lj:epsilon=120K,sigma=3.4@cut=force-shift,rc=8", "a@b=1"} {
 		f.Add(s)
 	}
 	reg := models.NewRegistry()
@@ -79,7 +79,7 @@ func FuzzParseSpec(f *testing.F) {
 			return
 		}
 		again, err := core.ParseSpec(spec.String())
-		if err != nil || again.Model != spec.Model || len(again.Params) != len(spec.Params) {
+		if err != nil || again.Model != spec.Model || len(again.Params) != len(spec.Params) || len(again.Cutoff) != len(spec.Cutoff) {
 			t.Fatalf("round trip of %q via %q: %v %+v", s, spec.String(), err, again)
 		}
 		inst, err := reg.Build(s)

@@ -29,6 +29,7 @@ import (
 	"math/big"
 
 	"github.com/pairwell/pairwell/core"
+	"github.com/pairwell/pairwell/core/cutoff"
 )
 
 // MaxOrder is the highest derivative order of every built-in form. The
@@ -46,13 +47,16 @@ func Builtin() []core.Model {
 	return []core.Model{Morse{}, LennardJones{}, Buckingham{}, Harmonic{}}
 }
 
-// NewRegistry returns a fresh registry holding the built-in models.
+// NewRegistry returns a fresh registry holding the built-in models, with
+// the cutoff schemes of package cutoff for specs SPEC@cut=… installed
+// (core.Registry.SetCutoff).
 func NewRegistry() *core.Registry {
 	r, err := core.NewRegistry(Builtin()...)
 	if err != nil {
 		// The built-in keys and aliases are distinct; this cannot happen.
 		panic("models: " + err.Error())
 	}
+	r.SetCutoff(cutoff.FromSpec)
 	return r
 }
 

@@ -299,7 +299,9 @@ func TestPythonCodeCurrent(t *testing.T) {
 		clearJSONNames(fd.MessageType)
 	}
 	assert.True(t, proto.Equal(goDesc, &py),
-		"plugins/examples/python/pairwell_pb2.py is out of date: run sh plugins/examples/python/generate.sh")
+		"plugins/examples/python/pairwell_pb2*.py are out of date with plugins/proto/pairwell.proto: "+
+			"regenerate them with apt-get install -y protobuf-compiler protobuf-compiler-grpc && "+
+			"sh plugins/examples/python/generate.sh, and commit them")
 }
 
 func clearJSONNames(msgs []*descriptorpb.DescriptorProto) {
@@ -308,5 +310,38 @@ func clearJSONNames(msgs []*descriptorpb.DescriptorProto) {
 			f.JsonName = nil
 		}
 		clearJSONNames(m.NestedType)
+	}
+}
+
+// BenchmarkPython measures the Python example plugin: its start (Load,
+// Describe, Close), one round trip (c₀…c₂ at one r) and a batch (c₀…c₂
+// at 4096 r), all over gRPC.
+func BenchmarkPython(b *testing.B) {
+	launcher, _ := plugintest.RequirePython(b)
+	b.Run("start", func(b *testing.B) {
+		for b.Loop() {
+			p, err := plugins.Load(context.Background(), launcher, plugins.Options{})
+			if err != nil {
+				b.Fatal(err)
+			}
+			p.Close()
+		}
+	})
+	pot, err := model(b, load(b, launcher, plugins.Options{}), "linnett").New(linnettParams)
+	require.NoError(b, err)
+	for _, n := range []int{1, 4096} {
+		r := make([]float64, n)
+		for i := range r {
+			r[i] = 0.9 + 4*float64(i)/float64(n)
+		}
+		dst := make([]float64, 3*n)
+		b.Run(strconv.Itoa(n), func(b *testing.B) {
+			for b.Loop() {
+				if err := pot.Taylor(2, r, dst); err != nil {
+					b.Fatal(err)
+				}
+			}
+			b.ReportMetric(float64(b.N)*float64(n)/b.Elapsed().Seconds(), "points/s")
+		})
 	}
 }

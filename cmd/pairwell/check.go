@@ -30,7 +30,8 @@ tolerance:
   derivative     V⁽ⁿ⁾ vs the finite-difference derivative of V⁽ⁿ⁻¹⁾, n = 1…8, at
                  64 points from 0.8·re to 3·re; relative error ≤ 1e-7 measured
                  against |V⁽ⁿ⁾| + |V⁽ⁿ⁻¹⁾|/r. A failure names the order and the r
-                 and says whether V⁽ⁿ⁾ or V⁽ⁿ⁻¹⁾ is at fault
+                 and says whether V⁽ⁿ⁾ or V⁽ⁿ⁻¹⁾ is at fault. Stencils stay on one
+                 side of a kink the form declares (a cutoff's r_on and r_c)
   batch, determinism, concurrency
                  single-point, batched, lower-order, repeated and concurrent
                  Taylor calls give the same bits

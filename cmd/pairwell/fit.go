@@ -188,7 +188,11 @@ func (o *fitFlags) run(e *env, path string) (*fitRun, error) {
 	for _, m := range ms {
 		key := m.Info().Key
 		if _, ok := m.(core.Matcher); !ok && starts[key] == nil {
-			return nil, usageErr(fmt.Errorf("--form %s: the form has no match to a well, so it needs a start: --start %s:NAME=VALUE,…", key, key))
+			form, cut, _ := strings.Cut(key, "@")
+			if cut != "" {
+				cut = "@" + cut
+			}
+			return nil, usageErr(fmt.Errorf("--form %s: the form has no match to a well, so it needs a start: --start %s:NAME=VALUE,…%s", key, form, cut))
 		}
 	}
 	for key := range starts {

@@ -167,7 +167,7 @@ func TestPlotPictureOptions(t *testing.T) {
 	assert.Equal(t, 6*150, cfg.Width)
 	assert.Equal(t, 4*150, cfg.Height)
 
-	for unit, label := range map[string]string{"K": "potential energy V [K]", "kcal/MOL": "potential energy V [kcal/mol]", "cm-1": "potential energy V [cm-1]"} {
+	for unit, label := range map[string]string{"K": "potential energy V [K]", "kcal/MOL": "potential energy V [kcal/mol]", "cm-1": "potential energy V [cm^-1]"} { // cm⁻¹ as drawn: the font lacks ⁻
 		svg := filepath.Join(dir, "e.svg")
 		plotJSON(t, "plot", "taylor", morse, "--energy-unit", unit, "-o", svg)
 		assert.Contains(t, requireSVG(t, svg), label, unit)

@@ -2,8 +2,10 @@ package main
 
 import (
 	"encoding/json"
+	"fmt"
 	"math"
 	"os"
+	"os/exec"
 	"path/filepath"
 	"runtime"
 	"strings"
@@ -95,6 +97,38 @@ func TestPythonPluginCommands(t *testing.T) {
 		assert.Contains(t, out, "40 checks on 2 forms: 40 passed, 0 failed, 0 skipped")
 	})
 
+	t.Run("fit", func(t *testing.T) {
+		// Recovery: points of the form itself (invented parameters
+		// linnettSpec, closed form in Go) are fitted back from another
+		// start through the plugin (a plugin without EvaluateSets: one
+		// Open per parameter set).
+		const de, re, m, n = 4.6, 1.27, 6.0, 2.5
+		a, b := de*n*re/(m-n*re), de*m/(m-n*re)
+		var csv strings.Builder
+		csv.WriteString("r_angstrom,energy_ev\n")
+		for i := range 40 {
+			r := 0.95 + 0.06*float64(i)
+			fmt.Fprintf(&csv, "%.6f,%.15g\n", r, a*math.Pow(re/r, m)-b*math.Exp(-n*(r-re)))
+		}
+		data := filepath.Join(t.TempDir(), "linnett.csv")
+		require.NoError(t, os.WriteFile(data, []byte(csv.String()), 0o644))
+		code, out, errOut := runPython(t, nil, "--plugin", launcher, "fit", data, "--offset", "0",
+			"--start", "linnett:De=4,re=1.3,m=7,n=2", "--format", "json")
+		require.Equal(t, 0, code, errOut)
+		var fits []struct {
+			Form   string             `json:"form"`
+			Params map[string]float64 `json:"params"`
+			RMSE   float64            `json:"rmse_ev"`
+		}
+		require.NoError(t, json.Unmarshal([]byte(out), &fits), out)
+		require.NotEmpty(t, fits)
+		assert.Equal(t, "linnett", fits[0].Form, "the generating form ranks first")
+		for name, want := range map[string]float64{"De": de, "re": re, "m": m, "n": n} {
+			assert.InDelta(t, want, fits[0].Params[name], 1e-8*want, name)
+		}
+		assert.Less(t, fits[0].RMSE, 1e-10)
+	})
+
 	t.Run("discovered", func(t *testing.T) {
 		dir := t.TempDir()
 		require.NoError(t, os.Symlink(launcher, filepath.Join(dir, "pairwell-plugin-linnett")))
@@ -102,6 +136,25 @@ func TestPythonPluginCommands(t *testing.T) {
 		require.Equal(t, 0, code, errOut)
 		assert.Contains(t, out, "A(re/r)^m − B·exp(−n(r − re))")
 		assert.Contains(t, out, "plugin "+filepath.Join(dir, "pairwell-plugin-linnett")+" (version 1.0.0)")
+	})
+
+	t.Run("pinned", func(t *testing.T) {
+		// A pin runs a sealed copy of the launcher, away from its Python
+		// files: it fails to start. (Whether its last words are quoted
+		// depends on how soon the host reads them; the copy below shows
+		// them.)
+		code, _, errOut := runPython(t, nil, "--plugin", launcher+"@sha256:"+sha256Hex(t, launcher), "models")
+		assert.Equal(t, 1, code, errOut)
+		assert.Contains(t, errOut, "plugin handshake failed")
+
+		alone := filepath.Join(t.TempDir(), "pairwell-plugin-linnett")
+		b, err := os.ReadFile(launcher)
+		require.NoError(t, err)
+		require.NoError(t, os.WriteFile(alone, b, 0o755))
+		out, err := exec.Command(alone).CombinedOutput()
+		require.Error(t, err)
+		assert.Contains(t, string(out), "linnett.py is not beside this launcher")
+		assert.Contains(t, string(out), "do not pin it with @sha256:")
 	})
 
 	t.Run("bad parameters", func(t *testing.T) {

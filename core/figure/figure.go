@@ -129,11 +129,14 @@ const energySuffix = " [eV]"
 // ConvertEnergy expresses the energy axes of f — those whose label ends in
 // " [eV]" — in another unit: every value, limit and mark on such an axis is
 // divided by perUnit, the value of the unit in eV, and the label names the
-// unit. It reports whether f has an energy axis. perUnit must be finite and
-// positive.
+// unit (cm-1 as cm⁻¹, drawn as the font allows, see drawable). It reports
+// whether f has an energy axis. perUnit must be finite and positive.
 func (f *Figure) ConvertEnergy(name string, perUnit float64) bool {
 	if !(perUnit > 0) || math.IsInf(perUnit, 0) {
 		return false
+	}
+	if strings.EqualFold(name, "cm-1") {
+		name = "cm⁻¹"
 	}
 	found := false
 	if strings.HasSuffix(f.XLabel, energySuffix) {

@@ -188,6 +188,8 @@ func (f *Figure) draw(dc draw.Canvas) error {
 	if err != nil {
 		return err
 	}
+	has := fontGlyphs(font.From(sans, 12))
+	title := drawable(f.Title, has)
 	gap := vg.Points(14)
 	// Notes go under the plot, across the whole width, so that a form
 	// left out or a limit off the axes is said on the picture itself.
@@ -196,7 +198,7 @@ func (f *Figure) draw(dc draw.Canvas) error {
 	noteStyle.XAlign, noteStyle.YAlign = draw.XLeft, draw.YBottom
 	var noteLines []string
 	for _, n := range f.Notes {
-		noteLines = append(noteLines, wrapText(noteStyle, "Note: "+n, dc.Max.X-dc.Min.X-2*gap)...)
+		noteLines = append(noteLines, wrapText(noteStyle, drawable("Note: "+n, has), dc.Max.X-dc.Min.X-2*gap)...)
 	}
 	if len(noteLines) > 0 {
 		r := noteStyle.Rectangle("Ag")
@@ -213,7 +215,7 @@ func (f *Figure) draw(dc draw.Canvas) error {
 	avail := dc.Max.X - dc.Min.X - lw - 2*gap
 	for size := vg.Points(13); size > vg.Points(8); size -= vg.Points(0.5) {
 		p.Title.TextStyle.Font = font.From(sans, size)
-		if r := p.Title.TextStyle.Rectangle(f.Title); r.Max.X-r.Min.X <= avail {
+		if r := p.Title.TextStyle.Rectangle(title); r.Max.X-r.Min.X <= avail {
 			break
 		}
 	}
@@ -237,7 +239,7 @@ func (f *Figure) draw(dc draw.Canvas) error {
 		p.Draw(top)
 		q.Draw(bottom)
 	}
-	tr := p.Title.TextStyle.Rectangle(f.Title)
+	tr := p.Title.TextStyle.Rectangle(title)
 	top := tr.Max.Y - tr.Min.Y + p.Title.Padding + vg.Points(4)
 	leg.Draw(draw.Crop(dc, dc.Max.X-dc.Min.X-lw-gap, -gap, 0, -top))
 	return nil
@@ -248,7 +250,8 @@ func (f *Figure) draw(dc draw.Canvas) error {
 // one above); styleOf returns the style of every series of f by name.
 func (f *Figure) plot(inherit map[string]int) (p *plot.Plot, leg plot.Legend, styleOf map[string]int, err error) {
 	p = plot.New()
-	p.Title.Text = f.Title
+	has := fontGlyphs(font.From(sans, 12))
+	p.Title.Text = drawable(f.Title, has)
 	p.Title.TextStyle.Font = font.From(sans, 13)
 	p.Title.Padding = vg.Points(8)
 	for _, a := range []*plot.Axis{&p.X, &p.Y} {
@@ -256,7 +259,7 @@ func (f *Figure) plot(inherit map[string]int) (p *plot.Plot, leg plot.Legend, st
 		a.Tick.Label.Font = font.From(sans, 10)
 		a.Padding = 0
 	}
-	p.X.Label.Text, p.Y.Label.Text = f.XLabel, f.YLabel
+	p.X.Label.Text, p.Y.Label.Text = drawable(f.XLabel, has), drawable(f.YLabel, has)
 	grid := plotter.NewGrid()
 	grid.Vertical.Color = color.Gray{Y: 0xe0}
 	grid.Horizontal.Color = color.Gray{Y: 0xe0}
@@ -289,7 +292,7 @@ func (f *Figure) plot(inherit map[string]int) (p *plot.Plot, leg plot.Legend, st
 	for _, mp := range marks {
 		if l := mp.mark.Label; l != "" && !seen[l] {
 			seen[l] = true
-			leg.Add(l, mp)
+			leg.Add(drawable(l, has), mp)
 		}
 	}
 	p.X.Tick.Marker, p.Y.Tick.Marker = niceTicks{}, niceTicks{}
@@ -314,7 +317,7 @@ func (f *Figure) addSeries(p *plot.Plot, leg *plot.Legend, s Series, k int) erro
 		ring, _ := plotter.NewScatter(pts)
 		ring.GlyphStyle = draw.GlyphStyle{Color: black, Radius: vg.Points(4.5), Shape: draw.RingGlyph{}}
 		p.Add(sc, ring)
-		leg.Add(s.Name, sc, ring)
+		leg.Add(drawable(s.Name, fontGlyphs(leg.TextStyle.Font)), sc, ring)
 		return nil
 	}
 	for _, seg := range f.clip(s) {
@@ -339,7 +342,7 @@ func (f *Figure) addSeries(p *plot.Plot, leg *plot.Legend, s Series, k int) erro
 		}
 		thumbs = append(thumbs, glyphThumb{gs})
 	}
-	leg.Add(s.Name, thumbs...)
+	leg.Add(drawable(s.Name, fontGlyphs(leg.TextStyle.Font)), thumbs...)
 	return nil
 }
 

@@ -225,11 +225,7 @@ func Parse(data []byte, source string) (*Set, error) {
 func (s *Set) Build(reg *core.Registry) ([]Built, error) {
 	out := make([]Built, 0, len(s.Entries))
 	for _, e := range s.Entries {
-		m, err := reg.Lookup(e.Spec.Model)
-		if err != nil {
-			return nil, fmt.Errorf("entry %q: %w: %v", e.Name, core.ErrSpec, err)
-		}
-		inst, err := core.BuildSpec(m, e.Spec)
+		inst, err := reg.BuildParsed(e.Spec)
 		if err != nil {
 			return nil, fmt.Errorf("entry %q: %w", e.Name, err)
 		}

@@ -83,6 +83,7 @@ import (
 	"errors"
 	"fmt"
 	"math"
+	"slices"
 
 	"github.com/pairwell/pairwell/core"
 	"github.com/pairwell/pairwell/core/internal/gauss"
@@ -180,6 +181,10 @@ type Calculator struct {
 	// start at r = 0.
 	scanReachesZero bool
 	rules           []gauss.Rule
+	// kinks are Domain.Kinks beyond the wall (a cutoff r_c, the start of
+	// a switch): panel ends, so that no rule straddles a jump of V or of
+	// a derivative.
+	kinks []float64
 }
 
 // New prepares the computation of B₂ for p. It returns an error wrapping
@@ -215,7 +220,7 @@ func New(p core.Potential, s Settings) (*Calculator, error) {
 	if err != nil {
 		return nil, fmt.Errorf("virial: %w", err)
 	}
-	c := &Calculator{p: p, s: s, limit: d.Limit, re: re}
+	c := &Calculator{p: p, s: s, limit: d.Limit, re: re, kinks: d.Kinks}
 	for n := minNodes; n <= s.MaxNodes; n *= 2 {
 		c.rules = append(c.rules, gauss.Rule{N: n})
 	}
@@ -376,6 +381,8 @@ type temp struct {
 	qcore     float64 // bound on ∫_0^rc e^{−βV} V′² r² dr
 	nodes     int
 	err       error
+	// panels[p0:p1] are this temperature's.
+	p0, p1 int
 }
 
 // Points computes B₂ at every temperature of temps (K). mu is the reduced
@@ -412,17 +419,37 @@ func (c *Calculator) Points(temps []float64, mu float64) ([]Point, error) {
 			tp.coreBound = math.Exp(-beta*vc) * rc * rc * rc / 3
 			tp.qcore = math.Exp(-beta*vc) * pow * vc * rc / beta
 		}
+		tp.p0 = len(panels)
+		panels = c.appendPanels(panels, i, rc)
+		tp.p1 = len(panels)
 		ts[i] = tp
-		R := tailFactor * c.re
-		panels = append(panels,
-			panel{t: i, a: rc, b: c.re},
-			panel{t: i, a: c.re, b: R},
-			panel{t: i, a: R, b: math.Inf(1), tail: true})
 	}
 	if err := c.integrate(ts, panels, mu > 0); err != nil {
 		return nil, err
 	}
 	return c.assemble(ts, panels, mu)
+}
+
+// appendPanels appends the panels of temperature t from the wall end rc:
+// [rc, re], [re, R] and the tail [R, ∞) with R = tailFactor·re, each split
+// at the kinks of the form; a kink beyond R moves the start of the tail
+// there.
+func (c *Calculator) appendPanels(panels []panel, t int, rc float64) []panel {
+	R := tailFactor * c.re
+	ends := []float64{c.re, R}
+	for _, k := range c.kinks {
+		if k > rc && k != c.re && k != R {
+			ends = append(ends, k)
+			R = math.Max(R, k)
+		}
+	}
+	slices.Sort(ends)
+	a := rc
+	for _, b := range ends {
+		panels = append(panels, panel{t: t, a: a, b: b})
+		a = b
+	}
+	return append(panels, panel{t: t, a: R, b: math.Inf(1), tail: true})
 }
 
 // integrate runs the rounds of all panels: each round evaluates the nodes
@@ -506,9 +533,8 @@ func (c *Calculator) integrate(ts []temp, panels []panel, quantum bool) error {
 
 // checkRound marks the panels whose last two rules agree.
 func (c *Calculator) checkRound(ts []temp, panels []panel, quantum bool) {
-	for i := 0; i < len(panels); i += 3 {
-		group := panels[i : i+3]
-		t := ts[group[0].t]
+	for _, t := range ts {
+		group := panels[t.p0:t.p1]
 		scale := t.rc * t.rc * t.rc / 3
 		scale1, scaleq := 0.0, 0.0
 		for _, pn := range group {
@@ -516,7 +542,7 @@ func (c *Calculator) checkRound(ts []temp, panels []panel, quantum bool) {
 			scale1 += pn.cur.a1
 			scaleq += pn.cur.sq
 		}
-		tol := c.s.Tolerance / 3
+		tol := c.s.Tolerance / float64(len(group))
 		for k := range group {
 			pn := &group[k]
 			if pn.done {
@@ -547,9 +573,8 @@ func diff(a, b sums) sums {
 func (c *Calculator) assemble(ts []temp, panels []panel, mu float64) ([]Point, error) {
 	eps := math.Nextafter(1, 2) - 1
 	out := make([]Point, len(ts))
-	for i := 0; i < len(panels); i += 3 {
-		group := panels[i : i+3]
-		t := ts[group[0].t]
+	for _, t := range ts {
+		group := panels[t.p0:t.p1]
 		I := -t.rc * t.rc * t.rc / 3
 		scale := -I
 		var s1, s2, sq, scaleq, scale1, errI, errQ, err1 float64

@@ -234,7 +234,8 @@ def _listen(server):
     sockdir = os.environ.get("PLUGIN_UNIX_SOCKET_DIR", "")
     if sockdir:
         path = os.path.join(sockdir, "pairwell-py-%d.sock" % os.getpid())
-        server.add_insecure_port("unix:" + path)
+        if not server.add_insecure_port("unix:" + path):
+            raise RuntimeError("cannot listen on the Unix socket %s" % path)
         return "unix", path
     lo = int(os.environ.get("PLUGIN_MIN_PORT", "0") or 0)
     hi = int(os.environ.get("PLUGIN_MAX_PORT", "0") or 0)
