@@ -24,8 +24,8 @@ var interpolations = []string{"cubic", "linear"}
 func newTableCmd(e *env) *cobra.Command {
 	var (
 		from, to, step, accuracy, forceAccuracy, interpolation, out string
-		points                                                     int
-		second                                                     bool
+		points                                                      int
+		second                                                      bool
 	)
 	cmd := &cobra.Command{
 		Use:   "table SPEC --from R1 --to R2 (--step H | --points N | --accuracy E) [--interpolation cubic|linear] [--second-derivative] [-o FILE]",

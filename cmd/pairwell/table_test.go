@@ -102,6 +102,7 @@ func TestTableForms(t *testing.T) {
 	}{
 		{"built-in", runCLI, []string{"buckingham:A=1500,rho=0.3,C=25", "--from", "2", "--to", "10"}},
 		{"library", runCLI, []string{"kratzer:De=4.6,re=1.27", "--from", "0.8", "--to", "20"}},
+		{"cut", runCLI, []string{"lj:epsilon=120K,sigma=3.4@cut=force-shift,rc=8.5", "--from", "3", "--to", "8.5"}},
 		{"formula", runCLI, []string{"--forms", forms, "fmorse:De=4.6,a=1.87,re=1.27", "--from", "0.9", "--to", "6"}},
 		{"plugin", runPlugins, []string{"--plugin", pluginBin.rydberg, rydbergSpec, "--from", "0.9", "--to", "6"}},
 	}
@@ -166,6 +167,7 @@ func TestTableBadInput(t *testing.T) {
 		{"interpolation", []string{m, "--from", "1", "--to", "2", "--points", "10", "--interpolation", "cubik"}, "did you mean cubic?"},
 		{"outside domain", []string{"buckingham:A=1500,rho=0.3,C=25", "--from", "0.1", "--to", "2", "--points", "10"}, "domain"},
 		{"deep in the wall", []string{"lj:epsilon=120K,sigma=3.4", "--from", "1", "--to", "12", "--accuracy", "1e-6", "--interpolation", "linear"}, "start the table further out"},
+		{"kink inside", []string{"lj:epsilon=120K,sigma=3.4@cut=force-shift,rc=8.5", "--from", "3", "--to", "12", "--accuracy", "1e-6"}, "kink at 8.5"},
 		{"below rounding", []string{m, "--from", "0.9", "--to", "6", "--accuracy", "1e-17"}, "rounding"},
 	}
 	for _, tt := range tests {

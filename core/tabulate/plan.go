@@ -107,7 +107,8 @@ func (b bound) at(h, m float64) float64 { return b.coef * math.Pow(h, b.pow) * m
 // the interpolant reaches tol, tabulates it and verifies it; see the
 // package documentation. The error wraps ErrTooFine (with what limits it)
 // when tol needs more than MaxPoints points or lies below the rounding
-// error of V, core.ErrDomain when the range leaves the form's domain, and
+// error of V, core.ErrDomain when the range leaves the form's domain,
+// core.ErrParam when a kink of the form (Domain.Kinks) lies inside it, and
 // core.ErrNoConvergence when refinement does not reach tol.
 func PlanFor(p core.Potential, from, to float64, tol Tolerance, s Settings) (*Result, error) {
 	s, err := s.withDefaults()
@@ -122,6 +123,12 @@ func PlanFor(p core.Potential, from, to float64, tol Tolerance, s Settings) (*Re
 	}
 	if err := checkDomain(p, from, to); err != nil {
 		return nil, err
+	}
+	for _, k := range p.Domain().Kinks {
+		if k > from && k < to {
+			return nil, fmt.Errorf("%w: the form has a kink at %g Å (a cutoff or the start of a switch), inside the range %g to %g Å: the error bounds need a smooth V; plan the table on each side of it (e.g. up to %g Å)",
+				core.ErrParam, k, from, to, k)
+		}
 	}
 	be, bf := bounds(s.Interpolation)
 	if p.MaxOrder() < bf.order || p.MaxOrder() < be.order {
