@@ -3,11 +3,15 @@ package main
 import (
 	"fmt"
 	"io"
+	"math"
 	"strconv"
 	"strings"
 
+	"github.com/spf13/cobra"
 	"github.com/spf13/pflag"
 
+	"github.com/pairwell/pairwell/core/levels"
+	"github.com/pairwell/pairwell/core/motion"
 	"github.com/pairwell/pairwell/core/suggest"
 	"github.com/pairwell/pairwell/core/units"
 	"github.com/pairwell/pairwell/core/validity"
@@ -71,6 +75,46 @@ func (toleranceValue) Type() string { return "TOL" }
 func toleranceVar(f *pflag.FlagSet, v *float64, what string) {
 	*v = validity.DefaultTolerance
 	f.Var(toleranceValue{v}, "tolerance", "relative tolerance of "+what+", a fraction (0.01) or a percentage (1%)")
+}
+
+// accuracyFlag is the absolute accuracy of quantum levels (levels, plot
+// levels): an energy, cm⁻¹ unless a unit is given. It was --tolerance, a
+// name that everywhere else means a relative tolerance.
+const accuracyFlag = "accuracy"
+
+// accuracyVar registers --accuracy E, and the deprecated --tolerance as its
+// alias (hidden; it still works, with a warning, see warnDeprecated).
+func accuracyVar(f *pflag.FlagSet, v *string) {
+	f.StringVar(v, accuracyFlag, "", fmt.Sprintf("absolute accuracy of the levels, an energy, cm⁻¹ unless a unit is given (e.g. 1e-4, 1e-9eV) (default %g)",
+		levels.DefaultTolerance))
+	f.StringVar(v, "tolerance", "", "deprecated: use --"+accuracyFlag)
+	_ = f.MarkHidden("tolerance")
+	_ = f.SetAnnotation("tolerance", "deprecated", []string{"--" + accuracyFlag + " (an absolute accuracy in cm⁻¹; --tolerance elsewhere is relative)"})
+}
+
+// parseAccuracy returns the value of --accuracy in cm⁻¹, 0 (the default)
+// when s is empty.
+func parseAccuracy(s string) (float64, error) {
+	if s == "" {
+		return 0, nil
+	}
+	ev, err := units.ParseIn(s, units.Energy, "cm-1")
+	if err != nil {
+		return 0, fmt.Errorf("--%s: %w", accuracyFlag, err)
+	}
+	if !(ev > 0) || math.IsInf(ev, 1) {
+		return 0, fmt.Errorf("--%s %s: must be a finite energy > 0", accuracyFlag, s)
+	}
+	return ev / units.WavenumberEV, nil
+}
+
+// defaultMethod is the integrator of --method where the flag has a default
+// (motion, plot motion).
+const defaultMethod = motion.DormandPrince
+
+// methodVar registers --method with defaultMethod.
+func methodVar(f *pflag.FlagSet, v *string) {
+	f.StringVar(v, "method", defaultMethod.String(), "integrator: heun, rk4, verlet or dopri")
 }
 
 // truncationVar registers --truncation N, and the deprecated --order as its
@@ -152,13 +196,45 @@ func energyUnitVar(f *pflag.FlagSet, v *string, what string) {
 	f.StringVar(v, "energy-unit", "eV", "unit of the energies of "+what+": "+strings.Join(energyUnits, ", "))
 }
 
+// energyChoice is the --energy-unit of a command: the flag as given, and
+// once read (PersistentPreRunE) the unit's canonical name and value in eV.
+// The zero value, and a command without the flag, mean eV.
+type energyChoice struct {
+	flag, name string
+	perUnit    float64
+}
+
+// tableEnergies is what --energy-unit converts in a command's table.
+const tableEnergies = "the table (JSON and CSV stay in eV)"
+
+// energyUnitFlag registers --energy-unit on cmd: the energies of what
+// (tableEnergies, or a picture's energy axis) are shown in that unit.
+func (e *env) energyUnitFlag(cmd *cobra.Command, what string) {
+	energyUnitVar(cmd.Flags(), &e.energy.flag, what)
+}
+
+// readEnergyUnit reads --energy-unit, when the command has it.
+func (e *env) readEnergyUnit() error {
+	if e.energy.flag == "" {
+		return nil
+	}
+	name, perUnit, err := energyUnit(e.energy.flag)
+	if err != nil {
+		return usageErr(err)
+	}
+	e.energy.name, e.energy.perUnit = name, perUnit
+	return nil
+}
+
 // convertEnergies rewrites the energies of a table in another unit: in a
 // table with a "unit" column, the "value" cell of every row whose unit
-// starts with "eV" (eV, eV/Å², eV/Å³ …); in a table with units in the
-// headers, every column whose unit starts with "eV". Values are divided by
-// perUnit, the unit's value in eV; cells that are not numbers (∞, —) stay.
-// JSON and CSV are never converted: they keep the documented units.
-func convertEnergies(t *table, name string, perUnit float64, format func(float64) string) {
+// starts with "eV" (eV, eV/Å², eV/Å³ …), to 9 significant digits; in a
+// table with units in the headers, every column whose unit starts with
+// "eV", to 6. Values are divided by perUnit, the unit's value in eV; cells
+// that are not numbers (∞, —) stay. JSON and CSV are never converted: they
+// keep the documented units.
+func convertEnergies(t *table, name string, perUnit float64) {
+	format := short
 	conv := func(cell string) string {
 		v, err := strconv.ParseFloat(cell, 64)
 		if err != nil {
@@ -176,6 +252,8 @@ func convertEnergies(t *table, name string, perUnit float64, format func(float64
 		}
 	}
 	if unitCol >= 0 && valueCol >= 0 {
+		// The cells hold 10 digits; converted, 9 are certain.
+		format = func(v float64) string { return strconv.FormatFloat(v, 'g', 9, 64) }
 		for _, r := range t.rows {
 			if u := r[unitCol]; strings.HasPrefix(u, "eV") && valueCol < len(r) {
 				r[valueCol] = conv(r[valueCol])

@@ -37,10 +37,10 @@ quadrature, the harmonic period 2π/ω0 and the second-order perturbative
 (Lindstedt–Poincaré) period.
 
 Integrators (--method):
-  heun    Heun / explicit trapezoid, order 2        default 800 steps per harmonic period
-  verlet  velocity Verlet, order 2, symplectic      default 600 steps per harmonic period
-  rk4     classical Runge–Kutta, order 4            default 200 steps per harmonic period
-  dopri   adaptive Dormand–Prince 5(4) (default)    default --rtol = --atol = 1e-9
+  heun    Heun / explicit trapezoid, order 2        default ` + strconv.Itoa(motion.DefaultHeunSteps) + ` steps per harmonic period
+  verlet  velocity Verlet, order 2, symplectic      default ` + strconv.Itoa(motion.DefaultVerletSteps) + ` steps per harmonic period
+  rk4     classical Runge–Kutta, order 4            default ` + strconv.Itoa(motion.DefaultRK4Steps) + ` steps per harmonic period
+  dopri   adaptive Dormand–Prince 5(4) (default)    default --rtol ` + fmt.Sprint(motion.DefaultRTol) + `, --atol ` + fmt.Sprint(motion.DefaultATol) + `
 At the defaults the measured period is within 1e-4 of the exact one for heun
 and verlet, 1e-6 for rk4 and 1e-7 for dopri, at energies up to half the depth
 (measured on Morse, Lennard-Jones and Buckingham wells over 10 periods).
@@ -119,20 +119,22 @@ JSON values are in eV, Å, u and fs, whatever the input units.`,
 				if err := e.writeOutput("--trajectory", trajectory, func(w io.Writer) error { return writeTrajectory(w, tr) }); err != nil {
 					return err
 				}
-				r.Trajectory, r.TrajectorySamples = trajectory, len(tr)
+				r.Trajectory, r.TrajectorySamples = report.Text(trajectory), len(tr)
 			}
 			return e.emit(r, motionTable(r))
 		},
 	}
 	mass.register(cmd)
+	e.energyUnitFlag(cmd, tableEnergies)
 	f := cmd.Flags()
 	f.StringVar(&amplitude, "amplitude", "", "starting displacement r0 − re at rest, in Å unless a unit is given (e.g. 0.2, -0.1, 20pm); positive stretches, negative compresses")
 	f.StringVar(&energy, "energy", "", "oscillation energy above V(re), in eV unless a unit is given (e.g. 0.5, 300K, 1000cm-1); starts at the stretch-side turning point")
-	f.StringVar(&method, "method", "dopri", "integrator: heun, rk4, verlet or dopri")
-	f.IntVar(&stepsPerPeriod, "steps-per-period", 0, "fixed steps per harmonic period 2π/ω0 (heun, rk4, verlet; 0: heun 800, verlet 600, rk4 200)")
+	methodVar(f, &method)
+	f.IntVar(&stepsPerPeriod, "steps-per-period", 0, fmt.Sprintf("fixed steps per harmonic period 2π/ω0 (heun, rk4, verlet; 0: heun %d, verlet %d, rk4 %d)",
+		motion.DefaultHeunSteps, motion.DefaultVerletSteps, motion.DefaultRK4Steps))
 	f.IntVar(&periods, "periods", motion.DefaultPeriods, "number of full periods to measure")
-	f.Float64Var(&rtol, "rtol", 0, "relative tolerance of dopri (0: 1e-9)")
-	f.Float64Var(&atol, "atol", 0, "absolute tolerance of dopri, relative to the amplitude (0: 1e-9)")
+	f.Float64Var(&rtol, "rtol", 0, fmt.Sprintf("relative tolerance of dopri (0: %g)", motion.DefaultRTol))
+	f.Float64Var(&atol, "atol", 0, fmt.Sprintf("absolute tolerance of dopri, relative to the amplitude (0: %g)", motion.DefaultATol))
 	f.StringVar(&trajectory, "trajectory", "", "write every step to this CSV file (t_fs, r_angstrom, x_angstrom, v_angstrom_per_fs, energy_ev)")
 	return cmd
 }
@@ -201,15 +203,15 @@ func checkMotionFlags(cmd *cobra.Command, s motion.Settings) error {
 func motionTable(r report.Motion) *table {
 	t := quantityTable(r.Model, r.Params)
 	if r.Pair != "" {
-		t.add("pair", r.Pair, "")
+		t.add("pair", string(r.Pair), "")
 	}
 	t.add("reduced mass μ", num(r.Mu), "u")
 	t.add("method", r.Method, "")
 	t.add("equilibrium distance re", num(r.Re), "Å")
 	t.add("amplitude x0 = r0 − re", num(r.Amplitude), "Å")
 	t.add("oscillation energy E", num(r.Energy), "eV")
-	if r.EnergyFraction > 0 {
-		t.add("E / bound-energy limit", num(r.EnergyFraction), "")
+	if d := float64(r.DepthFraction); !math.IsNaN(d) {
+		t.add("E / well depth", num(d), "")
 	}
 	t.add("turning points r₋, r₊", num(r.InnerTurningPoint)+", "+num(r.OuterTurningPoint), "Å")
 	t.add("measured period", num(r.MeasuredPeriod), "fs")

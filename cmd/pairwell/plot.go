@@ -6,6 +6,7 @@ import (
 	"io"
 	"os"
 	"path/filepath"
+	"strconv"
 	"strings"
 
 	"github.com/spf13/cobra"
@@ -71,20 +72,19 @@ range, an amplitude beyond the well), 1 when the file cannot be written.`,
 	return cmd
 }
 
-// plotOutput is the -o, --width, --height and --energy-unit flags of every
-// plot command.
+// plotOutput is the -o, --width and --height flags of every plot command;
+// register adds --energy-unit (env.energy) too.
 type plotOutput struct {
 	path          string
 	width, height float64
-	energyUnit    string
 }
 
-func (o *plotOutput) register(cmd *cobra.Command) {
+func (o *plotOutput) register(e *env, cmd *cobra.Command) {
 	f := cmd.Flags()
 	f.StringVarP(&o.path, "output", "o", "", "picture file to write: .png, .svg or .pdf (required)")
 	f.Float64Var(&o.width, "width", 0, fmt.Sprintf("picture width in inches, %d to %d (default %d; PNG has %d pixels per inch)", figure.MinSize, figure.MaxSize, figure.DefaultWidth, figure.DPI))
 	f.Float64Var(&o.height, "height", 0, fmt.Sprintf("picture height in inches, %d to %d (default %d, %d with a panel below)", figure.MinSize, figure.MaxSize, figure.DefaultHeight, figure.DefaultHeightTwoPanels))
-	energyUnitVar(f, &o.energyUnit, "the energy axis")
+	e.energyUnitFlag(cmd, "the energy axis")
 }
 
 // check validates the output path before anything is computed: a known
@@ -106,9 +106,6 @@ func (o *plotOutput) check(e *env) error {
 		if v.v != 0 && !(v.v >= figure.MinSize && v.v <= figure.MaxSize) {
 			return usageErr(fmt.Errorf("%s %g: must be %d to %d inches", v.name, v.v, figure.MinSize, figure.MaxSize))
 		}
-	}
-	if _, _, err := energyUnit(o.energyUnit); err != nil {
-		return usageErr(err)
 	}
 	if err := e.checkOutput("-o", o.path); err != nil {
 		return err
@@ -142,9 +139,7 @@ func (e *env) writePlot(f *figure.Figure, o *plotOutput) error {
 		return usageErr(err)
 	}
 	f.Width, f.Height = o.width, o.height
-	if name, perUnit, err := energyUnit(o.energyUnit); err != nil {
-		return usageErr(err)
-	} else if name != "eV" && !f.ConvertEnergy(name, perUnit) {
+	if name := e.energy.name; name != "" && name != "eV" && !f.ConvertEnergy(name, e.energy.perUnit) {
 		return usageErr(fmt.Errorf("--energy-unit %s: the %s picture has no energy axis", name, f.Kind))
 	}
 	if err := e.writeOutput("-o", path, func(w io.Writer) error { return f.Render(w, format) }); err != nil {
@@ -265,7 +260,7 @@ separations, RMIN:RMAX with optional units; it must overlap the domain.`,
 			return e.writePlot(f, &out)
 		},
 	}
-	out.register(cmd)
+	out.register(e, cmd)
 	f := cmd.Flags()
 	truncationVar(f, &order, figure.DefaultTaylorOrder, fmt.Sprintf("highest order N of the truncated Taylor potentials drawn (2 to %d)", figure.MaxTaylorOrder))
 	f.StringVar(&rng, "range", "", "separations RMIN:RMAX, Å unless a unit is given (default: from the well's shape)")
@@ -343,7 +338,7 @@ well is bad input.`,
 			return e.writePlot(f, &out)
 		},
 	}
-	out.register(cmd)
+	out.register(e, cmd)
 	mass.register(cmd)
 	f := cmd.Flags()
 	f.StringVar(&amplitudes, "amplitudes", "", "displacements from re at rest, Å unless a unit is given: LIST or FROM:TO:COUNT (default: 8 up to 90 % of the limit of bound motion)")
@@ -398,7 +393,7 @@ barrier, below which that form collapses.`,
 			return e.writePlot(f, &out)
 		},
 	}
-	out.register(cmd)
+	out.register(e, cmd)
 	f := cmd.Flags()
 	f.StringVar(&setPath, "set", "", "model-set file (TOML) naming the forms to draw")
 	f.BoolVar(&reduced, "reduced", false, "reduced units: r/re and (V − V(∞))/De")
@@ -463,8 +458,8 @@ func newPlotMotionCmd(e *env) *cobra.Command {
 		Short: "Draw the displacement against time, with the harmonic motion overlaid",
 		Long: `motion integrates the vibration of the pair in the well of SPEC from rest at
 r = re + X (--amplitude; positive stretches, negative compresses) with --method
-(heun, rk4, verlet or dopri, default dopri; see "pairwell motion") over
---periods periods (default 3), and draws the displacement x(t) = r(t) − re of
+(heun, rk4, verlet or dopri, default ` + defaultMethod.String() + `; see "pairwell motion") over
+--periods periods (default ` + strconv.Itoa(motion.DefaultPeriods) + `), and draws the displacement x(t) = r(t) − re of
 every step against the harmonic motion x0·cos(ω0 t), ω0 = √(k/μ), started the
 same way. The title gives the measured, exact and harmonic periods.`,
 		Example: `  pairwell plot motion morse:De=4.6,a=1.87,re=1.27 --pair H-Cl --amplitude 0.5 -o motion.png
@@ -504,11 +499,11 @@ same way. The title gives the measured, exact and harmonic periods.`,
 			return e.writePlot(f, &out)
 		},
 	}
-	out.register(cmd)
+	out.register(e, cmd)
 	mass.register(cmd)
 	f := cmd.Flags()
 	f.StringVar(&amplitude, "amplitude", "", "starting displacement r0 − re at rest, Å unless a unit is given (e.g. 0.2, -0.1, 20pm)")
-	f.StringVar(&method, "method", "dopri", "integrator: heun, rk4, verlet or dopri")
+	methodVar(f, &method)
 	f.IntVar(&periods, "periods", motion.DefaultPeriods, "number of periods to integrate")
 	return cmd
 }

@@ -6,25 +6,24 @@ import (
 	"github.com/spf13/cobra"
 
 	"github.com/pairwell/pairwell/core/figure"
-	"github.com/pairwell/pairwell/core/units"
 )
 
 func newPlotLevelsCmd(e *env) *cobra.Command {
 	var (
-		out       plotOutput
-		mass      massFlags
-		vmax      int
-		tolerance string
+		out      plotOutput
+		mass     massFlags
+		vmax     int
+		accuracy string
 	)
 	cmd := &cobra.Command{
-		Use:   "levels SPEC (--pair A-B | --mu M) [--v-max V] -o FILE",
+		Use:   "levels SPEC (--pair A-B | --mu M) [--v-max V] [--accuracy E] -o FILE",
 		Short: "Draw the well with its quantum levels and the harmonic ladder beside them",
 		Long: `levels draws the well V(r) of SPEC with its vibrational levels at J = 0 (as
 "pairwell levels" computes them), each a line between its classical turning
 points, and beside the well, for contrast, the harmonic ladder V(re) + ħω(v + ½)
 with ω = √(V″(re)/μ): evenly spaced where the real levels crowd together towards
 the dissociation limit (dotted). --v-max V draws v = 0…V (default every bound
-level, at most 120; required for the harmonic form); --tolerance as for
+level, at most 120; required for the harmonic form); --accuracy as for
 "pairwell levels".`,
 		Example: `  pairwell plot levels morse:De=4.6,a=1.87,re=1.27 --pair 1H-35Cl -o levels.png
   pairwell plot levels lj:epsilon=120K,sigma=3.4 --pair Ar-Ar -o ar2.svg
@@ -42,15 +41,8 @@ level, at most 120; required for the harmonic form); --tolerance as for
 				return usageErr(fmt.Errorf("--v-max %d: must be 0 or more (-1: every bound level)", vmax))
 			}
 			o := figure.LevelsOptions{Mu: m.Mu, VMax: vmax}
-			if tolerance != "" {
-				ev, err := units.ParseIn(tolerance, units.Energy, "cm-1")
-				if err != nil {
-					return usageErr(fmt.Errorf("--tolerance: %w", err))
-				}
-				if !(ev > 0) {
-					return usageErr(fmt.Errorf("--tolerance %s: must be > 0", tolerance))
-				}
-				o.Tolerance = ev / units.WavenumberEV
+			if o.Tolerance, err = parseAccuracy(accuracy); err != nil {
+				return usageErr(err)
 			}
 			inst, err := e.build(args[0])
 			if err != nil {
@@ -65,9 +57,9 @@ level, at most 120; required for the harmonic form); --tolerance as for
 			return e.writePlot(f, &out)
 		},
 	}
-	out.register(cmd)
+	out.register(e, cmd)
 	mass.register(cmd)
 	cmd.Flags().IntVar(&vmax, "v-max", -1, "highest vibrational level drawn (default: every bound level; required for the harmonic form)")
-	cmd.Flags().StringVar(&tolerance, "tolerance", "", "accuracy of the levels, cm⁻¹ unless a unit is given (default 1e-6)")
+	accuracyVar(cmd.Flags(), &accuracy)
 	return cmd
 }

@@ -33,8 +33,8 @@ func newTableCmd(e *env) *cobra.Command {
 		Long: `table evaluates a form on the uniform grid r = R1, R1 + h, …, R2 (exactly, one batched
 evaluation) and writes the energy V [eV], the force F = −V′ [eV/Å] and, with
 --second-derivative, V″ [eV/Å²]: CSV with the columns r_angstrom, energy_ev,
-force_ev_per_angstrom, d2v_ev_per_angstrom2 (comment lines starting with # above
-the header), a JSON object with the rows, or an aligned table.
+force_ev_per_angstrom, d2v_ev_per_angstrom2 (the rows only: the summary goes to
+standard error), a JSON object with the rows, or an aligned table.
 
 The grid: --step H (up to the last point not beyond R2), --points N, or
 --accuracy E: the spacing a simulation needs so that interpolating the table
@@ -135,6 +135,12 @@ README) and the summary to standard output.`,
 			}
 			meta := report.NewTable(strings.TrimSpace(args[0]), inst, res)
 			write := func(w io.Writer) error { return writeTableData(w, e.format, meta, res.Table) }
+			if e.format == "csv" && out == "" {
+				// CSV is the rows only; the summary goes beside it.
+				if err := writeOut(e.stderr, func(w io.Writer) error { return writeTableSummary(w, "pairwell: table: ", meta) }); err != nil {
+					return err
+				}
+			}
 			if out != "" {
 				if err := e.writeOutput("-o", out, write); err != nil {
 					return err
@@ -218,9 +224,6 @@ func writeTableData(w io.Writer, format string, meta report.Table, t *tabulate.T
 	var buf []byte
 	switch format {
 	case "csv":
-		if err := writeTableSummary(w, "# ", meta); err != nil {
-			return err
-		}
 		if _, err := io.WriteString(w, strings.Join(meta.Columns, ",")+"\n"); err != nil {
 			return err
 		}
@@ -321,8 +324,9 @@ func writeTableSummary(w io.Writer, prefix string, m report.Table) error {
 	}
 	if a := m.Accuracy; a != nil {
 		var ds []string
-		for _, d := range a.Derivatives {
-			ds = append(ds, fmt.Sprintf("max|V%s| = %.4g eV/Å%s at %s Å", derivMark(d.Order), d.Max, units.Superscript(d.Order), num(d.R)))
+		orders, maxima, at := a.Derivatives()
+		for i, k := range orders {
+			ds = append(ds, fmt.Sprintf("max|V%s| = %.4g eV/Å%s at %s Å", derivMark(k), maxima[i], units.Superscript(k), num(at[i])))
 		}
 		lines = append(lines,
 			fmt.Sprintf("requested accuracy: V %.3g eV, F %.3g eV/Å; bounds at this step (safety factor %g on %s): V %.3g eV by %s, F %.3g eV/Å by %s; %d refinements after checking",

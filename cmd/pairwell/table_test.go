@@ -34,10 +34,19 @@ func TestTableJSONKeys(t *testing.T) {
 	}
 	assert.Len(t, m, 14)
 	acc := m["accuracy"].(map[string]any)
-	for _, k := range []string{"energy_ev", "force_ev_per_angstrom", "bound_energy_ev", "bound_force_ev_per_angstrom",
-		"energy_bound", "force_bound", "max_abs_derivatives", "safety_factor", "refinements"} {
+	for _, k := range []string{"energy_tolerance_ev", "force_tolerance_ev_per_angstrom", "bound_energy_ev", "bound_force_ev_per_angstrom",
+		"energy_bound", "force_bound", "max_abs_d2v_ev_per_angstrom2", "max_abs_d2v_r_angstrom", "max_abs_d3v_ev_per_angstrom3",
+		"max_abs_d3v_r_angstrom", "max_abs_d4v_ev_per_angstrom4", "max_abs_d4v_r_angstrom", "safety_factor", "refinements"} {
 		assert.Contains(t, acc, k)
 	}
+	assert.Len(t, acc, 14)
+	// Cubic: only max|V⁽⁴⁾| is used. For Morse it lies at the start of the
+	// range, in the wall: with y = e^{−a(r−re)}, V = De(y² − 2y) and
+	// V⁽⁴⁾ = De(16a⁴y² − 2a⁴y) (P. M. Morse 1929, differentiated).
+	assert.Nil(t, acc["max_abs_d2v_ev_per_angstrom2"])
+	assert.Equal(t, 0.9, acc["max_abs_d4v_r_angstrom"])
+	yw := math.Exp(-1.87 * (0.9 - 1.27))
+	assert.InEpsilon(t, 4.6*(16*math.Pow(1.87, 4)*yw*yw-2*math.Pow(1.87, 4)*yw), acc["max_abs_d4v_ev_per_angstrom4"].(float64), 1e-12)
 	ch := m["check"].(map[string]any)
 	for _, k := range []string{"energy_error_ev", "energy_error_r_angstrom", "force_error_ev_per_angstrom", "force_error_r_angstrom", "points", "where"} {
 		assert.Contains(t, ch, k)
@@ -68,21 +77,17 @@ func TestTableJSONKeys(t *testing.T) {
 	assert.Greater(t, m["check"].(map[string]any)["energy_error_ev"].(float64), 1e-3)
 }
 
-// TestTableCSVReadBack: the CSV carries its summary as # comments and its
-// columns under the reference-data keys, so that pairwell's own reader
-// (pairwell fit) takes it back unchanged.
+// TestTableCSVReadBack: the CSV is the rows under the reference-data keys,
+// so that pairwell's own reader (pairwell fit) takes it back unchanged;
+// the summary goes to standard error.
 func TestTableCSVReadBack(t *testing.T) {
 	code, out, errOut := runCLI(t, "table", "lj:epsilon=120K,sigma=3.4", "--from", "3", "--to", "12", "--points", "200", "--format", "csv")
 	require.Equal(t, 0, code, errOut)
 	lines := strings.Split(strings.TrimSpace(out), "\n")
-	var head int
-	for head < len(lines) && strings.HasPrefix(lines[head], "#") {
-		head++
-	}
-	assert.Equal(t, "r_angstrom,energy_ev,force_ev_per_angstrom", lines[head])
-	assert.Len(t, lines, head+1+200)
-	assert.Contains(t, out, "# measured interpolation error")
-	assert.Contains(t, out, "# Caution:")
+	assert.Equal(t, "r_angstrom,energy_ev,force_ev_per_angstrom", lines[0])
+	assert.Len(t, lines, 1+200)
+	assert.Contains(t, errOut, "pairwell: table: measured interpolation error")
+	assert.Contains(t, errOut, "pairwell: table: Caution:")
 	data, err := refdata.Read(strings.NewReader(out), "table.csv")
 	require.NoError(t, err)
 	require.Len(t, data.R, 200)

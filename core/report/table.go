@@ -29,25 +29,47 @@ type Table struct {
 }
 
 // TableAccuracy is how the spacing was chosen for a requested accuracy.
+// The sampled maxima of |V⁽ᵏ⁾| used in the bounds (before the safety
+// factor) are those of the interpolation: k = 4 for cubic, 2 and 3 for
+// linear; the others are null.
 type TableAccuracy struct {
-	Energy      float64 `json:"energy_ev"`             // requested
-	Force       float64 `json:"force_ev_per_angstrom"` // requested
-	BoundEnergy float64 `json:"bound_energy_ev"`       // a-priori bound at the spacing
-	BoundForce  float64 `json:"bound_force_ev_per_angstrom"`
-	EnergyRule  string  `json:"energy_bound"` // the bound as a formula
-	ForceRule   string  `json:"force_bound"`
-	// Derivatives are the sampled maxima of |V⁽ᵏ⁾| used in the bounds
-	// (before the safety factor).
-	Derivatives []TableDerivative `json:"max_abs_derivatives"`
-	Safety      float64           `json:"safety_factor"`
-	Refinements int               `json:"refinements"`
+	Energy      float64  `json:"energy_tolerance_ev"`             // requested
+	Force       float64  `json:"force_tolerance_ev_per_angstrom"` // requested
+	BoundEnergy float64  `json:"bound_energy_ev"`                 // a-priori bound at the spacing
+	BoundForce  float64  `json:"bound_force_ev_per_angstrom"`
+	EnergyRule  string   `json:"energy_bound"` // the bound as a formula
+	ForceRule   string   `json:"force_bound"`
+	D2V         *float64 `json:"max_abs_d2v_ev_per_angstrom2"`
+	D2VR        *float64 `json:"max_abs_d2v_r_angstrom"`
+	D3V         *float64 `json:"max_abs_d3v_ev_per_angstrom3"`
+	D3VR        *float64 `json:"max_abs_d3v_r_angstrom"`
+	D4V         *float64 `json:"max_abs_d4v_ev_per_angstrom4"`
+	D4VR        *float64 `json:"max_abs_d4v_r_angstrom"`
+	Safety      float64  `json:"safety_factor"`
+	Refinements int      `json:"refinements"`
 }
 
-// TableDerivative is max |V⁽ᵏ⁾| over the range, in eV/Åᵏ, and where.
-type TableDerivative struct {
-	Order int     `json:"order"`
-	Max   float64 `json:"max_abs"`
-	R     float64 `json:"r_angstrom"`
+// derivative returns the fields of max |V⁽ᵏ⁾| and where.
+func (a *TableAccuracy) derivative(k int) (v, r **float64) {
+	switch k {
+	case 2:
+		return &a.D2V, &a.D2VR
+	case 3:
+		return &a.D3V, &a.D3VR
+	}
+	return &a.D4V, &a.D4VR
+}
+
+// Derivatives lists the orders k whose max |V⁽ᵏ⁾| is set, with the value
+// (eV/Åᵏ) and where (Å).
+func (a *TableAccuracy) Derivatives() (orders []int, max, at []float64) {
+	for k := 2; k <= 4; k++ {
+		v, r := a.derivative(k)
+		if *v != nil {
+			orders, max, at = append(orders, k), append(max, **v), append(at, **r)
+		}
+	}
+	return orders, max, at
 }
 
 // TableCheck is the measured error of the interpolant.
@@ -87,9 +109,10 @@ func NewTable(spec string, inst core.Instance, res *tabulate.Result) Table {
 		a := &TableAccuracy{Energy: p.Tolerance.Energy, Force: p.Tolerance.Force,
 			BoundEnergy: p.Bound.Energy, BoundForce: p.Bound.Force, Safety: p.Safety, Refinements: p.Refinements}
 		a.EnergyRule, a.ForceRule = BoundRules(res.Interpolation)
-		a.Derivatives = append(a.Derivatives, TableDerivative{p.EnergyOrder, p.EnergyMax, p.EnergyMaxR})
-		if p.ForceOrder != p.EnergyOrder {
-			a.Derivatives = append(a.Derivatives, TableDerivative{p.ForceOrder, p.ForceMax, p.ForceMaxR})
+		for _, d := range [][3]float64{{float64(p.EnergyOrder), p.EnergyMax, p.EnergyMaxR}, {float64(p.ForceOrder), p.ForceMax, p.ForceMaxR}} {
+			v, r := a.derivative(int(d[0]))
+			m, at := d[1], d[2]
+			*v, *r = &m, &at
 		}
 		t.Accuracy = a
 	}
