@@ -84,6 +84,7 @@ var contractCases = map[string]contractCase{
 	"table": {args: fixed("table", contractMorse, "--from", "0.9", "--to", "3", "--accuracy", "1e-4", "--second-derivative"),
 		records: "rows"},
 	"check":   {args: fixed("check", contractMorse)},
+	"cutoff":  {args: fixed("cutoff", contractLJ, "--cutoff", "8.5", "--pair", "Ar-Ar", "--density", "1.40g/cm3"), records: "schemes"},
 	"models":  {args: fixed("models")},
 	"demo":    {args: fixed("demo", "--no-pictures"), noCSV: true},
 	"version": {args: fixed("version")},
