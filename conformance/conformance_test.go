@@ -297,8 +297,8 @@ func TestJSON(t *testing.T) {
 	var rows []map[string]any
 	require.NoError(t, json.Unmarshal(data, &rows))
 	require.Len(t, rows, len(rep.Results))
-	for _, k := range []string{"subject", "model", "check", "name", "order", "status", "passed", "skipped",
-		"error", "tolerance", "worst_r_angstrom", "message", "seconds"} {
+	for _, k := range []string{"name", "model", "check", "title", "derivative_order", "status", "passed", "skipped",
+		"deviation", "tolerance", "worst_r_angstrom", "message", "source", "seconds"} {
 		assert.Contains(t, rows[0], k)
 	}
 	assert.Nil(t, rows[0]["worst_r_angstrom"], "max-order is not tied to a separation: null")

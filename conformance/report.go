@@ -102,42 +102,55 @@ func (r Result) String() string {
 	return b.String()
 }
 
-// jsonNumber encodes NaN and ±Inf as null.
+// jsonNumber encodes as pairwell's JSON numbers do: NaN (no value) as
+// null, ±Inf as the strings "Infinity" and "-Infinity".
 type jsonNumber float64
 
 func (n jsonNumber) MarshalJSON() ([]byte, error) {
 	f := float64(n)
-	if math.IsNaN(f) || math.IsInf(f, 0) {
+	switch {
+	case math.IsNaN(f):
 		return []byte("null"), nil
+	case math.IsInf(f, 1):
+		return []byte(`"Infinity"`), nil
+	case math.IsInf(f, -1):
+		return []byte(`"-Infinity"`), nil
 	}
 	return json.Marshal(f)
 }
 
-// MarshalJSON encodes r as an object with the keys subject, model, check,
-// name, order, status ("pass", "FAIL", "skip"), passed, skipped, error,
-// tolerance, worst_r_angstrom (null when not tied to a separation),
-// message, source (omitted when empty) and seconds. Non-finite numbers are
-// null.
+// MarshalJSON encodes r as an object with the keys name (the subject:
+// the spec or set entry checked), model, check (the kind), title,
+// derivative_order (Result.Order: 0 for V itself or a check of no
+// derivative), status ("pass",
+// "FAIL", "skip"), passed, skipped, deviation (the measured error, null
+// when the check measures none), tolerance, worst_r_angstrom (null when
+// not tied to a separation), message, source (null when none) and
+// seconds.
 func (r Result) MarshalJSON() ([]byte, error) {
+	var source *string
+	if r.Source != "" {
+		source = &r.Source
+	}
 	return json.Marshal(struct {
-		Subject   string     `json:"subject"`
+		Subject   string     `json:"name"`
 		Model     string     `json:"model"`
 		Check     string     `json:"check"`
-		Name      string     `json:"name"`
-		Order     int        `json:"order"`
+		Name      string     `json:"title"`
+		Order     int        `json:"derivative_order"`
 		Status    string     `json:"status"`
 		Passed    bool       `json:"passed"`
 		Skipped   bool       `json:"skipped"`
-		Error     jsonNumber `json:"error"`
+		Error     jsonNumber `json:"deviation"`
 		Tolerance jsonNumber `json:"tolerance"`
 		WorstR    jsonNumber `json:"worst_r_angstrom"`
 		Message   string     `json:"message"`
-		Source    string     `json:"source,omitempty"`
+		Source    *string    `json:"source"`
 		Seconds   float64    `json:"seconds"`
 	}{
 		r.Subject, r.Model, r.Check, r.Name, r.Order, r.Status(), r.Passed, r.Skipped,
 		jsonNumber(r.Error), jsonNumber(r.Tolerance), jsonNumber(r.WorstR),
-		r.Message, r.Source, r.Duration.Seconds(),
+		r.Message, source, r.Duration.Seconds(),
 	})
 }
 

@@ -8,6 +8,7 @@ import (
 	"github.com/spf13/cobra"
 
 	"github.com/pairwell/pairwell/conformance/baseline"
+	"github.com/pairwell/pairwell/core/report"
 	"github.com/pairwell/pairwell/core/validity"
 )
 
@@ -75,9 +76,9 @@ baseline is replaced only by a complete new one.`,
 				n += len(en.Params) + len(en.Quantities)
 			}
 			summary := struct {
-				Path       string `json:"path"`
+				Path       string `json:"file"`
 				Entries    int    `json:"entries"`
-				Quantities int    `json:"quantities"`
+				Quantities int    `json:"values"`
 				Tool       string `json:"tool"`
 			}{out, len(b.Entries), n, b.Tool}
 			t := &table{cols: []column{{Title: "baseline"}, {Title: "entries"}, {Title: "values"}, {Title: "tool"}}}
@@ -93,25 +94,14 @@ baseline is replaced only by a complete new one.`,
 
 // changeRow is the JSON form of a baseline change.
 type changeRow struct {
-	Kind     string     `json:"kind"`
-	Entry    string     `json:"entry"`
-	Quantity string     `json:"quantity,omitempty"`
-	Unit     string     `json:"unit,omitempty"`
-	Old      jsonNumber `json:"old"`
-	New      jsonNumber `json:"new"`
-	Rel      jsonNumber `json:"relative_change"`
-	Text     string     `json:"detail,omitempty"`
-}
-
-// jsonNumber encodes NaN and ±Inf as null.
-type jsonNumber float64
-
-func (n jsonNumber) MarshalJSON() ([]byte, error) {
-	f := float64(n)
-	if math.IsNaN(f) || math.IsInf(f, 0) {
-		return []byte("null"), nil
-	}
-	return []byte(fmt.Sprintf("%v", f)), nil
+	Kind     string        `json:"kind"`
+	Entry    string        `json:"entry"`
+	Quantity report.Text   `json:"quantity"`
+	Unit     report.Text   `json:"unit"`
+	Old      report.Number `json:"old"`
+	New      report.Number `json:"new"`
+	Rel      report.Number `json:"relative_change"`
+	Text     report.Text   `json:"detail"`
 }
 
 func newBaselineVerifyCmd(e *env) *cobra.Command {
@@ -128,7 +118,7 @@ change |new − old|/max(|old|, |new|) exceeds --rtol (old, new, relative change
 and per entry added to or removed from the set. Values equal to the bit, equal
 infinities included, never move.
 
-JSON is an object: baseline, rtol, entries, compared, changes [{kind (moved,
+JSON is an object: file, rtol, entries, compared, changes [{kind (moved,
 added, removed, model), entry, quantity, unit, old, new, relative_change,
 detail}].
 
@@ -163,7 +153,8 @@ removed, 2 bad input (including a corrupt or foreign baseline file).`,
 			rows := make([]changeRow, len(d.Changes))
 			t := &table{cols: []column{{Title: "entry"}, {Title: "quantity"}, {Title: "unit"}, {Title: "old"}, {Title: "new"}, {Title: "relative change"}, {Title: "change"}}}
 			for i, c := range d.Changes {
-				rows[i] = changeRow{c.Kind, c.Entry, c.Quantity, c.Unit, jsonNumber(c.Old), jsonNumber(c.New), jsonNumber(c.Rel), c.Text}
+				rows[i] = changeRow{c.Kind, c.Entry, report.Text(c.Quantity), report.Text(c.Unit),
+					report.Number(c.Old), report.Number(c.New), report.Number(c.Rel), report.Text(c.Text)}
 				q := c.Quantity
 				if q == "" {
 					q = "(entry) " + c.Text
@@ -181,13 +172,13 @@ removed, 2 bad input (including a corrupt or foreign baseline file).`,
 				fmt.Fprintln(e.stdout, summary)
 			} else {
 				v := struct {
-					Baseline string      `json:"baseline"`
+					Baseline string      `json:"file"`
 					RTol     float64     `json:"rtol"`
 					Entries  int         `json:"entries"`
 					Compared int         `json:"compared"`
 					Changes  []changeRow `json:"changes"`
 				}{args[0], rtol, d.Entries, d.Compared, rows}
-				if err := e.emit(v, t); err != nil {
+				if err := e.emitRecords(v, "changes", t); err != nil {
 					return err
 				}
 			}

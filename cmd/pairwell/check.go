@@ -51,8 +51,9 @@ reported as skipped: give it a SPEC.
 
 --junit FILE also writes the results as JUnit XML (one testsuite per form, one
 testcase per check), written atomically, for CI systems to display. JSON is an
-array with, per check: subject, model, check, name, order, status, passed,
-skipped, error, tolerance, worst_r_angstrom, message, source, seconds.
+array with, per check: name (the form checked), model, check, title,
+derivative_order, status, passed, skipped, deviation, tolerance,
+worst_r_angstrom, message, source, seconds (README "Output contract").
 
 Exit status: 0 every check passed, 1 a check failed, 2 bad input.`,
 		Example: `  pairwell check

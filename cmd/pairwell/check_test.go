@@ -84,9 +84,9 @@ func TestCheckSpecsJSON(t *testing.T) {
 	require.NoError(t, json.Unmarshal([]byte(out), &rows))
 	subjects := map[string]bool{}
 	for _, r := range rows {
-		subjects[r["subject"].(string)] = true
+		subjects[r["name"].(string)] = true
 		assert.Equal(t, "pass", r["status"])
-		for _, k := range []string{"model", "check", "name", "error", "tolerance", "worst_r_angstrom", "message"} {
+		for _, k := range []string{"model", "check", "title", "deviation", "tolerance", "worst_r_angstrom", "message"} {
 			assert.Contains(t, r, k)
 		}
 	}
@@ -207,8 +207,8 @@ func TestCheckPlugins(t *testing.T) {
 		var failed []string
 		for _, r := range rows {
 			if r["status"] == "FAIL" {
-				failed = append(failed, r["name"].(string))
-				if r["check"] == "derivative" && r["order"] == 3.0 {
+				failed = append(failed, r["title"].(string))
+				if r["check"] == "derivative" && r["derivative_order"] == 3.0 {
 					msg := r["message"].(string)
 					assert.True(t, strings.HasPrefix(msg, "order 3: at r = "), msg)
 					assert.Contains(t, msg, "V‴ itself is wrong")

@@ -26,7 +26,6 @@ func newCompareCmd(e *env) *cobra.Command {
 		order     int
 		tolerance float64
 		withValid bool
-		eunit     string
 	)
 	cmd := &cobra.Command{
 		Use:   "compare [SPEC...] [--set FILE.toml] [--match re=R,De=D,k=K] (--pair A-B | --mu M) [--validity]",
@@ -61,11 +60,14 @@ without a mass. Every row needs one.
 
 Rows are computed in parallel on all cores (GOMAXPROCS); the output order is
 fixed. JSON is an array with, per row, the inspect object and "name",
-"validity" {order, tolerance, potential {compression_angstrom,
+"validity" {truncation_order, tolerance, potential {compression_angstrom,
 stretch_angstrom}, period {energy_ev, depth_fraction, temperature_k,
-compression_angstrom, stretch_angstrom}}, "notes" and "error" when present.
-Values are in eV, Å, u, fs, cm⁻¹ and K; an unbounded range is null (∞ in the
-table).`,
+compression_angstrom, stretch_angstrom}} (null without --validity),
+"boyle_temperature_k", "zero_point_energy_per_cm", "fundamental_per_cm",
+"notes" and "error" (null for a row that was analysed). CSV has one row per
+form, its header the JSON keys. Values are in eV, Å, u, fs, cm⁻¹ and K; an
+unbounded range is "Infinity" (∞ in the table), a value that does not apply
+null (README "Output contract").`,
 		Example: `  pairwell compare morse:De=4.6,a=1.87,re=1.27 lj:epsilon=4.6,sigma=1.13 --pair H-Cl
   pairwell compare --match re=127pm,De=4.6eV,k=500N/m --pair 1H-35Cl
   pairwell compare --set candidates.toml --tolerance 0.001 --format json`,
@@ -84,17 +86,13 @@ table).`,
 			if err != nil {
 				return err
 			}
-			uname, perUnit, err := energyUnit(eunit)
-			if err != nil {
-				return usageErr(err)
-			}
 			f := cmd.Flags()
 			withValid = withValid || f.Changed(truncationFlag) || f.Changed("order") || f.Changed("tolerance")
 			rows, err := e.compare(inputs, report.CompareSettings{Order: order, Tolerance: tolerance, Validity: withValid})
 			if err != nil {
 				return err
 			}
-			if err := e.emitCompare(rows, uname, perUnit); err != nil {
+			if err := e.emitCompare(rows); err != nil {
 				return err
 			}
 			errs := make([]error, len(rows))
@@ -112,7 +110,7 @@ table).`,
 	f.StringVar(&match, "match", "", "match every built-in form to a target well: re=R,De=D,k=K (any subset, units allowed)")
 	truncationVar(f, &order, report.DefaultValidityOrder, "order N of the truncated Taylor potential V_N whose validity is reported (2, 3 or 4)")
 	toleranceVar(f, &tolerance, "the validity criteria")
-	energyUnitVar(f, &eunit, "the table (JSON and CSV stay in eV)")
+	e.energyUnitFlag(cmd, tableEnergies)
 	f.BoolVar(&withValid, "validity", false, "also compute how far the truncated Taylor potential holds (implied by --truncation and --tolerance)")
 	return cmd
 }
@@ -275,14 +273,11 @@ func (e *env) compare(inputs []report.CompareInput, s report.CompareSettings) ([
 
 // emitCompare writes the rows: JSON as the rows themselves, a table (with
 // notes and errors as numbered footnotes) or CSV (with them in a column).
-func (e *env) emitCompare(rows []report.CompareRow, unit string, perUnit float64) error {
-	if e.format == "json" {
+func (e *env) emitCompare(rows []report.CompareRow) error {
+	if e.format != "table" {
 		return e.emit(rows, nil)
 	}
-	t, notes := compareTable(rows, e.format == "csv")
-	if e.format == "table" && unit != "eV" {
-		convertEnergies(t, unit, perUnit, short)
-	}
+	t, notes := compareTable(rows)
 	if err := e.emit(rows, t); err != nil {
 		return err
 	}
@@ -346,14 +341,10 @@ func validityColumn(c column) bool {
 	return false
 }
 
-// compareTable lays the rows out, one per form. Table cells have 6
-// significant digits; full reports full precision (for CSV) and puts the
-// note text in the notes column instead of a footnote number.
-func compareTable(rows []report.CompareRow, full bool) (*table, []string) {
+// compareTable lays the rows out, one per form, with cells of 6
+// significant digits and the notes as footnotes.
+func compareTable(rows []report.CompareRow) (*table, []string) {
 	f := short
-	if full {
-		f = num
-	}
 	// With a reduced mass, the quantum columns follow the period.
 	quantum := false
 	withValidity := false
@@ -407,12 +398,9 @@ func compareTable(rows []report.CompareRow, full bool) (*table, []string) {
 		if r.Err != nil {
 			text = append(text, "error: "+r.Err.Error())
 		}
-		switch {
-		case len(text) == 0:
+		if len(text) == 0 {
 			cells = append(cells, "")
-		case full:
-			cells = append(cells, strings.Join(text, "; "))
-		default:
+		} else {
 			var refs []string
 			for _, s := range text {
 				foot = append(foot, r.Name+": "+s)

@@ -45,7 +45,7 @@ func requireValidityKeys(t *testing.T, row map[string]any) {
 	t.Helper()
 	v, ok := row["validity"].(map[string]any)
 	require.True(t, ok, "%v: validity object", row["name"])
-	for _, k := range []string{"order", "tolerance", "potential", "period"} {
+	for _, k := range []string{"truncation_order", "tolerance", "potential", "period"} {
 		assert.Contains(t, v, k, "%v", row["name"])
 	}
 	pot, _ := v["potential"].(map[string]any)
@@ -67,24 +67,25 @@ func TestCompareSpecsJSON(t *testing.T) {
 		for _, k := range inspectKeys {
 			assert.Contains(t, r, k, "%v: key %s", r["name"], k)
 		}
-		assert.NotContains(t, r, "error")
+		assert.Nil(t, r["error"])
 		requireValidityKeys(t, r)
 		v := r["validity"].(map[string]any)
-		assert.EqualValues(t, 2, v["order"])
+		assert.EqualValues(t, 2, v["truncation_order"])
 		assert.EqualValues(t, 0.01, v["tolerance"])
 		assert.Equal(t, "H-Cl", r["pair"])
 	}
 	assert.Equal(t, []string{"morse", "lennard-jones", "buckingham", "harmonic"}, names, "input order")
 	// The truncation V_2 of the harmonic form is the form itself: its
-	// ranges are unbounded, encoded as null.
+	// ranges are unbounded, encoded as "Infinity"; E/depth does not apply.
 	h := rows[3]["validity"].(map[string]any)
-	assert.Nil(t, h["period"].(map[string]any)["energy_ev"])
-	assert.Nil(t, h["potential"].(map[string]any)["stretch_angstrom"])
+	assert.Equal(t, "Infinity", h["period"].(map[string]any)["energy_ev"])
+	assert.Equal(t, "Infinity", h["potential"].(map[string]any)["stretch_angstrom"])
+	assert.Nil(t, h["period"].(map[string]any)["depth_fraction"])
 
 	// --truncation and --tolerance reach the validity object.
 	rows = compareJSON(t, fourSpecs[0], "--mu", "1", "--truncation", "4", "--tolerance", "0.001")
 	v := rows[0]["validity"].(map[string]any)
-	assert.EqualValues(t, 4, v["order"])
+	assert.EqualValues(t, 4, v["truncation_order"])
 	assert.EqualValues(t, 0.001, v["tolerance"])
 }
 
@@ -168,7 +169,7 @@ func TestCompareMatchRowErrors(t *testing.T) {
 	require.Len(t, rows, 4)
 	for _, r := range rows {
 		if r["model"] == "lennard-jones" {
-			assert.NotContains(t, r, "error")
+			assert.Nil(t, r["error"])
 			requireValidityKeys(t, r)
 			continue
 		}
@@ -177,22 +178,22 @@ func TestCompareMatchRowErrors(t *testing.T) {
 		assert.NotContains(t, r, "equilibrium_r_angstrom", r["name"])
 		assert.Contains(t, r, "model")
 	}
-	// The table shows the error as a footnote, CSV in the notes column.
+	// The table shows the error as a footnote, CSV in the error column.
 	code, out, _ := runCLI(t, "compare", "--match", "re=1.2,De=4", "--mu", "7")
 	require.Equal(t, 0, code)
 	assert.Contains(t, out, "matched-morse: error: cannot match")
 	code, out, _ = runCLI(t, "compare", "--match", "re=1.2,De=4", "--mu", "7", "--format", "csv")
 	require.Equal(t, 0, code)
-	assert.Contains(t, out, "error: cannot match")
+	assert.Contains(t, out, ",\"cannot match: morse:")
 	assert.Equal(t, 5, strings.Count(out, "\n"), "header and four rows")
 
 	// A target so stiff that Buckingham's A overflows: only that row fails.
 	rows = compareJSON(t, "--match", "re=3,De=0.01,k=100", "--mu", "7")
 	for _, r := range rows {
 		if r["model"] == "buckingham" {
-			assert.Contains(t, r, "error")
+			assert.NotNil(t, r["error"])
 		} else {
-			assert.NotContains(t, r, "error", r["name"])
+			assert.Nil(t, r["error"], r["name"])
 		}
 	}
 }
@@ -324,8 +325,8 @@ func TestCompareTable(t *testing.T) {
 	require.Equal(t, 0, code)
 	lines := strings.Split(strings.TrimSpace(out), "\n")
 	require.Len(t, lines, 5)
-	assert.True(t, strings.HasPrefix(lines[0], "name,re [Å],depth [eV]"), lines[0])
-	assert.Contains(t, lines[4], "Inf", "harmonic ranges are unbounded")
+	assert.True(t, strings.HasPrefix(lines[0], "name,model,origin,params,equilibrium_r_angstrom,"), lines[0])
+	assert.Contains(t, lines[4], "Infinity", "harmonic ranges are unbounded")
 	assert.NotContains(t, out, "Validity of", "no legend in CSV")
 }
 

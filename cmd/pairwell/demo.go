@@ -62,8 +62,8 @@ type demoScenario struct {
 	Depth       float64 `json:"well_depth_ev"`
 	K           float64 `json:"force_constant_ev_per_angstrom2"`
 	Mu          float64 `json:"reduced_mass_u"`
-	Order       int     `json:"validity_order"`
-	Tolerance   float64 `json:"validity_tolerance"`
+	Order       int     `json:"truncation_order"`
+	Tolerance   float64 `json:"tolerance"`
 }
 
 func newDemoCmd(e *env) *cobra.Command {
@@ -95,7 +95,7 @@ k = %g eV/Å², μ = %g u — made-up numbers, not a real molecule):
     folder --out (default ./pairwell-demo/; --no-pictures for none).
 
 --format json emits one object with the keys scenario, compare, period, fit
-(invented, description, data, n_points, fits: the objects of pairwell fit),
+(invented, description, data, points, fits: the objects of pairwell fit),
 temperature (expansion: the object of pairwell expansion; gas: invented,
 description, virial: the object of pairwell virial), levels (the object of
 pairwell levels for the matched Morse form), interpretation and
@@ -302,7 +302,7 @@ func writeDemoCompare(w io.Writer, r demoReport) error {
 		return err
 	}
 	fmt.Fprintln(w)
-	t, notes := compareTable(r.Compare, false)
+	t, notes := compareTable(r.Compare)
 	if err := writeTable(w, t); err != nil {
 		return err
 	}
@@ -319,7 +319,7 @@ func writeDemoPeriod(w io.Writer, r demoReport) error {
 	for _, row := range r.Period.Rows {
 		t.add(short(row.Amplitude), short(row.Energy), short(row.DepthFraction),
 			short(float64(row.Exact)), short(row.Harmonic), short(float64(row.Perturbative)),
-			percent(row.Lengthening()), percent(row.PerturbativeError()), row.Error)
+			percent(row.Lengthening()), percent(row.PerturbativeError()), string(row.Error))
 	}
 	return writeTable(w, t)
 }

@@ -28,7 +28,7 @@ type demoFit struct {
 	Invented    bool         `json:"invented"`
 	Description string       `json:"description"`
 	Data        string       `json:"data"`
-	Points      int          `json:"n_points"`
+	Points      int          `json:"points"`
 	Fits        []report.Fit `json:"fits"`
 }
 
@@ -69,7 +69,7 @@ func writeDemoFit(w io.Writer, r demoReport) error {
 		return nil
 	}
 	fmt.Fprintf(w, "\n== Fitting the four forms to an INVENTED scan (%d points, pairwell fit %s --mu %g)\n", f.Points, f.Data, demoBond.mu)
-	if err := writeTable(w, fitTable(f.Fits, false)); err != nil {
+	if err := writeTable(w, fitTable(f.Fits)); err != nil {
 		return err
 	}
 	var s []string
@@ -77,12 +77,12 @@ func writeDemoFit(w io.Writer, r demoReport) error {
 		s = append(s, fmt.Sprintf("Fitted to the same scan, %s ranks first with an RMSE of %.3g eV over all points; its fitted well "+
 			"(re = %.4g Å, depth %.3f eV, k = %.4g eV/Å²) is close to the curve's own (re = %g Å, De = %g eV, k = %g eV/Å²), "+
 			"but no form has the curve's exact shape, so the errors do not vanish.",
-			best.Form, float64(best.RMSE), best.Well.Re, float64(best.Well.Depth), best.Well.K,
+			best.Model, float64(best.RMSE), best.Well.Re, float64(best.Well.Depth), best.Well.K,
 			demoBond.target.Re, demoBond.target.Depth, demoBond.target.K))
 	}
 	for _, x := range f.Fits[1:] {
 		if x.Error != "" {
-			s = append(s, fmt.Sprintf("%s could not be fitted: %s.", x.Form, x.Error))
+			s = append(s, fmt.Sprintf("%s could not be fitted: %s.", x.Model, x.Error))
 		}
 	}
 	s = append(s, "Standard errors, correlations and the residual picture (fit.png) are in pairwell fit's output.")

@@ -48,7 +48,7 @@ func TestDemoJSON(t *testing.T) {
 		Fit struct {
 			Invented bool             `json:"invented"`
 			Data     string           `json:"data"`
-			Points   int              `json:"n_points"`
+			Points   int              `json:"points"`
 			Fits     []map[string]any `json:"fits"`
 		} `json:"fit"`
 		Temperature struct {
@@ -118,7 +118,7 @@ func TestDemoJSON(t *testing.T) {
 	assert.True(t, r.Fit.Invented)
 	assert.Equal(t, 44, r.Fit.Points)
 	require.Len(t, r.Fit.Fits, 4)
-	assert.Equal(t, "morse", r.Fit.Fits[0]["form"])
+	assert.Equal(t, "morse", r.Fit.Fits[0]["model"])
 	well := r.Fit.Fits[0]["well"].(map[string]any)
 	assert.InDelta(t, 1.20, well["equilibrium_r_angstrom"], 0.01, "the curve's re")
 	assert.InDelta(t, 4.00, well["well_depth_ev"], 0.01, "the curve's De")

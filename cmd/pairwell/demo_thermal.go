@@ -82,6 +82,7 @@ func demoGasVirial(e *env) (report.Virial, error) {
 	if err != nil {
 		return report.Virial{}, computeErr(fmt.Errorf("demo gas: %w", err))
 	}
+	v.Pair = report.Text(m.Pair)
 	return v, nil
 }
 

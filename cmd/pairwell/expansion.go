@@ -60,10 +60,11 @@ energy read as k_B·T). JSON is in K, Å and 1/K.`,
 			if err != nil {
 				return computeErr(err)
 			}
+			x.Pair = report.Text(m.Pair)
 			if e.format == "table" {
 				fmt.Fprintf(e.stdout, "%s (%s): re = %s Å, μ = %s u\n", x.Model, x.Params, num(float64(x.Re)), num(float64(x.Mu)))
 			}
-			if err := e.emit(x, expansionTable(x)); err != nil {
+			if err := e.emitRecords(x, "rows", expansionTable(x)); err != nil {
 				return err
 			}
 			switch e.format {

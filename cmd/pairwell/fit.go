@@ -283,16 +283,17 @@ energy and fundamental (J = 0 levels) of the fitted form; iterations,
 convergence reason and gradient norm. -o FILE.toml writes the fitted forms
 as a model set for compare, baseline and plot.
 
-JSON is an array in rank order; each object has rank, form, name, origin,
+JSON is an array in rank order; each object has rank, model, name, origin,
 params, standard_errors (null where not determined), correlation, spec,
 energy_zero_ev, energy_zero_fitted, energy_zero_source (fitted, largest r
 or given), energy_zero_standard_error_ev, rmse_ev, mae_ev,
-max_abs_error_ev, windows [{depth_fraction, bound_ev, n_points, rmse_ev,
-mae_ev, max_abs_error_ev}], n_points, n_fitted, weighted_rss_ev2,
+max_abs_error_ev, windows [{depth_fraction, bound_ev, points, rmse_ev,
+mae_ev, max_abs_error_ev}], points, fitted_points, weighted_rss_ev2,
 iterations, evaluations, converged, reason, gradient_norm, jacobian, well
 {equilibrium_r_angstrom, well_depth_ev, force_constant_ev_per_angstrom2,
 pair, reduced_mass_u, harmonic_wavenumber_per_cm, zero_point_energy_per_cm,
-fundamental_per_cm}, notes, and error for a form that could not be fitted.
+fundamental_per_cm}, notes, and error (null unless the form could not be
+fitted). CSV has one row per form, its header the JSON keys.
 
 A fit says how well a classical model form reproduces the data given; it is
 not a validated force field for production or safety decisions.`,
@@ -325,6 +326,7 @@ not a validated force field for production or safety decisions.`,
 		},
 	}
 	o.register(cmd)
+	e.energyUnitFlag(cmd, tableEnergies)
 	cmd.Flags().StringVarP(&out, "output", "o", "", "write the fitted forms as a model set (TOML) to this file")
 	return cmd
 }
@@ -387,10 +389,10 @@ var fitColumns = []column{
 }
 
 func (e *env) emitFit(run *fitRun) error {
-	if e.format == "json" {
+	if e.format != "table" {
 		return e.emit(run.fits, nil)
 	}
-	if err := e.emit(run.fits, fitTable(run.fits, e.format == "csv")); err != nil {
+	if err := e.emit(run.fits, fitTable(run.fits)); err != nil {
 		return err
 	}
 	if e.format == "table" {
@@ -401,12 +403,9 @@ func (e *env) emitFit(run *fitRun) error {
 	return nil
 }
 
-// fitTable is the ranking table; csv adds the spec and error columns.
-func fitTable(fits []report.Fit, csv bool) *table {
+// fitTable is the ranking table.
+func fitTable(fits []report.Fit) *table {
 	t := &table{cols: fitColumns}
-	if csv {
-		t.cols = append(append([]column(nil), fitColumns...), column{Title: "spec"}, column{Title: "error"})
-	}
 	for _, f := range fits {
 		w10, w50 := math.NaN(), math.NaN()
 		for _, w := range f.Windows {
@@ -434,12 +433,8 @@ func fitTable(fits []report.Fit, csv bool) *table {
 		case !f.Converged:
 			conv = "no (" + f.Reason + ")"
 		}
-		cells := []string{fmt.Sprint(f.Rank), f.Form, num(float64(f.RMSE)), num(float64(f.MAE)), num(float64(f.Max)),
-			num(w10), num(w50), num(re), num(depth), num(k), num(wn), fmt.Sprint(f.Iterations), conv}
-		if csv {
-			cells = append(cells, f.Spec, f.Error)
-		}
-		t.add(cells...)
+		t.add(fmt.Sprint(f.Rank), f.Model, num(float64(f.RMSE)), num(float64(f.MAE)), num(float64(f.Max)),
+			num(w10), num(w50), num(re), num(depth), num(k), num(wn), fmt.Sprint(f.Iterations), conv)
 	}
 	return t
 }
@@ -450,7 +445,7 @@ func writeFitDetails(w io.Writer, run *fitRun) error {
 	var b strings.Builder
 	fmt.Fprintf(&b, "\nData: %s, %d points; errors are fit − data in eV over all points and within 10 %% and 50 %% of the data's depth.\n", run.path, len(run.data.R))
 	for _, f := range run.fits {
-		fmt.Fprintf(&b, "\n%d. %s", f.Rank, f.Form)
+		fmt.Fprintf(&b, "\n%d. %s", f.Rank, f.Model)
 		if f.Error != "" {
 			fmt.Fprintf(&b, ": not fitted: %s\n", f.Error)
 			continue

@@ -18,9 +18,9 @@ import (
 
 // fitKeys are the JSON keys of every fitted form (README, "pairwell fit").
 var fitKeys = []string{
-	"rank", "form", "name", "origin", "params", "standard_errors", "correlation", "spec",
+	"rank", "model", "name", "origin", "params", "standard_errors", "correlation", "spec",
 	"energy_zero_ev", "energy_zero_fitted", "energy_zero_source", "energy_zero_standard_error_ev", "rmse_ev", "mae_ev",
-	"max_abs_error_ev", "windows", "n_points", "n_fitted", "weighted_rss_ev2", "iterations",
+	"max_abs_error_ev", "windows", "points", "fitted_points", "weighted_rss_ev2", "iterations",
 	"evaluations", "converged", "reason", "gradient_norm", "jacobian", "well",
 }
 
@@ -59,17 +59,17 @@ func TestFitJSON(t *testing.T) {
 	require.Len(t, rows, 4, "every built-in form")
 	for i, row := range rows {
 		for _, k := range fitKeys {
-			assert.Contains(t, row, k, "%v", row["form"])
+			assert.Contains(t, row, k, "%v", row["model"])
 		}
 		assert.Equal(t, float64(i+1), row["rank"])
 		w := row["windows"].([]any)
 		require.Len(t, w, 2)
-		for _, k := range []string{"depth_fraction", "bound_ev", "n_points", "rmse_ev", "mae_ev", "max_abs_error_ev"} {
+		for _, k := range []string{"depth_fraction", "bound_ev", "points", "rmse_ev", "mae_ev", "max_abs_error_ev"} {
 			assert.Contains(t, w[0], k)
 		}
 	}
 	best := rows[0]
-	assert.Equal(t, "morse", best["form"])
+	assert.Equal(t, "morse", best["model"])
 	p := best["params"].(map[string]any)
 	assert.InDelta(t, 4.6, p["De"], 1e-8*4.6)
 	assert.InDelta(t, 1.87, p["a"], 1e-8*1.87)
@@ -144,9 +144,11 @@ func TestFitModelSet(t *testing.T) {
 	require.Equal(t, 0, code, errOut)
 	lines := strings.Split(strings.TrimSpace(out), "\n")
 	require.Len(t, lines, 5, out)
-	assert.True(t, strings.HasPrefix(lines[0], "name,v,J,"), lines[0])
-	assert.True(t, strings.HasPrefix(lines[1], "morse-fit,0,0,"), lines[1])
-	assert.True(t, strings.HasPrefix(lines[4], "lennard-jones-fit,1,0,"), lines[4])
+	assert.True(t, strings.HasPrefix(lines[0], "name,model,params,pair,reduced_mass_u,v,j,"), lines[0])
+	assert.True(t, strings.HasPrefix(lines[1], "morse-fit,morse,"), lines[1])
+	assert.Contains(t, lines[1], ",0.98,0,0,")
+	assert.True(t, strings.HasPrefix(lines[4], "lennard-jones-fit,lennard-jones,"), lines[4])
+	assert.Contains(t, lines[4], ",0.98,1,0,")
 	code, out, errOut = runCLI(t, "levels", "--set", set, "--j-max", "0", "--v-max", "1")
 	require.Equal(t, 0, code, errOut)
 	assert.Contains(t, out, "== morse-fit\n")
@@ -202,7 +204,7 @@ func TestFitCSVAndPlot(t *testing.T) {
 	path := writeMorseScan(t)
 	code, out, errOut := runCLI(t, "fit", path, "--form", "morse", "--offset", "fit", "--format", "csv")
 	require.Equal(t, 0, code, errOut)
-	assert.True(t, strings.HasPrefix(out, "rank,form,RMSE [eV]"), out)
+	assert.True(t, strings.HasPrefix(out, "rank,model,name,origin,params,"), out)
 	assert.Contains(t, out, "morse:De=")
 	pic := filepath.Join(t.TempDir(), "fit.png")
 	code, out, errOut = runCLI(t, "plot", "fit", path, "--offset", "fit", "-o", pic, "--format", "json")
@@ -224,7 +226,7 @@ func TestFitWeightsAndRank(t *testing.T) {
 	}
 	rows := fitJSON(t, path, "--form", "morse", "--form", "harmonic", "--weights", "window:0.5eV", "--rank", "max")
 	require.Len(t, rows, 2)
-	assert.Less(t, rows[0]["n_fitted"], rows[0]["n_points"])
+	assert.Less(t, rows[0]["fitted_points"], rows[0]["points"])
 }
 
 // TestFitErrors: bad files and options are one line with exit 2.
@@ -280,9 +282,9 @@ func TestFitPluginRecovery(t *testing.T) {
 	for _, row := range rows {
 		p := row["params"].(map[string]any)
 		for name, want := range map[string]float64{"De": 4.6, "a": 1.87, "re": 1.27} {
-			assert.InDelta(t, 1, p[name].(float64)/want, 1e-8, "%v %s", row["form"], name)
+			assert.InDelta(t, 1, p[name].(float64)/want, 1e-8, "%v %s", row["model"], name)
 		}
-		if row["form"] == "plugin-morse" {
+		if row["model"] == "plugin-morse" {
 			assert.Equal(t, "central differences", row["jacobian"])
 		}
 		assert.Less(t, row["rmse_ev"].(float64), 1e-8)
@@ -305,7 +307,7 @@ func TestFitFormulaForm(t *testing.T) {
 	for _, row := range rows {
 		p := row["params"].(map[string]any)
 		for name, want := range map[string]float64{"De": 4.6, "a": 1.87, "re": 1.27} {
-			assert.InDelta(t, 1, p[name].(float64)/want, 1e-8, "%v %s", row["form"], name)
+			assert.InDelta(t, 1, p[name].(float64)/want, 1e-8, "%v %s", row["model"], name)
 		}
 	}
 	code, _, errOut = runCLI(t, "--forms", forms, "fit", path, "--form", "fmorse")

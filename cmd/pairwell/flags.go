@@ -7,6 +7,7 @@ import (
 	"strconv"
 	"strings"
 
+	"github.com/spf13/cobra"
 	"github.com/spf13/pflag"
 
 	"github.com/pairwell/pairwell/core/levels"
@@ -195,13 +196,45 @@ func energyUnitVar(f *pflag.FlagSet, v *string, what string) {
 	f.StringVar(v, "energy-unit", "eV", "unit of the energies of "+what+": "+strings.Join(energyUnits, ", "))
 }
 
+// energyChoice is the --energy-unit of a command: the flag as given, and
+// once read (PersistentPreRunE) the unit's canonical name and value in eV.
+// The zero value, and a command without the flag, mean eV.
+type energyChoice struct {
+	flag, name string
+	perUnit    float64
+}
+
+// tableEnergies is what --energy-unit converts in a command's table.
+const tableEnergies = "the table (JSON and CSV stay in eV)"
+
+// energyUnitFlag registers --energy-unit on cmd: the energies of what
+// (tableEnergies, or a picture's energy axis) are shown in that unit.
+func (e *env) energyUnitFlag(cmd *cobra.Command, what string) {
+	energyUnitVar(cmd.Flags(), &e.energy.flag, what)
+}
+
+// readEnergyUnit reads --energy-unit, when the command has it.
+func (e *env) readEnergyUnit() error {
+	if e.energy.flag == "" {
+		return nil
+	}
+	name, perUnit, err := energyUnit(e.energy.flag)
+	if err != nil {
+		return usageErr(err)
+	}
+	e.energy.name, e.energy.perUnit = name, perUnit
+	return nil
+}
+
 // convertEnergies rewrites the energies of a table in another unit: in a
 // table with a "unit" column, the "value" cell of every row whose unit
-// starts with "eV" (eV, eV/Å², eV/Å³ …); in a table with units in the
-// headers, every column whose unit starts with "eV". Values are divided by
-// perUnit, the unit's value in eV; cells that are not numbers (∞, —) stay.
-// JSON and CSV are never converted: they keep the documented units.
-func convertEnergies(t *table, name string, perUnit float64, format func(float64) string) {
+// starts with "eV" (eV, eV/Å², eV/Å³ …), to 9 significant digits; in a
+// table with units in the headers, every column whose unit starts with
+// "eV", to 6. Values are divided by perUnit, the unit's value in eV; cells
+// that are not numbers (∞, —) stay. JSON and CSV are never converted: they
+// keep the documented units.
+func convertEnergies(t *table, name string, perUnit float64) {
+	format := short
 	conv := func(cell string) string {
 		v, err := strconv.ParseFloat(cell, 64)
 		if err != nil {
@@ -219,6 +252,8 @@ func convertEnergies(t *table, name string, perUnit float64, format func(float64
 		}
 	}
 	if unitCol >= 0 && valueCol >= 0 {
+		// The cells hold 10 digits; converted, 9 are certain.
+		format = func(v float64) string { return strconv.FormatFloat(v, 'g', 9, 64) }
 		for _, r := range t.rows {
 			if u := r[unitCol]; strings.HasPrefix(u, "eV") && valueCol < len(r) {
 				r[valueCol] = conv(r[valueCol])

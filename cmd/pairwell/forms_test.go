@@ -113,7 +113,7 @@ func TestFormsModelsAndMatch(t *testing.T) {
 			found = true
 			assert.Equal(t, "formula", e["kind"])
 			assert.Equal(t, filepath.Join(dir, "a.toml")+":59", e["origin"])
-			ps := e["params"].([]any)
+			ps := e["parameters"].([]any)
 			assert.Equal(t, "1/Å²", ps[2].(map[string]any)["unit"])
 			assert.Equal(t, "length^-2", ps[2].(map[string]any)["dimension"])
 		}

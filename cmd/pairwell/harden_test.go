@@ -508,8 +508,8 @@ func TestWorkBounded(t *testing.T) {
 	}
 }
 
-// TestJSONRowsStreamed: rows streamed one by one are the same bytes as the
-// whole slice encoded at once.
+// TestJSONRowsStreamed: rows streamed one by one after a head are the same
+// bytes as the whole object encoded at once.
 func TestJSONRowsStreamed(t *testing.T) {
 	type row struct {
 		A float64  `json:"a"`
@@ -522,16 +522,35 @@ func TestJSONRowsStreamed(t *testing.T) {
 		for i := range rows {
 			rows[i] = row{A: float64(i) / 3, B: "<x>", C: []int{i, i + 1}}
 		}
+		type head struct {
+			M string `json:"model"`
+			P []int  `json:"p"`
+		}
+		h := head{"m", []int{1, 2}}
 		var whole, streamed strings.Builder
-		require.NoError(t, writeJSON(&whole, rows))
-		require.NoError(t, writeJSONRows(&streamed, rows))
+		require.NoError(t, writeJSON(&whole, struct {
+			head
+			Rows []row `json:"rows"`
+		}{h, rows}))
+		require.NoError(t, writeJSONRows(&streamed, h, rows))
 		assert.Equal(t, whole.String(), streamed.String(), "n = %d", n)
+		whole.Reset()
+		streamed.Reset()
+		require.NoError(t, writeJSON(&whole, struct {
+			Rows []row `json:"rows"`
+		}{rows}))
+		require.NoError(t, writeJSONRows(&streamed, struct{}{}, rows))
+		assert.Equal(t, whole.String(), streamed.String(), "n = %d, no head", n)
 	}
 	code, out, errOut := runCLI(t, "period", "morse:De=4.4,a=1.9,re=1.27", "--mu", "1", "--amplitudes", "0.1,0.2", "--format", "json")
 	require.Equal(t, 0, code, errOut)
-	var rows []map[string]any
-	require.NoError(t, json.Unmarshal([]byte(out), &rows))
-	assert.Len(t, rows, 2)
+	var doc struct {
+		Model string           `json:"model"`
+		Rows  []map[string]any `json:"rows"`
+	}
+	require.NoError(t, json.Unmarshal([]byte(out), &doc))
+	assert.Equal(t, "morse", doc.Model)
+	assert.Len(t, doc.Rows, 2)
 }
 
 // FuzzCleanWriter: whatever is written, split anywhere, comes out without

@@ -2,7 +2,6 @@ package main
 
 import (
 	"fmt"
-	"strconv"
 	"strings"
 
 	"github.com/spf13/cobra"
@@ -17,7 +16,6 @@ func newInspectCmd(e *env) *cobra.Command {
 		mass    massFlags
 		order   int
 		setPath string
-		eunit   string
 	)
 	cmd := &cobra.Command{
 		Use:   "inspect SPEC... [--set FILE.toml]",
@@ -52,10 +50,6 @@ and cm⁻¹, whatever the input units.`,
 			if order < 2 {
 				return usageErr(fmt.Errorf("--%s %d: must be at least 2", coefficientsFlag, order))
 			}
-			uname, perUnit, err := energyUnit(eunit)
-			if err != nil {
-				return usageErr(err)
-			}
 			if len(args) == 0 && setPath == "" {
 				return usageErr(fmt.Errorf("inspect needs a SPEC (or several, or --set FILE.toml); see %s --help", cmd.CommandPath()))
 			}
@@ -64,16 +58,12 @@ and cm⁻¹, whatever the input units.`,
 				if err != nil {
 					return err
 				}
-				r, err := report.NewInspect("", inst, order, m)
+				name := strings.TrimSpace(args[0])
+				r, err := report.NewInspect(name, inst, order, m)
 				if err != nil {
 					return computeErr(err)
 				}
-				t := inspectTable(r)
-				if uname != "eV" {
-					// The cells hold 10 digits; converted, 9 are certain.
-					convertEnergies(t, uname, perUnit, func(v float64) string { return strconv.FormatFloat(v, 'g', 9, 64) })
-				}
-				return e.emit(r, t)
+				return e.emit(newInspectRecord(name, r.Model, &r, nil), inspectTable(r))
 			}
 			inputs, err := e.inspectInputs(args, setPath, m)
 			if err != nil {
@@ -85,7 +75,7 @@ and cm⁻¹, whatever the input units.`,
 	mass.register(cmd)
 	coefficientsVar(cmd.Flags(), &order, 4, "highest Taylor coefficient c_N to show (≥ 2)")
 	cmd.Flags().StringVar(&setPath, "set", "", "model-set file (TOML) naming the forms to inspect")
-	energyUnitVar(cmd.Flags(), &eunit, "the table (JSON and CSV stay in eV)")
+	e.energyUnitFlag(cmd, tableEnergies)
 	return cmd
 }
 
@@ -145,7 +135,7 @@ func (e *env) inspectAll(inputs []report.InspectInput, order int, single bool) e
 			return failErr(fmt.Errorf("writing output: %w", err))
 		}
 	default:
-		w = newTableRecords(e.stdout)
+		w = newTableRecords(e)
 	}
 	failed := 0
 	var first error
@@ -214,7 +204,7 @@ func inspectTable(r report.Inspect) *table {
 	}
 	if r.Mu != nil {
 		if r.Pair != "" {
-			t.add("pair", r.Pair, "")
+			t.add("pair", string(r.Pair), "")
 		}
 		t.add("reduced mass μ", num(*r.Mu), "u")
 		t.add("harmonic wavenumber", num(*r.Wavenumber), "cm⁻¹")

@@ -5,17 +5,13 @@ import (
 	"encoding/json"
 	"fmt"
 	"io"
-	"math"
-	"strconv"
-	"strings"
 
 	"github.com/pairwell/pairwell/core/report"
 )
 
-// inspectCSVKeys is the header of inspect's CSV: the JSON keys of an
-// inspect record, nested keys joined with a dot (barrier.r_angstrom).
-// params is one cell, "NAME=VALUE NAME=VALUE" in default units, and
-// taylor_coefficients one cell of space-separated c₀ … c_N.
+// inspectCSVKeys is the header of inspect's CSV, fixed so that rows can be
+// streamed: the JSON keys of an inspect record flattened as every CSV is
+// (see writeCSVRecords), barrier.r_angstrom for the nested barrier.
 var inspectCSVKeys = []string{
 	"name", "model", "origin", "params",
 	"equilibrium_r_angstrom", "equilibrium_energy_ev", "well_depth_ev",
@@ -26,64 +22,26 @@ var inspectCSVKeys = []string{
 	"harmonic_period_fs", "harmonic_angular_frequency_rad_per_fs", "error",
 }
 
-// csvNum formats a number for CSV: full precision, Inf for an unbounded
-// value, an empty cell for one that does not apply (NaN).
-func csvNum(v float64) string {
-	switch {
-	case math.IsNaN(v):
-		return ""
-	case math.IsInf(v, 1):
-		return "Inf"
-	case math.IsInf(v, -1):
-		return "-Inf"
-	}
-	return strconv.FormatFloat(v, 'g', -1, 64)
-}
-
-func csvPtr(v *float64) string {
-	if v == nil {
-		return ""
-	}
-	return csvNum(*v)
-}
-
-// inspectCSVRow is one record of inspect's CSV.
-func inspectCSVRow(name, model string, r *report.Inspect, err error) []string {
-	row := make([]string, len(inspectCSVKeys))
-	row[0], row[1] = name, model
-	if r != nil {
-		var params, taylor []string
-		for i, n := range r.Params.Names {
-			params = append(params, n+"="+csvNum(r.Params.Values[i]))
-		}
-		for _, c := range r.Taylor {
-			taylor = append(taylor, csvNum(c))
-		}
-		copy(row[1:], []string{
-			r.Model, r.Origin, strings.Join(params, " "),
-			csvNum(r.Re), csvNum(r.Energy), csvNum(float64(r.Depth)), csvNum(r.K), strings.Join(taylor, " "),
-			csvNum(float64(r.Inflection)), csvNum(float64(r.MaxForce)),
-		})
-		if r.Barrier != nil {
-			row[11], row[12] = csvNum(r.Barrier.R), csvNum(r.Barrier.Energy)
-		}
-		row[13] = r.Pair
-		row[14], row[15], row[16] = csvPtr(r.Mu), csvPtr(r.Wavenumber), csvPtr(r.FrequencyTHz)
-		row[17], row[18] = csvPtr(r.HarmonicPeriodFs), csvPtr(r.AngularFrequency)
-	}
-	if err != nil {
-		row[19] = oneLine(err.Error())
-	}
-	return row
-}
-
 // inspectRecord is one element of inspect's JSON array: the inspect object
 // with its name, or name, model and error for a form that failed.
 type inspectRecord struct {
 	*report.Inspect
-	Name  string `json:"name"`
-	Model string `json:"model"`
-	Error string `json:"error,omitempty"`
+	Name  string      `json:"name"`
+	Model string      `json:"model"`
+	Error report.Text `json:"error"`
+}
+
+// newInspectRecord is the record of the form name: its report r, or nil
+// and the error err.
+func newInspectRecord(name, model string, r *report.Inspect, err error) inspectRecord {
+	rec := inspectRecord{Inspect: r, Name: name, Model: model}
+	if r != nil {
+		rec.Model = r.Model
+	}
+	if err != nil {
+		rec.Error = report.Text(oneLine(err.Error()))
+	}
+	return rec
 }
 
 // recordWriter streams the records of a batch in one format.
@@ -100,14 +58,7 @@ type jsonArray struct {
 }
 
 func (j *jsonArray) write(name, model string, r *report.Inspect, err error) error {
-	rec := inspectRecord{Inspect: r, Name: name, Model: model}
-	if r != nil {
-		rec.Model = r.Model
-	}
-	if err != nil {
-		rec.Error = oneLine(err.Error())
-	}
-	b, mErr := json.MarshalIndent(rec, "  ", "  ")
+	b, mErr := json.MarshalIndent(newInspectRecord(name, model, r, err), "  ", "  ")
 	if mErr != nil {
 		return mErr
 	}
@@ -141,7 +92,16 @@ func newCSVRecords(w io.Writer) (*csvRecords, error) {
 }
 
 func (c *csvRecords) write(name, model string, r *report.Inspect, err error) error {
-	return c.cw.Write(inspectCSVRow(name, model, r, err))
+	doc, jErr := orderedJSON(newInspectRecord(name, model, r, err))
+	if jErr != nil {
+		return jErr
+	}
+	recs := csvRecordsOf(doc, "")
+	row := make([]string, len(inspectCSVKeys))
+	for i, k := range inspectCSVKeys {
+		row[i] = recs[0].cells[k]
+	}
+	return c.cw.Write(row)
 }
 
 func (c *csvRecords) close() error {
@@ -152,13 +112,13 @@ func (c *csvRecords) close() error {
 // tableRecords collects the rows of the batch table (aligned, so written
 // at the end).
 type tableRecords struct {
-	w     io.Writer
+	e     *env
 	t     *table
 	notes []string
 }
 
-func newTableRecords(w io.Writer) *tableRecords {
-	return &tableRecords{w: w, t: &table{cols: []column{
+func newTableRecords(e *env) *tableRecords {
+	return &tableRecords{e: e, t: &table{cols: []column{
 		{Title: "name"}, {Title: "re", Unit: "Å"}, {Title: "V(re)", Unit: "eV"}, {Title: "depth", Unit: "eV"},
 		{Title: "k", Unit: "eV/Å²"}, {Title: "c3", Unit: "eV/Å³"}, {Title: "c4", Unit: "eV/Å⁴"},
 		{Title: "wavenumber", Unit: "cm⁻¹"}, {Title: "notes"},
@@ -181,8 +141,8 @@ func (t *tableRecords) write(name, model string, r *report.Inspect, err error) e
 }
 
 func (t *tableRecords) close() error {
-	if err := writeTable(t.w, t.t); err != nil {
+	if err := t.e.writeTable(t.t); err != nil {
 		return err
 	}
-	return writeFootnotes(t.w, t.notes)
+	return writeFootnotes(t.e.stdout, t.notes)
 }

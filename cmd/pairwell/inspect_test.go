@@ -43,13 +43,15 @@ func TestInspectJSONKeys(t *testing.T) {
 		}
 		assert.Len(t, obj["taylor_coefficients"], 7, spec)
 		if strings.HasPrefix(spec, "harmonic") {
-			assert.Nil(t, obj["well_depth_ev"], "harmonic depth is unbounded: null")
+			assert.Equal(t, "Infinity", obj["well_depth_ev"], "harmonic depth is unbounded")
+			assert.Nil(t, obj["inflection_r_angstrom"], "harmonic has no inflection: does not apply")
 		}
 	}
-	// Without a mass the harmonic keys are absent.
+	// Without a mass the harmonic keys are null.
 	code, out, _ := runCLI(t, "inspect", specs[0], "--format", "json")
 	require.Equal(t, 0, code)
-	assert.NotContains(t, out, "harmonic_wavenumber_per_cm")
+	assert.Contains(t, out, `"harmonic_wavenumber_per_cm": null`)
+	assert.Contains(t, out, `"pair": null`)
 }
 
 func TestInspectUnitsDoNotLeakIntoJSON(t *testing.T) {
@@ -121,7 +123,7 @@ func TestModelsListsBuiltins(t *testing.T) {
 		assert.Equal(t, "library", m["kind"], m["key"])
 		assert.Contains(t, m["origin"], "library/forms.toml:", m["key"])
 		assert.NotEmpty(t, m["reference"], m["key"])
-		for _, p := range m["params"].([]any) {
+		for _, p := range m["parameters"].([]any) {
 			assert.NotEmpty(t, p.(map[string]any)["meaning"], m["key"])
 		}
 	}

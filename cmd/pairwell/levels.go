@@ -54,7 +54,8 @@ the one "pairwell fit -o" writes; entries with their own pair or mu, else
 "name" (a form that fails has "name", "model", "error"), CSV rows with the form's
 name first, or one table block per form.
 
-CSV has one row per level; the summary is in the table and in JSON. JSON values
+CSV has one row per level, after the name, model, params, pair and
+reduced_mass_u columns; the summary is in the table and in JSON. JSON values
 are in cm⁻¹ (eV where the key says so), Å and u.`,
 		Example: `  pairwell levels morse:De=4.6,a=1.87,re=1.27 --pair 1H-35Cl
   pairwell levels lj:epsilon=120K,sigma=3.4 --pair Ar-Ar --j-max 2 --format json
@@ -94,7 +95,7 @@ are in cm⁻¹ (eV where the key says so), Å and u.`,
 					return computeErr(err)
 				}
 				if e.format != "table" {
-					return e.emit(r, levelsTable(r))
+					return e.emitRecords(r, "levels", levelsTable(r))
 				}
 				return writeLevels(e, r)
 			}
@@ -106,6 +107,7 @@ are in cm⁻¹ (eV where the key says so), Å and u.`,
 		},
 	}
 	mass.register(cmd)
+	e.energyUnitFlag(cmd, tableEnergies)
 	cmd.Flags().StringVar(&setPath, "set", "", "model-set file (TOML) naming the forms, e.g. one written by fit -o")
 	cmd.Flags().IntVar(&vmax, "v-max", -1, "highest vibrational level v (default: every bound level; required for the harmonic form)")
 	cmd.Flags().IntVar(&jmax, "j-max", 10, "highest rotational level J")
@@ -117,15 +119,15 @@ are in cm⁻¹ (eV where the key says so), Å and u.`,
 func writeLevels(e *env, r report.Levels) error {
 	mass := "μ = " + strconv.FormatFloat(r.Mu, 'g', 10, 64) + " u"
 	if r.Pair != "" {
-		mass = r.Pair + ", " + mass
+		mass = string(r.Pair) + ", " + mass
 	}
 	fmt.Fprintf(e.stdout, "%s (%s), %s: levels to %g cm⁻¹ (achieved %.2g cm⁻¹, %d grid points)\n",
 		r.Model, r.Params, mass, r.Tolerance, r.Accuracy, r.Grid.Points)
-	if err := writeTable(e.stdout, levelsTable(r)); err != nil {
+	if err := e.writeTable(levelsTable(r)); err != nil {
 		return failErr(err)
 	}
 	fmt.Fprintln(e.stdout)
-	if err := writeTable(e.stdout, levelsSummary(r)); err != nil {
+	if err := e.writeTable(levelsSummary(r)); err != nil {
 		return failErr(err)
 	}
 	for _, n := range r.Notes {
@@ -138,10 +140,10 @@ func writeLevels(e *env, r report.Levels) error {
 // namedLevels is one form's record when levels solves several: its name
 // and the levels report, or the error that stopped it.
 type namedLevels struct {
-	Name string `json:"name"`
+	Name  string `json:"name"`
+	Model string `json:"model"`
 	*report.Levels
-	Model string `json:"model,omitempty"` // only with Error
-	Error string `json:"error,omitempty"`
+	Error report.Text `json:"error"`
 }
 
 // levelsAll solves the levels of several forms (model-set entries with
@@ -149,13 +151,13 @@ type namedLevels struct {
 // form that fails (its spec cannot be built, no mass, a harmonic form
 // without --v-max) is a record with its error; the command fails (exit 2
 // for bad input, 1 for a failure) only when every form did. JSON is an
-// array of records, CSV one row per level with the form's name first, the
-// table one block per form.
+// array of records, CSV one row per level with the form's name and model
+// block first (a form that failed: one row with its error), the table one
+// block per form.
 func (e *env) levelsAll(inputs []report.InspectInput, ls report.LevelsSettings) error {
 	var (
 		recs  []namedLevels
 		first error
-		csv   *table
 	)
 	failed := 0
 	for _, in := range inputs {
@@ -172,40 +174,28 @@ func (e *env) levelsAll(inputs []report.InspectInput, ls report.LevelsSettings) 
 			if first == nil {
 				first = err
 			}
-			recs = append(recs, namedLevels{Name: in.Name, Model: inputModel(in), Error: err.Error()})
+			recs = append(recs, namedLevels{Name: in.Name, Model: inputModel(in), Error: report.Text(err.Error())})
 			if e.format == "table" {
 				fmt.Fprintf(e.stdout, "== %s: %v\n\n", in.Name, err)
 			}
 			continue
 		}
 		recs = append(recs, namedLevels{Name: in.Name, Levels: &r, Model: r.Model})
-		switch e.format {
-		case "table":
+		if e.format == "table" {
 			fmt.Fprintf(e.stdout, "== %s\n", in.Name)
 			if err := writeLevels(e, r); err != nil {
 				return err
 			}
 			fmt.Fprintln(e.stdout)
-		case "csv":
-			t := levelsTable(r)
-			if csv == nil {
-				csv = &table{cols: append([]column{{Title: "name"}}, t.cols...)}
-			}
-			for _, row := range t.rows {
-				csv.add(append([]string{in.Name}, row...)...)
-			}
 		}
 	}
 	if failed == len(inputs) && first != nil {
 		return computeErr(fmt.Errorf("no form's levels could be solved: %w", first))
 	}
-	switch e.format {
-	case "json":
-		return e.emit(recs, nil)
-	case "csv":
-		return e.emit(nil, csv)
+	if e.format == "table" {
+		return nil
 	}
-	return nil
+	return e.emitRecords(recs, "levels", nil)
 }
 
 // optNum formats an optional value.

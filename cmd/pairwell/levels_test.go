@@ -14,7 +14,7 @@ import (
 // documents as a contract.
 var (
 	levelsKeys = []string{"model", "params", "reduced_mass_u", "levels", "zero_point_energy_per_cm", "fundamental_per_cm",
-		"first_overtone_per_cm", "bound_levels", "d0_ev", "harmonic", "perturbative", "from_levels", "accuracy_per_cm"}
+		"first_overtone_per_cm", "bound_levels", "d0_ev", "harmonic", "perturbative", "from_levels", "error_estimate_per_cm"}
 	levelRowKeys = []string{"v", "j", "term_value_per_cm", "binding_energy_per_cm", "mean_r_angstrom", "rms_displacement_angstrom"}
 	levelsGroups = map[string][]string{
 		"harmonic":     {"omega_e_per_cm", "b_e_per_cm"},
@@ -69,7 +69,7 @@ func TestLevelsJSONContract(t *testing.T) {
 			code, out, errOut := runCLI(t, append([]string{"levels", "--format", "json"}, tc.args...)...)
 			require.Equal(t, 0, code, errOut)
 			obj := checkLevelsJSON(t, out, tc.bounded)
-			assert.LessOrEqual(t, obj["accuracy_per_cm"], 1e-6)
+			assert.LessOrEqual(t, obj["error_estimate_per_cm"], 1e-6)
 		})
 	}
 }
@@ -105,8 +105,9 @@ func TestLevelsTableAndCSV(t *testing.T) {
 	require.Equal(t, 0, code, errOut)
 	lines := strings.Split(strings.TrimSpace(out), "\n")
 	require.Len(t, lines, 1+6)
-	assert.Equal(t, "v,J,term value [cm⁻¹],binding energy [cm⁻¹],⟨r⟩ [Å],rms displacement [Å],spacing to v+1 [cm⁻¹],classical h/T(E) [cm⁻¹],accuracy [cm⁻¹]", lines[0])
-	assert.True(t, strings.HasPrefix(lines[4], "0,1,"), lines[4])
+	assert.Equal(t, "model,params,pair,reduced_mass_u,v,j,term_value_per_cm,term_value_ev,binding_energy_per_cm,binding_energy_ev,"+
+		"mean_r_angstrom,rms_displacement_angstrom,error_estimate_per_cm,spacing_per_cm,classical_spacing_per_cm", lines[0])
+	assert.True(t, strings.HasPrefix(lines[4], "morse,De=4.6 a=1.87 re=1.27,1H-35Cl,0.9795925394006898,0,1,"), lines[4])
 }
 
 func TestLevelsBadInput(t *testing.T) {
@@ -152,7 +153,7 @@ func TestCompareQuantumColumnsCLI(t *testing.T) {
 	assert.Contains(t, out, "ZPE [cm⁻¹]")
 	code, out, errOut = runCLI(t, "compare", "morse:De=4.6,a=1.87,re=1.27", "--pair", "1H-35Cl", "--format", "csv")
 	require.Equal(t, 0, code, errOut)
-	assert.Contains(t, strings.SplitN(out, "\n", 2)[0], "fundamental [cm⁻¹],ZPE [cm⁻¹]")
+	assert.Contains(t, strings.SplitN(out, "\n", 2)[0], "zero_point_energy_per_cm,fundamental_per_cm")
 }
 
 func TestPlotLevels(t *testing.T) {

@@ -91,12 +91,13 @@ interaction.`,
 			if e.format == "table" {
 				fmt.Fprintf(e.stdout, "%s cross pair of %s and %s\n%s\n", r.Model, r.SpecA, r.SpecB, r.Caution)
 			}
-			return e.emit(r, mixTable(r))
+			return e.emitRecords(r, "rules", mixTable(r))
 		},
 	}
 	cmd.Flags().StringVar(&rule, "rule", "", "combining rule (see the list above)")
 	cmd.Flags().BoolVar(&allRules, "all-rules", false, "compare every rule of the form in a table")
 	mass.register(cmd)
+	e.energyUnitFlag(cmd, tableEnergies)
 	return cmd
 }
 

@@ -29,7 +29,8 @@ func keys(m map[string]any) []string {
 // The JSON keys of mix are a contract (README "Combining rules").
 func TestMixJSONContract(t *testing.T) {
 	obj := runJSON(t, "mix", mixA, mixB, "--all-rules", "--mu", "20")
-	assert.Equal(t, []string{"caution", "model", "params_a", "params_b", "rules", "spec_a", "spec_b"}, keys(obj))
+	assert.Equal(t, []string{"caution", "model", "pair", "params_a", "params_b", "rules", "spec_a", "spec_b"}, keys(obj))
+	assert.Nil(t, obj["pair"], "a mass given directly: no pair")
 	rules := obj["rules"].([]any)
 	require.Len(t, rules, 5)
 	row := rules[0].(map[string]any)
@@ -82,7 +83,8 @@ func TestMixCSV(t *testing.T) {
 	code, out, errOut := runCLI(t, "mix", mixA, mixB, "--all-rules", "--format", "csv")
 	require.Equal(t, 0, code, errOut)
 	lines := strings.Split(strings.TrimSpace(out), "\n")
-	assert.Equal(t, "rule,spec,re [Å],depth [eV],k [eV/Å²]", lines[0])
+	assert.Equal(t, "model,pair,rule,title,formula,reference,spec,params,equilibrium_r_angstrom,well_depth_ev,"+
+		"force_constant_ev_per_angstrom2,reduced_mass_u,harmonic_wavenumber_per_cm", lines[0])
 	assert.Len(t, lines, 6)
 }
 

@@ -8,6 +8,7 @@ import (
 
 	"github.com/pairwell/pairwell/core"
 	"github.com/pairwell/pairwell/core/formula"
+	"github.com/pairwell/pairwell/core/report"
 	"github.com/pairwell/pairwell/models/library"
 )
 
@@ -24,16 +25,16 @@ type modelParam struct {
 type modelEntry struct {
 	Key       string       `json:"key"`
 	Aliases   []string     `json:"aliases"`
-	Name      string       `json:"name"`
+	Name      string       `json:"title"`
 	Formula   string       `json:"formula"`
-	Params    []modelParam `json:"params"`
+	Params    []modelParam `json:"parameters"`
 	Domain    string       `json:"domain"`
 	Reference string       `json:"reference"`
-	Notes     string       `json:"notes,omitempty"`
+	Notes     report.Text  `json:"notes"`
 	MaxOrder  int          `json:"max_derivative_order"`
 	Origin    string       `json:"origin"`
 	Kind      string       `json:"kind"`
-	Version   string       `json:"version,omitempty"`
+	Version   report.Text  `json:"version"`
 }
 
 // modelKind says where a form comes from: "built-in", "library" (the
@@ -57,7 +58,7 @@ func newModelEntry(m core.Model) modelEntry {
 	e := modelEntry{
 		Key: info.Key, Aliases: append([]string{}, info.Aliases...), Name: info.Name,
 		Formula: info.Formula, Domain: info.Domain, Reference: info.Reference,
-		Notes: info.Notes, MaxOrder: info.MaxOrder, Origin: info.Origin, Kind: modelKind(m), Version: info.Version,
+		Notes: report.Text(info.Notes), MaxOrder: info.MaxOrder, Origin: info.Origin, Kind: modelKind(m), Version: report.Text(info.Version),
 	}
 	for _, p := range info.Params {
 		unit := p.Unit

@@ -119,12 +119,13 @@ JSON values are in eV, Å, u and fs, whatever the input units.`,
 				if err := e.writeOutput("--trajectory", trajectory, func(w io.Writer) error { return writeTrajectory(w, tr) }); err != nil {
 					return err
 				}
-				r.Trajectory, r.TrajectorySamples = trajectory, len(tr)
+				r.Trajectory, r.TrajectorySamples = report.Text(trajectory), len(tr)
 			}
 			return e.emit(r, motionTable(r))
 		},
 	}
 	mass.register(cmd)
+	e.energyUnitFlag(cmd, tableEnergies)
 	f := cmd.Flags()
 	f.StringVar(&amplitude, "amplitude", "", "starting displacement r0 − re at rest, in Å unless a unit is given (e.g. 0.2, -0.1, 20pm); positive stretches, negative compresses")
 	f.StringVar(&energy, "energy", "", "oscillation energy above V(re), in eV unless a unit is given (e.g. 0.5, 300K, 1000cm-1); starts at the stretch-side turning point")
@@ -202,15 +203,15 @@ func checkMotionFlags(cmd *cobra.Command, s motion.Settings) error {
 func motionTable(r report.Motion) *table {
 	t := quantityTable(r.Model, r.Params)
 	if r.Pair != "" {
-		t.add("pair", r.Pair, "")
+		t.add("pair", string(r.Pair), "")
 	}
 	t.add("reduced mass μ", num(r.Mu), "u")
 	t.add("method", r.Method, "")
 	t.add("equilibrium distance re", num(r.Re), "Å")
 	t.add("amplitude x0 = r0 − re", num(r.Amplitude), "Å")
 	t.add("oscillation energy E", num(r.Energy), "eV")
-	if r.EnergyFraction > 0 {
-		t.add("E / bound-energy limit", num(r.EnergyFraction), "")
+	if d := float64(r.DepthFraction); !math.IsNaN(d) {
+		t.add("E / well depth", num(d), "")
 	}
 	t.add("turning points r₋, r₊", num(r.InnerTurningPoint)+", "+num(r.OuterTurningPoint), "Å")
 	t.add("measured period", num(r.MeasuredPeriod), "fs")

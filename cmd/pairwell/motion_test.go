@@ -118,7 +118,8 @@ func TestMotionSettingsReported(t *testing.T) {
 	obj := motionJSON(t, spec, "--pair", "Ar-Ar", "--amplitude", "0.1", "--method", "heun", "--steps-per-period", "400", "--periods", "3")
 	assert.Equal(t, 400.0, num64(t, obj, "steps_per_period"))
 	assert.Equal(t, 3.0, num64(t, obj, "periods_measured"))
-	assert.NotContains(t, obj, "rtol")
+	assert.Nil(t, obj["rtol"], "a fixed-step method has no tolerances")
+	assert.Contains(t, obj, "rtol")
 	obj = motionJSON(t, spec, "--pair", "Ar-Ar", "--amplitude", "0.1", "--rtol", "1e-11", "--atol", "1e-12")
 	assert.Equal(t, 1e-11, num64(t, obj, "rtol"))
 	assert.Equal(t, 1e-12, num64(t, obj, "atol"))
@@ -136,7 +137,9 @@ func TestMotionTableAndCSV(t *testing.T) {
 	require.Equal(t, 0, code, errOut)
 	recs, err := csv.NewReader(strings.NewReader(out)).ReadAll()
 	require.NoError(t, err)
-	assert.Equal(t, []string{"quantity", "value", "unit"}, recs[0])
+	require.Len(t, recs, 2, "one record")
+	assert.Equal(t, []string{"model", "params", "pair", "reduced_mass_u", "method"}, recs[0][:5])
+	assert.Equal(t, []string{"morse", "De=4.6 a=1.87 re=1.27", "H-Cl"}, recs[1][:3])
 }
 
 func TestMotionTrajectory(t *testing.T) {

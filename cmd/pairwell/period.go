@@ -182,7 +182,7 @@ JSON values are in eV, Å, u and fs, whatever the input units.`,
 			if failed > 0 {
 				fmt.Fprintf(e.stderr, "pairwell: %d of %d rows have no period (see their error)\n", failed, len(rows))
 			}
-			if err := emitRows(e, rows, func() *table { return periodTable(rows, set.Measure) }); err != nil {
+			if err := emitRows(e, report.NewPeriodHead(inst, w, m, measuredMethod(set)), rows, func() *table { return periodTable(rows, set.Measure) }); err != nil {
 				return err
 			}
 			errs := make([]error, len(rows))
@@ -193,6 +193,7 @@ JSON values are in eV, Å, u and fs, whatever the input units.`,
 		},
 	}
 	mass.register(cmd)
+	e.energyUnitFlag(cmd, tableEnergies)
 	f := cmd.Flags()
 	f.StringVar(&amplitudes, "amplitudes", "", "displacements from re at rest, Å unless a unit is given: LIST (0.1,0.2) or FROM:TO:COUNT (-0.2:0.4:7); + stretches, − compresses")
 	f.StringVar(&energies, "energies", "", "oscillation energies above V(re), eV unless a unit is given: LIST or FROM:TO:COUNT (e.g. 0.1eV:2eV:5, 300K)")
@@ -242,4 +243,13 @@ func periodTable(rows []report.PeriodRow, measured bool) *table {
 		t.add(append(cells, msg)...)
 	}
 	return t
+}
+
+// measuredMethod is the integrator of the measured periods, "" when none
+// were measured.
+func measuredMethod(s report.PeriodSettings) string {
+	if !s.Measure {
+		return ""
+	}
+	return s.Method.String()
 }

@@ -20,9 +20,13 @@ func periodRowsJSON(t *testing.T, args ...string) ([]map[string]any, string) {
 	var stdout, stderr bytes.Buffer
 	code := run(append([]string{"period", "--format", "json"}, args...), strings.NewReader(""), &stdout, &stderr)
 	require.Equal(t, 0, code, stderr.String())
-	var rows []map[string]any
-	require.NoError(t, json.Unmarshal(stdout.Bytes(), &rows), stdout.String())
-	return rows, stderr.String()
+	var doc struct {
+		Model string           `json:"model"`
+		Rows  []map[string]any `json:"rows"`
+	}
+	require.NoError(t, json.Unmarshal(stdout.Bytes(), &doc), stdout.String())
+	require.NotEmpty(t, doc.Model, "the model heads the rows")
+	return doc.Rows, stderr.String()
 }
 
 func TestPeriodJSONContract(t *testing.T) {
@@ -39,7 +43,7 @@ func TestPeriodJSONContract(t *testing.T) {
 			for _, k := range []string{"amplitude_angstrom", "energy_ev", "exact_period_fs", "harmonic_period_fs", "perturbative_period_fs", "error"} {
 				assert.Contains(t, r, k, "%s: key %s", spec, k)
 			}
-			assert.NotContains(t, r, "measured_period_fs", "only with --method")
+			assert.Nil(t, r["measured_period_fs"], "only with --method")
 			assert.Nil(t, r["error"], spec)
 			assert.Greater(t, r["exact_period_fs"], 0.0, spec)
 		}
@@ -129,7 +133,9 @@ func TestPeriodEnergiesAndTable(t *testing.T) {
 	require.Equal(t, 0, code, stderr.String())
 	lines := strings.Split(strings.TrimSpace(stdout.String()), "\n")
 	require.Len(t, lines, 3)
-	assert.Equal(t, "amplitude [Å],energy [eV],exact period [fs],harmonic period [fs],perturbative period [fs],measured period [fs],error", lines[0])
+	assert.Equal(t, "model,params,pair,reduced_mass_u,amplitude_angstrom,energy_ev,exact_period_fs,exact_period_relative_error_estimate,"+
+		"harmonic_period_fs,perturbative_period_fs,measured_period_fs,inner_turning_point_angstrom,outer_turning_point_angstrom,error", lines[0])
+	assert.True(t, strings.HasPrefix(lines[1], "morse,De=4.6 a=1.87 re=1.27,,1,0.1,"), lines[1])
 }
 
 func TestPeriodBadInput(t *testing.T) {

@@ -72,20 +72,19 @@ range, an amplitude beyond the well), 1 when the file cannot be written.`,
 	return cmd
 }
 
-// plotOutput is the -o, --width, --height and --energy-unit flags of every
-// plot command.
+// plotOutput is the -o, --width and --height flags of every plot command;
+// register adds --energy-unit (env.energy) too.
 type plotOutput struct {
 	path          string
 	width, height float64
-	energyUnit    string
 }
 
-func (o *plotOutput) register(cmd *cobra.Command) {
+func (o *plotOutput) register(e *env, cmd *cobra.Command) {
 	f := cmd.Flags()
 	f.StringVarP(&o.path, "output", "o", "", "picture file to write: .png, .svg or .pdf (required)")
 	f.Float64Var(&o.width, "width", 0, fmt.Sprintf("picture width in inches, %d to %d (default %d; PNG has %d pixels per inch)", figure.MinSize, figure.MaxSize, figure.DefaultWidth, figure.DPI))
 	f.Float64Var(&o.height, "height", 0, fmt.Sprintf("picture height in inches, %d to %d (default %d, %d with a panel below)", figure.MinSize, figure.MaxSize, figure.DefaultHeight, figure.DefaultHeightTwoPanels))
-	energyUnitVar(f, &o.energyUnit, "the energy axis")
+	e.energyUnitFlag(cmd, "the energy axis")
 }
 
 // check validates the output path before anything is computed: a known
@@ -107,9 +106,6 @@ func (o *plotOutput) check(e *env) error {
 		if v.v != 0 && !(v.v >= figure.MinSize && v.v <= figure.MaxSize) {
 			return usageErr(fmt.Errorf("%s %g: must be %d to %d inches", v.name, v.v, figure.MinSize, figure.MaxSize))
 		}
-	}
-	if _, _, err := energyUnit(o.energyUnit); err != nil {
-		return usageErr(err)
 	}
 	if err := e.checkOutput("-o", o.path); err != nil {
 		return err
@@ -143,9 +139,7 @@ func (e *env) writePlot(f *figure.Figure, o *plotOutput) error {
 		return usageErr(err)
 	}
 	f.Width, f.Height = o.width, o.height
-	if name, perUnit, err := energyUnit(o.energyUnit); err != nil {
-		return usageErr(err)
-	} else if name != "eV" && !f.ConvertEnergy(name, perUnit) {
+	if name := e.energy.name; name != "" && name != "eV" && !f.ConvertEnergy(name, e.energy.perUnit) {
 		return usageErr(fmt.Errorf("--energy-unit %s: the %s picture has no energy axis", name, f.Kind))
 	}
 	if err := e.writeOutput("-o", path, func(w io.Writer) error { return f.Render(w, format) }); err != nil {
@@ -204,8 +198,8 @@ type formPlot struct {
 	mass massFlags
 }
 
-func (fp *formPlot) register(cmd *cobra.Command) {
-	fp.out.register(cmd)
+func (fp *formPlot) register(e *env, cmd *cobra.Command) {
+	fp.out.register(e, cmd)
 	fp.mass.register(cmd)
 }
 
@@ -321,7 +315,7 @@ separations, RMIN:RMAX with optional units; it must overlap the domain.`,
 			return e.writePlot(f, &out)
 		},
 	}
-	out.register(cmd)
+	out.register(e, cmd)
 	f := cmd.Flags()
 	truncationVar(f, &order, figure.DefaultTaylorOrder, fmt.Sprintf("highest order N of the truncated Taylor potentials drawn (2 to %d)", figure.MaxTaylorOrder))
 	f.StringVar(&rng, "range", "", "separations RMIN:RMAX, Å unless a unit is given (default: from the well's shape)")
@@ -384,7 +378,7 @@ well is bad input.`,
 			})
 		},
 	}
-	fp.register(cmd)
+	fp.register(e, cmd)
 	f := cmd.Flags()
 	f.StringVar(&amplitudes, "amplitudes", "", "displacements from re at rest, Å unless a unit is given: LIST or FROM:TO:COUNT (default: 8 up to 90 % of the limit of bound motion)")
 	f.BoolVar(&energyAxis, "energy-axis", false, "put the oscillation energy E = V(re + x0) − V(re) on the x axis instead of the amplitude")
@@ -438,7 +432,7 @@ barrier, below which that form collapses.`,
 			return e.writePlot(f, &out)
 		},
 	}
-	out.register(cmd)
+	out.register(e, cmd)
 	f := cmd.Flags()
 	f.StringVar(&setPath, "set", "", "model-set file (TOML) naming the forms to draw")
 	f.BoolVar(&reduced, "reduced", false, "reduced units: r/re and (V − V(∞))/De")
@@ -529,7 +523,7 @@ same way. The title gives the measured, exact and harmonic periods.`,
 			})
 		},
 	}
-	fp.register(cmd)
+	fp.register(e, cmd)
 	f := cmd.Flags()
 	f.StringVar(&amplitude, "amplitude", "", "starting displacement r0 − re at rest, Å unless a unit is given (e.g. 0.2, -0.1, 20pm)")
 	methodVar(f, &method)

@@ -44,7 +44,7 @@ Forms that could not be fitted are left out, with a note.`,
 			return e.writePlot(f, &out)
 		},
 	}
-	out.register(cmd)
+	out.register(e, cmd)
 	o.register(cmd)
 	return cmd
 }
@@ -55,11 +55,11 @@ func fitFigure(run *fitRun) (*figure.Figure, error) {
 	var notes []string
 	for _, f := range run.fits {
 		if f.Error != "" {
-			notes = append(notes, fmt.Sprintf("%s left out: %s", f.Form, f.Error))
+			notes = append(notes, fmt.Sprintf("%s left out: %s", f.Model, f.Error))
 			continue
 		}
 		in := findInput(run.inputs, f.Name)
-		curves = append(curves, figure.FitCurve{Name: f.Form, Potential: in.Result.Instance.Potential, Zero: in.Result.Zero})
+		curves = append(curves, figure.FitCurve{Name: f.Model, Potential: in.Result.Instance.Potential, Zero: in.Result.Zero})
 	}
 	fig, err := figure.Fit(run.data.R, run.data.E, curves)
 	if err != nil {

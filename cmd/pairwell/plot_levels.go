@@ -47,7 +47,7 @@ level, at most 120; required for the harmonic form); --accuracy as for
 			})
 		},
 	}
-	fp.register(cmd)
+	fp.register(e, cmd)
 	cmd.Flags().IntVar(&vmax, "v-max", -1, "highest vibrational level drawn (default: every bound level; required for the harmonic form)")
 	accuracyVar(cmd.Flags(), &accuracy)
 	return cmd

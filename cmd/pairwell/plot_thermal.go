@@ -113,7 +113,7 @@ points); without them the range of the data, or depth/(3k_B) to 30·depth/k_B.`,
 			})
 		},
 	}
-	fp.register(cmd)
+	fp.register(e, cmd)
 	cmd.Flags().StringVar(&temps, "temperatures", "", "range of the curve: the smallest to the largest of LIST or FROM:TO:COUNT, K unless a unit is given")
 	cmd.Flags().StringVar(&data, "data", "", "CSV of measured (T, B2[, uncertainty]) with units in the header, drawn as points")
 	return cmd
@@ -167,7 +167,7 @@ to the largest of --temperatures (200 points); by default 1 K to depth/(20 k_B).
 			})
 		},
 	}
-	fp.register(cmd)
+	fp.register(e, cmd)
 	cmd.Flags().StringVar(&temps, "temperatures", "", "range of the curve: the smallest to the largest of LIST or FROM:TO:COUNT, K unless a unit is given")
 	return cmd
 }

@@ -116,13 +116,13 @@ func TestPythonPluginCommands(t *testing.T) {
 			"--start", "linnett:De=4,re=1.3,m=7,n=2", "--format", "json")
 		require.Equal(t, 0, code, errOut)
 		var fits []struct {
-			Form   string             `json:"form"`
+			Model  string             `json:"model"`
 			Params map[string]float64 `json:"params"`
 			RMSE   float64            `json:"rmse_ev"`
 		}
 		require.NoError(t, json.Unmarshal([]byte(out), &fits), out)
 		require.NotEmpty(t, fits)
-		assert.Equal(t, "linnett", fits[0].Form, "the generating form ranks first")
+		assert.Equal(t, "linnett", fits[0].Model, "the generating form ranks first")
 		for name, want := range map[string]float64{"De": de, "re": re, "m": m, "n": n} {
 			assert.InDelta(t, want, fits[0].Params[name], 1e-8*want, name)
 		}

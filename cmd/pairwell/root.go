@@ -20,6 +20,7 @@ type env struct {
 	stdout, stderr io.Writer // escape terminal controls (terminal.go)
 	term           io.Writer // the raw stderr, for the progress bar
 	format         string
+	energy         energyChoice // --energy-unit, see flags.go
 	registry       *core.Registry
 	files          *fileio.Run // the inputs of the run and its temporary files
 	closers        []func()
@@ -73,6 +74,9 @@ field: do not base production or safety decisions on its numbers alone.`,
 				return usageErr(err)
 			}
 			e.format = f
+			if err := e.readEnergyUnit(); err != nil {
+				return err
+			}
 			if err := library.Register(e.registry); err != nil {
 				return failErr(err) // the embedded library is tested: a broken binary
 			}
@@ -121,6 +125,7 @@ field: do not base production or safety decisions on its numbers alone.`,
 		newVirialCmd(e),
 		newExpansionCmd(e),
 		newMixCmd(e),
+		newCutoffCmd(e),
 		newVersionCmd(e),
 	)
 	root.Version = toolVersion()

@@ -56,10 +56,10 @@ func TestExpansionPlugin(t *testing.T) {
 	for i, r := range plug["rows"].([]any) {
 		row := r.(map[string]any)
 		ref := builtin["rows"].([]any)[i].(map[string]any)
-		for _, k := range []string{"mean_r_classical_angstrom", "mean_r_cubic_estimate_angstrom", "mean_r_quantum_angstrom", "rms_displacement_angstrom"} {
+		for _, k := range []string{"mean_r_classical_angstrom", "mean_r_cubic_estimate_angstrom", "mean_r_quantum_angstrom", "rms_displacement_classical_angstrom"} {
 			assert.InDelta(t, ref[k], row[k], 1e-9, k)
 		}
-		assert.InDelta(t, ref["expansion_coefficient_per_k"], row["expansion_coefficient_per_k"], 1e-12, "expansion")
+		assert.InDelta(t, ref["expansion_coefficient_classical_per_k"], row["expansion_coefficient_classical_per_k"], 1e-12, "expansion")
 	}
 }
 
@@ -90,7 +90,7 @@ func TestThermalFormulaForms(t *testing.T) {
 	b = runJSON(t, "expansion", "morse:De=4.6,a=1.87,re=1.27", "--pair", "H-Cl", "--temperatures", "10,300,2000")
 	for i, r := range f["rows"].([]any) {
 		row, ref := r.(map[string]any), b["rows"].([]any)[i].(map[string]any)
-		for _, k := range []string{"mean_r_classical_angstrom", "mean_r_cubic_estimate_angstrom", "mean_r_quantum_angstrom", "rms_displacement_angstrom"} {
+		for _, k := range []string{"mean_r_classical_angstrom", "mean_r_cubic_estimate_angstrom", "mean_r_quantum_angstrom", "rms_displacement_classical_angstrom"} {
 			assert.InDelta(t, ref[k], row[k], 1e-9, k)
 		}
 	}

@@ -37,7 +37,8 @@ truncated at order N, V_N(r) = Σ_{k=0..N} c_k (r − re)^k (N = 2 harmonic, 3 c
                        as the turning points (compression re − r₋, stretch
                        r₊ − re) of the real potential at E
 
-Unbounded ranges are ∞ in tables and null in JSON: for the harmonic form every
+Unbounded ranges are ∞ in tables and "Infinity" in JSON and CSV (a value that
+does not apply, such as E/depth of an unbounded well, is null): for the harmonic form every
 truncation is exact. An energy at which V_N has no bound motion (the cubic above
 its own maximum) counts as a violation.
 
@@ -73,7 +74,7 @@ JSON values are in eV, Å and K, whatever the input units.`,
 			if e.format == "table" {
 				fmt.Fprintf(e.stdout, "%s (%s): %s truncation (order %d), tolerance %s\n",
 					info.Key, r.Params, orderName(order), order, strconv.FormatFloat(100*tol, 'g', 6, 64)+"%")
-				if err := writeTable(e.stdout, validityTable(r)); err != nil {
+				if err := e.writeTable(validityTable(r)); err != nil {
 					return failErr(err)
 				}
 				for _, line := range validityNotes(r) {
@@ -85,6 +86,7 @@ JSON values are in eV, Å and K, whatever the input units.`,
 		},
 	}
 	mass.register(cmd)
+	e.energyUnitFlag(cmd, tableEnergies)
 	truncationVar(cmd.Flags(), &order, report.DefaultValidityOrder, "order N of the truncated Taylor potential V_N: 2 (harmonic), 3 (cubic) or 4 (quartic)")
 	toleranceVar(cmd.Flags(), &tolerance, "both criteria")
 	return cmd

@@ -26,10 +26,10 @@ func TestValidityJSONContract(t *testing.T) {
 	for _, spec := range []string{"morse:De=4.6,a=1.87,re=1.27", "lj:epsilon=120K,sigma=3.4", "buckingham:A=1500,rho=0.3,C=25", "harmonic:k=30,r0=1.2"} {
 		for _, order := range []string{"2", "3", "4"} {
 			obj := validityJSON(t, spec, "--truncation", order)
-			for _, k := range []string{"order", "tolerance", "potential", "period"} {
+			for _, k := range []string{"truncation_order", "tolerance", "potential", "period"} {
 				require.Contains(t, obj, k, "%s: key %s", spec, k)
 			}
-			assert.EqualValues(t, order[0]-'0', obj["order"])
+			assert.EqualValues(t, order[0]-'0', obj["truncation_order"])
 			assert.Equal(t, 0.01, obj["tolerance"])
 			pot := obj["potential"].(map[string]any)
 			per := obj["period"].(map[string]any)
@@ -40,8 +40,9 @@ func TestValidityJSONContract(t *testing.T) {
 				assert.Contains(t, per, k, spec)
 			}
 			if strings.HasPrefix(spec, "harmonic") {
-				assert.Nil(t, pot["stretch_angstrom"], "exact truncation: unbounded")
-				assert.Nil(t, per["energy_ev"], "exact truncation: unbounded")
+				assert.Equal(t, "Infinity", pot["stretch_angstrom"], "exact truncation: unbounded")
+				assert.Equal(t, "Infinity", per["energy_ev"], "exact truncation: unbounded")
+				assert.Nil(t, per["depth_fraction"], "no depth: does not apply")
 			} else {
 				assert.Greater(t, per["energy_ev"], 0.0, spec)
 				assert.Less(t, per["depth_fraction"], 1.0, spec)
@@ -81,8 +82,10 @@ func TestValidityTable(t *testing.T) {
 	code = run([]string{"validity", "morse:De=4.6,a=1.87,re=1.27", "--format", "csv", "--truncation", "4"}, strings.NewReader(""), &stdout, &stderr)
 	require.Equal(t, 0, code, stderr.String())
 	lines := strings.Split(strings.TrimSpace(stdout.String()), "\n")
-	assert.Equal(t, "criterion,quantity,value,unit", lines[0])
-	assert.Len(t, lines, 8)
+	assert.Equal(t, "model,params,equilibrium_r_angstrom,well_depth_ev,pair,reduced_mass_u,truncation_order,tolerance,"+
+		"potential.compression_angstrom,potential.stretch_angstrom,period.energy_ev,period.depth_fraction,period.temperature_k,"+
+		"period.compression_angstrom,period.stretch_angstrom", lines[0])
+	assert.Len(t, lines, 2, "one record")
 }
 
 func TestValidityBadInput(t *testing.T) {

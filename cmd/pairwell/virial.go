@@ -112,11 +112,12 @@ unit is given (degC, or an energy read as k_B·T). JSON is in K and cm³/mol.`,
 			if err != nil {
 				return computeErr(err)
 			}
+			v.Pair = report.Text(m.Pair)
 			if e.format == "table" {
 				fmt.Fprintf(e.stdout, "%s (%s): Boyle temperature %s K, maximum of B₂ at %s K (classical)\n",
 					v.Model, v.Params, num(float64(v.Boyle)), num(float64(v.MaxB2)))
 			}
-			if err := e.emit(v, virialTable(v)); err != nil {
+			if err := e.emitRecords(v, "rows,data.rows", virialTable(v)); err != nil {
 				return err
 			}
 			if e.format == "table" {

@@ -82,8 +82,9 @@ func TestVirialData(t *testing.T) {
 	code := run([]string{"virial", argonSpec, "--data", file, "--temperatures", "250", "--format", "csv"}, strings.NewReader(""), &stdout, &stderr)
 	require.Equal(t, 0, code, stderr.String())
 	lines := strings.Split(strings.TrimSpace(stdout.String()), "\n")
-	require.Len(t, lines, 6)
-	assert.Equal(t, "T [K],B2 [cm³/mol],B2 classical [cm³/mol],B2 quantum correction [cm³/mol],error estimate [cm³/mol],measured B2 [cm³/mol],uncertainty [cm³/mol],deviation [cm³/mol]", lines[0])
+	require.Len(t, lines, 6, "the computed row, then the four measured ones")
+	assert.Equal(t, "model,params,pair,reduced_mass_u,temperature_k,b2_cm3_per_mol,b2_classical_cm3_per_mol,b2_quantum_correction_cm3_per_mol,"+
+		"error_estimate_cm3_per_mol,measured_b2_cm3_per_mol,measured_uncertainty_cm3_per_mol,deviation_cm3_per_mol", lines[0])
 }
 
 func TestVirialBadInput(t *testing.T) {
@@ -142,7 +143,7 @@ func TestExpansionJSONContract(t *testing.T) {
 	for _, r := range rows {
 		row := r.(map[string]any)
 		for _, k := range []string{"temperature_k", "mean_r_classical_angstrom", "mean_r_cubic_estimate_angstrom", "mean_r_quantum_angstrom",
-			"expansion_coefficient_per_k", "rms_displacement_angstrom"} {
+			"expansion_coefficient_classical_per_k", "rms_displacement_classical_angstrom"} {
 			require.Contains(t, row, k)
 		}
 		// Classical Morse at low T: ⟨x⟩ = 3k_BT/(4aDe) (Kittel's cubic-term

@@ -43,7 +43,10 @@ type CompareInput struct {
 // CompareRow is the result of one form. When the form could be analysed it
 // is its Inspect object with a validity object; otherwise Err says why and
 // only the name, model, notes and error are reported. It encodes as one
-// JSON object: the keys of Inspect, then "validity", "notes" and "error".
+// JSON object: the keys of Inspect, then "validity" (null when not asked
+// for), "boyle_temperature_k", "zero_point_energy_per_cm",
+// "fundamental_per_cm" (null without a mass), "notes" and "error" (null
+// for a form that was analysed).
 type CompareRow struct {
 	Name  string
 	Model string
@@ -73,27 +76,39 @@ type compareJSON struct {
 	Name  string `json:"name"`
 	Model string `json:"model"`
 	*Inspect
-	Validity *validity.Result `json:"validity,omitempty"`
-	Boyle    *Number          `json:"boyle_temperature_k,omitempty"`
-	ZPE      *Number          `json:"zero_point_energy_per_cm,omitempty"`
-	Fund     *Number          `json:"fundamental_per_cm,omitempty"`
-	Notes    []string         `json:"notes,omitempty"`
-	Error    string           `json:"error,omitempty"`
+	Validity *ValidityRanges `json:"validity"`
+	Boyle    Number          `json:"boyle_temperature_k"`
+	ZPE      Number          `json:"zero_point_energy_per_cm"`
+	Fund     Number          `json:"fundamental_per_cm"`
+	Notes    []string        `json:"notes"`
+	Error    Text            `json:"error"`
 }
 
 // MarshalJSON implements json.Marshaler.
 func (r CompareRow) MarshalJSON() ([]byte, error) {
-	j := compareJSON{Name: r.Name, Model: r.Model, Inspect: r.Inspect, Validity: r.Validity, Notes: r.Notes}
+	nan := Number(math.NaN())
+	j := compareJSON{Name: r.Name, Model: r.Model, Inspect: r.Inspect, Validity: (*ValidityRanges)(r.Validity),
+		Boyle: nan, ZPE: nan, Fund: nan, Notes: r.Notes}
+	if j.Notes == nil {
+		j.Notes = []string{}
+	}
 	if r.Inspect != nil {
-		b := Number(r.Boyle)
-		j.Boyle = &b
+		j.Boyle = Number(r.Boyle)
 		if r.Inspect.Mu != nil {
-			z, f := Number(r.ZPE), Number(r.Fundamental)
-			j.ZPE, j.Fund = &z, &f
+			j.ZPE, j.Fund = Number(r.ZPE), Number(r.Fundamental)
 		}
 	}
 	if r.Err != nil {
-		j.Error = r.Err.Error()
+		j.Error = Text(r.Err.Error())
+	}
+	if r.Inspect == nil {
+		// A form that failed: what it is, and why.
+		return json.Marshal(struct {
+			Name  string   `json:"name"`
+			Model string   `json:"model"`
+			Notes []string `json:"notes"`
+			Error Text     `json:"error"`
+		}{j.Name, j.Model, j.Notes, j.Error})
 	}
 	return json.Marshal(j)
 }

@@ -72,11 +72,12 @@ func TestCompareRowJSON(t *testing.T) {
 	for _, k := range []string{"params", "equilibrium_r_angstrom", "well_depth_ev", "harmonic_period_fs", "validity"} {
 		assert.Contains(t, ok, k)
 	}
-	assert.NotContains(t, ok, "error")
+	assert.Nil(t, ok["error"])
+	assert.Contains(t, ok, "error")
 	b, err = json.Marshal(rows[2])
 	require.NoError(t, err)
 	require.NoError(t, json.Unmarshal(b, &bad))
-	assert.Equal(t, map[string]any{"name": "m2", "model": "morse", "error": "cannot match: invalid parameter"}, bad)
+	assert.Equal(t, map[string]any{"name": "m2", "model": "morse", "notes": []any{}, "error": "cannot match: invalid parameter"}, bad)
 
 	all, first := Failed(rows)
 	assert.False(t, all)
@@ -99,13 +100,13 @@ func TestCompareSettings(t *testing.T) {
 	rows, err = Compare(nil, CompareSettings{})
 	require.NoError(t, err)
 	assert.Empty(t, rows)
-	// Without Validity the ranges are not computed, and the key is absent.
+	// Without Validity the ranges are not computed, and the key is null.
 	rows, err = Compare(in, CompareSettings{})
 	require.NoError(t, err)
 	assert.Nil(t, rows[0].Validity)
 	b, err := json.Marshal(rows[0])
 	require.NoError(t, err)
-	assert.NotContains(t, string(b), `"validity"`)
+	assert.Contains(t, string(b), `"validity":null`)
 }
 
 // BenchmarkCompare is the analysis of four Morse forms with validity (six

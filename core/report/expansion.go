@@ -23,12 +23,12 @@ type ExpansionRow struct {
 	MeanQuantum   Number `json:"mean_r_quantum_angstrom"`
 	// Expansion is the classical (1/re)·d⟨r⟩/dT; the cubic and quantum
 	// ones follow.
-	Expansion        Number `json:"expansion_coefficient_per_k"`
+	Expansion        Number `json:"expansion_coefficient_classical_per_k"`
 	ExpansionCubic   Number `json:"expansion_coefficient_cubic_per_k"`
 	ExpansionQuantum Number `json:"expansion_coefficient_quantum_per_k"`
 	// RMS is the classical √(⟨r²⟩ − ⟨r⟩²); the harmonic √(k_BT/k) and the
 	// quantum one follow.
-	RMS         Number `json:"rms_displacement_angstrom"`
+	RMS         Number `json:"rms_displacement_classical_angstrom"`
 	RMSHarmonic Number `json:"rms_displacement_harmonic_angstrom"`
 	RMSQuantum  Number `json:"rms_displacement_quantum_angstrom"`
 	// ClassicalError is the estimated error of MeanClassical, cut-off
@@ -41,8 +41,11 @@ type ExpansionRow struct {
 type Expansion struct {
 	Model  string `json:"model"`
 	Params Params `json:"params"`
-	Mu     Number `json:"reduced_mass_u"`
-	Re     Number `json:"equilibrium_r_angstrom"`
+	// Pair is the atom pair of the mass, empty (null) when the mass was
+	// given directly.
+	Pair Text   `json:"pair"`
+	Mu   Number `json:"reduced_mass_u"`
+	Re   Number `json:"equilibrium_r_angstrom"`
 	// Cutoff is E_cut, the top of the bound region above V(re) in eV,
 	// and Region its ends in Å; NaN (null) for an unbounded well.
 	Cutoff Number    `json:"cutoff_energy_ev"`

@@ -33,7 +33,7 @@ var FitMetrics = []FitMetric{RankRMSE, RankMAE, RankMax, RankRMSE10, RankRMSE50}
 type FitWindow struct {
 	Fraction float64 `json:"depth_fraction"`
 	Bound    float64 `json:"bound_ev"`
-	N        int     `json:"n_points"`
+	N        int     `json:"points"`
 	RMSE     Number  `json:"rmse_ev"`
 	MAE      Number  `json:"mae_ev"`
 	Max      Number  `json:"max_abs_error_ev"`
@@ -44,26 +44,26 @@ type FitWell struct {
 	Re         float64  `json:"equilibrium_r_angstrom"`
 	Depth      Number   `json:"well_depth_ev"`
 	K          float64  `json:"force_constant_ev_per_angstrom2"`
-	Pair       string   `json:"pair,omitempty"`
-	Mu         *float64 `json:"reduced_mass_u,omitempty"`
-	Wavenumber *float64 `json:"harmonic_wavenumber_per_cm,omitempty"`
+	Pair       Text     `json:"pair"`
+	Mu         *float64 `json:"reduced_mass_u"`
+	Wavenumber *float64 `json:"harmonic_wavenumber_per_cm"`
 	// ZPE is E(v=0) − V(re) and Fundamental E(v=1) − E(v=0) of the
 	// fitted well, J = 0, from core/levels, in cm⁻¹ (with a mass only).
-	ZPE         *float64 `json:"zero_point_energy_per_cm,omitempty"`
-	Fundamental *float64 `json:"fundamental_per_cm,omitempty"`
+	ZPE         *float64 `json:"zero_point_energy_per_cm"`
+	Fundamental *float64 `json:"fundamental_per_cm"`
 }
 
 // Fit is the fit of one form to reference data, as pairwell fit reports
 // it. Values are in eV, Å, u and cm⁻¹; parameters in their default units.
 type Fit struct {
 	Rank           int         `json:"rank"`
-	Form           string      `json:"form"`
+	Model          string      `json:"model"`
 	Name           string      `json:"name"`
-	Origin         string      `json:"origin,omitempty"`
+	Origin         Text        `json:"origin"`
 	Params         Params      `json:"params"`
 	StandardErrors Params      `json:"standard_errors"`
 	Correlation    [][]Number  `json:"correlation"`
-	Spec           string      `json:"spec,omitempty"`
+	Spec           Text        `json:"spec"`
 	Zero           Number      `json:"energy_zero_ev"`
 	ZeroFitted     bool        `json:"energy_zero_fitted"`
 	ZeroSource     string      `json:"energy_zero_source"`
@@ -72,8 +72,8 @@ type Fit struct {
 	MAE            Number      `json:"mae_ev"`
 	Max            Number      `json:"max_abs_error_ev"`
 	Windows        []FitWindow `json:"windows"`
-	NPoints        int         `json:"n_points"`
-	NFitted        int         `json:"n_fitted"`
+	NPoints        int         `json:"points"`
+	NFitted        int         `json:"fitted_points"`
 	RSS            Number      `json:"weighted_rss_ev2"`
 	Iterations     int         `json:"iterations"`
 	Evaluations    int         `json:"evaluations"`
@@ -81,9 +81,9 @@ type Fit struct {
 	Reason         string      `json:"reason"`
 	GradNorm       Number      `json:"gradient_norm"`
 	Jacobian       string      `json:"jacobian"`
-	Well           *FitWell    `json:"well,omitempty"`
-	Notes          []string    `json:"notes,omitempty"`
-	Error          string      `json:"error,omitempty"`
+	Well           *FitWell    `json:"well"`
+	Notes          []string    `json:"notes"`
+	Error          Text        `json:"error"`
 
 	metric float64 // ranking value
 }
@@ -128,7 +128,7 @@ func joinMetrics() string {
 
 func newFit(x FitInput, metric FitMetric, m Mass) Fit {
 	info := x.Model.Info()
-	f := Fit{Form: info.Key, Name: x.Name, Origin: info.Origin, metric: math.Inf(1)}
+	f := Fit{Model: info.Key, Name: x.Name, Origin: Text(info.Origin), Notes: []string{}, metric: math.Inf(1)}
 	f.Params = Params{Values: make([]float64, len(info.Params))}
 	f.StandardErrors = Params{Values: make([]float64, len(info.Params))}
 	for i, q := range info.Params {
@@ -142,7 +142,7 @@ func newFit(x FitInput, metric FitMetric, m Mass) Fit {
 	f.Zero, f.ZeroErr, f.RMSE, f.MAE, f.Max, f.RSS, f.GradNorm = nan, nan, nan, nan, nan, nan, nan
 	f.Windows = []FitWindow{}
 	if x.Err != nil {
-		f.Error = x.Err.Error()
+		f.Error = Text(x.Err.Error())
 		return f
 	}
 	r := x.Result
@@ -157,7 +157,7 @@ func newFit(x FitInput, metric FitMetric, m Mass) Fit {
 			f.Correlation = append(f.Correlation, nr)
 		}
 	}
-	f.Spec = FitSpec(info.Key, info.Params, r.Instance.Params)
+	f.Spec = Text(FitSpec(info.Key, info.Params, r.Instance.Params))
 	f.Zero, f.ZeroFitted, f.ZeroErr, f.ZeroSource = Number(r.Zero), r.ZeroFitted, Number(r.ZeroErr), r.ZeroSource
 	f.RMSE, f.MAE, f.Max = Number(r.All.RMSE), Number(r.All.MAE), Number(r.All.Max)
 	for _, w := range r.Windows {
@@ -185,7 +185,7 @@ func newFit(x FitInput, metric FitMetric, m Mass) Fit {
 		fw := &FitWell{Re: w.Re, Depth: Number(w.Depth), K: w.K}
 		if m.Mu != 0 {
 			if h, err := core.NewHarmonic(w.K, m.Mu); err == nil {
-				fw.Pair, fw.Mu, fw.Wavenumber = m.Pair, &h.Mu, &h.Wavenumber
+				fw.Pair, fw.Mu, fw.Wavenumber = Text(m.Pair), &h.Mu, &h.Wavenumber
 			}
 			if lv, err := levels.Solve(r.Instance.Potential, m.Mu, levels.Settings{Count: 2}); err != nil {
 				f.Notes = append(f.Notes, fmt.Sprintf("zero-point energy and fundamental not given: %v", err))

@@ -12,16 +12,41 @@ import (
 	"github.com/pairwell/pairwell/core"
 )
 
-// Number is a float64 that encodes NaN and ±Inf as JSON null.
+// Number is a float64 whose JSON encoding keeps "unbounded" and "does not
+// apply" apart: +Inf (an unbounded value, such as the depth of a harmonic
+// well) encodes as the string "Infinity", −Inf as "-Infinity", and NaN (no
+// value: not applicable, not computed, or the row failed) as null.
+// "Infinity" is what float() in Python, strconv.ParseFloat in Go, Number()
+// in JavaScript and as.numeric in R read as infinity.
 type Number float64
+
+// Unbounded is the JSON (and CSV) spelling of +Inf.
+const Unbounded = "Infinity"
 
 // MarshalJSON implements json.Marshaler.
 func (n Number) MarshalJSON() ([]byte, error) {
 	f := float64(n)
-	if math.IsNaN(f) || math.IsInf(f, 0) {
+	switch {
+	case math.IsNaN(f):
 		return []byte("null"), nil
+	case math.IsInf(f, 1):
+		return []byte(`"` + Unbounded + `"`), nil
+	case math.IsInf(f, -1):
+		return []byte(`"-` + Unbounded + `"`), nil
 	}
 	return json.Marshal(f)
+}
+
+// Text is a string that encodes as JSON null when it is empty: a key such
+// as "pair" is present in every record, null where it does not apply.
+type Text string
+
+// MarshalJSON implements json.Marshaler.
+func (t Text) MarshalJSON() ([]byte, error) {
+	if t == "" {
+		return []byte("null"), nil
+	}
+	return json.Marshal(string(t))
 }
 
 // Params is a parameter set in the model's order and default units; it
@@ -88,24 +113,27 @@ type Barrier struct {
 // Inspect is the description of one parametrised form: its well, Taylor
 // coefficients and, given a reduced mass, its harmonic vibration.
 type Inspect struct {
-	Name             string    `json:"name,omitempty"`
-	Model            string    `json:"model"`
-	Origin           string    `json:"origin"`
-	Params           Params    `json:"params"`
-	Re               float64   `json:"equilibrium_r_angstrom"`
-	Energy           float64   `json:"equilibrium_energy_ev"`
-	Depth            Number    `json:"well_depth_ev"`
-	K                float64   `json:"force_constant_ev_per_angstrom2"`
-	Taylor           []float64 `json:"taylor_coefficients"`
-	Inflection       Number    `json:"inflection_r_angstrom"`
-	MaxForce         Number    `json:"max_restoring_force_ev_per_angstrom"`
-	Barrier          *Barrier  `json:"barrier,omitempty"`
-	Pair             string    `json:"pair,omitempty"`
-	Mu               *float64  `json:"reduced_mass_u,omitempty"`
-	Wavenumber       *float64  `json:"harmonic_wavenumber_per_cm,omitempty"`
-	FrequencyTHz     *float64  `json:"harmonic_frequency_thz,omitempty"`
-	HarmonicPeriodFs *float64  `json:"harmonic_period_fs,omitempty"`
-	AngularFrequency *float64  `json:"harmonic_angular_frequency_rad_per_fs,omitempty"`
+	Name       string    `json:"name,omitempty"`
+	Model      string    `json:"model"`
+	Origin     string    `json:"origin"`
+	Params     Params    `json:"params"`
+	Re         float64   `json:"equilibrium_r_angstrom"`
+	Energy     float64   `json:"equilibrium_energy_ev"`
+	Depth      Number    `json:"well_depth_ev"`
+	K          float64   `json:"force_constant_ev_per_angstrom2"`
+	Taylor     []float64 `json:"taylor_coefficients"`
+	Inflection Number    `json:"inflection_r_angstrom"`
+	MaxForce   Number    `json:"max_restoring_force_ev_per_angstrom"`
+	// Barrier is nil (null) for a form without an inner barrier.
+	Barrier *Barrier `json:"barrier"`
+	// Pair and the harmonic vibration are null without a reduced mass;
+	// Pair is also null for a mass given directly.
+	Pair             Text     `json:"pair"`
+	Mu               *float64 `json:"reduced_mass_u"`
+	Wavenumber       *float64 `json:"harmonic_wavenumber_per_cm"`
+	FrequencyTHz     *float64 `json:"harmonic_frequency_thz"`
+	HarmonicPeriodFs *float64 `json:"harmonic_period_fs"`
+	AngularFrequency *float64 `json:"harmonic_angular_frequency_rad_per_fs"`
 }
 
 // Mass is an optional reduced mass and the pair it came from.
@@ -149,7 +177,7 @@ func newInspect(name string, inst core.Instance, order int, m Mass) (Inspect, co
 		if err != nil {
 			return Inspect{}, core.Well{}, fmt.Errorf("%s: %w", info.Key, err)
 		}
-		r.Pair = m.Pair
+		r.Pair = Text(m.Pair)
 		r.Mu = &h.Mu
 		r.Wavenumber = &h.Wavenumber
 		r.FrequencyTHz = &h.FrequencyTHz

@@ -28,7 +28,7 @@ const ConstantsTolerance = 0.02
 type Levels struct {
 	Model  string  `json:"model"`
 	Params Params  `json:"params"`
-	Pair   string  `json:"pair,omitempty"`
+	Pair   Text    `json:"pair"`
 	Mu     float64 `json:"reduced_mass_u"`
 	Re     float64 `json:"equilibrium_r_angstrom"`
 	Depth  Number  `json:"well_depth_ev"`
@@ -50,7 +50,7 @@ type Levels struct {
 	Perturbative *PerturbativeConstants `json:"perturbative"`
 	FromLevels   *FittedConstants       `json:"from_levels"`
 
-	Accuracy         float64          `json:"accuracy_per_cm"`
+	Accuracy         float64          `json:"error_estimate_per_cm"`
 	Tolerance        float64          `json:"tolerance_per_cm"`
 	HarmonicValidity HarmonicValidity `json:"harmonic_validity"`
 	Grid             LevelGrid        `json:"grid"`
@@ -72,7 +72,7 @@ type LevelRow struct {
 	MeanR     float64  `json:"mean_r_angstrom"`
 	// RMS is the rms displacement from re, √⟨(r − re)²⟩.
 	RMS      float64 `json:"rms_displacement_angstrom"`
-	Accuracy float64 `json:"accuracy_per_cm"`
+	Accuracy float64 `json:"error_estimate_per_cm"`
 	// Spacing is E(v+1, J) − E(v, J), nil for the highest level shown;
 	// ClassicalSpacing is h/T(E) at the midpoint E of the two (J = 0
 	// only), the classical period's correspondence value.
@@ -182,7 +182,7 @@ func NewLevels(inst core.Instance, m Mass, s LevelsSettings) (Levels, error) {
 		return fail(fmt.Errorf("%w: v max %d, but the well holds %d bound levels at J = 0 (v = 0…%d)", core.ErrParam, s.VMax, res.BoundLevels, res.BoundLevels-1))
 	}
 	r := Levels{
-		Model: key, Params: NewParams(inst), Pair: m.Pair, Mu: m.Mu, Re: w.Re, Depth: Number(w.Depth),
+		Model: key, Params: NewParams(inst), Pair: Text(m.Pair), Mu: m.Mu, Re: w.Re, Depth: Number(w.Depth),
 		Accuracy: res.Accuracy, Tolerance: res.Tolerance, Caution: LevelsCaution,
 		Grid: LevelGrid{Points: res.Points, RMin: res.RMin, RMax: res.RMax, Spacing: res.Spacing},
 	}

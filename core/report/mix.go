@@ -24,8 +24,8 @@ type MixRule struct {
 	Re         float64  `json:"equilibrium_r_angstrom"`
 	Depth      Number   `json:"well_depth_ev"`
 	K          float64  `json:"force_constant_ev_per_angstrom2"`
-	Mu         *float64 `json:"reduced_mass_u,omitempty"`
-	Wavenumber *float64 `json:"harmonic_wavenumber_per_cm,omitempty"`
+	Mu         *float64 `json:"reduced_mass_u"`
+	Wavenumber *float64 `json:"harmonic_wavenumber_per_cm"`
 }
 
 // Mix is the cross pair of two like pairs of one form, by one rule or by
@@ -36,7 +36,7 @@ type Mix struct {
 	SpecB   string    `json:"spec_b"`
 	ParamsA Params    `json:"params_a"`
 	ParamsB Params    `json:"params_b"`
-	Pair    string    `json:"pair,omitempty"`
+	Pair    Text      `json:"pair"`
 	Rules   []MixRule `json:"rules"`
 	Caution string    `json:"caution"`
 }
@@ -63,7 +63,7 @@ func NewMix(specA, specB string, a, b core.Instance, rule string, m Mass) (Mix, 
 	} else if len(rules) == 0 {
 		return Mix{}, fmt.Errorf("%w: no combining rules for %s; rules exist for %s, %s and %s", mixing.ErrRule, ka, mixing.LennardJones, mixing.Buckingham, mixing.Morse)
 	}
-	out := Mix{Model: ka, SpecA: specA, SpecB: specB, ParamsA: NewParams(a), ParamsB: NewParams(b), Pair: m.Pair, Caution: MixCaution}
+	out := Mix{Model: ka, SpecA: specA, SpecB: specB, ParamsA: NewParams(a), ParamsB: NewParams(b), Pair: Text(m.Pair), Caution: MixCaution}
 	for _, r := range rules {
 		row, err := mixRow(r, a, b, m)
 		if err != nil {

@@ -16,7 +16,7 @@ import (
 type Motion struct {
 	Model  string  `json:"model"`
 	Params Params  `json:"params"`
-	Pair   string  `json:"pair,omitempty"`
+	Pair   Text    `json:"pair"`
 	Mu     float64 `json:"reduced_mass_u"`
 	Method string  `json:"method"`
 	Re     float64 `json:"equilibrium_r_angstrom"`
@@ -25,9 +25,13 @@ type Motion struct {
 	Amplitude float64 `json:"amplitude_angstrom"`
 	R0        float64 `json:"start_r_angstrom"`
 	Energy    float64 `json:"energy_ev"`
-	// EnergyFraction is E over the largest bound energy (the depth, or an
-	// inner barrier when lower); 0 for an unbounded well.
-	EnergyFraction float64 `json:"energy_fraction_of_bound"`
+	// DepthFraction is E over the well depth V(∞) − V(re); NaN (null)
+	// for an unbounded well.
+	DepthFraction Number `json:"depth_fraction"`
+	// BoundFraction is E over the limit of bound motion (the depth, or
+	// an inner barrier when lower); 0 for an unbounded well. It decides
+	// the note on the validated range of the default step.
+	BoundFraction float64 `json:"-"`
 
 	MeasuredPeriod   float64 `json:"measured_period_fs"`
 	ExactPeriod      float64 `json:"exact_period_fs"`
@@ -51,7 +55,7 @@ type Motion struct {
 	RelativeEnergyFloor float64 `json:"relative_energy_rounding_floor"`
 	// Notes are remarks on the accuracy of the run, e.g. an energy above
 	// the range in which the default step was validated.
-	Notes []string `json:"notes,omitempty"`
+	Notes []string `json:"notes"`
 
 	TimeStep       float64 `json:"time_step_fs"`
 	StepsPerPeriod float64 `json:"steps_per_period"`
@@ -61,13 +65,14 @@ type Motion struct {
 	Duration       float64 `json:"duration_fs"`
 	// RTol and ATol are the tolerances used by Dormand–Prince; nil for
 	// the fixed-step methods.
-	RTol *float64 `json:"rtol,omitempty"`
-	ATol *float64 `json:"atol,omitempty"`
+	RTol *float64 `json:"rtol"`
+	ATol *float64 `json:"atol"`
 
 	// Trajectory and TrajectorySamples name the file the trajectory was
-	// written to and its length; set by the caller that writes it.
-	Trajectory        string `json:"trajectory_file,omitempty"`
-	TrajectorySamples int    `json:"trajectory_samples,omitempty"`
+	// written to and its length; set by the caller that writes it (null
+	// and 0 without one).
+	Trajectory        Text `json:"trajectory_file"`
+	TrajectorySamples int  `json:"trajectory_samples"`
 }
 
 // MotionStart is the start of a motion: at rest at r0 = re + Amplitude (Å;
@@ -168,7 +173,7 @@ func NewMotion(inst core.Instance, m Mass, start MotionStart, s motion.Settings)
 	r := Motion{
 		Model:               key,
 		Params:              NewParams(inst),
-		Pair:                m.Pair,
+		Pair:                Text(m.Pair),
 		Mu:                  m.Mu,
 		Method:              res.Method.String(),
 		Re:                  w.Re,
@@ -195,13 +200,17 @@ func NewMotion(inst core.Instance, m Mass, start MotionStart, s motion.Settings)
 		ForceEvals:          res.ForceEvals,
 		Duration:            res.Duration,
 	}
-	if !math.IsInf(lim, 1) {
-		r.EnergyFraction = st.Energy / lim
+	r.DepthFraction = Number(math.NaN())
+	if w.Bounded() {
+		r.DepthFraction = Number(st.Energy / w.Depth)
 	}
-	if r.EnergyFraction > motion.ValidatedFraction && s.StepsPerPeriod == 0 && s.RTol == 0 && s.ATol == 0 {
+	if !math.IsInf(lim, 1) {
+		r.BoundFraction = st.Energy / lim
+	}
+	if r.BoundFraction > motion.ValidatedFraction && s.StepsPerPeriod == 0 && s.RTol == 0 && s.ATol == 0 {
 		r.Notes = append(r.Notes, fmt.Sprintf("E is %.3g of the limit of bound motion, above the %.2g up to which the default step of %s was validated "+
 			"(period error target %.0e): that accuracy is not guaranteed here; compare with a finer step (%s)",
-			r.EnergyFraction, motion.ValidatedFraction, res.Method, res.Method.Target(), finer(res.Method)))
+			r.BoundFraction, motion.ValidatedFraction, res.Method, res.Method.Target(), finer(res.Method)))
 	}
 	if math.IsNaN(float64(r.RelativeEnergyDrift)) {
 		r.Notes = append(r.Notes, fmt.Sprintf("the energy error is below the rounding floor of the energies (%.2g relative): it is not resolved", res.EnergyFloor))
@@ -215,6 +224,9 @@ func NewMotion(inst core.Instance, m Mass, start MotionStart, s motion.Settings)
 			at = motion.DefaultATol
 		}
 		r.RTol, r.ATol = &rt, &at
+	}
+	if r.Notes == nil {
+		r.Notes = []string{}
 	}
 	return r, res.Trajectory, nil
 }

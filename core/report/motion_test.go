@@ -41,11 +41,12 @@ func TestMotionMorse(t *testing.T) {
 				assert.Equal(t, tt.start.Amplitude, r.Amplitude)
 			}
 			assert.Equal(t, "morse", r.Model)
-			assert.Equal(t, "H-Cl", r.Pair)
+			assert.Equal(t, Text("H-Cl"), r.Pair)
 			assert.Equal(t, tt.method.String(), r.Method)
 			assert.InDelta(t, morseRe+r.Amplitude, r.R0, 1e-15)
 			assert.InEpsilon(t, E, r.Energy, 1e-10)
-			assert.InEpsilon(t, E/morseDe, r.EnergyFraction, 1e-10)
+			assert.InEpsilon(t, E/morseDe, float64(r.DepthFraction), 1e-10)
+			assert.InEpsilon(t, E/morseDe, r.BoundFraction, 1e-10, "no barrier: the bound limit is the depth")
 			assert.InEpsilon(t, t0, r.HarmonicPeriod, 1e-12)
 			// Morse: T(E) = T0/√(1 − E/De) (standard result; from memory).
 			assert.InEpsilon(t, t0/math.Sqrt(1-E/morseDe), r.ExactPeriod, 1e-10)
@@ -78,14 +79,15 @@ func TestMotionHarmonic(t *testing.T) {
 	assert.InEpsilon(t, t0, r.ExactPeriod, 1e-11)
 	assert.InEpsilon(t, t0, float64(r.PerturbativePeriod), 1e-12, "c₃ = c₄ = 0: no shift")
 	assert.InEpsilon(t, t0, r.MeasuredPeriod, 1e-7)
-	assert.Equal(t, 0.0, r.EnergyFraction, "unbounded well")
+	assert.Equal(t, 0.0, r.BoundFraction, "unbounded well")
+	assert.True(t, math.IsNaN(float64(r.DepthFraction)), "unbounded well: E/depth does not apply")
 	// E = ½kx² (definition).
 	assert.InEpsilon(t, 0.5*k*0.3*0.3, r.Energy, 1e-12)
 	require.NotEmpty(t, tr, "Record = 1 keeps every step")
 	assert.Equal(t, r.Steps+1, len(tr), "the start and every step")
 	b, err := json.Marshal(r)
 	require.NoError(t, err)
-	assert.NotContains(t, string(b), "trajectory_file", "set by the caller only")
+	assert.Contains(t, string(b), `"trajectory_file":null`, "set by the caller only")
 }
 
 func TestMotionErrors(t *testing.T) {

@@ -41,7 +41,7 @@ type PeriodRow struct {
 	// MeasuredPeriod is nil unless the sweep measured the periods
 	// (PeriodSettings.Measure); then it points to the period measured on
 	// an integrated trajectory, NaN for a row not measured.
-	MeasuredPeriod *Number `json:"measured_period_fs,omitempty"`
+	MeasuredPeriod *Number `json:"measured_period_fs"`
 	// Inner and Outer are the turning points r₋ and r₊.
 	Inner Number `json:"inner_turning_point_angstrom"`
 	Outer Number `json:"outer_turning_point_angstrom"`
@@ -63,6 +63,27 @@ func (r PeriodRow) MarshalJSON() ([]byte, error) {
 		plain
 		Error *string `json:"error"`
 	}{plain(r), msg})
+}
+
+// PeriodHead is what a period sweep is of: the form, its well and the
+// reduced mass. The period command's JSON is this object with the key
+// "rows", the PeriodRows, after its fields. Method is the integrator of
+// the measured periods, null when none were measured.
+type PeriodHead struct {
+	Model  string  `json:"model"`
+	Params Params  `json:"params"`
+	Pair   Text    `json:"pair"`
+	Mu     float64 `json:"reduced_mass_u"`
+	Re     float64 `json:"equilibrium_r_angstrom"`
+	Depth  Number  `json:"well_depth_ev"`
+	Method Text    `json:"method"`
+}
+
+// NewPeriodHead describes the sweep of inst, of well w, with mass m;
+// method is empty when the periods were not measured.
+func NewPeriodHead(inst core.Instance, w core.Well, m Mass, method string) PeriodHead {
+	return PeriodHead{Model: inst.Model.Info().Key, Params: NewParams(inst), Pair: Text(m.Pair), Mu: m.Mu,
+		Re: w.Re, Depth: Number(w.Depth), Method: Text(method)}
 }
 
 // PeriodSettings controls PeriodSweep. The zero value computes the exact,
@@ -323,7 +344,7 @@ type PeriodTableRow struct {
 	Harmonic      float64 `json:"harmonic_period_fs"`
 	Perturbative  Number  `json:"perturbative_period_fs"`
 	// Error is why the row has no exact period; empty when it has one.
-	Error string `json:"error,omitempty"`
+	Error Text `json:"error"`
 }
 
 // NewPeriodTable tabulates, with PeriodSweep, the exact, harmonic and
@@ -346,7 +367,7 @@ func NewPeriodTable(name string, inst core.Instance, mu float64, amplitudes []fl
 			Exact: r.ExactPeriod, Harmonic: float64(r.HarmonicPeriod), Perturbative: r.PerturbativePeriod,
 		}
 		if r.Err != nil {
-			t.Rows[i].Error = r.Err.Error()
+			t.Rows[i].Error = Text(r.Err.Error())
 		}
 	}
 	return t, nil

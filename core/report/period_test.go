@@ -196,9 +196,10 @@ func TestPeriodRowJSON(t *testing.T) {
 	var got []map[string]any
 	require.NoError(t, json.Unmarshal(b, &got))
 	keys := []string{"amplitude_angstrom", "energy_ev", "exact_period_fs", "exact_period_relative_error_estimate",
-		"harmonic_period_fs", "perturbative_period_fs", "inner_turning_point_angstrom", "outer_turning_point_angstrom", "error"}
+		"harmonic_period_fs", "perturbative_period_fs", "measured_period_fs", "inner_turning_point_angstrom", "outer_turning_point_angstrom", "error"}
 	for _, r := range got {
-		assert.Len(t, r, len(keys), "measured_period_fs only when measured")
+		assert.Len(t, r, len(keys))
+		assert.Nil(t, r["measured_period_fs"], "null when not measured")
 		for _, k := range keys {
 			assert.Contains(t, r, k)
 		}
@@ -233,7 +234,8 @@ func TestPeriodTableMorse(t *testing.T) {
 	}
 	b, err := json.Marshal(tab)
 	require.NoError(t, err)
-	assert.NotContains(t, string(b), `"error"`, "omitted when empty")
+	assert.NotContains(t, string(b), `"error":"`, "null when there is none")
+	assert.Contains(t, string(b), `"error":null`)
 
 	// |√(1 − f)/(1 − f/2) − 1| ≈ f²/8 grows with the amplitude: 7.9e-6 at
 	// x = 0.05 Å (f ≈ 0.008), 1.2e-3 at 0.2 Å (f ≈ 0.097), 2.6e-2 at

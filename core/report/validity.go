@@ -11,9 +11,10 @@ import (
 // Validity is how far from re the truncated Taylor expansion of the well
 // of one form holds (see package validity), with the form and its well.
 // It encodes as one JSON object: model, params, equilibrium_r_angstrom,
-// well_depth_ev, pair and reduced_mass_u, then the keys of
-// validity.Result (order, tolerance, potential, period). Values are in
-// eV, Å and K; unbounded values are null.
+// well_depth_ev, pair and reduced_mass_u (null when not given), then the
+// keys of ValidityRanges (truncation_order, tolerance, potential,
+// period). Values are in eV, Å and K; an unbounded value is "Infinity",
+// one that does not apply null (see Number).
 type Validity struct {
 	Model  string
 	Params Params
@@ -32,17 +33,17 @@ type validityHead struct {
 	Params Params   `json:"params"`
 	Re     float64  `json:"equilibrium_r_angstrom"`
 	Depth  Number   `json:"well_depth_ev"`
-	Pair   string   `json:"pair,omitempty"`
-	Mu     *float64 `json:"reduced_mass_u,omitempty"`
+	Pair   Text     `json:"pair"`
+	Mu     *float64 `json:"reduced_mass_u"`
 }
 
 // MarshalJSON implements json.Marshaler.
 func (r Validity) MarshalJSON() ([]byte, error) {
-	a, err := json.Marshal(validityHead{Model: r.Model, Params: r.Params, Re: r.Re, Depth: r.Depth, Pair: r.Pair, Mu: r.Mu})
+	a, err := json.Marshal(validityHead{Model: r.Model, Params: r.Params, Re: r.Re, Depth: r.Depth, Pair: Text(r.Pair), Mu: r.Mu})
 	if err != nil {
 		return nil, err
 	}
-	b, err := json.Marshal(r.Result)
+	b, err := json.Marshal(ValidityRanges(r.Result))
 	if err != nil {
 		return nil, err
 	}
@@ -70,4 +71,38 @@ func NewValidity(inst core.Instance, n int, tol float64, m Mass) (Validity, erro
 		r.Mu = &mu
 	}
 	return r, nil
+}
+
+// ValidityRanges is validity.Result as the commands print it: the keys
+// truncation_order, tolerance, potential {compression_angstrom,
+// stretch_angstrom} and period {energy_ev, depth_fraction, temperature_k,
+// compression_angstrom, stretch_angstrom}. An unbounded range is
+// "Infinity"; a value that does not apply (E/depth of an unbounded well)
+// is null.
+type ValidityRanges validity.Result
+
+// MarshalJSON implements json.Marshaler.
+func (r ValidityRanges) MarshalJSON() ([]byte, error) {
+	type pot struct {
+		Compression Number `json:"compression_angstrom"`
+		Stretch     Number `json:"stretch_angstrom"`
+	}
+	type per struct {
+		Energy        Number `json:"energy_ev"`
+		DepthFraction Number `json:"depth_fraction"`
+		Temperature   Number `json:"temperature_k"`
+		Compression   Number `json:"compression_angstrom"`
+		Stretch       Number `json:"stretch_angstrom"`
+	}
+	return json.Marshal(struct {
+		Order     int     `json:"truncation_order"`
+		Tolerance float64 `json:"tolerance"`
+		Potential pot     `json:"potential"`
+		Period    per     `json:"period"`
+	}{
+		r.Order, r.Tolerance,
+		pot{Number(r.Potential.Compression), Number(r.Potential.Stretch)},
+		per{Number(r.Period.Energy), Number(r.Period.DepthFraction), Number(r.Period.Temperature),
+			Number(r.Period.Compression), Number(r.Period.Stretch)},
+	})
 }

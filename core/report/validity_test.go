@@ -62,9 +62,9 @@ func TestValidityJSON(t *testing.T) {
 	b, err := json.Marshal(r)
 	require.NoError(t, err)
 	s := string(b)
-	// The head keys, then those of validity.Result, in this order.
-	keys := []string{`"model"`, `"params"`, `"equilibrium_r_angstrom"`, `"well_depth_ev":null`, `"pair"`, `"reduced_mass_u"`,
-		`"order"`, `"tolerance"`, `"potential"`, `"period"`}
+	// The head keys, then those of ValidityRanges, in this order.
+	keys := []string{`"model"`, `"params"`, `"equilibrium_r_angstrom"`, `"well_depth_ev":"Infinity"`, `"pair"`, `"reduced_mass_u"`,
+		`"truncation_order"`, `"tolerance"`, `"potential"`, `"period"`}
 	last := -1
 	for _, k := range keys {
 		i := strings.Index(s, k)
@@ -72,12 +72,38 @@ func TestValidityJSON(t *testing.T) {
 		assert.Greater(t, i, last, "%s in order", k)
 		last = i
 	}
+	// The harmonic form is its own expansion: every range is unbounded
+	// ("Infinity"), and E/depth does not apply to an unbounded well (null).
+	assert.Contains(t, s, `"potential":{"compression_angstrom":"Infinity","stretch_angstrom":"Infinity"}`)
+	assert.Contains(t, s, `"period":{"energy_ev":"Infinity","depth_fraction":null,"temperature_k":"Infinity",`+
+		`"compression_angstrom":"Infinity","stretch_angstrom":"Infinity"}`)
 	r, err = NewValidity(build(t, morseSpec), 2, 0.01, Mass{})
 	require.NoError(t, err)
 	b, err = json.Marshal(r)
 	require.NoError(t, err)
-	assert.NotContains(t, string(b), `"pair"`)
-	assert.NotContains(t, string(b), `"reduced_mass_u"`)
+	assert.Contains(t, string(b), `"pair":null`, "no mass: the keys are there, null")
+	assert.Contains(t, string(b), `"reduced_mass_u":null`)
+}
+
+// TestNumberJSON: an unbounded value and one that does not apply encode
+// apart (the output contract of README "Output contract").
+func TestNumberJSON(t *testing.T) {
+	for _, tt := range []struct {
+		v    float64
+		want string
+	}{
+		{math.Inf(1), `"Infinity"`}, {math.Inf(-1), `"-Infinity"`}, {math.NaN(), "null"}, {1.5, "1.5"}, {0, "0"},
+	} {
+		b, err := json.Marshal(Number(tt.v))
+		require.NoError(t, err)
+		assert.Equal(t, tt.want, string(b))
+	}
+	b, err := json.Marshal(struct {
+		A Text `json:"a"`
+		B Text `json:"b"`
+	}{"", "x"})
+	require.NoError(t, err)
+	assert.Equal(t, `{"a":null,"b":"x"}`, string(b))
 }
 
 func TestValidityErrors(t *testing.T) {

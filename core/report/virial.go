@@ -48,6 +48,9 @@ type VirialData struct {
 type Virial struct {
 	Model  string `json:"model"`
 	Params Params `json:"params"`
+	// Pair is the atom pair of the mass, empty (null) when the mass was
+	// given directly or not at all.
+	Pair Text `json:"pair"`
 	// Mu is the reduced mass in u; NaN (null) without one.
 	Mu Number `json:"reduced_mass_u"`
 	// HardCore is the radius in Å below which the integrand was taken as
@@ -65,7 +68,7 @@ type Virial struct {
 	SearchLow  Number      `json:"search_low_k"`
 	SearchHigh Number      `json:"search_high_k"`
 	Rows       []VirialRow `json:"rows"`
-	Data       *VirialData `json:"data,omitempty"`
+	Data       *VirialData `json:"data"`
 	Notes      []string    `json:"notes"`
 	Caution    string      `json:"caution"`
 	// Points are the full results behind Rows, then behind Data.Rows.
@@ -97,7 +100,7 @@ func NewVirial(inst core.Instance, mu float64, temps []float64, s VirialSettings
 	if err != nil {
 		return Virial{}, err
 	}
-	out := Virial{Model: inst.Model.Info().Key, Params: NewParams(inst), Mu: Number(math.NaN()),
+	out := Virial{Model: inst.Model.Info().Key, Params: NewParams(inst), Mu: Number(math.NaN()), Rows: []VirialRow{},
 		HardCore: Number(math.NaN()), Caution: Caution}
 	if mu > 0 {
 		out.Mu = Number(mu)

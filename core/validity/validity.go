@@ -27,9 +27,7 @@
 package validity
 
 import (
-	"encoding/json"
 	"fmt"
-	"math"
 
 	"github.com/pairwell/pairwell/core"
 	"github.com/pairwell/pairwell/core/period"
@@ -91,46 +89,6 @@ type Result struct {
 	Tolerance float64
 	Potential Displacements
 	Period    EnergyRange
-}
-
-// number is a float64 that encodes NaN and ±Inf as JSON null.
-type number float64
-
-func (n number) MarshalJSON() ([]byte, error) {
-	f := float64(n)
-	if math.IsNaN(f) || math.IsInf(f, 0) {
-		return []byte("null"), nil
-	}
-	return json.Marshal(f)
-}
-
-// MarshalJSON encodes r with the keys order, tolerance,
-// potential{compression_angstrom, stretch_angstrom} and
-// period{energy_ev, depth_fraction, temperature_k, compression_angstrom,
-// stretch_angstrom}; unbounded or undefined values are null.
-func (r Result) MarshalJSON() ([]byte, error) {
-	type pot struct {
-		Compression number `json:"compression_angstrom"`
-		Stretch     number `json:"stretch_angstrom"`
-	}
-	type per struct {
-		Energy        number `json:"energy_ev"`
-		DepthFraction number `json:"depth_fraction"`
-		Temperature   number `json:"temperature_k"`
-		Compression   number `json:"compression_angstrom"`
-		Stretch       number `json:"stretch_angstrom"`
-	}
-	return json.Marshal(struct {
-		Order     int     `json:"order"`
-		Tolerance float64 `json:"tolerance"`
-		Potential pot     `json:"potential"`
-		Period    per     `json:"period"`
-	}{
-		r.Order, r.Tolerance,
-		pot{number(r.Potential.Compression), number(r.Potential.Stretch)},
-		per{number(r.Period.Energy), number(r.Period.DepthFraction), number(r.Period.Temperature),
-			number(r.Period.Compression), number(r.Period.Stretch)},
-	})
 }
 
 // Analyze returns both criteria for the truncation of order n (2, 3 or 4)
