@@ -149,8 +149,8 @@ func (e *env) compareInputs(specs []string, setPath, match string, m report.Mass
 		}
 		for _, m := range e.registry.Models() {
 			// The library's forms never match; only a user's form is worth a note.
-			if _, ok := m.(core.Matcher); !ok && modelKind(m) != "library" {
-				fmt.Fprintf(e.stderr, "pairwell: note: --match: %s (%s) declares nothing to match a target with, so it is left out\n", m.Info().Key, modelKind(m))
+			if _, ok := m.(core.Matcher); (!ok || numericalMatch(m)) && modelKind(m) != "library" {
+				fmt.Fprintf(e.stderr, "pairwell: note: --match: %s (%s) declares no closed-form match to a target, so it is left out\n", m.Info().Key, modelKind(m))
 			}
 		}
 		for _, in := range matchAll(e.registry, t) {
@@ -168,13 +168,25 @@ func (e *env) compareInputs(specs []string, setPath, match string, m report.Mass
 	return inputs, nil
 }
 
+// numericalMatch reports whether m is a formula form (of a forms file or
+// of the library), whose match is numerical: --match leaves those out
+// (fit uses it to start them).
+func numericalMatch(m core.Model) bool {
+	k := modelKind(m)
+	return k == "formula" || k == "library"
+}
+
 // matchAll matches every model of reg that can match a target well
-// (core.Match, skipping those that report core.ErrUnsupported) to the
-// target t, in registry order. A model that cannot reach t gets an input
+// in closed form (core.Match, skipping those that report
+// core.ErrUnsupported, and formula forms) to the target t, in registry
+// order. A model that cannot reach t gets an input
 // carrying the error.
 func matchAll(reg *core.Registry, t core.Target) []report.CompareInput {
 	var out []report.CompareInput
 	for _, model := range reg.Models() {
+		if numericalMatch(model) {
+			continue
+		}
 		params, notes, err := core.Match(model, t)
 		if errors.Is(err, core.ErrUnsupported) {
 			continue

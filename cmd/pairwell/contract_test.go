@@ -82,6 +82,7 @@ var contractCases = map[string]contractCase{
 	"mix": {args: fixed("mix", "lj:epsilon=119.8K,sigma=3.405", "lj:epsilon=164K,sigma=3.636", "--all-rules", "--pair", "Ar-Kr"),
 		records: "rules"},
 	"check":   {args: fixed("check", contractMorse)},
+	"cutoff":  {args: fixed("cutoff", contractLJ, "--cutoff", "8.5", "--pair", "Ar-Ar", "--density", "1.40g/cm3"), records: "schemes"},
 	"models":  {args: fixed("models")},
 	"demo":    {args: fixed("demo", "--no-pictures"), noCSV: true},
 	"version": {args: fixed("version")},

@@ -84,16 +84,13 @@ These are properties of a classical model potential, not of a validated force fi
 			if err != nil {
 				return computeErr(err)
 			}
-			out := cutoffOutput{Spec: strings.TrimSpace(args[0]), Params: report.NewParams(inst), Pair: m.Pair, Report: &r}
-			if e.format == "csv" {
-				return e.emit(nil, cutoffCSV(r))
-			}
+			out := cutoffOutput{Model: r.Model, Spec: strings.TrimSpace(args[0]), Params: report.NewParams(inst), Pair: report.Text(m.Pair), Report: &r}
 			if e.format == "table" {
 				if err := writeCutoffHead(e, out); err != nil {
 					return err
 				}
 			}
-			if err := e.emit(out, cutoffTable(r)); err != nil {
+			if err := e.emitRecords(out, "schemes", cutoffTable(r)); err != nil {
 				return err
 			}
 			if e.format == "table" {
@@ -111,9 +108,10 @@ These are properties of a classical model potential, not of a validated force fi
 
 // cutoffOutput is the JSON object of cutoff: the form and the report.
 type cutoffOutput struct {
+	Model  string        `json:"model"` // first, as in every command (the report's own is the same)
 	Spec   string        `json:"spec"`
 	Params report.Params `json:"params"`
-	Pair   string        `json:"pair,omitempty"`
+	Pair   report.Text   `json:"pair"` // null without --pair
 	*cutoff.Report
 }
 
@@ -219,12 +217,7 @@ func cutoffTable(r cutoff.Report) *table {
 	row("V″ jump at r_c", "eV/Å²", "—", func(s cutoff.SchemeReport) string { return opt(s.CurvatureJump) })
 	row("re", "Å", num(r.Bare.Re), func(s cutoff.SchemeReport) string { return num(s.Well.Re) })
 	row("re shift", "Å", "—", func(s cutoff.SchemeReport) string { return num(s.ReShift) })
-	depth := func(d *float64) string {
-		if d == nil {
-			return "∞"
-		}
-		return num(*d)
-	}
+	depth := func(d cutoff.Depth) string { return num(float64(d)) }
 	row("well depth", "eV", depth(r.Bare.Depth), func(s cutoff.SchemeReport) string { return depth(s.Well.Depth) })
 	row("depth shift", "eV", "—", func(s cutoff.SchemeReport) string { return opt(s.DepthShift) })
 	row("k = V″(re)", "eV/Å²", num(r.Bare.K), func(s cutoff.SchemeReport) string { return num(s.Well.K) })
@@ -237,30 +230,6 @@ func cutoffTable(r cutoff.Report) *table {
 	row("  at r", "Å", "—", func(s cutoff.SchemeReport) string { return opt(s.MaxEnergyErrorR) })
 	row("max |F_cut − F| below r_c", "eV/Å", "—", func(s cutoff.SchemeReport) string { return num(s.MaxForceError) })
 	row("  at r", "Å", "—", func(s cutoff.SchemeReport) string { return opt(s.MaxForceErrorR) })
-	return t
-}
-
-// cutoffCSVKeys are the columns of cutoff's CSV, one row per scheme: the
-// JSON keys of a scheme object (well.* nested).
-var cutoffCSVKeys = []string{
-	"scheme", "spec_suffix", "energy_jump_ev", "force_jump_ev_per_angstrom", "curvature_jump_ev_per_angstrom2",
-	"well.equilibrium_r_angstrom", "well.well_depth_ev", "well.force_constant_ev_per_angstrom2", "well.harmonic_wavenumber_per_cm",
-	"re_shift_angstrom", "depth_shift_ev", "k_shift_ev_per_angstrom2", "wavenumber_shift_per_cm",
-	"max_energy_error_ev", "max_energy_error_r_angstrom", "max_force_error_ev_per_angstrom", "max_force_error_r_angstrom",
-}
-
-// cutoffCSV is one row per scheme, the JSON keys as header.
-func cutoffCSV(r cutoff.Report) *table {
-	t := &table{}
-	for _, k := range cutoffCSVKeys {
-		t.cols = append(t.cols, column{Title: k})
-	}
-	for _, s := range r.Schemes {
-		t.add(s.Scheme, s.Suffix, num(s.EnergyJump), num(s.ForceJump), opt(s.CurvatureJump),
-			num(s.Well.Re), opt(s.Well.Depth), num(s.Well.K), opt(s.Well.Wavenumber),
-			num(s.ReShift), opt(s.DepthShift), num(s.KShift), opt(s.WavenumberShift),
-			num(s.MaxEnergyError), opt(s.MaxEnergyErrorR), num(s.MaxForceError), opt(s.MaxForceErrorR))
-	}
 	return t
 }
 
@@ -285,7 +254,7 @@ func writeCutoffFoot(e *env, r cutoff.Report) error {
 		if t.Accuracy > 0 {
 			acc = fmt.Sprintf("relative accuracy %.2g", t.Accuracy)
 		}
-		fmt.Fprintf(&b, "Tail corrections for r > r_c at ρ = %s atoms/Å³ (%s, %s; %s):\n", num(t.Density), t.Method, acc, r.TailSource)
+		fmt.Fprintf(&b, "Tail corrections for r > r_c at ρ = %s atoms/Å³ (%s, %s; %s):\n", num(t.Density), t.Method, acc, *r.TailSource)
 		fmt.Fprintf(&b, "  energy per particle u_tail  %s eV\n  pressure p_tail             %s eV/Å³ = %s bar\n", num(t.Energy), num(t.Pressure), num(t.PressureBar))
 	}
 	for _, n := range r.Notes {

@@ -293,8 +293,8 @@ func TestFitPluginRecovery(t *testing.T) {
 }
 
 // TestFitFormulaForm fits a formula form (Morse typed as a formula in a
-// forms file) from a given start to exact Morse data and recovers the
-// parameters to 1e-8 relative; without --start it is refused.
+// forms file) from a given start and from the automatic one to exact Morse
+// data and recovers the parameters to 1e-8 relative.
 func TestFitFormulaForm(t *testing.T) {
 	path := writeMorseScan(t)
 	forms := filepath.Join(t.TempDir(), "forms.toml")
@@ -310,9 +310,13 @@ func TestFitFormulaForm(t *testing.T) {
 			assert.InDelta(t, 1, p[name].(float64)/want, 1e-8, "%v %s", row["model"], name)
 		}
 	}
-	code, _, errOut = runCLI(t, "--forms", forms, "fit", path, "--form", "fmorse")
-	assert.Equal(t, 2, code)
-	assert.Contains(t, errOut, "--start fmorse:")
+	// from the automatic start (the formula form's numerical match)
+	rows = fitJSON(t, "--forms", forms, path, "--form", "fmorse", "--offset", "fit")
+	require.Len(t, rows, 1)
+	p := rows[0]["params"].(map[string]any)
+	for name, want := range map[string]float64{"De": 4.6, "a": 1.87, "re": 1.27} {
+		assert.InDelta(t, 1, p[name].(float64)/want, 1e-8, "automatic start %s", name)
+	}
 	code, _, errOut = runCLI(t, "--forms", forms, "fit", path, "--form", "morse", "--start", "fmorse:De=5.5,a=1.6,re=1.35")
 	assert.Equal(t, 2, code)
 	assert.Contains(t, errOut, "not fitted")

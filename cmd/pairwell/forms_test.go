@@ -125,10 +125,10 @@ func TestFormsModelsAndMatch(t *testing.T) {
 	code, out, _ = runCLI(t, "models")
 	require.Equal(t, 0, code)
 	assert.Contains(t, out, "forms file "+filepath.Join(dir, "a.toml")+":59")
-	// --match: the formula forms declare nothing to match, and say so.
+	// --match: the formula forms have no closed-form match, and say so.
 	code, _, errOut = runCLI(t, "compare", "--match", "re=1.27,De=4.6,k=30", "--mu", "1")
 	require.Equal(t, 0, code, errOut)
-	assert.Contains(t, errOut, "--match: varshni (formula) declares nothing to match a target with, so it is left out")
+	assert.Contains(t, errOut, "--match: varshni (formula) declares no closed-form match to a target, so it is left out")
 }
 
 // Bad forms files: one clear line (plus the caret picture for a formula),

@@ -1,6 +1,7 @@
 package cutoff
 
 import (
+	"encoding/json"
 	"fmt"
 	"math"
 
@@ -34,9 +35,21 @@ type AnalysisSettings struct {
 // Well is the minimum of a form: bare or cut.
 type Well struct {
 	Re         float64  `json:"equilibrium_r_angstrom"`
-	Depth      *float64 `json:"well_depth_ev"` // V(∞) − V(re); null when unbounded
+	Depth      Depth    `json:"well_depth_ev"` // V(∞) − V(re); "Infinity" when unbounded
 	K          float64  `json:"force_constant_ev_per_angstrom2"`
-	Wavenumber *float64 `json:"harmonic_wavenumber_per_cm,omitempty"` // with a mass
+	Wavenumber *float64 `json:"harmonic_wavenumber_per_cm"` // null without a mass
+}
+
+// Depth is a well depth in eV that encodes +Inf (an unbounded well) as the
+// JSON string "Infinity", as every command of pairwell does.
+type Depth float64
+
+// MarshalJSON implements json.Marshaler.
+func (d Depth) MarshalJSON() ([]byte, error) {
+	if math.IsInf(float64(d), 1) {
+		return []byte(`"Infinity"`), nil
+	}
+	return json.Marshal(float64(d))
 }
 
 // SchemeReport is what one scheme changes. Jumps are the value just
@@ -55,7 +68,7 @@ type SchemeReport struct {
 	ReShift         float64  `json:"re_shift_angstrom"`
 	DepthShift      *float64 `json:"depth_shift_ev"` // null when the bare depth is unbounded
 	KShift          float64  `json:"k_shift_ev_per_angstrom2"`
-	WavenumberShift *float64 `json:"wavenumber_shift_per_cm,omitempty"`
+	WavenumberShift *float64 `json:"wavenumber_shift_per_cm"`
 	MaxEnergyError  float64  `json:"max_energy_error_ev"`
 	MaxEnergyErrorR *float64 `json:"max_energy_error_r_angstrom"`
 	MaxForceError   float64  `json:"max_force_error_ev_per_angstrom"`
@@ -75,15 +88,15 @@ type Report struct {
 	Model      string         `json:"model"` // bare model key
 	Cutoff     float64        `json:"cutoff_angstrom"`
 	SwitchOn   float64        `json:"switch_on_angstrom"`
-	VCut       float64        `json:"v_at_cutoff_ev"`                   // bare V(r_c)
-	DVCut      float64        `json:"dv_at_cutoff_ev_per_angstrom"`     // bare V′(r_c)
-	Mu         float64        `json:"reduced_mass_u,omitempty"`         // 0: none
-	Bare       Well           `json:"bare"`                             // the uncut form
-	Schemes    []SchemeReport `json:"schemes"`                          // in the order of Schemes()
-	Scan       ErrorScan      `json:"error_scan"`                       // how the errors were found
-	Tail       *Tail          `json:"tail_correction,omitempty"`        // with a density
-	TailSource string         `json:"tail_correction_source,omitempty"` // literature of the formulas
-	Notes      []string       `json:"notes"`                            // what a reader must know
+	VCut       float64        `json:"v_at_cutoff_ev"`               // bare V(r_c)
+	DVCut      float64        `json:"dv_at_cutoff_ev_per_angstrom"` // bare V′(r_c)
+	Mu         *float64       `json:"reduced_mass_u"`               // null: none
+	Bare       Well           `json:"bare"`                         // the uncut form
+	Schemes    []SchemeReport `json:"schemes"`                      // in the order of Schemes()
+	Scan       ErrorScan      `json:"error_scan"`                   // how the errors were found
+	Tail       *Tail          `json:"tail_correction"`              // null without a density
+	TailSource *string        `json:"tail_correction_source"`       // literature of the formulas
+	Notes      []string       `json:"notes"`                        // what a reader must know
 	Caution    string         `json:"caution"`
 }
 
@@ -128,7 +141,11 @@ func Analyze(inst core.Instance, s AnalysisSettings) (Report, error) {
 	if from >= s.Cutoff {
 		return Report{}, fmt.Errorf("%w: %w: the error scan would start at %g Å, not below r_c = %g Å", core.ErrParam, ErrSettings, from, s.Cutoff)
 	}
-	rep := Report{Model: inst.Model.Info().Key, Cutoff: s.Cutoff, Mu: s.Mu, Bare: well(bw, s.Mu), Caution: Caution}
+	rep := Report{Model: inst.Model.Info().Key, Cutoff: s.Cutoff, Bare: well(bw, s.Mu), Caution: Caution}
+	if s.Mu > 0 {
+		mu := s.Mu
+		rep.Mu = &mu
+	}
 	L := s.Cutoff - from
 	rep.Scan = ErrorScan{
 		From: from, To: s.Cutoff,
@@ -171,7 +188,8 @@ func Analyze(inst core.Instance, s AnalysisSettings) (Report, error) {
 		} else if t, err = TailCorrections(bare, s.Cutoff, s.Density); err != nil {
 			return Report{}, err
 		}
-		rep.Tail, rep.TailSource = &t, tailSource
+		src := tailSource
+		rep.Tail, rep.TailSource = &t, &src
 		rep.Notes = append(rep.Notes, "The tail corrections are those of the interactions beyond r_c (g(r) = 1 there), the same for every scheme; they do not include what a shift or switch changes inside r_c, nor the impulsive pressure term of a truncated form.")
 	}
 	return rep, nil
@@ -188,11 +206,7 @@ func ljParams(inst core.Instance) ([]float64, bool) {
 
 // well turns a core.Well into a Well, with the wavenumber for a mass mu.
 func well(w core.Well, mu float64) Well {
-	out := Well{Re: w.Re, K: w.K}
-	if w.Bounded() {
-		d := w.Depth
-		out.Depth = &d
-	}
+	out := Well{Re: w.Re, K: w.K, Depth: Depth(w.Depth)}
 	if mu > 0 {
 		nu := units.Wavenumber(units.AngularFrequency(w.K, mu))
 		out.Wavenumber = &nu

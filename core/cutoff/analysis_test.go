@@ -43,7 +43,7 @@ func TestAnalyzeShifts(t *testing.T) {
 	assert.InEpsilon(t, -0.000653350922867808896227154234591406847218, fs.KShift, 1e-7)
 	assert.InEpsilon(t, 0.05046601584643667403742136341418734198861, fs.Well.K, 1e-11)
 	sh := scheme(t, r, "shift")
-	assert.InEpsilon(t, 0.01017207020810894738838139865170446618809, *sh.Well.Depth, 1e-13)
+	assert.InEpsilon(t, 0.01017207020810894738838139865170446618809, float64(sh.Well.Depth), 1e-13)
 	assert.Zero(t, sh.ReShift)
 	assert.Zero(t, sh.KShift)
 	// Check values of the jumps: truncation jumps by −V(r_c) in energy and
