@@ -81,6 +81,8 @@ var contractCases = map[string]contractCase{
 	"expansion": {args: fixed("expansion", contractMorse, "--pair", "H-Cl", "--temperatures", "100,300"), records: "rows"},
 	"mix": {args: fixed("mix", "lj:epsilon=119.8K,sigma=3.405", "lj:epsilon=164K,sigma=3.636", "--all-rules", "--pair", "Ar-Kr"),
 		records: "rules"},
+	"table": {args: fixed("table", contractMorse, "--from", "0.9", "--to", "3", "--accuracy", "1e-4", "--second-derivative"),
+		records: "rows"},
 	"check":   {args: fixed("check", contractMorse)},
 	"cutoff":  {args: fixed("cutoff", contractLJ, "--cutoff", "8.5", "--pair", "Ar-Ar", "--density", "1.40g/cm3"), records: "schemes"},
 	"models":  {args: fixed("models")},
