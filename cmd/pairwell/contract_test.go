@@ -137,6 +137,13 @@ func formatCommands() []string {
 	return out
 }
 
+// energyUnitCommand reports whether the command at path has --energy-unit.
+func energyUnitCommand(path string) bool {
+	root := newRootCmd(newEnv(io.Discard, io.Discard))
+	c, _, err := root.Find(strings.Fields(path))
+	return err == nil && c.Flags().Lookup("energy-unit") != nil
+}
+
 // contractSection is the text of README's "Output contract" section.
 func contractSection(t *testing.T) string {
 	t.Helper()
@@ -214,6 +221,14 @@ func TestOutputContract(t *testing.T) {
 			}
 			sort.Strings(undocumented)
 			assert.Empty(t, undocumented, "%s: JSON keys missing from README \"Output contract\"", name)
+
+			// --energy-unit, where a command has it, is not a no-op on its
+			// table (a plot's converts the picture's axis instead).
+			if energyUnitCommand(name) && !strings.HasPrefix(name, "plot ") {
+				code, out, errOut = runCLI(t, append(tc.args(t, t.TempDir()), "--energy-unit", "meV")...)
+				require.Equal(t, tc.code, code, "%s: %s", name, errOut)
+				assert.Contains(t, out, "meV", "%s: the table's energies in meV", name)
+			}
 
 			code, out, errOut = runCLI(t, append(tc.args(t, t.TempDir()), "--format", "csv")...)
 			if tc.noCSV {
