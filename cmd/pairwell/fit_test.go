@@ -308,23 +308,7 @@ func fitPluginRecovery(t *testing.T, bin string) {
 func TestFitFormulaForm(t *testing.T) {
 	path := writeMorseScan(t)
 	forms := filepath.Join(t.TempDir(), "forms.toml")
-	require.NoError(t, os.WriteFile(forms, []byte(`[[form]]
-key = "fmorse"
-formula = "De*((1 - exp(-a*(r - re)))^2 - 1)"
-limit = 0
-[[form.param]]
-name = "De"
-unit = "eV"
-constraint = "> 0"
-[[form.param]]
-name = "a"
-unit = "1/A"
-constraint = "> 0"
-[[form.param]]
-name = "re"
-unit = "A"
-constraint = "> 0"
-`), 0o644))
+	require.NoError(t, os.WriteFile(forms, []byte(formTOML("fmorse", morseFormula, "limit = 0", morseParams...)), 0o644))
 	code, out, errOut := runCLI(t, "--forms", forms, "fit", path, "--form", "fmorse", "--form", "morse", "--start", "fmorse:De=5.5,a=1.6,re=1.35", "--offset", "fit", "--format", "json")
 	require.Equal(t, 0, code, errOut)
 	var rows []map[string]any
