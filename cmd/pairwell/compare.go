@@ -148,7 +148,8 @@ func (e *env) compareInputs(specs []string, setPath, match string, m report.Mass
 			return nil, usageErr(fmt.Errorf("--match: %w", err))
 		}
 		for _, m := range e.registry.Models() {
-			// The library's forms never match; only a user's form is worth a note.
+			// The library's forms are left out silently (their match is
+			// numerical); only a user's form is worth a note.
 			if _, ok := m.(core.Matcher); (!ok || numericalMatch(m)) && modelKind(m) != "library" {
 				fmt.Fprintf(e.stderr, "pairwell: note: --match: %s (%s) declares no closed-form match to a target, so it is left out\n", m.Info().Key, modelKind(m))
 			}

@@ -5,6 +5,7 @@ import (
 	"math"
 
 	"github.com/pairwell/pairwell/core"
+	"github.com/pairwell/pairwell/core/units"
 )
 
 // DefaultSafety multiplies the sampled maximum of |V⁽ᵏ⁾| in the error
@@ -147,12 +148,18 @@ func PlanFor(p core.Potential, from, to float64, tol Tolerance, s Settings) (*Re
 			ErrTooFine, tol.Energy, sc.max[0], sc.at[0], floor)
 	}
 	span := to - from
-	h := math.Min(be.spacing(tol.Energy, s.Safety*plan.EnergyMax), bf.spacing(tol.Force, s.Safety*plan.ForceMax))
+	hv, hf := be.spacing(tol.Energy, s.Safety*plan.EnergyMax), bf.spacing(tol.Force, s.Safety*plan.ForceMax)
+	h := math.Min(hv, hf)
+	// The derivative that limits h, for messages.
+	limit := derivativeMax{plan.EnergyOrder, plan.EnergyMax, plan.EnergyMaxR}
+	if hf < hv {
+		limit = derivativeMax{plan.ForceOrder, plan.ForceMax, plan.ForceMaxR}
+	}
 	points := 2
 	if h < span {
 		points = int(math.Ceil(span/h)) + 1
 	}
-	if err := tooMany(points, from, to, tol, s.Interpolation, plan); err != nil {
+	if err := tooMany(points, from, to, tol, s.Interpolation, limit); err != nil {
 		return nil, err
 	}
 	for {
@@ -177,14 +184,22 @@ func PlanFor(p core.Potential, from, to float64, tol Tolerance, s Settings) (*Re
 		next := int(math.Ceil(span/(hg/(1.1*ratio)))) + 1
 		points = max(next, points+1)
 		plan.Refinements++
-		if err := tooMany(points, from, to, tol, s.Interpolation, plan); err != nil {
+		if err := tooMany(points, from, to, tol, s.Interpolation, limit); err != nil {
 			return nil, err
 		}
 	}
 }
 
-// tooMany refuses a grid beyond MaxPoints with what asks for it.
-func tooMany(points int, from, to float64, tol Tolerance, how Interpolation, plan *Plan) error {
+// derivativeMax is a sampled max |V⁽ᵏ⁾| (eV/Åᵏ) and where (Å).
+type derivativeMax struct {
+	order int
+	max   float64
+	at    float64
+}
+
+// tooMany refuses a grid beyond MaxPoints, naming the derivative that asks
+// for it.
+func tooMany(points int, from, to float64, tol Tolerance, how Interpolation, d derivativeMax) error {
 	if points <= MaxPoints {
 		return nil
 	}
@@ -192,13 +207,9 @@ func tooMany(points int, from, to float64, tol Tolerance, how Interpolation, pla
 	if how == Cubic {
 		hint = ""
 	}
-	return fmt.Errorf("%w: %g eV and %g eV/Å with %s interpolation from %g to %g Å need %d points (spacing %.3g Å), more than %d: |V%s| reaches %.4g eV/Å^%d at r = %g Å (the repulsive wall when that is the start): start the table further out or relax the accuracy%s",
+	return fmt.Errorf("%w: %g eV and %g eV/Å with %s interpolation from %g to %g Å need %d points (spacing %.3g Å), more than %d: |V⁽%s⁾| reaches %.4g eV/Å%s at r = %g Å (the repulsive wall when that is the start): start the table further out or relax the accuracy%s",
 		ErrTooFine, tol.Energy, tol.Force, how, from, to, points, (to-from)/float64(points-1), MaxPoints,
-		superscriptOrder(plan.EnergyOrder), plan.EnergyMax, plan.EnergyOrder, plan.EnergyMaxR, hint)
-}
-
-func superscriptOrder(k int) string {
-	return [...]string{"", "′", "″", "‴", "⁗"}[k]
+		units.Superscript(d.order), d.max, units.Superscript(d.order), d.at, hint)
 }
 
 // scanResult holds max |V⁽ᵏ⁾| over a range and where, k = 0…order.
