@@ -175,17 +175,5 @@ func (s AmplitudeSeries) Ratio(E float64) (ratio, bound float64) {
 		abs = abs*x + math.Abs(s.a[m])
 		dev = dev*x + s.da[m]
 	}
-	return ratio, ipowf(q, K+1)/(1-q) + 4*eps*abs + dev
-}
-
-// ipowf returns x^n for n ≥ 0 by repeated squaring.
-func ipowf(x float64, n int) float64 {
-	r := 1.0
-	for ; n > 0; n >>= 1 {
-		if n&1 == 1 {
-			r *= x
-		}
-		x *= x
-	}
-	return r
+	return ratio, math.Pow(q, float64(K+1))/(1-q) + 4*eps*abs + dev
 }
