@@ -44,6 +44,7 @@ type Expansion struct {
 	c    []float64 // c_0, …, c_M with c_1 = 0
 	ca   []float64 // |c_k|
 	cs   []float64 // (k+1)·|c_{k+1}| for k < M, 0 for k = M
+	m    int       // M of the remainder bound: that of the full series, also when trimmed
 	v0   float64   // |V(re)|
 	beta float64   // the decay rate β of the coefficients, 1/Å
 	dre  float64   // the uncertainty of re, Å (Well.ReError)
@@ -83,7 +84,7 @@ func NewExpansion(w Well) Expansion {
 			cs[k] = float64(k+1) * math.Abs(c[k+1]) // cs[M] stays 0, unused
 		}
 	}
-	return Expansion{c: c, ca: ca, cs: cs, v0: math.Abs(w.Energy), beta: 1.25 * beta, dre: w.ReError}
+	return Expansion{c: c, ca: ca, cs: cs, m: m, v0: math.Abs(w.Energy), beta: 1.25 * beta, dre: w.ReError}
 }
 
 // Order returns M, the highest order of the series (0 for the zero value).
@@ -129,7 +130,7 @@ func (e Expansion) sums(x float64, from int, always bool) (s, bound, s2, bound2 
 			}
 			tail = math.Inf(1)
 		} else {
-			tail = e.c[2] * x * x * ipow(q, m-1) / (1 - q)
+			tail = e.c[2] * x * x * ipow(q, e.m-1) / (1 - q)
 		}
 	}
 	ax := math.Abs(x)
@@ -270,16 +271,20 @@ func (e Expansion) Value(x float64) float64 {
 // Trim returns the expansion without the terms beyond the order m where,
 // at every |x| ≤ xmax, the dropped terms together are below ε·c₂x²
 // (|c_k|·xmax^{k−2} summed over k > m, against ε·c₂): it evaluates faster
-// at small displacements and to the same precision. Take error bounds
-// (Sum) from the full series: those of the trimmed one are pessimistic.
-func (e Expansion) Trim(xmax float64) Expansion {
+// at small displacements and to the same precision. Its remainder bound
+// stays that of the full series (the dropped terms are within the
+// rounding bound), so Sum and Sums give the same bounds to a relative ε.
+func (e Expansion) Trim(xmax float64) Expansion { return e.TrimTo(xmax, 2) }
+
+// TrimTo is Trim keeping at least the terms up to c_keep.
+func (e Expansion) TrimTo(xmax float64, keep int) Expansion {
 	m := len(e.c) - 1
 	if m < 3 {
 		return e
 	}
 	xmax = math.Abs(xmax)
 	drop, p := 0.0, ipow(xmax, m-2)
-	for m > 2 {
+	for m > 2 && m > keep {
 		drop += math.Abs(e.c[m]) * p
 		if !(drop <= eps*e.c[2]) {
 			break

@@ -61,6 +61,14 @@ func EvaluateSets(m Model, n int, params, r, dst []float64, errs []error) error 
 	if e, ok := m.(SetEvaluator); ok {
 		return e.EvaluateSets(n, params, r, dst, errs)
 	}
+	return EvaluateEach(m, n, params, r, dst, errs)
+}
+
+// EvaluateEach evaluates many parameter sets of m as SetEvaluator
+// describes by New and one Taylor call for each set, the sets
+// concurrently: the fallback of EvaluateSets, and of a SetEvaluator that
+// finds its fast path missing (a plugin built before it).
+func EvaluateEach(m Model, n int, params, r, dst []float64, errs []error) error {
 	if err := CheckSets(m.Info(), n, params, r, dst, errs); err != nil {
 		return err
 	}

@@ -16,6 +16,7 @@ import (
 	"strconv"
 	"strings"
 	"sync"
+	"sync/atomic"
 	"syscall"
 	"time"
 
@@ -106,7 +107,12 @@ type Plugin struct {
 	client *plugin.Client
 	forms  pb.FormsClient
 	fast   *wire.FastClient // nil: evaluations go over gRPC; set by Load
-	stderr *tail
+	// fastSets: the direct channel takes EvaluateSets (Describe said
+	// fast_sets); noSets: the plugin answered EvaluateSets UNIMPLEMENTED,
+	// so sets are opened and evaluated one by one.
+	fastSets bool
+	noSets   atomic.Bool
+	stderr   *tail
 
 	ctx    context.Context // canceled when the plugin stops
 	cancel context.CancelFunc
@@ -302,6 +308,7 @@ func (p *Plugin) start(ctx context.Context) error {
 			p.mu.Lock()
 			if p.dead == nil {
 				p.fast, fc = fc, nil
+				p.fastSets = resp.GetFastSets()
 			}
 			p.mu.Unlock()
 			if fc != nil { // stopped meanwhile

@@ -15,6 +15,7 @@ var bin struct {
 	test         string // testdata/testplugin: plugin-morse and the faulty models
 	oldproto     string // testplugin under a name that makes it speak protocol 1
 	grpconly     string // testplugin without the direct evaluation channel
+	nosets       string // testplugin answering as one built before EvaluateSets
 	holdpipes    string // testplugin with a child holding its pipes
 	setsid       string // testplugin with such a child in its own session
 	nosdk        string // testdata/nosdk: not built with the SDK, never answers
@@ -47,11 +48,12 @@ func testMain(m *testing.M) int {
 	bin.test = filepath.Join(dir, "testplugin")
 	bin.oldproto = filepath.Join(dir, "oldproto")
 	bin.grpconly = filepath.Join(dir, "grpconly")
+	bin.nosets = filepath.Join(dir, "nosets")
 	bin.holdpipes = filepath.Join(dir, "holdpipes")
 	bin.setsid = filepath.Join(dir, "setsid")
 	bin.nosdk = filepath.Join(dir, "nosdk")
 	bin.dir = dir
-	for _, link := range []string{bin.oldproto, bin.grpconly, bin.holdpipes, bin.setsid} {
+	for _, link := range []string{bin.oldproto, bin.grpconly, bin.nosets, bin.holdpipes, bin.setsid} {
 		if err := os.Symlink(bin.test, link); err != nil {
 			fmt.Fprintln(os.Stderr, err)
 			return 1

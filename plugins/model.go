@@ -8,6 +8,9 @@ import (
 	"runtime"
 	"time"
 
+	"google.golang.org/grpc/codes"
+	"google.golang.org/grpc/status"
+
 	"github.com/pairwell/pairwell/conformance"
 	"github.com/pairwell/pairwell/core"
 	"github.com/pairwell/pairwell/plugins/internal/wire"
@@ -235,4 +238,108 @@ func (pt *potential) Taylor(n int, r, dst []float64) error {
 		}
 	}
 	return nil
+}
+
+// EvaluateSets evaluates many parameter sets of the model at the same
+// separations (core.SetEvaluator) in one round trip per at most maxValues
+// coefficients: over the direct channel when the plugin offers it there,
+// else over gRPC EvaluateSets. A plugin built before that call (it answers
+// UNIMPLEMENTED) is remembered, and its sets are opened and evaluated one
+// by one, concurrently (core.EvaluateEach). A value that is not finite is
+// its set's error wrapping ErrBadOutput at its point.
+func (m *model) EvaluateSets(n int, params, r, dst []float64, errs []error) error {
+	if err := core.CheckSets(m.info, n, params, r, dst, errs); err != nil {
+		return err
+	}
+	np, block := len(m.info.Params), len(r)*(n+1)
+	step := maxValues / max(1, block)
+	if step < 1 || m.p.noSets.Load() {
+		return core.EvaluateEach(m, n, params, r, dst, errs)
+	}
+	for s0 := 0; s0 < len(errs); s0 += step {
+		s1 := min(s0+step, len(errs))
+		done, err := m.evaluateSets(n, params[s0*np:s1*np], r, dst[s0*block:s1*block], errs[s0:s1])
+		if err != nil {
+			return err
+		}
+		if !done {
+			return core.EvaluateEach(m, n, params[s0*np:], r, dst[s0*block:], errs[s0:])
+		}
+	}
+	return nil
+}
+
+// evaluateSets is one EvaluateSets round trip; done is false when the
+// plugin does not implement the call.
+func (m *model) evaluateSets(n int, params, r, dst []float64, errs []error) (done bool, err error) {
+	p, key := m.p, m.info.Key
+	what := fmt.Sprintf("EvaluateSets %s c₀…c_%d, %d sets at %d points", key, n, len(errs), len(r))
+	req := &pb.EvaluateSetsRequest{Model: key, Order: int32(n), Params: params, Sets: int32(len(errs)), R: r}
+	var resp *pb.EvaluateSetsResponse
+	if fc := p.fast; fc != nil && p.fastSets {
+		if err := p.deadErr(); err != nil {
+			return false, fmt.Errorf("%s: %w", what, err)
+		}
+		if resp, err = fc.EvaluateSets(p.timeout, req); err != nil {
+			if errors.Is(err, wire.ErrFastProtocol) {
+				return false, fmt.Errorf("plugin %s: %s: %w: %v", p.path, what, ErrBadOutput, err)
+			}
+			return false, p.failed(what, err, errors.Is(err, os.ErrDeadlineExceeded))
+		}
+	} else {
+		unimplemented := false
+		if err := p.call(what, func(ctx context.Context) (err error) {
+			resp, err = p.forms.EvaluateSets(ctx, req)
+			if status.Code(err) == codes.Unimplemented {
+				unimplemented = true
+				return nil
+			}
+			return err
+		}); err != nil {
+			return false, err
+		}
+		if unimplemented {
+			p.noSets.Store(true)
+			return false, nil
+		}
+	}
+	if f := resp.GetFailure(); f != nil {
+		return true, remote(p, f)
+	}
+	if got := len(resp.GetValues()); got != len(dst) {
+		return true, fmt.Errorf("plugin %s: %s: %w: %d values, want %d", p.path, what, ErrBadOutput, got, len(dst))
+	}
+	copy(dst, resp.GetValues())
+	clear(errs)
+	for _, sf := range resp.GetSetFailures() {
+		s := sf.GetSet()
+		if s < 0 || s >= int64(len(errs)) {
+			return true, fmt.Errorf("plugin %s: %s: %w: failure of set %d of %d", p.path, what, ErrBadOutput, s, len(errs))
+		}
+		switch pf := sf.GetPointFailure(); {
+		case pf != nil:
+			i := pf.GetIndex()
+			if i < 0 || i >= int64(len(r)) {
+				return true, fmt.Errorf("plugin %s: %s: %w: failure at point %d of %d", p.path, what, ErrBadOutput, i, len(r))
+			}
+			errs[s] = &core.PointError{Index: int(i), R: r[i], Err: remote(p, pf.GetFailure())}
+		default:
+			errs[s] = remote(p, sf.GetFailure())
+		}
+	}
+	w, block := n+1, len(r)*(n+1)
+	for s := range errs {
+		if errs[s] != nil {
+			continue
+		}
+		for j, v := range dst[s*block : (s+1)*block] {
+			if v-v != 0 { // NaN or ±Inf
+				i, k := j/w, j%w
+				errs[s] = &core.PointError{Index: i, R: r[i], Err: fmt.Errorf("plugin %s: %s: %w: c_%d = V⁽%d⁾/%d! of set %d is %g",
+					p.path, what, ErrBadOutput, k, k, k, s, v)}
+				break
+			}
+		}
+	}
+	return true, nil
 }

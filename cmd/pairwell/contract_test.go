@@ -81,6 +81,8 @@ var contractCases = map[string]contractCase{
 	"expansion": {args: fixed("expansion", contractMorse, "--pair", "H-Cl", "--temperatures", "100,300"), records: "rows"},
 	"mix": {args: fixed("mix", "lj:epsilon=119.8K,sigma=3.405", "lj:epsilon=164K,sigma=3.636", "--all-rules", "--pair", "Ar-Kr"),
 		records: "rules"},
+	"table": {args: fixed("table", contractMorse, "--from", "0.9", "--to", "3", "--accuracy", "1e-4", "--second-derivative"),
+		records: "rows"},
 	"check":   {args: fixed("check", contractMorse)},
 	"cutoff":  {args: fixed("cutoff", contractLJ, "--cutoff", "8.5", "--pair", "Ar-Ar", "--density", "1.40g/cm3"), records: "schemes"},
 	"models":  {args: fixed("models")},
@@ -133,6 +135,13 @@ func formatCommands() []string {
 	walk(root)
 	sort.Strings(out)
 	return out
+}
+
+// energyUnitCommand reports whether the command at path has --energy-unit.
+func energyUnitCommand(path string) bool {
+	root := newRootCmd(newEnv(io.Discard, io.Discard))
+	c, _, err := root.Find(strings.Fields(path))
+	return err == nil && c.Flags().Lookup("energy-unit") != nil
 }
 
 // contractSection is the text of README's "Output contract" section.
@@ -212,6 +221,14 @@ func TestOutputContract(t *testing.T) {
 			}
 			sort.Strings(undocumented)
 			assert.Empty(t, undocumented, "%s: JSON keys missing from README \"Output contract\"", name)
+
+			// --energy-unit, where a command has it, is not a no-op on its
+			// table (a plot's converts the picture's axis instead).
+			if energyUnitCommand(name) && !strings.HasPrefix(name, "plot ") {
+				code, out, errOut = runCLI(t, append(tc.args(t, t.TempDir()), "--energy-unit", "meV")...)
+				require.Equal(t, tc.code, code, "%s: %s", name, errOut)
+				assert.Contains(t, out, "meV", "%s: the table's energies in meV", name)
+			}
 
 			code, out, errOut = runCLI(t, append(tc.args(t, t.TempDir()), "--format", "csv")...)
 			if tc.noCSV {

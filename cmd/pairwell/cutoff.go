@@ -103,6 +103,7 @@ These are properties of a classical model potential, not of a validated force fi
 	cmd.Flags().StringVar(&on, "switch-on", "", "start r_on of the switching region of the switches (default 0.9·r_c)")
 	cmd.Flags().StringVar(&densityIn, "density", "", "number density for the tail corrections: atoms/Å³ (0.021, 21/nm^3) or a mass density (1.40g/cm3, with --pair A-A or --mu)")
 	mass.register(cmd)
+	e.energyUnitFlag(cmd, tableEnergies)
 	return cmd
 }
 

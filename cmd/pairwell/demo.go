@@ -3,7 +3,6 @@ package main
 import (
 	"errors"
 	"fmt"
-	"io"
 	"math"
 	"strconv"
 	"strings"
@@ -118,13 +117,14 @@ caution; the pictures are then listed on stderr.`, demoBond.target.Re, demoBond.
 				}
 				return pictures.write(e)
 			}
-			if err := writeDemo(e.stdout, r); err != nil {
+			if err := writeDemo(e.tables(), r); err != nil {
 				return failErr(fmt.Errorf("writing output: %w", err))
 			}
 			return pictures.write(e)
 		},
 	}
 	pictures.register(cmd)
+	e.energyUnitFlag(cmd, tableEnergies)
 	return cmd
 }
 
@@ -267,8 +267,8 @@ func periodSentence(p report.PeriodTable, tol float64) string {
 }
 
 // writeDemo renders every section as text.
-func writeDemo(w io.Writer, r demoReport) error {
-	for _, f := range []func(io.Writer, demoReport) error{
+func writeDemo(w tableWriter, r demoReport) error {
+	for _, f := range []func(tableWriter, demoReport) error{
 		writeDemoScenario, writeDemoCompare, writeDemoPeriod, writeDemoFit, writeDemoTemperature, writeDemoLevels, writeDemoInterpretation,
 	} {
 		if err := f(w, r); err != nil {
@@ -278,7 +278,7 @@ func writeDemo(w io.Writer, r demoReport) error {
 	return nil
 }
 
-func writeDemoScenario(w io.Writer, r demoReport) error {
+func writeDemoScenario(w tableWriter, r demoReport) error {
 	s := r.Scenario
 	_, err := fmt.Fprintf(w, `pairwell demo — an INVENTED bond, not a real molecule:
   re = %.2f Å, De = %.2f eV, k = %g eV/Å², reduced mass μ = %g u.
@@ -288,7 +288,7 @@ Validity: the Taylor potential of order %d within a tolerance of %g %%.
 	return err
 }
 
-func writeDemoCompare(w io.Writer, r demoReport) error {
+func writeDemoCompare(w tableWriter, r demoReport) error {
 	fmt.Fprintln(w, "\n== Four forms, one bond")
 	pt := &table{cols: []column{{Title: "name"}, {Title: "matched parameters"}}}
 	for _, row := range r.Compare {
@@ -298,18 +298,18 @@ func writeDemoCompare(w io.Writer, r demoReport) error {
 		}
 		pt.add(row.Name, ps)
 	}
-	if err := writeTable(w, pt); err != nil {
+	if err := w.table(pt); err != nil {
 		return err
 	}
 	fmt.Fprintln(w)
 	t, notes := compareTable(r.Compare)
-	if err := writeTable(w, t); err != nil {
+	if err := w.table(t); err != nil {
 		return err
 	}
 	return writeCompareLegend(w, r.Compare, notes)
 }
 
-func writeDemoPeriod(w io.Writer, r demoReport) error {
+func writeDemoPeriod(w tableWriter, r demoReport) error {
 	fmt.Fprintf(w, "\n== Period against amplitude (%s, stretched from rest by the amplitude)\n", r.Period.Name)
 	t := &table{cols: []column{
 		{Title: "amplitude", Unit: "Å"}, {Title: "energy", Unit: "eV"}, {Title: "E/depth"},
@@ -321,10 +321,10 @@ func writeDemoPeriod(w io.Writer, r demoReport) error {
 			short(float64(row.Exact)), short(row.Harmonic), short(float64(row.Perturbative)),
 			percent(row.Lengthening()), percent(row.PerturbativeError()), string(row.Error))
 	}
-	return writeTable(w, t)
+	return w.table(t)
 }
 
-func writeDemoInterpretation(w io.Writer, r demoReport) error {
+func writeDemoInterpretation(w tableWriter, r demoReport) error {
 	_, err := fmt.Fprintf(w, "\n== What the numbers say\n%s\n\n%s\n", wrap(r.Interpretation, 88), wrap(r.Caution, 88))
 	return err
 }
@@ -390,7 +390,7 @@ func levelsSentences(r demoReport, rows map[string]*report.CompareRow) []string 
 
 // writeDemoLevels prints the lowest and highest levels of the Morse form
 // and what they add up to.
-func writeDemoLevels(w io.Writer, r demoReport) error {
+func writeDemoLevels(w tableWriter, r demoReport) error {
 	l := r.Levels
 	if l == nil {
 		return nil
@@ -407,7 +407,7 @@ func writeDemoLevels(w io.Writer, r demoReport) error {
 		}
 		t.add(fmt.Sprint(lr.V), short(lr.TermValue), optShort(lr.Binding), optShort(lr.Spacing), optShort(lr.ClassicalSpacing), short(lr.MeanR))
 	}
-	if err := writeTable(w, t); err != nil {
+	if err := w.table(t); err != nil {
 		return err
 	}
 	_, err := fmt.Fprintf(w, "zero-point energy %s cm⁻¹, D0 = depth − ZPE = %s eV, fundamental %s cm⁻¹ (harmonic ωe %s cm⁻¹), %d bound levels; accuracy %.2g cm⁻¹\n",

@@ -4,7 +4,6 @@ import (
 	"bytes"
 	_ "embed"
 	"fmt"
-	"io"
 	"strings"
 
 	"github.com/pairwell/pairwell/core"
@@ -63,13 +62,13 @@ func demoFitSection(e *env) (*demoFit, error) {
 	}, nil
 }
 
-func writeDemoFit(w io.Writer, r demoReport) error {
+func writeDemoFit(w tableWriter, r demoReport) error {
 	f := r.Fit
 	if f == nil {
 		return nil
 	}
 	fmt.Fprintf(w, "\n== Fitting the four forms to an INVENTED scan (%d points, pairwell fit %s --mu %g)\n", f.Points, f.Data, demoBond.mu)
-	if err := writeTable(w, fitTable(f.Fits)); err != nil {
+	if err := w.table(fitTable(f.Fits)); err != nil {
 		return err
 	}
 	var s []string

@@ -4,7 +4,6 @@ import (
 	"bytes"
 	_ "embed"
 	"fmt"
-	"io"
 	"math"
 
 	"github.com/pairwell/pairwell/core"
@@ -86,14 +85,14 @@ func demoGasVirial(e *env) (report.Virial, error) {
 	return v, nil
 }
 
-func writeDemoTemperature(w io.Writer, r demoReport) error {
+func writeDemoTemperature(w tableWriter, r demoReport) error {
 	t := r.Temperature
 	if t == nil {
 		return nil
 	}
 	x := t.Expansion
 	fmt.Fprintf(w, "\n== The bond warms up (%s, pairwell expansion --mu %g)\n", x.Model, demoBond.mu)
-	if err := writeTable(w, expansionTable(x)); err != nil {
+	if err := w.table(expansionTable(x)); err != nil {
 		return err
 	}
 	first, last := x.Rows[0], x.Rows[len(x.Rows)-1]
@@ -115,7 +114,7 @@ func writeDemoTemperature(w io.Writer, r demoReport) error {
 
 	v := t.Gas.Virial
 	fmt.Fprintf(w, "\n== An INVENTED gas against INVENTED B₂ data (pairwell virial %s --pair Ar-Ar --data %s)\n", demoGasSpec, demoGasName)
-	if err := writeTable(w, virialTable(v)); err != nil {
+	if err := w.table(virialTable(v)); err != nil {
 		return err
 	}
 	s = fmt.Sprintf("%s The Boyle temperature of the model is %.4g K and its B₂ peaks at %.4g K; the RMS deviation from the invented "+

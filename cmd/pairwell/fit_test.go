@@ -293,28 +293,12 @@ func TestFitPluginRecovery(t *testing.T) {
 }
 
 // TestFitFormulaForm fits a formula form (Morse typed as a formula in a
-// forms file) from a given start to exact Morse data and recovers the
-// parameters to 1e-8 relative; without --start it is refused.
+// forms file) from a given start and from the automatic one to exact Morse
+// data and recovers the parameters to 1e-8 relative.
 func TestFitFormulaForm(t *testing.T) {
 	path := writeMorseScan(t)
 	forms := filepath.Join(t.TempDir(), "forms.toml")
-	require.NoError(t, os.WriteFile(forms, []byte(`[[form]]
-key = "fmorse"
-formula = "De*((1 - exp(-a*(r - re)))^2 - 1)"
-limit = 0
-[[form.param]]
-name = "De"
-unit = "eV"
-constraint = "> 0"
-[[form.param]]
-name = "a"
-unit = "1/A"
-constraint = "> 0"
-[[form.param]]
-name = "re"
-unit = "A"
-constraint = "> 0"
-`), 0o644))
+	require.NoError(t, os.WriteFile(forms, []byte(formTOML("fmorse", morseFormula, "limit = 0", morseParams...)), 0o644))
 	code, out, errOut := runCLI(t, "--forms", forms, "fit", path, "--form", "fmorse", "--form", "morse", "--start", "fmorse:De=5.5,a=1.6,re=1.35", "--offset", "fit", "--format", "json")
 	require.Equal(t, 0, code, errOut)
 	var rows []map[string]any
@@ -326,9 +310,13 @@ constraint = "> 0"
 			assert.InDelta(t, 1, p[name].(float64)/want, 1e-8, "%v %s", row["model"], name)
 		}
 	}
-	code, _, errOut = runCLI(t, "--forms", forms, "fit", path, "--form", "fmorse")
-	assert.Equal(t, 2, code)
-	assert.Contains(t, errOut, "--start fmorse:")
+	// from the automatic start (the formula form's numerical match)
+	rows = fitJSON(t, "--forms", forms, path, "--form", "fmorse", "--offset", "fit")
+	require.Len(t, rows, 1)
+	p := rows[0]["params"].(map[string]any)
+	for name, want := range map[string]float64{"De": 4.6, "a": 1.87, "re": 1.27} {
+		assert.InDelta(t, 1, p[name].(float64)/want, 1e-8, "automatic start %s", name)
+	}
 	code, _, errOut = runCLI(t, "--forms", forms, "fit", path, "--form", "morse", "--start", "fmorse:De=5.5,a=1.6,re=1.35")
 	assert.Equal(t, 2, code)
 	assert.Contains(t, errOut, "not fitted")

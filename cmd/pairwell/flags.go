@@ -227,8 +227,9 @@ func (e *env) readEnergyUnit() error {
 }
 
 // convertEnergies rewrites the energies of a table in another unit: in a
-// table with a "unit" column, the "value" cell of every row whose unit
-// starts with "eV" (eV, eV/Å², eV/Å³ …), to 9 significant digits; in a
+// table with a "unit" column, the "value" cell (without one, every cell
+// right of the unit) of every row whose unit starts with "eV" (eV, eV/Å²,
+// eV/Å³ …), to 9 significant digits; in a
 // table with units in the headers, every column whose unit starts with
 // "eV", to 6. Values are divided by perUnit, the unit's value in eV; cells
 // that are not numbers (∞, —) stay. JSON and CSV are never converted: they
@@ -251,14 +252,20 @@ func convertEnergies(t *table, name string, perUnit float64) {
 			valueCol = i
 		}
 	}
-	if unitCol >= 0 && valueCol >= 0 {
+	if unitCol >= 0 {
 		// The cells hold 10 digits; converted, 9 are certain.
 		format = func(v float64) string { return strconv.FormatFloat(v, 'g', 9, 64) }
 		for _, r := range t.rows {
-			if u := r[unitCol]; strings.HasPrefix(u, "eV") && valueCol < len(r) {
-				r[valueCol] = conv(r[valueCol])
-				r[unitCol] = name + strings.TrimPrefix(u, "eV")
+			u := r[unitCol]
+			if !strings.HasPrefix(u, "eV") {
+				continue
 			}
+			for i := range r {
+				if i == valueCol || valueCol < 0 && i > unitCol {
+					r[i] = conv(r[i])
+				}
+			}
+			r[unitCol] = name + strings.TrimPrefix(u, "eV")
 		}
 		return
 	}

@@ -64,7 +64,10 @@ func TestOneMeaningPerFlagName(t *testing.T) {
 	for _, u := range byName["tolerance"] {
 		assert.Equal(t, "TOL", u.typ, "%s --tolerance is relative", u.cmd)
 	}
-	require.Len(t, byName[accuracyFlag], 2, "levels and plot levels")
+	// An absolute accuracy of an energy: of the levels (levels, plot
+	// levels; bare numbers in cm⁻¹) and of a table's interpolated V
+	// (table; bare numbers in eV, the default energy unit).
+	require.Len(t, byName[accuracyFlag], 3, "levels, plot levels and table")
 	for _, u := range byName["method"] {
 		assert.Contains(t, []string{"", motion.DormandPrince.String()}, u.def, u.cmd)
 	}

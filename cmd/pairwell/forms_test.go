@@ -15,82 +15,14 @@ import (
 // formulaForms declares the four built-in forms as formulas (Morse 1929,
 // Lennard-Jones 1924, Buckingham 1938, harmonic), with the built-ins'
 // parameter names, and a Varshni form (Y. P. Varshni, Rev. Mod. Phys. 29,
-// 664 (1957)).
-const formulaForms = `
-[[form]]
-key = "fmorse"
-formula = "De*(1 - exp(-a*(r - re)))^2 - De"
-[[form.param]]
-name = "De"
-unit = "eV"
-constraint = "> 0"
-[[form.param]]
-name = "a"
-unit = "1/A"
-constraint = "> 0"
-[[form.param]]
-name = "re"
-unit = "A"
-constraint = "> 0"
-
-[[form]]
-key = "flj"
-formula = "4*epsilon*((sigma/r)^12 - (sigma/r)^6)"
-[[form.param]]
-name = "epsilon"
-unit = "eV"
-constraint = "> 0"
-[[form.param]]
-name = "sigma"
-unit = "A"
-constraint = "> 0"
-
-[[form]]
-key = "fbuck"
-formula = "A*exp(-r/rho) - C/r^6"
-[[form.param]]
-name = "A"
-unit = "eV"
-constraint = "> 0"
-[[form.param]]
-name = "rho"
-unit = "A"
-constraint = "> 0"
-[[form.param]]
-name = "C"
-unit = "eV*A^6"
-constraint = ">= 0"
-
-[[form]]
-key = "fharm"
-formula = "0.5*k*(r - r0)^2"
-limit = "none"
-[[form.param]]
-name = "k"
-unit = "eV/A^2"
-constraint = "> 0"
-[[form.param]]
-name = "r0"
-unit = "A"
-constraint = "> 0"
-
-[[form]]
-key = "varshni"
-formula = "De*(1 - (re/r)*exp(-beta*(r^2 - re^2)))^2 - De"
-reference = "Y. P. Varshni, Rev. Mod. Phys. 29, 664 (1957)"
-[[form.param]]
-name = "De"
-unit = "eV"
-constraint = "> 0"
-[[form.param]]
-name = "re"
-unit = "A"
-constraint = "> 0"
-[[form.param]]
-name = "beta"
-unit = "1/A^2"
-constraint = "> 0"
-`
+// 664 (1957)). It starts with an empty line: the tests name its forms by
+// FILE:LINE.
+var formulaForms = "\n" + formTOML("fmorse", morseFormula, "", morseParams...) + "\n" +
+	formTOML("flj", ljFormula, "", ljParams...) + "\n" +
+	formTOML("fbuck", "A*exp(-r/rho) - C/r^6", "", formParam{"A", "eV", "> 0"}, formParam{"rho", "A", "> 0"}, formParam{"C", "eV*A^6", ">= 0"}) + "\n" +
+	formTOML("fharm", "0.5*k*(r - r0)^2", `limit = "none"`, formParam{"k", "eV/A^2", "> 0"}, formParam{"r0", "A", "> 0"}) + "\n" +
+	formTOML("varshni", "De*(1 - (re/r)*exp(-beta*(r^2 - re^2)))^2 - De", `reference = "Y. P. Varshni, Rev. Mod. Phys. 29, 664 (1957)"`,
+		formParam{"De", "eV", "> 0"}, formParam{"re", "A", "> 0"}, formParam{"beta", "1/A^2", "> 0"})
 
 // fourFormulaSpecs are fourSpecs with the formula forms.
 var fourFormulaSpecs = []string{
@@ -193,18 +125,17 @@ func TestFormsModelsAndMatch(t *testing.T) {
 	code, out, _ = runCLI(t, "models")
 	require.Equal(t, 0, code)
 	assert.Contains(t, out, "forms file "+filepath.Join(dir, "a.toml")+":59")
-	// --match: the formula forms declare nothing to match, and say so.
+	// --match: the formula forms have no closed-form match, and say so.
 	code, _, errOut = runCLI(t, "compare", "--match", "re=1.27,De=4.6,k=30", "--mu", "1")
 	require.Equal(t, 0, code, errOut)
-	assert.Contains(t, errOut, "--match: varshni (formula) declares nothing to match a target with, so it is left out")
+	assert.Contains(t, errOut, "--match: varshni (formula) declares no closed-form match to a target, so it is left out")
 }
 
 // Bad forms files: one clear line (plus the caret picture for a formula),
 // exit 2, also for a file that cannot be read (as for --set).
 func TestFormsBadInput(t *testing.T) {
-	const head = "[[form]]\nkey = \"%s\"\nformula = \"%s\"\n[[form.param]]\nname = \"epsilon\"\nunit = \"eV\"\n[[form.param]]\nname = \"sigma\"\nunit = \"A\"\n"
 	form := func(key, f string) string {
-		return strings.Replace(strings.Replace(head, "%s", key, 1), "%s", f, 1)
+		return formTOML(key, f, "", formParam{"epsilon", "eV", ""}, formParam{"sigma", "A", ""})
 	}
 	tests := []struct {
 		doc, contain string
@@ -259,40 +190,10 @@ func BenchmarkCompareFourFormulas(b *testing.B) {
 // A formula without a minimum, and one that is not finite inside its
 // declared domain, are clear errors (exit 2), never numbers.
 func TestFormsNoMinimumAndDomain(t *testing.T) {
-	forms := writeForms(t, `
-[[form]]
-key = "rep"
-formula = "A*exp(-r/rho)"
-[[form.param]]
-name = "A"
-unit = "eV"
-[[form.param]]
-name = "rho"
-unit = "A"
-
-[[form]]
-key = "lw"
-formula = "De*log(r/re - 1)^2 - De"
-limit = "none"
-[[form.param]]
-name = "De"
-unit = "eV"
-[[form.param]]
-name = "re"
-unit = "A"
-
-[[form]]
-key = "lw2"
-formula = "De*log(r/re - 1)^2 - De"
-limit = "none"
-r_min = "re"
-[[form.param]]
-name = "De"
-unit = "eV"
-[[form.param]]
-name = "re"
-unit = "A"
-`)
+	de, re := formParam{"De", "eV", ""}, formParam{"re", "A", ""}
+	forms := writeForms(t, formTOML("rep", "A*exp(-r/rho)", "", formParam{"A", "eV", ""}, formParam{"rho", "A", ""})+"\n"+
+		formTOML("lw", "De*log(r/re - 1)^2 - De", `limit = "none"`, de, re)+"\n"+
+		formTOML("lw2", "De*log(r/re - 1)^2 - De", "limit = \"none\"\nr_min = \"re\"", de, re))
 	code, out, errOut := runCLI(t, "--forms", forms, "inspect", "rep:A=100,rho=0.3")
 	assert.Equal(t, exitUsage, code)
 	assert.Empty(t, out)

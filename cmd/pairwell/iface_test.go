@@ -197,7 +197,7 @@ func TestVersion(t *testing.T) {
 }
 
 // TestCompareValidityOnlyWhenAsked: compare computes the validity ranges
-// (1–2 ms per form, most of its cost) only with --validity, --truncation or
+// (about 0.1 ms per form at order 2) only with --validity, --truncation or
 // --tolerance; without, the JSON key is null and the table columns do not
 // appear.
 func TestCompareValidityOnlyWhenAsked(t *testing.T) {
@@ -335,4 +335,33 @@ func TestEnergyUnitTables(t *testing.T) {
 	code, _, errOut = runCLI(t, "inspect", lj, "--energy-unit", "furlong")
 	assert.Equal(t, 2, code)
 	assert.Contains(t, errOut, "allowed: eV, meV, K, kcal/mol, kJ/mol, cm-1, hartree")
+}
+
+// TestEnergyUnitEveryTable: every command whose table shows energies
+// converts them; the value is the JSON's (eV) in the unit (1 meV = 1e-3 eV,
+// SI prefix; 120 K·k_B = 0.0103408 eV, CODATA 2018 k_B).
+func TestEnergyUnitEveryTable(t *testing.T) {
+	morse := "morse:De=4.6,a=1.87,re=1.27" // invented, HCl-sized
+	lj := "lj:epsilon=120K,sigma=3.4"      // argon-sized, illustrative
+	tests := []struct {
+		args []string
+		want string // a regexp on the table in meV
+	}{
+		// E = V(re + 0.2) − V(re) = De(1 − e^{−0.374})² = 447.848675 meV (the JSON's energy_ev).
+		{[]string{"motion", morse, "--pair", "H-Cl", "--amplitude", "0.2", "--periods", "2"}, `oscillation energy E\s+447\.848675\s+meV`},
+		// E/De = 1 − 0.99² = 0.0199 at 1 % (validity of Morse, README): E = 91.54 meV.
+		{[]string{"validity", morse}, `largest energy E above V\(re\)\s+91\.54\s+meV`},
+		{[]string{"period", morse, "--pair", "H-Cl", "--amplitudes", "0.1"}, `energy \[meV\][\s\S]*\n0\.1\s+133\.811\s`},
+		{[]string{"mix", lj, lj, "--all-rules"}, `depth \[meV\][\s\S]*\s10\.3408\s`},
+		{[]string{"fit", filepath.Join("demodata", "invented-scan.csv"), "--form", "morse"}, `RMSE \[meV\]`},
+		// D0 = De − ZPE = 4.6 eV − 1478.768 cm⁻¹ (levels JSON d0_ev 4.41665614 eV).
+		{[]string{"levels", morse, "--pair", "H-Cl", "--v-max", "1", "--j-max", "0"}, `D0 = depth − ZPE\s+4416\.656\d*\s+meV`},
+		{[]string{"inspect", lj, morse}, `depth \[meV\][\s\S]*\s10\.3408\s`},
+		{[]string{"demo", "--no-pictures"}, `depth \[meV\]`},
+	}
+	for _, tt := range tests {
+		code, out, errOut := runCLI(t, append(tt.args, "--energy-unit", "meV")...)
+		require.Equal(t, 0, code, "%v: %s", tt.args, errOut)
+		assert.Regexp(t, tt.want, out, tt.args)
+	}
 }

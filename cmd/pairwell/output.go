@@ -86,12 +86,26 @@ func (e *env) emitRecords(v any, records string, t *table) error {
 	return nil
 }
 
-// writeTable writes t aligned, its energies converted to --energy-unit.
-func (e *env) writeTable(t *table) error {
-	if e.energy.name != "" && e.energy.name != "eV" {
-		convertEnergies(t, e.energy.name, e.energy.perUnit)
+// writeTable writes t aligned to stdout, its energies converted to
+// --energy-unit.
+func (e *env) writeTable(t *table) error { return e.tables().table(t) }
+
+// tableWriter is text output whose tables show the energies in the unit
+// of --energy-unit (for commands that print several tables and text).
+type tableWriter struct {
+	io.Writer
+	energy energyChoice
+}
+
+// tables is stdout as a tableWriter.
+func (e *env) tables() tableWriter { return tableWriter{e.stdout, e.energy} }
+
+// table writes t aligned, its energies converted.
+func (w tableWriter) table(t *table) error {
+	if w.energy.name != "" && w.energy.name != "eV" {
+		convertEnergies(t, w.energy.name, w.energy.perUnit)
 	}
-	return writeTable(e.stdout, t)
+	return writeTable(w.Writer, t)
 }
 
 // emitRows writes rows in the chosen format like emitRecords, as the array

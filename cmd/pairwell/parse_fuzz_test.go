@@ -47,3 +47,25 @@ func FuzzParsePlotRange(f *testing.F) {
 		}
 	})
 }
+
+// FuzzTableTolerance: --accuracy and --force-accuracy never panic, and an
+// accepted pair is positive and finite (a force in eV/Å).
+func FuzzTableTolerance(f *testing.F) {
+	for _, s := range [][2]string{{"1e-6", ""}, {"1e-3meV", "1e-4kcal/mol/A"}, {"0.01K", "1e-6eV/bohr"}, {"-1", ""}, {"1e-6", "1eV"}, {"", ""}} {
+		f.Add(s[0], s[1])
+	}
+	f.Fuzz(func(t *testing.T, e, fa string) {
+		tol, err := tolerance(e, fa)
+		if err != nil {
+			if strings.Contains(err.Error(), "\n") {
+				t.Fatalf("multi-line error %q", err)
+			}
+			return
+		}
+		for _, v := range []float64{tol.Energy, tol.Force} {
+			if !(v > 0) || math.IsInf(v, 0) {
+				t.Fatalf("%q, %q accepted as %+v", e, fa, tol)
+			}
+		}
+	})
+}

@@ -169,6 +169,14 @@ func (e *env) writePlot(f *figure.Figure, o *plotOutput) error {
 	return nil
 }
 
+// checkPlotPeriods refuses --periods outside 1…maxPlotPeriods.
+func checkPlotPeriods(periods int) error {
+	if periods < 1 || periods > maxPlotPeriods {
+		return usageErr(fmt.Errorf("--periods %d: must be from 1 to %d", periods, maxPlotPeriods))
+	}
+	return nil
+}
+
 // plotName names the form, and the pair when one is given, in a title.
 func plotName(key string, m report.Mass) string {
 	if m.Pair != "" {
@@ -180,6 +188,53 @@ func plotName(key string, m report.Mass) string {
 // plotErr classifies an error from a figure builder like computeErr.
 func plotErr(key string, err error) error {
 	return computeErr(fmt.Errorf("%s: %w", key, err))
+}
+
+// formPlot is the frame of the plots of one form with a reduced mass
+// (period, motion, levels, virial, expansion): the output flags and
+// --pair/--mu.
+type formPlot struct {
+	out  plotOutput
+	mass massFlags
+}
+
+func (fp *formPlot) register(e *env, cmd *cobra.Command) {
+	fp.out.register(e, cmd)
+	fp.mass.register(cmd)
+}
+
+// draw checks the output and resolves the mass (required or not) before
+// anything is computed, lets options read the command's own flags, builds
+// SPEC, draws it with picture (given the title name of the form and pair)
+// and writes the picture; a failure of picture is one of that form.
+func (fp *formPlot) draw(e *env, spec string, massRequired bool, options func(m report.Mass) error,
+	picture func(inst core.Instance, m report.Mass, name string) (*figure.Figure, error)) error {
+	if err := fp.out.check(e); err != nil {
+		return err
+	}
+	m, err := fp.mass.resolve(massRequired)
+	if err != nil {
+		return err
+	}
+	if options != nil {
+		if err := options(m); err != nil {
+			return err
+		}
+	}
+	inst, err := e.build(spec)
+	if err != nil {
+		return err
+	}
+	key := inst.Model.Info().Key
+	f, err := picture(inst, m, plotName(key, m))
+	if err != nil {
+		var coded *codedError
+		if errors.As(err, &coded) {
+			return err // already classified, e.g. bad input found while drawing
+		}
+		return plotErr(key, err)
+	}
+	return e.writePlot(f, &fp.out)
 }
 
 // parsePlotRange parses RMIN:RMAX, each a length with an optional unit.
@@ -270,8 +325,7 @@ separations, RMIN:RMAX with optional units; it must overlap the domain.`,
 
 func newPlotPeriodCmd(e *env) *cobra.Command {
 	var (
-		out        plotOutput
-		mass       massFlags
+		fp         formPlot
 		amplitudes string
 		energyAxis bool
 		method     string
@@ -301,45 +355,30 @@ well is bad input.`,
   pairwell plot period lj:epsilon=120K,sigma=3.4 --pair Ar-Ar --amplitudes=-0.3:0.8:12 --method dopri -o lj.png`,
 		Args: exactArgs(1, "SPEC"),
 		RunE: func(cmd *cobra.Command, args []string) error {
-			if err := out.check(e); err != nil {
-				return err
-			}
-			m, err := mass.resolve(true)
-			if err != nil {
-				return err
-			}
-			o := figure.PeriodOptions{Mu: m.Mu, EnergyAxis: energyAxis, Periods: periods}
-			if cmd.Flags().Changed("amplitudes") {
-				if o.Amplitudes, err = parseSweep(amplitudes, units.Length); err != nil {
-					return usageErr(fmt.Errorf("--amplitudes: %w", err))
+			var o figure.PeriodOptions
+			return fp.draw(e, args[0], true, func(m report.Mass) (err error) {
+				o = figure.PeriodOptions{Mu: m.Mu, EnergyAxis: energyAxis, Periods: periods}
+				if cmd.Flags().Changed("amplitudes") {
+					if o.Amplitudes, err = parseSweep(amplitudes, units.Length); err != nil {
+						return usageErr(fmt.Errorf("--amplitudes: %w", err))
+					}
 				}
-			}
-			if method != "" {
-				if o.Method, err = motion.ParseMethod(method); err != nil {
-					return usageErr(fmt.Errorf("--method: %w", err))
+				if method != "" {
+					if o.Method, err = motion.ParseMethod(method); err != nil {
+						return usageErr(fmt.Errorf("--method: %w", err))
+					}
+					o.Measure = true
+				} else if cmd.Flags().Changed("periods") {
+					return usageErr(errors.New("--periods applies to the measured points: name an integrator with --method"))
 				}
-				o.Measure = true
-			} else if cmd.Flags().Changed("periods") {
-				return usageErr(errors.New("--periods applies to the measured points: name an integrator with --method"))
-			}
-			if periods < 1 || periods > maxPlotPeriods {
-				return usageErr(fmt.Errorf("--periods %d: must be from 1 to %d", periods, maxPlotPeriods))
-			}
-			inst, err := e.build(args[0])
-			if err != nil {
-				return err
-			}
-			key := inst.Model.Info().Key
-			o.Name = plotName(key, m)
-			f, err := figure.Period(inst.Potential, o)
-			if err != nil {
-				return plotErr(key, err)
-			}
-			return e.writePlot(f, &out)
+				return checkPlotPeriods(periods)
+			}, func(inst core.Instance, _ report.Mass, name string) (*figure.Figure, error) {
+				o.Name = name
+				return figure.Period(inst.Potential, o)
+			})
 		},
 	}
-	out.register(e, cmd)
-	mass.register(cmd)
+	fp.register(e, cmd)
 	f := cmd.Flags()
 	f.StringVar(&amplitudes, "amplitudes", "", "displacements from re at rest, Å unless a unit is given: LIST or FROM:TO:COUNT (default: 8 up to 90 % of the limit of bound motion)")
 	f.BoolVar(&energyAxis, "energy-axis", false, "put the oscillation energy E = V(re + x0) − V(re) on the x axis instead of the amplitude")
@@ -447,8 +486,7 @@ func (e *env) plotCurves(specs []string, setPath string) ([]figure.Curve, error)
 
 func newPlotMotionCmd(e *env) *cobra.Command {
 	var (
-		out       plotOutput
-		mass      massFlags
+		fp        formPlot
 		amplitude string
 		method    string
 		periods   int
@@ -466,41 +504,26 @@ same way. The title gives the measured, exact and harmonic periods.`,
   pairwell plot motion lj:epsilon=120K,sigma=3.4 --pair Ar-Ar --amplitude=-0.3 --method verlet --periods 5 -o lj.svg`,
 		Args: exactArgs(1, "SPEC"),
 		RunE: func(cmd *cobra.Command, args []string) error {
-			if err := out.check(e); err != nil {
-				return err
-			}
-			m, err := mass.resolve(true)
-			if err != nil {
-				return err
-			}
-			if !cmd.Flags().Changed("amplitude") {
-				return usageErr(errors.New("a start is needed: --amplitude X (Å; positive stretches, negative compresses)"))
-			}
-			x0, err := units.Parse(amplitude, units.Length)
-			if err != nil {
-				return usageErr(fmt.Errorf("--amplitude: %w", err))
-			}
-			meth, err := motion.ParseMethod(method)
-			if err != nil {
-				return usageErr(fmt.Errorf("--method: %w", err))
-			}
-			if periods < 1 || periods > maxPlotPeriods {
-				return usageErr(fmt.Errorf("--periods %d: must be from 1 to %d", periods, maxPlotPeriods))
-			}
-			inst, err := e.build(args[0])
-			if err != nil {
-				return err
-			}
-			key := inst.Model.Info().Key
-			f, err := figure.Motion(inst.Potential, figure.MotionOptions{Name: plotName(key, m), Mu: m.Mu, Amplitude: x0, Method: meth, Periods: periods})
-			if err != nil {
-				return plotErr(key, err)
-			}
-			return e.writePlot(f, &out)
+			var o figure.MotionOptions
+			return fp.draw(e, args[0], true, func(m report.Mass) (err error) {
+				if !cmd.Flags().Changed("amplitude") {
+					return usageErr(errors.New("a start is needed: --amplitude X (Å; positive stretches, negative compresses)"))
+				}
+				o = figure.MotionOptions{Mu: m.Mu, Periods: periods}
+				if o.Amplitude, err = units.Parse(amplitude, units.Length); err != nil {
+					return usageErr(fmt.Errorf("--amplitude: %w", err))
+				}
+				if o.Method, err = motion.ParseMethod(method); err != nil {
+					return usageErr(fmt.Errorf("--method: %w", err))
+				}
+				return checkPlotPeriods(periods)
+			}, func(inst core.Instance, _ report.Mass, name string) (*figure.Figure, error) {
+				o.Name = name
+				return figure.Motion(inst.Potential, o)
+			})
 		},
 	}
-	out.register(e, cmd)
-	mass.register(cmd)
+	fp.register(e, cmd)
 	f := cmd.Flags()
 	f.StringVar(&amplitude, "amplitude", "", "starting displacement r0 − re at rest, Å unless a unit is given (e.g. 0.2, -0.1, 20pm)")
 	methodVar(f, &method)

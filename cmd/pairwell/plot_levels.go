@@ -5,13 +5,14 @@ import (
 
 	"github.com/spf13/cobra"
 
+	"github.com/pairwell/pairwell/core"
 	"github.com/pairwell/pairwell/core/figure"
+	"github.com/pairwell/pairwell/core/report"
 )
 
 func newPlotLevelsCmd(e *env) *cobra.Command {
 	var (
-		out      plotOutput
-		mass     massFlags
+		fp       formPlot
 		vmax     int
 		accuracy string
 	)
@@ -30,35 +31,23 @@ level, at most 120; required for the harmonic form); --accuracy as for
   pairwell plot levels harmonic:k=30,r0=1.2 --mu 7 --v-max 8 -o harmonic.pdf`,
 		Args: exactArgs(1, "SPEC"),
 		RunE: func(cmd *cobra.Command, args []string) error {
-			if err := out.check(e); err != nil {
-				return err
-			}
-			m, err := mass.resolve(true)
-			if err != nil {
-				return err
-			}
-			if vmax < -1 {
-				return usageErr(fmt.Errorf("--v-max %d: must be 0 or more (-1: every bound level)", vmax))
-			}
-			o := figure.LevelsOptions{Mu: m.Mu, VMax: vmax}
-			if o.Tolerance, err = parseAccuracy(accuracy); err != nil {
-				return usageErr(err)
-			}
-			inst, err := e.build(args[0])
-			if err != nil {
-				return err
-			}
-			key := inst.Model.Info().Key
-			o.Name = plotName(key, m)
-			f, err := figure.Levels(inst.Potential, o)
-			if err != nil {
-				return plotErr(key, err)
-			}
-			return e.writePlot(f, &out)
+			var o figure.LevelsOptions
+			return fp.draw(e, args[0], true, func(m report.Mass) (err error) {
+				if vmax < -1 {
+					return usageErr(fmt.Errorf("--v-max %d: must be 0 or more (-1: every bound level)", vmax))
+				}
+				o = figure.LevelsOptions{Mu: m.Mu, VMax: vmax}
+				if o.Tolerance, err = parseAccuracy(accuracy); err != nil {
+					return usageErr(err)
+				}
+				return nil
+			}, func(inst core.Instance, _ report.Mass, name string) (*figure.Figure, error) {
+				o.Name = name
+				return figure.Levels(inst.Potential, o)
+			})
 		},
 	}
-	out.register(e, cmd)
-	mass.register(cmd)
+	fp.register(e, cmd)
 	cmd.Flags().IntVar(&vmax, "v-max", -1, "highest vibrational level drawn (default: every bound level; required for the harmonic form)")
 	accuracyVar(cmd.Flags(), &accuracy)
 	return cmd

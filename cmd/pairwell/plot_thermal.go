@@ -6,6 +6,7 @@ import (
 
 	"github.com/spf13/cobra"
 
+	"github.com/pairwell/pairwell/core"
 	"github.com/pairwell/pairwell/core/figure"
 	"github.com/pairwell/pairwell/core/report"
 	"github.com/pairwell/pairwell/core/units"
@@ -55,8 +56,7 @@ func curveRange(cmd *cobra.Command, temps string, data []report.Measurement, def
 
 func newPlotVirialCmd(e *env) *cobra.Command {
 	var (
-		out         plotOutput
-		mass        massFlags
+		fp          formPlot
 		temps, data string
 	)
 	cmd := &cobra.Command{
@@ -71,58 +71,49 @@ points); without them the range of the data, or depth/(3k_B) to 30·depth/k_B.`,
   pairwell plot virial lj:epsilon=119.8K,sigma=3.405 --data b2.csv -o b2.svg`,
 		Args: exactArgs(1, "SPEC"),
 		RunE: func(cmd *cobra.Command, args []string) error {
-			if err := out.check(e); err != nil {
-				return err
-			}
-			m, err := mass.resolve(false)
-			if err != nil {
-				return err
-			}
 			var set report.VirialSettings
-			if data != "" {
-				if set.Data, err = readDataFile(data); err != nil {
-					return err
+			return fp.draw(e, args[0], false, func(report.Mass) (err error) {
+				if data != "" {
+					if set.Data, err = readDataFile(data); err != nil {
+						return err
+					}
+					set.DataFile = data
 				}
-				set.DataFile = data
-			}
-			inst, err := e.build(args[0])
-			if err != nil {
-				return err
-			}
-			key := inst.Model.Info().Key
-			w, err := report.WellOf(inst)
-			if err != nil {
-				return plotErr(key, err)
-			}
-			unit := w.Depth / units.BoltzmannEV
-			lo, hi, err := curveRange(cmd, temps, set.Data, unit/3, 30*unit)
-			if err != nil {
-				return err
-			}
-			v, err := report.NewVirial(inst, m.Mu, plotTemperatures(lo, hi), set)
-			if err != nil {
-				return plotErr(key, err)
-			}
-			o := figure.VirialOptions{Name: plotName(key, m), Boyle: float64(v.Boyle), DataFile: data}
-			for _, p := range v.Points[:len(v.Rows)] {
-				o.T, o.Classical = append(o.T, p.Temperature), append(o.Classical, p.Classical)
-				if m.Mu > 0 {
-					o.Total = append(o.Total, p.Total)
+				return nil
+			}, func(inst core.Instance, m report.Mass, name string) (*figure.Figure, error) {
+				w, err := report.WellOf(inst)
+				if err != nil {
+					return nil, err
 				}
-			}
-			for _, d := range set.Data {
-				o.DataT, o.DataB2 = append(o.DataT, d.Temperature), append(o.DataB2, d.B2)
-			}
-			f, err := figure.Virial(o)
-			if err != nil {
-				return plotErr(key, err)
-			}
-			f.Notes = append(f.Notes, v.Notes...)
-			return e.writePlot(f, &out)
+				unit := w.Depth / units.BoltzmannEV
+				lo, hi, err := curveRange(cmd, temps, set.Data, unit/3, 30*unit)
+				if err != nil {
+					return nil, err
+				}
+				v, err := report.NewVirial(inst, m.Mu, plotTemperatures(lo, hi), set)
+				if err != nil {
+					return nil, err
+				}
+				o := figure.VirialOptions{Name: name, Boyle: float64(v.Boyle), DataFile: data}
+				for _, p := range v.Points[:len(v.Rows)] {
+					o.T, o.Classical = append(o.T, p.Temperature), append(o.Classical, p.Classical)
+					if m.Mu > 0 {
+						o.Total = append(o.Total, p.Total)
+					}
+				}
+				for _, d := range set.Data {
+					o.DataT, o.DataB2 = append(o.DataT, d.Temperature), append(o.DataB2, d.B2)
+				}
+				f, err := figure.Virial(o)
+				if err != nil {
+					return nil, err
+				}
+				f.Notes = append(f.Notes, v.Notes...)
+				return f, nil
+			})
 		},
 	}
-	out.register(e, cmd)
-	mass.register(cmd)
+	fp.register(e, cmd)
 	cmd.Flags().StringVar(&temps, "temperatures", "", "range of the curve: the smallest to the largest of LIST or FROM:TO:COUNT, K unless a unit is given")
 	cmd.Flags().StringVar(&data, "data", "", "CSV of measured (T, B2[, uncertainty]) with units in the header, drawn as points")
 	return cmd
@@ -130,8 +121,7 @@ points); without them the range of the data, or depth/(3k_B) to 30·depth/k_B.`,
 
 func newPlotExpansionCmd(e *env) *cobra.Command {
 	var (
-		out   plotOutput
-		mass  massFlags
+		fp    formPlot
 		temps string
 	)
 	cmd := &cobra.Command{
@@ -144,51 +134,40 @@ to the largest of --temperatures (200 points); by default 1 K to depth/(20 k_B).
 		Example: `  pairwell plot expansion morse:De=4.6,a=1.87,re=1.27 --pair H-Cl -o expansion.png`,
 		Args:    exactArgs(1, "SPEC"),
 		RunE: func(cmd *cobra.Command, args []string) error {
-			if err := out.check(e); err != nil {
-				return err
-			}
-			m, err := mass.resolve(true)
-			if err != nil {
-				return err
-			}
-			inst, err := e.build(args[0])
-			if err != nil {
-				return err
-			}
-			key := inst.Model.Info().Key
-			w, err := report.WellOf(inst)
-			if err != nil {
-				return plotErr(key, err)
-			}
-			hiDef := 3000.0
-			if w.Bounded() {
-				hiDef = w.Depth / units.BoltzmannEV / 20
-			}
-			lo, hi, err := curveRange(cmd, temps, nil, math.Min(1, hiDef/100), hiDef)
-			if err != nil {
-				return err
-			}
-			x, err := report.NewExpansion(inst, m.Mu, plotTemperatures(lo, hi), expansionSettings())
-			if err != nil {
-				return plotErr(key, err)
-			}
-			o := figure.ExpansionOptions{Name: plotName(key, m), Re: float64(x.Re)}
-			for _, r := range x.Rows {
-				o.T = append(o.T, float64(r.Temperature))
-				o.Classical = append(o.Classical, float64(r.MeanClassical))
-				o.Cubic = append(o.Cubic, float64(r.MeanCubic))
-				o.Quantum = append(o.Quantum, float64(r.MeanQuantum))
-			}
-			f, err := figure.Expansion(o)
-			if err != nil {
-				return plotErr(key, err)
-			}
-			f.Notes = append(f.Notes, x.Notes...)
-			return e.writePlot(f, &out)
+			return fp.draw(e, args[0], true, nil, func(inst core.Instance, m report.Mass, name string) (*figure.Figure, error) {
+				w, err := report.WellOf(inst)
+				if err != nil {
+					return nil, err
+				}
+				hiDef := 3000.0
+				if w.Bounded() {
+					hiDef = w.Depth / units.BoltzmannEV / 20
+				}
+				lo, hi, err := curveRange(cmd, temps, nil, math.Min(1, hiDef/100), hiDef)
+				if err != nil {
+					return nil, err
+				}
+				x, err := report.NewExpansion(inst, m.Mu, plotTemperatures(lo, hi), expansionSettings())
+				if err != nil {
+					return nil, err
+				}
+				o := figure.ExpansionOptions{Name: name, Re: float64(x.Re)}
+				for _, r := range x.Rows {
+					o.T = append(o.T, float64(r.Temperature))
+					o.Classical = append(o.Classical, float64(r.MeanClassical))
+					o.Cubic = append(o.Cubic, float64(r.MeanCubic))
+					o.Quantum = append(o.Quantum, float64(r.MeanQuantum))
+				}
+				f, err := figure.Expansion(o)
+				if err != nil {
+					return nil, err
+				}
+				f.Notes = append(f.Notes, x.Notes...)
+				return f, nil
+			})
 		},
 	}
-	out.register(e, cmd)
-	mass.register(cmd)
+	fp.register(e, cmd)
 	cmd.Flags().StringVar(&temps, "temperatures", "", "range of the curve: the smallest to the largest of LIST or FROM:TO:COUNT, K unless a unit is given")
 	return cmd
 }

@@ -126,6 +126,7 @@ field: do not base production or safety decisions on its numbers alone.`,
 		newExpansionCmd(e),
 		newMixCmd(e),
 		newCutoffCmd(e),
+		newTableCmd(e),
 		newVersionCmd(e),
 	)
 	root.Version = toolVersion()

@@ -67,37 +67,8 @@ func fmtFloat(v float64) string { return strconv.FormatFloat(v, 'g', -1, 64) }
 
 // thermalForms declares Lennard-Jones and Morse as formula forms (forms
 // file), under keys of their own.
-const thermalForms = `
-[[form]]
-key = "lj-formula"
-formula = "4*epsilon*((sigma/r)^12 - (sigma/r)^6)"
-limit = 0
-[[form.param]]
-name = "epsilon"
-unit = "eV"
-constraint = "> 0"
-[[form.param]]
-name = "sigma"
-unit = "A"
-constraint = "> 0"
-
-[[form]]
-key = "morse-formula"
-formula = "De*(1 - exp(-a*(r - re)))^2 - De"
-limit = 0
-[[form.param]]
-name = "De"
-unit = "eV"
-constraint = "> 0"
-[[form.param]]
-name = "a"
-unit = "1/A"
-constraint = "> 0"
-[[form.param]]
-name = "re"
-unit = "A"
-constraint = "> 0"
-`
+var thermalForms = formTOML("lj-formula", ljFormula, "limit = 0", ljParams...) + "\n" +
+	formTOML("morse-formula", morseFormula, "limit = 0", morseParams...)
 
 // TestThermalFormulaForms: formula forms give the built-in forms' B₂,
 // Boyle temperature and thermal expansion.

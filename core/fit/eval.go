@@ -39,6 +39,12 @@ func forces(p core.Potential, r, dst []float64) error {
 	return nil
 }
 
+// evaluateSets evaluates parameter sets of m in one call
+// (core.EvaluateSets).
+func evaluateSets(m core.Model, n int, params, r, dst []float64, errs []error) error {
+	return core.EvaluateSets(m, n, params, r, dst, errs)
+}
+
 // equilibrium returns the position of the minimum of p.
 func equilibrium(p core.Potential) (float64, error) { return core.Equilibrium(p) }
 

@@ -4,6 +4,8 @@ import (
 	"errors"
 	"fmt"
 	"math"
+	"slices"
+	"sync"
 	"sync/atomic"
 
 	"gonum.org/v1/gonum/mat"
@@ -170,7 +172,21 @@ func FitForm(m core.Model, d Data, s Settings) (Result, error) {
 	var bestErr error
 	found := false
 	mainRSS := math.Inf(1)
-	for i, st := range starts {
+	seen := map[string]bool{}
+	for i := range starts {
+		st := &starts[i]
+		if st.params == nil && st.err == nil {
+			// Matched only when reached: a numerical match (formula
+			// forms) costs more than a fit step.
+			st.params, _, st.err = core.Match(pr.m, st.target)
+			if st.err == nil {
+				key := fmt.Sprint(st.params)
+				if seen[key] {
+					continue // the form ignores what was varied
+				}
+				seen[key] = true
+			}
+		}
 		if st.err != nil {
 			if bestErr == nil {
 				bestErr = st.err
@@ -221,26 +237,31 @@ func better(a, b Result) bool {
 
 // formProblem is the least-squares problem of one form and data set.
 type formProblem struct {
-	m          core.Model
-	info       core.ModelInfo
-	d          Data
-	rows       []int     // indices of the points with non-zero weight
-	r          []float64 // their separations
-	e          []float64 // their energies
-	f          []float64 // their forces, nil when none
-	sw         []float64 // √wᵢ
-	swf        []float64 // √(w_F wᵢ)
-	np         int       // model parameters
-	fitZero    bool
-	zero       float64 // the zero when not fitted; the estimate when fitted
-	log        []bool  // parameter j fitted as its logarithm
-	g          []float64
-	analytic   bool
-	evals      atomic.Int64
-	notes      []string
-	dataDepth  float64 // zero estimate − E_min, for the windows
-	unbounded  bool    // the form has no dissociation limit
-	central    bool    // Settings.Central
+	m         core.Model
+	info      core.ModelInfo
+	d         Data
+	rows      []int     // indices of the points with non-zero weight
+	r         []float64 // their separations
+	e         []float64 // their energies
+	f         []float64 // their forces, nil when none
+	sw        []float64 // √wᵢ
+	swf       []float64 // √(w_F wᵢ)
+	np        int       // model parameters
+	fitZero   bool
+	zero      float64 // the zero when not fitted; the estimate when fitted
+	log       []bool  // parameter j fitted as its logarithm
+	g         []float64
+	analytic  bool
+	evals     atomic.Int64
+	notes     []string
+	dataDepth float64 // zero estimate − E_min, for the windows
+	unbounded bool    // the form has no dissociation limit
+	central   bool    // Settings.Central
+	sets      bool    // the model is a core.SetEvaluator
+
+	lastMu     sync.Mutex // guards the potential the last residuals built
+	lastParams []float64
+	lastPot    core.Potential
 	floor      []float64
 	zeroSource string
 }
@@ -254,6 +275,7 @@ const constraintFloor = 1e-12
 func newFormProblem(m core.Model, d Data, w []float64, s Settings) (*formProblem, error) {
 	info := m.Info()
 	p := &formProblem{m: m, info: info, d: d, np: len(info.Params), central: s.Central}
+	_, p.sets = m.(core.SetEvaluator)
 	emin := math.Inf(1)
 	for _, e := range d.E {
 		emin = math.Min(emin, e)
@@ -373,35 +395,119 @@ func (p *formProblem) theta(params []float64, zero float64) ([]float64, error) {
 	return out, nil
 }
 
-// residuals may run concurrently (the central differences of a
-// Jacobian): it allocates its own scratch.
-func (p *formProblem) residuals(theta, dst []float64) error {
+// feasible converts θ to the model's parameters and the zero, with an
+// error wrapping ErrInfeasible for a parameter below its floor.
+func (p *formProblem) feasible(theta []float64) ([]float64, float64, error) {
 	params, zero := p.params(theta)
 	for j, v := range params {
 		if p.log[j] && v < p.floor[j] {
-			return fmt.Errorf("%w: %s = %g has fallen below %g·(its start): the fit runs into the constraint %s", ErrInfeasible, p.info.Params[j].Name, v, constraintFloor, p.info.Params[j].Constraint)
+			return nil, 0, fmt.Errorf("%w: %s = %g has fallen below %g·(its start): the fit runs into the constraint %s", ErrInfeasible, p.info.Params[j].Name, v, constraintFloor, p.info.Params[j].Constraint)
 		}
+	}
+	return params, zero, nil
+}
+
+// residuals may run concurrently (the central differences of a
+// Jacobian): it allocates its own scratch. For a model that evaluates
+// parameter sets in one call (core.SetEvaluator: a plugin) it is one
+// such call, without building a potential.
+func (p *formProblem) residuals(theta, dst []float64) error {
+	if p.sets {
+		var errs [1]error
+		if err := p.batch([][]float64{theta}, [][]float64{dst}, errs[:]); err != nil {
+			return err
+		}
+		return errs[0]
+	}
+	params, zero, err := p.feasible(theta)
+	if err != nil {
+		return err
 	}
 	p.evals.Add(1)
 	pot, err := build(p.m, params)
 	if err != nil {
 		return err
 	}
+	p.lastMu.Lock()
+	p.lastParams, p.lastPot = params, pot
+	p.lastMu.Unlock()
 	vals := make([]float64, len(p.r))
 	if err := energies(pot, p.r, vals); err != nil {
 		return err
 	}
-	for i, v := range vals {
-		dst[i] = p.sw[i] * (v + zero - p.e[i])
-	}
+	var fd []float64
 	if p.f != nil {
-		fd := dst[len(p.r):]
+		fd = make([]float64, len(p.r))
 		if err := forces(pot, p.r, fd); err != nil {
 			return err
 		}
+	}
+	p.weigh(vals, fd, zero, dst)
+	return nil
+}
+
+// weigh stores the weighted residuals of the energies v (and the forces
+// f, when the data have them) with the energy zero in dst.
+func (p *formProblem) weigh(v, f []float64, zero float64, dst []float64) {
+	for i := range v {
+		dst[i] = p.sw[i] * (v[i] + zero - p.e[i])
+	}
+	if p.f != nil {
+		fd := dst[len(p.r):]
 		for i := range fd {
-			fd[i] = p.swf[i] * (fd[i] - p.f[i])
+			fd[i] = p.swf[i] * (f[i] - p.f[i])
 		}
+	}
+}
+
+// batch evaluates the residuals at many θ in one call of the model
+// (core.EvaluateSets; Problem.Batch).
+func (p *formProblem) batch(thetas, dsts [][]float64, errs []error) error {
+	order := 0
+	if p.f != nil {
+		order = 1 // V and V′ together
+	}
+	var flat, zeros []float64
+	var idx []int
+	for k, t := range thetas {
+		params, zero, err := p.feasible(t)
+		if err != nil {
+			errs[k] = err
+			continue
+		}
+		errs[k] = nil
+		flat = append(flat, params...)
+		zeros = append(zeros, zero)
+		idx = append(idx, k)
+	}
+	if len(idx) == 0 {
+		return nil
+	}
+	p.evals.Add(int64(len(idx)))
+	w := order + 1
+	vals := make([]float64, len(idx)*len(p.r)*w)
+	es := make([]error, len(idx))
+	if err := evaluateSets(p.m, order, flat, p.r, vals, es); err != nil {
+		return err
+	}
+	v := make([]float64, len(p.r))
+	var f []float64
+	if p.f != nil {
+		f = make([]float64, len(p.r))
+	}
+	for s, k := range idx {
+		if es[s] != nil {
+			errs[k] = infeasible(es[s])
+			continue
+		}
+		blk := vals[s*len(p.r)*w : (s+1)*len(p.r)*w]
+		for i := range v {
+			v[i] = blk[i*w]
+			if f != nil {
+				f[i] = -blk[i*w+1]
+			}
+		}
+		p.weigh(v, f, zeros[s], dsts[k])
 	}
 	return nil
 }
@@ -410,7 +516,7 @@ func (p *formProblem) residuals(theta, dst []float64) error {
 // the potential implements core.ParamGradient and the data have no forces.
 func (p *formProblem) jacobian(theta, dst []float64) error {
 	params, _ := p.params(theta)
-	pot, err := build(p.m, params)
+	pot, err := p.potential(params)
 	if err != nil {
 		return err
 	}
@@ -437,9 +543,24 @@ func (p *formProblem) jacobian(theta, dst []float64) error {
 	return nil
 }
 
-// start is one starting point, or why it could not be made.
+// potential returns the potential of params: the one the last residuals
+// built when they were for the same parameters (the engine asks for the
+// Jacobian at the point it has just accepted), else a new one.
+func (p *formProblem) potential(params []float64) (core.Potential, error) {
+	p.lastMu.Lock()
+	pot, same := p.lastPot, slices.Equal(p.lastParams, params)
+	p.lastMu.Unlock()
+	if same {
+		return pot, nil
+	}
+	return build(p.m, params)
+}
+
+// start is one starting point (given, or the match to target, made when
+// the start is reached), or why it could not be made.
 type start struct {
 	params []float64
+	target core.Target
 	what   string
 	err    error
 }
@@ -487,22 +608,9 @@ func (p *formProblem) starts(s Settings) ([]start, error) {
 		n = 0
 	}
 	n = min(n, len(restartTargets))
-	var out []start
-	seen := map[string]bool{}
-	add := func(tt core.Target, what string) {
-		params, _, err := core.Match(p.m, tt)
-		if err == nil {
-			key := fmt.Sprint(params)
-			if seen[key] {
-				return // the form ignores what was varied
-			}
-			seen[key] = true
-		}
-		out = append(out, start{params: params, what: what, err: err})
-	}
-	add(t, "main start")
+	out := []start{{target: t, what: "main start"}}
 	for _, v := range restartTargets[:n] {
-		add(core.Target{Re: t.Re * v.re, Depth: t.Depth * v.depth, K: t.K * v.k}, v.what)
+		out = append(out, start{target: core.Target{Re: t.Re * v.re, Depth: t.Depth * v.depth, K: t.K * v.k}, what: v.what})
 	}
 	return out, nil
 }
@@ -514,6 +622,9 @@ func (p *formProblem) run(params []float64, ls LMSettings) (Result, error) {
 		return Result{}, fmt.Errorf("%w: %w", ErrInfeasible, err)
 	}
 	pr := Problem{N: p.nres(), P: p.nparams(), Residuals: p.residuals, Concurrent: true}
+	if p.sets {
+		pr.Batch = p.batch
+	}
 	if p.f == nil && !p.central {
 		pot, err := build(p.m, params)
 		if err != nil {

@@ -40,6 +40,13 @@ type Problem struct {
 	// goroutines at once; the 2P evaluations of a central-difference
 	// Jacobian then run concurrently.
 	Concurrent bool
+	// Batch, when not nil, evaluates the residuals at many points in one
+	// call: those of thetas[i] in dsts[i], and in errs[i] the error
+	// Residuals would return there; the returned error stops the
+	// minimisation. The engine then takes the 2P evaluations of a
+	// central-difference Jacobian in one call (for a potential in another
+	// process, one round trip).
+	Batch func(thetas, dsts [][]float64, errs []error) error
 }
 
 // Reason says why a minimisation stopped.
@@ -185,12 +192,7 @@ func Minimize(p Problem, start []float64, s LMSettings) (LMResult, error) {
 		if err := p.Residuals(theta, dst); err != nil {
 			return err
 		}
-		for i, v := range dst {
-			if math.IsNaN(v) || math.IsInf(v, 0) {
-				return fmt.Errorf("least squares: %w: residual %d is %g", ErrInfeasible, i, v)
-			}
-		}
-		return nil
+		return finiteResiduals(dst)
 	}
 	if err := eval(res.Theta, r); err != nil {
 		return LMResult{}, fmt.Errorf("at the start: %w", err)
@@ -210,7 +212,21 @@ func Minimize(p Problem, start []float64, s LMSettings) (LMResult, error) {
 		if p.Jacobian != nil {
 			return p.Jacobian(theta, jac.RawMatrix().Data)
 		}
-		return centralJacobian(eval, theta, r, s.Step, jac, p.Concurrent)
+		if p.Batch != nil {
+			return centralJacobian(func(thetas, dsts [][]float64, errs []error) error {
+				evals.Add(int64(len(thetas)))
+				if err := p.Batch(thetas, dsts, errs); err != nil {
+					return err
+				}
+				for i, d := range dsts {
+					if errs[i] == nil {
+						errs[i] = finiteResiduals(d)
+					}
+				}
+				return nil
+			}, theta, r, s.Step, jac)
+		}
+		return centralJacobian(eachPoint(eval, p.Concurrent), theta, r, s.Step, jac)
 	}
 	d := make([]float64, np) // scaling: the column norms of J
 	var svd mat.SVD
@@ -450,23 +466,54 @@ func reduced(r, rt []float64) float64 {
 	return s
 }
 
-// centralJacobian fills jac with central differences of eval at theta:
+// finiteResiduals returns an error wrapping ErrInfeasible when a residual
+// is not finite.
+func finiteResiduals(r []float64) error {
+	for i, v := range r {
+		if math.IsNaN(v) || math.IsInf(v, 0) {
+			return fmt.Errorf("least squares: %w: residual %d is %g", ErrInfeasible, i, v)
+		}
+	}
+	return nil
+}
+
+// eachPoint makes a batch evaluation of one call of eval per point, the
+// calls concurrently (each in its own goroutine: for a potential in
+// another process their round trips then overlap) when concurrent.
+func eachPoint(eval func(theta, dst []float64) error, concurrent bool) func(thetas, dsts [][]float64, errs []error) error {
+	return func(thetas, dsts [][]float64, errs []error) error {
+		if !concurrent {
+			for k := range thetas {
+				errs[k] = eval(thetas[k], dsts[k])
+			}
+			return nil
+		}
+		var wg sync.WaitGroup
+		for k := range thetas {
+			wg.Add(1)
+			go func() {
+				defer wg.Done()
+				errs[k] = eval(thetas[k], dsts[k])
+			}()
+		}
+		wg.Wait()
+		return nil
+	}
+}
+
+// centralJacobian fills jac with central differences of the residuals at theta:
 // column j is (r(θ + hⱼeⱼ) − r(θ − hⱼeⱼ))/(2hⱼ), hⱼ = step·|θⱼ| (step at 0),
 // the difference taken with the step actually represented in floating
 // point. Where one side is infeasible (a step across the edge of a form's
-// domain) the one-sided difference with r0 = r(θ) is taken instead. With
-// concurrent, the 2P evaluations run at once (each in its own goroutine):
-// for a potential in another process their round trips then overlap.
-func centralJacobian(eval func(theta, dst []float64) error, theta, r0 []float64, step float64, jac *mat.Dense, concurrent bool) error {
+// domain) the one-sided difference with r0 = r(θ) is taken instead. The 2P
+// evaluations are one call of batch.
+func centralJacobian(batch func(thetas, dsts [][]float64, errs []error) error, theta, r0 []float64, step float64, jac *mat.Dense) error {
 	n, np := jac.Dims()
-	type side struct {
-		h   float64 // the step represented, signed
-		ok  bool
-		err error
-		r   []float64
-	}
-	sides := make([]side, 2*np)
-	one := func(k int) {
+	thetas := make([][]float64, 2*np)
+	dsts := make([][]float64, 2*np)
+	errs := make([]error, 2*np)
+	hs := make([]float64, 2*np) // the steps represented, signed
+	for k := range thetas {
 		j, sign := k/2, 1.0
 		if k%2 == 1 {
 			sign = -1
@@ -477,53 +524,37 @@ func centralJacobian(eval func(theta, dst []float64) error, theta, r0 []float64,
 		}
 		t := append([]float64(nil), theta...)
 		t[j] = theta[j] + sign*h
-		sd := side{h: t[j] - theta[j], r: make([]float64, n)}
-		err := eval(t, sd.r)
-		switch {
-		case err == nil:
-			sd.ok = true
-		case !errors.Is(err, ErrInfeasible):
-			sd.err = err
-		}
-		sides[k] = sd
+		thetas[k], dsts[k], hs[k] = t, make([]float64, n), t[j]-theta[j]
 	}
-	if concurrent {
-		var wg sync.WaitGroup
-		for k := range sides {
-			wg.Add(1)
-			go func() {
-				defer wg.Done()
-				one(k)
-			}()
-		}
-		wg.Wait()
-	} else {
-		for k := range sides {
-			one(k)
-		}
+	if err := batch(thetas, dsts, errs); err != nil {
+		return err
 	}
 	for j := 0; j < np; j++ {
-		p, m := sides[2*j], sides[2*j+1]
-		for _, sd := range []side{p, m} {
-			if sd.err != nil {
-				return fmt.Errorf("central difference in parameter %d: %w", j, sd.err)
+		var ok [2]bool
+		for side := range ok {
+			err := errs[2*j+side]
+			if err != nil && !errors.Is(err, ErrInfeasible) {
+				return fmt.Errorf("central difference in parameter %d: %w", j, err)
 			}
+			ok[side] = err == nil
 		}
+		p, m := dsts[2*j], dsts[2*j+1]
+		hp, hm := hs[2*j], hs[2*j+1]
 		switch {
-		case p.ok && m.ok:
+		case ok[0] && ok[1]:
 			for i := 0; i < n; i++ {
-				jac.Set(i, j, (p.r[i]-m.r[i])/(p.h-m.h))
+				jac.Set(i, j, (p[i]-m[i])/(hp-hm))
 			}
-		case p.ok:
+		case ok[0]:
 			for i := 0; i < n; i++ {
-				jac.Set(i, j, (p.r[i]-r0[i])/p.h)
+				jac.Set(i, j, (p[i]-r0[i])/hp)
 			}
-		case m.ok:
+		case ok[1]:
 			for i := 0; i < n; i++ {
-				jac.Set(i, j, (m.r[i]-r0[i])/m.h)
+				jac.Set(i, j, (m[i]-r0[i])/hm)
 			}
 		default:
-			return fmt.Errorf("central difference in parameter %d: %w: both sides of θ = %g ± %g", j, ErrInfeasible, theta[j], p.h)
+			return fmt.Errorf("central difference in parameter %d: %w: both sides of θ = %g ± %g", j, ErrInfeasible, theta[j], hp)
 		}
 	}
 	return nil

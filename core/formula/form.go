@@ -5,6 +5,7 @@ import (
 	"fmt"
 	"math"
 	"strings"
+	"sync"
 
 	"github.com/pairwell/pairwell/core"
 	"github.com/pairwell/pairwell/core/units"
@@ -52,11 +53,14 @@ type ParamDecl struct {
 
 // Form is a core.Model whose potential is a compiled formula.
 type Form struct {
-	info     core.ModelInfo
-	f        *Formula
-	rmin     *Expr // nil: 0
-	limit    *Expr // nil: numerical, unless unbounded
-	noLimit  bool  // Limit = "none"
+	info    core.ModelInfo
+	f       *Formula
+	rmin    *Expr // nil: 0
+	limit   *Expr // nil: numerical, unless unbounded
+	noLimit bool  // Limit = "none"
+
+	gradOnce sync.Once
+	gradient *gradient // nil until grad, and when a derivative cannot be compiled
 	tail     float64
 	warnings []string
 }
@@ -197,6 +201,30 @@ func parseConstraint(s string) (core.Constraint, error) {
 	return 0, fmt.Errorf("constraint %q: allowed are \"> 0\", \">= 0\" and \"finite\"", s)
 }
 
+// base is the potential of params with its scalars and lower end of the
+// domain, before the search for an inner barrier and the limit: what New
+// starts from, and what Match evaluates.
+func (f *Form) base(params []float64) (*potential, error) {
+	key := f.info.Key
+	scal, err := f.f.prog.Scalars(params)
+	if err != nil {
+		return nil, fmt.Errorf("%s: %w: %v", key, core.ErrParam, err)
+	}
+	dom := core.Domain{Max: math.Inf(1), Limit: math.Inf(1)}
+	if f.rmin != nil {
+		v, err := f.rmin.Eval(params)
+		if err != nil || v < 0 {
+			if err == nil {
+				err = fmt.Errorf("r_min = %g Å is negative", v)
+			}
+			return nil, fmt.Errorf("%s: %w: r_min: %v", key, core.ErrParam, err)
+		}
+		dom.Min = v
+	}
+	dom.TailPower = f.tail
+	return newPotential(f, scal, dom), nil
+}
+
 // Info returns the form's metadata.
 func (f *Form) Info() core.ModelInfo {
 	i := f.info
@@ -220,23 +248,10 @@ func (f *Form) New(params []float64) (core.Potential, error) {
 		return nil, err
 	}
 	key := f.info.Key
-	scal, err := f.f.prog.Scalars(params)
+	p, err := f.base(params)
 	if err != nil {
-		return nil, fmt.Errorf("%s: %w: %v", key, core.ErrParam, err)
+		return nil, err
 	}
-	dom := core.Domain{Max: math.Inf(1), Limit: math.Inf(1)}
-	if f.rmin != nil {
-		v, err := f.rmin.Eval(params)
-		if err != nil || v < 0 {
-			if err == nil {
-				err = fmt.Errorf("r_min = %g Å is negative", v)
-			}
-			return nil, fmt.Errorf("%s: %w: r_min: %v", key, core.ErrParam, err)
-		}
-		dom.Min = v
-	}
-	dom.TailPower = f.tail
-	p := newPotential(f, scal, dom)
 	if rb, vb, ok := p.innerBarrier(); ok {
 		// Below an inner maximum the form collapses: the domain ends
 		// there, as for the built-in Buckingham form.

@@ -61,6 +61,7 @@ type Formula struct {
 	// Unused lists declared parameters the formula does not use.
 	Unused []string
 	prog   *Program
+	tree   *node // the syntax tree, for the parameter derivatives
 }
 
 // Program returns the compiled program.
@@ -121,7 +122,7 @@ func Compile(text string, params []Param) (*Formula, error) {
 	if err != nil {
 		return nil, err
 	}
-	f := &Formula{Text: text, Params: slices.Clone(params), prog: prog}
+	f := &Formula{Text: text, Params: slices.Clone(params), prog: prog, tree: n}
 	for i, u := range used {
 		if !u {
 			f.Unused = append(f.Unused, params[i].Name)

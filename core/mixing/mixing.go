@@ -47,18 +47,15 @@ type Rule struct {
 // finite and positive (C of Buckingham may be 0), else the error wraps
 // core.ErrParam.
 func (r Rule) Mix(a, b []float64) ([]float64, error) {
-	n := nParams[r.Form]
+	ps := params[r.Form]
+	n := len(ps)
 	if len(a) != n || len(b) != n {
 		return nil, fmt.Errorf("%s: %w: %s takes %d parameters, got %d and %d", r.Name, core.ErrParam, r.Form, n, len(a), len(b))
 	}
 	for _, p := range [][]float64{a, b} {
 		for i, v := range p {
-			ok := v > 0 && !math.IsInf(v, 1)
-			if r.Form == Buckingham && i == 2 {
-				ok = v >= 0 && !math.IsInf(v, 1)
-			}
-			if !ok {
-				return nil, fmt.Errorf("%s: %w: parameter %d = %g must be finite and positive", r.Name, core.ErrParam, i+1, v)
+			if err := ps[i].Constraint.Check(ps[i].Name, v); err != nil {
+				return nil, fmt.Errorf("%s: %w", r.Name, err)
 			}
 		}
 	}
@@ -71,7 +68,14 @@ func (r Rule) Mix(a, b []float64) ([]float64, error) {
 	return out, nil
 }
 
-var nParams = map[string]int{LennardJones: 2, Buckingham: 3, Morse: 3}
+// params are the names and constraints of the parameters of each form, in
+// its order: those of the built-in models' Info (TestParamsOfTheModels
+// keeps them equal).
+var params = map[string][]core.Param{
+	LennardJones: {{Name: "epsilon", Constraint: core.Positive}, {Name: "sigma", Constraint: core.Positive}},
+	Buckingham:   {{Name: "A", Constraint: core.Positive}, {Name: "rho", Constraint: core.Positive}, {Name: "C", Constraint: core.NonNegative}},
+	Morse:        {{Name: "De", Constraint: core.Positive}, {Name: "a", Constraint: core.Positive}, {Name: "re", Constraint: core.Positive}},
+}
 
 // arith is (x+y)/2, halved first only when the sum overflows.
 func arith(x, y float64) float64 {

@@ -9,6 +9,7 @@ import (
 	"github.com/stretchr/testify/require"
 
 	"github.com/pairwell/pairwell/core"
+	"github.com/pairwell/pairwell/models"
 )
 
 // like returns a like-pair parameter set of form for property tests.
@@ -144,4 +145,28 @@ func TestErrors(t *testing.T) {
 		_, err := r.Mix(bad, []float64{1, 3})
 		assert.True(t, errors.Is(err, core.ErrParam), "%v", bad)
 	}
+}
+
+// TestParamsOfTheModels: the parameters Mix checks are those of the
+// built-in models, by name, order and constraint.
+func TestParamsOfTheModels(t *testing.T) {
+	reg := models.NewRegistry()
+	for form, ps := range params {
+		m, err := reg.Lookup(form)
+		require.NoError(t, err, form)
+		info := m.Info()
+		require.Len(t, ps, len(info.Params), form)
+		for i, p := range info.Params {
+			assert.Equal(t, p.Name, ps[i].Name, form)
+			assert.Equal(t, p.Constraint, ps[i].Constraint, "%s %s", form, p.Name)
+		}
+	}
+	// Buckingham's C may be 0 (no dispersion), not negative; the error
+	// names the parameter.
+	r := rule(t, "exp-arithmetic", Buckingham)
+	_, err := r.Mix([]float64{1500, 0.3, 0}, []float64{1500, 0.3, 25})
+	assert.NoError(t, err)
+	_, err = r.Mix([]float64{1500, 0.3, -1}, []float64{1500, 0.3, 25})
+	assert.ErrorIs(t, err, core.ErrParam)
+	assert.ErrorContains(t, err, "C = -1")
 }

@@ -98,22 +98,22 @@ func NewAmplitudeSeries(w core.Well) AmplitudeSeries {
 		up = append(up, math.Abs(uk)+dc(k+2)/c2+math.Abs(uk)*rel2)
 	}
 	s := AmplitudeSeries{a: make([]float64, K+1), da: make([]float64, K+1), c2: c2}
-	var fbuf [core.SeriesOrder + 1]float64
-	f := fbuf[:]
-	if n+1 > len(f) {
-		f = make([]float64, n+1)
+	var fbuf [3][core.SeriesOrder + 1]float64
+	f := [3][]float64{fbuf[0][:], fbuf[1][:], fbuf[2][:]}
+	if n+1 > len(f[0]) {
+		f = [3][]float64{make([]float64, n+1), make([]float64, n+1), make([]float64, n+1)}
 	}
+	// The majorants: (1 − Σ|u_k|x^k)^α has the absolute values of the
+	// coefficients of (1 + u)^α, for α < 0.
+	series := [3][]float64{u, ua, up}
+	signs := [3]float64{1, -1, -1}
 	binom := 1.0 // C(2m,m)/4^m
 	for mm := 0; mm <= K; mm++ {
 		if mm > 0 {
 			binom *= float64(2*mm-1) / float64(2*mm)
 		}
-		alpha := -float64(2*mm+1) / 2
-		am := binom * powerCoef(u, alpha, 2*mm, f, 1)
-		// The majorants: (1 − Σ|u_k|x^k)^α has the absolute values of
-		// the coefficients of (1 + u)^α, for α < 0.
-		hat := binom * powerCoef(ua, alpha, 2*mm, f, -1)
-		hatp := binom * powerCoef(up, alpha, 2*mm, f, -1)
+		c := powerCoefs(series, signs, -float64(2*mm+1)/2, 2*mm, f)
+		am, hat, hatp := binom*c[0], binom*c[1], binom*c[2]
 		s.a[mm] = am
 		s.da[mm] = 4*eps*float64(2*mm+2)*hat + math.Max(hatp-hat, 0)
 	}
@@ -131,19 +131,24 @@ func NewAmplitudeSeries(w core.Well) AmplitudeSeries {
 	return s
 }
 
-// powerCoef returns [x^n] (1 + sgn·Σ_{k≥1} u_k x^k)^α by Miller's
-// recurrence F_0 = 1, F_j = (1/j)·Σ_{k=1}^{j} ((α+1)k − j)·sgn·u_k·F_{j−k},
-// with F as scratch (length > n).
-func powerCoef(u []float64, alpha float64, n int, F []float64, sgn float64) float64 {
-	F[0] = 1
+// powerCoefs returns [x^n] (1 + sgn_i·Σ_{k≥1} u_{i,k} x^k)^α for the three
+// series u_i, by Miller's recurrence F_0 = 1,
+// F_j = (sgn/j)·Σ_{k=1}^{j} ((α+1)k − j)·u_k·F_{j−k}, with F as scratch
+// (each longer than n).
+func powerCoefs(u [3][]float64, sgn [3]float64, alpha float64, n int, F [3][]float64) [3]float64 {
+	F[0][0], F[1][0], F[2][0] = 1, 1, 1
 	for j := 1; j <= n; j++ {
-		s := 0.0
+		var s0, s1, s2 float64
 		for k := 1; k <= j; k++ {
-			s += ((alpha+1)*float64(k) - float64(j)) * u[k] * F[j-k]
+			w := (alpha+1)*float64(k) - float64(j)
+			s0 += w * u[0][k] * F[0][j-k]
+			s1 += w * u[1][k] * F[1][j-k]
+			s2 += w * u[2][k] * F[2][j-k]
 		}
-		F[j] = sgn * s / float64(j)
+		jf := float64(j)
+		F[0][j], F[1][j], F[2][j] = sgn[0]*s0/jf, sgn[1]*s1/jf, sgn[2]*s2/jf
 	}
-	return F[n]
+	return [3]float64{F[0][n], F[1][n], F[2][n]}
 }
 
 // Terms returns K + 1, the number of coefficients A_0…A_K (0 for the zero
@@ -170,17 +175,5 @@ func (s AmplitudeSeries) Ratio(E float64) (ratio, bound float64) {
 		abs = abs*x + math.Abs(s.a[m])
 		dev = dev*x + s.da[m]
 	}
-	return ratio, ipowf(q, K+1)/(1-q) + 4*eps*abs + dev
-}
-
-// ipowf returns x^n for n ≥ 0 by repeated squaring.
-func ipowf(x float64, n int) float64 {
-	r := 1.0
-	for ; n > 0; n >>= 1 {
-		if n&1 == 1 {
-			r *= x
-		}
-		x *= x
-	}
-	return r
+	return ratio, math.Pow(q, float64(K+1))/(1-q) + 4*eps*abs + dev
 }

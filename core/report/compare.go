@@ -127,8 +127,8 @@ type CompareSettings struct {
 	// harmonic vibration.
 	Tolerance float64
 	// Validity asks for the validity ranges of the truncated Taylor
-	// potential (validity.Analyze, about 1–2 ms per form, more than the
-	// rest of a row); without it CompareRow.Validity is nil.
+	// potential (validity.Analyze, about 0.1 ms per form at order 2);
+	// without it CompareRow.Validity is nil.
 	Validity bool
 	// Workers is the number of goroutines; 0 means runtime.GOMAXPROCS(0).
 	Workers int

@@ -33,6 +33,8 @@ const (
 	refinePoints = 8
 	// refineRounds bounds the rounds of the refinement.
 	refineRounds = 100
+	// periodGridSize is the number of energies of the period scan.
+	periodGridSize = 276
 )
 
 // PotentialRange returns the potential criterion for the truncation of
@@ -40,7 +42,7 @@ const (
 //
 // On each side, displacements s from s₀ outward are scanned on a
 // geometric grid (ratio 1.02; both sides in one p.Taylor call per round:
-// up to 10⁴·s₀, then the rest of the sides not bracketed yet) up to the
+// up to 10³·s₀, then the rest of the sides not bracketed yet) up to the
 // edge of the domain (compression) or 100·re (stretch); the first grid
 // point where |V_n − V| > τ·|V − V(re)| and the one before bracket the
 // crossing, which core.RootBatch refines to a few ulp, both sides together
@@ -78,14 +80,15 @@ func PotentialRange(p core.Potential, w core.Well, n int, s Settings) (Displacem
 	}
 	// The grids in two rounds: up to firstReach times the first
 	// displacement (the crossing is expected at about a hundred times
-	// it), then the rest of the sides not bracketed yet.
+	// it), then the rest of the sides not bracketed yet, laid out only
+	// then.
 	for round := 0; round < 2; round++ {
 		for k := range sides {
 			sd := &sides[k]
-			sd.upto = len(sd.ss)
-			if round == 0 && len(sd.ss) > 0 {
-				sd.upto = sort.SearchFloat64s(sd.ss, firstReach*sd.ss[0])
+			if round > 0 && sd.err == nil && !sd.done && !sd.complete {
+				sd.extend(sd.ss[len(sd.ss)-1]*scanRatio, math.Inf(1))
 			}
+			sd.upto = len(sd.ss)
 		}
 		scanPotential(p, w, sides[:])
 		for k := range sides {
@@ -118,19 +121,26 @@ type potCrit struct {
 	tol float64
 	n   int
 	ex  core.Expansion
+	s0  float64 // the first displacement of the scans (start), once known
 }
 
 // eval returns V_n − V, V − V(re) and the error bound of g at x (signed
 // displacement), from v = V(re + x).
 func (c *potCrit) eval(x, v float64) (diff, e, noise float64) {
-	diff, e, noise, _ = c.evalWith(x, v)
+	diff, e, noise, _ = c.evalIn(c.ex, x, v)
 	return diff, e, noise
 }
 
 // evalWith is eval, also reporting whether the series was used.
 func (c *potCrit) evalWith(x, v float64) (diff, e, noise float64, series bool) {
-	direct := c.ex.DirectBound(v) * (1 + c.tol)
-	rs, rb, es, eb := c.ex.Sums(x, c.n+1)
+	return c.evalIn(c.ex, x, v)
+}
+
+// evalIn is evalWith with the series ex: c.ex, or c.ex trimmed for the
+// displacements at hand (the scan).
+func (c *potCrit) evalIn(ex core.Expansion, x, v float64) (diff, e, noise float64, series bool) {
+	direct := ex.DirectBound(v) * (1 + c.tol)
+	rs, rb, es, eb := ex.Sums(x, c.n+1)
 	if sb := rb + c.tol*eb; sb < direct {
 		return -rs, es, sb, true
 	}
@@ -190,14 +200,16 @@ func (c *potCrit) start(s0 float64) float64 {
 // potentialSide is the potential criterion on one side, dir = −1
 // (compression) or +1 (stretch).
 type potentialSide struct {
-	dir     float64
-	name    string
-	ss, vs  []float64 // displacements scanned and V there (vs up to upto)
-	upto    int       // the end of the part of ss to evaluate next
-	checked int       // the points of vs checked by bracket
-	done    bool      // the scan of the side is over
-	err     error
-	limit   float64
+	dir      float64
+	name     string
+	ss, vs   []float64 // displacements scanned and V there (vs up to upto)
+	sMax     float64   // the edge of the scan, Å
+	complete bool      // ss reaches sMax (or was cut at the domain's edge)
+	upto     int       // the end of the part of ss to evaluate next
+	checked  int       // the points of vs checked by bracket
+	done     bool      // the scan of the side is over
+	err      error
+	limit    float64
 	// The bracket of the crossing: displacements, criterion there, and
 	// the sign of V_n − V beyond it.
 	lo, hi, glo, ghi, sgn float64
@@ -210,32 +222,49 @@ func (sd *potentialSide) grid(p core.Potential, c *potCrit) {
 	d := p.Domain()
 	w, tol := c.w, c.tol
 	re, c2 := w.Re, w.Taylor[2]
-	sMax := math.Min(d.Max-re, stretchCap*re)
+	sd.sMax = math.Min(d.Max-re, stretchCap*re)
 	if sd.dir < 0 {
-		sMax = re - d.Min
+		sd.sMax = re - d.Min
 	}
-	s0 := c.start(math.Sqrt(100 * eps * (math.Abs(w.Energy) + c2*re*re) / (tol * c2)))
-	if !(s0 < sMax) {
-		sd.err = fmt.Errorf("validity: %w: the %s side of the domain is too short to scan (%g Å)", core.ErrParam, sd.name, sMax)
+	if c.s0 == 0 {
+		c.s0 = c.start(math.Sqrt(100 * eps * (math.Abs(w.Energy) + c2*re*re) / (tol * c2)))
+	}
+	s0 := c.s0
+	if !(s0 < sd.sMax) {
+		sd.err = fmt.Errorf("validity: %w: the %s side of the domain is too short to scan (%g Å)", core.ErrParam, sd.name, sd.sMax)
 		return
 	}
-	sd.ss = make([]float64, 0, int(math.Log(sMax/s0)/math.Log(scanRatio))+42)
-	for x := s0; x < sMax; x *= scanRatio {
+	sd.ss = make([]float64, 0, int(math.Log(math.Min(sd.sMax/s0, firstReach))/math.Log(scanRatio))+42)
+	sd.extend(s0, firstReach*s0)
+}
+
+// extend continues the grid of the side from x (the next displacement) up
+// to below until, or to the edge of the domain (then approached
+// geometrically: 40 halvings of the distance at most).
+func (sd *potentialSide) extend(x, until float64) {
+	for ; x < sd.sMax && x < until; x *= scanRatio {
 		sd.ss = append(sd.ss, x)
 	}
+	if x < sd.sMax {
+		return
+	}
+	sd.complete = true
 	last := sd.ss[len(sd.ss)-1]
 	for k := 1; k <= 40; k++ { // approach the edge
-		x := sMax - (sMax-last)*math.Ldexp(1, -k)
-		if x >= sMax || x <= sd.ss[len(sd.ss)-1] {
+		x := sd.sMax - (sd.sMax-last)*math.Ldexp(1, -k)
+		if x >= sd.sMax || x <= sd.ss[len(sd.ss)-1] {
 			break
 		}
 		sd.ss = append(sd.ss, x)
 	}
 }
 
+// trimEvery is the number of scan points checked with one trimmed series.
+const trimEvery = 32
+
 // firstReach is the ratio of the end of the first round of the scan to
 // its start.
-const firstReach = 1e4
+const firstReach = 1e3
 
 // active reports whether the side still scans points up to upto.
 func (sd *potentialSide) active() bool {
@@ -275,7 +304,11 @@ func scanPotential(p core.Potential, w core.Well, sides []potentialSide) {
 				sd := &sides[k]
 				if sd.active() {
 					n := sd.upto - len(sd.vs)
-					sd.vs = append(sd.vs, vs[j:j+n]...)
+					if len(sd.vs) == 0 {
+						sd.vs = vs[j : j+n : j+n]
+					} else {
+						sd.vs = append(sd.vs, vs[j:j+n]...)
+					}
 					j += n
 				}
 			}
@@ -310,7 +343,7 @@ func scanPotential(p core.Potential, w core.Well, sides []potentialSide) {
 			continue
 		}
 		sd.ss = sd.ss[:local]
-		sd.upto = local
+		sd.upto, sd.complete = local, true
 	}
 }
 
@@ -322,12 +355,22 @@ func (sd *potentialSide) bracket(c *potCrit) {
 		return
 	}
 	sd.limit = math.Inf(1)
+	var ex core.Expansion
 	for j := sd.checked; j < len(sd.vs); j++ {
+		if (j-sd.checked)%trimEvery == 0 {
+			// The series without the terms below its rounding up to
+			// the last displacement of the next trimEvery: the same
+			// values and bounds to a relative ε, fewer terms.
+			ex = c.ex.TrimTo(sd.ss[min(j+trimEvery, len(sd.vs))-1], c.n+1)
+		}
 		v := sd.vs[j]
 		x := sd.dir * sd.ss[j]
-		diff, e, _ := c.eval(x, v)
+		diff, e, _, _ := c.evalIn(ex, x, v)
 		if math.Abs(diff) <= c.tol*math.Abs(e) {
 			continue
+		}
+		if diff, e, _ = c.eval(x, v); math.Abs(diff) <= c.tol*math.Abs(e) {
+			continue // a tie within rounding: the full series decides
 		}
 		sd.done = true
 		if j == 0 {
@@ -503,23 +546,20 @@ func periodRange(p core.Potential, w core.Well, n int, s Settings, series bool) 
 		return EnergyRange{}, err
 	}
 	c.top = top
-	var fr []float64
+	energies := make([]float64, 0, periodGridSize)
 	var ends []int // of the blocks below E_top/2
 	for f := 1e-8; f < 0.5; f *= 1.1 {
 		if (len(ends) == 0 && f >= blockEnd1) || (len(ends) == 1 && f >= blockEnd2) {
-			ends = append(ends, len(fr))
+			ends = append(ends, len(energies))
 		}
-		fr = append(fr, f)
+		energies = append(energies, f*top)
 	}
 	for g := 0.5; g > 1e-9; g *= 0.8 {
-		fr = append(fr, 1-g)
+		energies = append(energies, (1-g)*top)
 	}
-	energies := make([]float64, len(fr))
-	for i, f := range fr {
-		energies[i] = f * top
-	}
+	c.buf = make([]sample, 0, ends[0]+1) // the largest block
 	// E = 0 passes, with both turning points at re.
-	best := sample{res: period.Result{Inner: w.Re, Outer: w.Re}, g: -tol}
+	best := sample{inner: w.Re, outer: w.Re, g: -tol}
 	known := make([]point, 0, len(energies)+refinePoints*8)
 	for start := 0; start < len(energies); {
 		end := min(start+block, len(energies))
@@ -567,6 +607,9 @@ type periodCriterion struct {
 	// where their bound is at most serTol (see evaluate).
 	ser, sern period.AmplitudeSeries
 	serTol    float64
+	// buf holds the samples of evaluate, reused by the next call: its
+	// result is valid until then.
+	buf []sample
 }
 
 // seriesShare is the bound of the period series, as a fraction of the
@@ -576,12 +619,13 @@ const seriesShare = 0.1
 // sample is the criterion at one energy.
 type sample struct {
 	E       float64
-	ok, end bool          // see judge
-	g       float64       // |R(E)| − τ; NaN when T_n is undefined
-	res     period.Result // the period in the real potential
-	err     error
-	// series reports that the periods came from the amplitude series:
-	// res then has no turning points.
+	ok, end bool    // see judge
+	g       float64 // |R(E)| − τ; NaN when T_n is undefined
+	// inner and outer are the turning points of the real potential at E,
+	// Å (not known when the periods came from the amplitude series).
+	inner, outer float64
+	err          error
+	// series reports that the periods came from the amplitude series.
 	series bool
 }
 
@@ -592,7 +636,8 @@ type sample struct {
 // period.Sweep per potential. A failure found by the series ends the
 // samples returned there: the callers stop at the first failure.
 func (c *periodCriterion) evaluate(energies []float64) ([]sample, error) {
-	ss := make([]sample, 0, len(energies))
+	ss := c.buf[:0]
+	defer func() { c.buf = ss[:0] }()
 	for len(energies) > 0 {
 		sm, ok := c.fromSeries(energies[0])
 		if !ok {
@@ -607,8 +652,8 @@ func (c *periodCriterion) evaluate(energies []float64) ([]sample, error) {
 	if len(energies) == 0 {
 		return ss, nil
 	}
-	rest, err := c.sweep(energies)
-	return append(ss, rest...), err
+	ss, err := c.sweep(ss, energies)
+	return ss, err
 }
 
 // fromSeries is the criterion at E from the amplitude series, and whether
@@ -629,13 +674,12 @@ func (c *periodCriterion) fromSeries(E float64) (sample, bool) {
 		}
 	}
 	R := math.Abs(rn/r - 1)
-	return sample{E: E, ok: R <= c.tol, g: R - c.tol, series: true,
-		res: period.Result{Period: c.t0 * r, ErrorEstimate: b}}, true
+	return sample{E: E, ok: R <= c.tol, g: R - c.tol, series: true}, true
 }
 
-// sweep computes the criterion at every energy by one period.Sweep per
-// potential.
-func (c *periodCriterion) sweep(energies []float64) ([]sample, error) {
+// sweep appends the criterion at every energy to ss, by one period.Sweep
+// per potential.
+func (c *periodCriterion) sweep(ss []sample, energies []float64) ([]sample, error) {
 	ts, terrs := c.in.Sweep(c.p, c.w, 1, energies, nil)
 	var (
 		tns    []period.Result
@@ -644,16 +688,15 @@ func (c *periodCriterion) sweep(energies []float64) ([]sample, error) {
 	if c.n > 2 {
 		tns, tnerrs = c.in.Sweep(c.tr, c.wn, 1, energies, nil)
 	}
-	ss := make([]sample, len(energies))
 	for i, E := range energies {
 		var tn period.Result
 		var tnerr error
 		if c.n > 2 {
 			tn, tnerr = tns[i], tnerrs[i]
 		}
-		sm := &ss[i]
-		sm.E, sm.res = E, ts[i]
+		sm := sample{E: E, inner: ts[i].Inner, outer: ts[i].Outer}
 		sm.ok, sm.end, sm.g, sm.err = c.judge(E, ts[i], terrs[i], tn, tnerr)
+		ss = append(ss, sm)
 	}
 	return ss, nil
 }
@@ -823,7 +866,7 @@ func (c *periodCriterion) describe(lim sample) (EnergyRange, error) {
 	if math.IsInf(E, 1) {
 		return r, nil
 	}
-	inner, outer := lim.res.Inner, lim.res.Outer
+	inner, outer := lim.inner, lim.outer
 	if lim.series {
 		var err error
 		if inner, outer, err = period.TurningPoints(c.p, c.w, E); err != nil {

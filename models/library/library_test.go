@@ -210,3 +210,48 @@ func TestKratzerTail(t *testing.T) {
 		}
 	}
 }
+
+// TestIdentitiesDeclared: every form with a closed-form well or value
+// declares its published identities to the conformance suite (checked by
+// TestConformance); the wrapper keeps the formula's parameter derivatives,
+// which agree with a central difference of V in the parameter (step 1e-6
+// relative, tolerance 1e-6 relative).
+func TestIdentitiesDeclared(t *testing.T) {
+	for key, f := range forms(t) {
+		p, err := f.New(f.Example())
+		require.NoError(t, err)
+		id, ok := p.(conformance.Identifier)
+		if key == "tang-toennies" {
+			assert.False(t, ok, key)
+			continue
+		}
+		require.True(t, ok, key)
+		assert.NotEmpty(t, id.Identities(), key)
+		for _, x := range id.Identities() {
+			assert.NotEmpty(t, x.Source, key)
+		}
+	}
+	f := forms(t)["kratzer"]
+	p, err := f.New([]float64{4.6, 1.27})
+	require.NoError(t, err)
+	r := []float64{1.1, 2.5}
+	g := make([]float64, 2*len(r))
+	require.NoError(t, core.ParamDerivatives(p, r, g))
+	for j := range 2 {
+		up, down := []float64{4.6, 1.27}, []float64{4.6, 1.27}
+		h := 1e-6 * up[j]
+		up[j] += h
+		down[j] -= h
+		pu, err := f.New(up)
+		require.NoError(t, err)
+		pd, err := f.New(down)
+		require.NoError(t, err)
+		for i, x := range r {
+			vu, err := core.Value(pu, x)
+			require.NoError(t, err)
+			vd, err := core.Value(pd, x)
+			require.NoError(t, err)
+			assert.InEpsilon(t, (vu-vd)/(2*h), g[i*2+j], 1e-6, "∂V/∂p%d at %g Å", j, x)
+		}
+	}
+}

@@ -20,7 +20,9 @@
 // parameter value is in the default unit of its dimension (see Dimension).
 //
 // Version 2 (this one) evaluates a potential by its Taylor expansion: one
-// Evaluate returns c_0 … c_n at every separation of the request. Version 1
+// Evaluate returns c_0 … c_n at every separation of the request. Optional
+// calls added later within version 2 (EvaluateSets) are answered
+// UNIMPLEMENTED by plugins built before them, and pairwell falls back. Version 1
 // (derivatives V⁽ⁿ⁾ of one order per call, the barrier and the equilibrium
 // guess beside the domain) is refused by pairwell with a message asking
 // for a rebuild.
@@ -530,7 +532,11 @@ type DescribeResponse struct {
 	// channel: the same requests as Evaluate in a fixed binary framing that
 	// avoids gRPC's per-call costs (see plugins/doc.go). Empty: pairwell uses
 	// Evaluate. Plugins written with the Go SDK serve it.
-	FastPath      string `protobuf:"bytes,3,opt,name=fast_path,json=fastPath,proto3" json:"fast_path,omitempty"`
+	FastPath string `protobuf:"bytes,3,opt,name=fast_path,json=fastPath,proto3" json:"fast_path,omitempty"`
+	// fast_sets says that the direct channel also takes EvaluateSets
+	// requests (see plugins/internal/wire/fast.go). Plugins written with the
+	// Go SDK set it.
+	FastSets      bool `protobuf:"varint,4,opt,name=fast_sets,json=fastSets,proto3" json:"fast_sets,omitempty"`
 	unknownFields protoimpl.UnknownFields
 	sizeCache     protoimpl.SizeCache
 }
@@ -584,6 +590,13 @@ func (x *DescribeResponse) GetFastPath() string {
 		return x.FastPath
 	}
 	return ""
+}
+
+func (x *DescribeResponse) GetFastSets() bool {
+	if x != nil {
+		return x.FastSets
+	}
+	return false
 }
 
 // Failure is an error reported by the plugin.
@@ -1316,6 +1329,211 @@ func (x *MatchResponse) GetNotes() []string {
 	return nil
 }
 
+type EvaluateSetsRequest struct {
+	state protoimpl.MessageState `protogen:"open.v1"`
+	Model string                 `protobuf:"bytes,1,opt,name=model,proto3" json:"model,omitempty"`  // ModelInfo.key
+	Order int32                  `protobuf:"varint,2,opt,name=order,proto3" json:"order,omitempty"` // highest Taylor order n, 0 ≤ n ≤ max_order
+	// The S parameter sets, concatenated: set s is
+	// params[s·P … (s+1)·P), P = the number of ModelInfo.params, in their
+	// order and default units.
+	Params        []float64 `protobuf:"fixed64,3,rep,packed,name=params,proto3" json:"params,omitempty"`
+	Sets          int32     `protobuf:"varint,4,opt,name=sets,proto3" json:"sets,omitempty"`   // S ≥ 1
+	R             []float64 `protobuf:"fixed64,5,rep,packed,name=r,proto3" json:"r,omitempty"` // separations, Å
+	unknownFields protoimpl.UnknownFields
+	sizeCache     protoimpl.SizeCache
+}
+
+func (x *EvaluateSetsRequest) Reset() {
+	*x = EvaluateSetsRequest{}
+	mi := &file_pairwell_proto_msgTypes[16]
+	ms := protoimpl.X.MessageStateOf(protoimpl.Pointer(x))
+	ms.StoreMessageInfo(mi)
+}
+
+func (x *EvaluateSetsRequest) String() string {
+	return protoimpl.X.MessageStringOf(x)
+}
+
+func (*EvaluateSetsRequest) ProtoMessage() {}
+
+func (x *EvaluateSetsRequest) ProtoReflect() protoreflect.Message {
+	mi := &file_pairwell_proto_msgTypes[16]
+	if x != nil {
+		ms := protoimpl.X.MessageStateOf(protoimpl.Pointer(x))
+		if ms.LoadMessageInfo() == nil {
+			ms.StoreMessageInfo(mi)
+		}
+		return ms
+	}
+	return mi.MessageOf(x)
+}
+
+// Deprecated: Use EvaluateSetsRequest.ProtoReflect.Descriptor instead.
+func (*EvaluateSetsRequest) Descriptor() ([]byte, []int) {
+	return file_pairwell_proto_rawDescGZIP(), []int{16}
+}
+
+func (x *EvaluateSetsRequest) GetModel() string {
+	if x != nil {
+		return x.Model
+	}
+	return ""
+}
+
+func (x *EvaluateSetsRequest) GetOrder() int32 {
+	if x != nil {
+		return x.Order
+	}
+	return 0
+}
+
+func (x *EvaluateSetsRequest) GetParams() []float64 {
+	if x != nil {
+		return x.Params
+	}
+	return nil
+}
+
+func (x *EvaluateSetsRequest) GetSets() int32 {
+	if x != nil {
+		return x.Sets
+	}
+	return 0
+}
+
+func (x *EvaluateSetsRequest) GetR() []float64 {
+	if x != nil {
+		return x.R
+	}
+	return nil
+}
+
+// SetFailure is why one parameter set could not be built or evaluated.
+type SetFailure struct {
+	state         protoimpl.MessageState `protogen:"open.v1"`
+	Set           int64                  `protobuf:"varint,1,opt,name=set,proto3" json:"set,omitempty"`                                      // index of the set, 0 … S−1
+	Failure       *Failure               `protobuf:"bytes,2,opt,name=failure,proto3" json:"failure,omitempty"`                               // e.g. ERROR_KIND_PARAM for an invalid set
+	PointFailure  *PointFailure          `protobuf:"bytes,3,opt,name=point_failure,json=pointFailure,proto3" json:"point_failure,omitempty"` // or the failure at one separation
+	unknownFields protoimpl.UnknownFields
+	sizeCache     protoimpl.SizeCache
+}
+
+func (x *SetFailure) Reset() {
+	*x = SetFailure{}
+	mi := &file_pairwell_proto_msgTypes[17]
+	ms := protoimpl.X.MessageStateOf(protoimpl.Pointer(x))
+	ms.StoreMessageInfo(mi)
+}
+
+func (x *SetFailure) String() string {
+	return protoimpl.X.MessageStringOf(x)
+}
+
+func (*SetFailure) ProtoMessage() {}
+
+func (x *SetFailure) ProtoReflect() protoreflect.Message {
+	mi := &file_pairwell_proto_msgTypes[17]
+	if x != nil {
+		ms := protoimpl.X.MessageStateOf(protoimpl.Pointer(x))
+		if ms.LoadMessageInfo() == nil {
+			ms.StoreMessageInfo(mi)
+		}
+		return ms
+	}
+	return mi.MessageOf(x)
+}
+
+// Deprecated: Use SetFailure.ProtoReflect.Descriptor instead.
+func (*SetFailure) Descriptor() ([]byte, []int) {
+	return file_pairwell_proto_rawDescGZIP(), []int{17}
+}
+
+func (x *SetFailure) GetSet() int64 {
+	if x != nil {
+		return x.Set
+	}
+	return 0
+}
+
+func (x *SetFailure) GetFailure() *Failure {
+	if x != nil {
+		return x.Failure
+	}
+	return nil
+}
+
+func (x *SetFailure) GetPointFailure() *PointFailure {
+	if x != nil {
+		return x.PointFailure
+	}
+	return nil
+}
+
+type EvaluateSetsResponse struct {
+	state protoimpl.MessageState `protogen:"open.v1"`
+	// The coefficients, set after set, each set's block laid out as in
+	// EvaluateResponse: c_k(r[i]) of set s at (s·len(r) + i)·(order+1) + k,
+	// S·len(r)·(order+1) numbers; the block of a failed set is zeros.
+	Values      []float64     `protobuf:"fixed64,1,rep,packed,name=values,proto3" json:"values,omitempty"`
+	SetFailures []*SetFailure `protobuf:"bytes,2,rep,name=set_failures,json=setFailures,proto3" json:"set_failures,omitempty"` // one per failed set, by index
+	// Set when the call as a whole failed (unknown model, bad lengths);
+	// values and set_failures are then ignored.
+	Failure       *Failure `protobuf:"bytes,3,opt,name=failure,proto3" json:"failure,omitempty"`
+	unknownFields protoimpl.UnknownFields
+	sizeCache     protoimpl.SizeCache
+}
+
+func (x *EvaluateSetsResponse) Reset() {
+	*x = EvaluateSetsResponse{}
+	mi := &file_pairwell_proto_msgTypes[18]
+	ms := protoimpl.X.MessageStateOf(protoimpl.Pointer(x))
+	ms.StoreMessageInfo(mi)
+}
+
+func (x *EvaluateSetsResponse) String() string {
+	return protoimpl.X.MessageStringOf(x)
+}
+
+func (*EvaluateSetsResponse) ProtoMessage() {}
+
+func (x *EvaluateSetsResponse) ProtoReflect() protoreflect.Message {
+	mi := &file_pairwell_proto_msgTypes[18]
+	if x != nil {
+		ms := protoimpl.X.MessageStateOf(protoimpl.Pointer(x))
+		if ms.LoadMessageInfo() == nil {
+			ms.StoreMessageInfo(mi)
+		}
+		return ms
+	}
+	return mi.MessageOf(x)
+}
+
+// Deprecated: Use EvaluateSetsResponse.ProtoReflect.Descriptor instead.
+func (*EvaluateSetsResponse) Descriptor() ([]byte, []int) {
+	return file_pairwell_proto_rawDescGZIP(), []int{18}
+}
+
+func (x *EvaluateSetsResponse) GetValues() []float64 {
+	if x != nil {
+		return x.Values
+	}
+	return nil
+}
+
+func (x *EvaluateSetsResponse) GetSetFailures() []*SetFailure {
+	if x != nil {
+		return x.SetFailures
+	}
+	return nil
+}
+
+func (x *EvaluateSetsResponse) GetFailure() *Failure {
+	if x != nil {
+		return x.Failure
+	}
+	return nil
+}
+
 var File_pairwell_proto protoreflect.FileDescriptor
 
 const file_pairwell_proto_rawDesc = "" +
@@ -1341,11 +1559,12 @@ const file_pairwell_proto_rawDesc = "" +
 	"\tmax_order\x18\t \x01(\x05R\bmaxOrder\x12\x18\n" +
 	"\amatcher\x18\n" +
 	" \x01(\bR\amatcher\"\x11\n" +
-	"\x0fDescribeRequest\"\x8d\x01\n" +
+	"\x0fDescribeRequest\"\xaa\x01\n" +
 	"\x10DescribeResponse\x12%\n" +
 	"\x0eplugin_version\x18\x01 \x01(\tR\rpluginVersion\x125\n" +
 	"\x06models\x18\x02 \x03(\v2\x1d.pairwell.plugin.v1.ModelInfoR\x06models\x12\x1b\n" +
-	"\tfast_path\x18\x03 \x01(\tR\bfastPath\"V\n" +
+	"\tfast_path\x18\x03 \x01(\tR\bfastPath\x12\x1b\n" +
+	"\tfast_sets\x18\x04 \x01(\bR\bfastSets\"V\n" +
 	"\aFailure\x121\n" +
 	"\x04kind\x18\x01 \x01(\x0e2\x1d.pairwell.plugin.v1.ErrorKindR\x04kind\x12\x18\n" +
 	"\amessage\x18\x02 \x01(\tR\amessage\"\xb0\x01\n" +
@@ -1395,7 +1614,22 @@ const file_pairwell_proto_rawDesc = "" +
 	"\rMatchResponse\x125\n" +
 	"\afailure\x18\x01 \x01(\v2\x1b.pairwell.plugin.v1.FailureR\afailure\x12\x16\n" +
 	"\x06params\x18\x02 \x03(\x01R\x06params\x12\x14\n" +
-	"\x05notes\x18\x03 \x03(\tR\x05notes*\x88\x02\n" +
+	"\x05notes\x18\x03 \x03(\tR\x05notes\"{\n" +
+	"\x13EvaluateSetsRequest\x12\x14\n" +
+	"\x05model\x18\x01 \x01(\tR\x05model\x12\x14\n" +
+	"\x05order\x18\x02 \x01(\x05R\x05order\x12\x16\n" +
+	"\x06params\x18\x03 \x03(\x01R\x06params\x12\x12\n" +
+	"\x04sets\x18\x04 \x01(\x05R\x04sets\x12\f\n" +
+	"\x01r\x18\x05 \x03(\x01R\x01r\"\x9c\x01\n" +
+	"\n" +
+	"SetFailure\x12\x10\n" +
+	"\x03set\x18\x01 \x01(\x03R\x03set\x125\n" +
+	"\afailure\x18\x02 \x01(\v2\x1b.pairwell.plugin.v1.FailureR\afailure\x12E\n" +
+	"\rpoint_failure\x18\x03 \x01(\v2 .pairwell.plugin.v1.PointFailureR\fpointFailure\"\xa8\x01\n" +
+	"\x14EvaluateSetsResponse\x12\x16\n" +
+	"\x06values\x18\x01 \x03(\x01R\x06values\x12A\n" +
+	"\fset_failures\x18\x02 \x03(\v2\x1e.pairwell.plugin.v1.SetFailureR\vsetFailures\x125\n" +
+	"\afailure\x18\x03 \x01(\v2\x1b.pairwell.plugin.v1.FailureR\afailure*\x88\x02\n" +
 	"\tDimension\x12\x19\n" +
 	"\x15DIMENSION_UNSPECIFIED\x10\x00\x12\x1b\n" +
 	"\x17DIMENSION_DIMENSIONLESS\x10\x01\x12\x14\n" +
@@ -1426,13 +1660,14 @@ const file_pairwell_proto_rawDesc = "" +
 	"\x16QUANTITY_EQUILIBRIUM_R\x10\x01\x12\x1b\n" +
 	"\x17QUANTITY_MINIMUM_ENERGY\x10\x02\x12\"\n" +
 	"\x1eQUANTITY_DERIVATIVE_AT_MINIMUM\x10\x03\x12\x15\n" +
-	"\x11QUANTITY_VALUE_AT\x10\x042\x9c\x03\n" +
+	"\x11QUANTITY_VALUE_AT\x10\x042\xff\x03\n" +
 	"\x05Forms\x12U\n" +
 	"\bDescribe\x12#.pairwell.plugin.v1.DescribeRequest\x1a$.pairwell.plugin.v1.DescribeResponse\x12I\n" +
 	"\x04Open\x12\x1f.pairwell.plugin.v1.OpenRequest\x1a .pairwell.plugin.v1.OpenResponse\x12U\n" +
 	"\bEvaluate\x12#.pairwell.plugin.v1.EvaluateRequest\x1a$.pairwell.plugin.v1.EvaluateResponse\x12L\n" +
 	"\x05Close\x12 .pairwell.plugin.v1.CloseRequest\x1a!.pairwell.plugin.v1.CloseResponse\x12L\n" +
-	"\x05Match\x12 .pairwell.plugin.v1.MatchRequest\x1a!.pairwell.plugin.v1.MatchResponseB5Z3github.com/pairwell/pairwell/plugins/proto;pluginpbb\x06proto3"
+	"\x05Match\x12 .pairwell.plugin.v1.MatchRequest\x1a!.pairwell.plugin.v1.MatchResponse\x12a\n" +
+	"\fEvaluateSets\x12'.pairwell.plugin.v1.EvaluateSetsRequest\x1a(.pairwell.plugin.v1.EvaluateSetsResponseB5Z3github.com/pairwell/pairwell/plugins/proto;pluginpbb\x06proto3"
 
 var (
 	file_pairwell_proto_rawDescOnce sync.Once
@@ -1447,28 +1682,31 @@ func file_pairwell_proto_rawDescGZIP() []byte {
 }
 
 var file_pairwell_proto_enumTypes = make([]protoimpl.EnumInfo, 4)
-var file_pairwell_proto_msgTypes = make([]protoimpl.MessageInfo, 16)
+var file_pairwell_proto_msgTypes = make([]protoimpl.MessageInfo, 19)
 var file_pairwell_proto_goTypes = []any{
-	(Dimension)(0),           // 0: pairwell.plugin.v1.Dimension
-	(Constraint)(0),          // 1: pairwell.plugin.v1.Constraint
-	(ErrorKind)(0),           // 2: pairwell.plugin.v1.ErrorKind
-	(Quantity)(0),            // 3: pairwell.plugin.v1.Quantity
-	(*Param)(nil),            // 4: pairwell.plugin.v1.Param
-	(*ModelInfo)(nil),        // 5: pairwell.plugin.v1.ModelInfo
-	(*DescribeRequest)(nil),  // 6: pairwell.plugin.v1.DescribeRequest
-	(*DescribeResponse)(nil), // 7: pairwell.plugin.v1.DescribeResponse
-	(*Failure)(nil),          // 8: pairwell.plugin.v1.Failure
-	(*Domain)(nil),           // 9: pairwell.plugin.v1.Domain
-	(*Identity)(nil),         // 10: pairwell.plugin.v1.Identity
-	(*OpenRequest)(nil),      // 11: pairwell.plugin.v1.OpenRequest
-	(*OpenResponse)(nil),     // 12: pairwell.plugin.v1.OpenResponse
-	(*EvaluateRequest)(nil),  // 13: pairwell.plugin.v1.EvaluateRequest
-	(*PointFailure)(nil),     // 14: pairwell.plugin.v1.PointFailure
-	(*EvaluateResponse)(nil), // 15: pairwell.plugin.v1.EvaluateResponse
-	(*CloseRequest)(nil),     // 16: pairwell.plugin.v1.CloseRequest
-	(*CloseResponse)(nil),    // 17: pairwell.plugin.v1.CloseResponse
-	(*MatchRequest)(nil),     // 18: pairwell.plugin.v1.MatchRequest
-	(*MatchResponse)(nil),    // 19: pairwell.plugin.v1.MatchResponse
+	(Dimension)(0),               // 0: pairwell.plugin.v1.Dimension
+	(Constraint)(0),              // 1: pairwell.plugin.v1.Constraint
+	(ErrorKind)(0),               // 2: pairwell.plugin.v1.ErrorKind
+	(Quantity)(0),                // 3: pairwell.plugin.v1.Quantity
+	(*Param)(nil),                // 4: pairwell.plugin.v1.Param
+	(*ModelInfo)(nil),            // 5: pairwell.plugin.v1.ModelInfo
+	(*DescribeRequest)(nil),      // 6: pairwell.plugin.v1.DescribeRequest
+	(*DescribeResponse)(nil),     // 7: pairwell.plugin.v1.DescribeResponse
+	(*Failure)(nil),              // 8: pairwell.plugin.v1.Failure
+	(*Domain)(nil),               // 9: pairwell.plugin.v1.Domain
+	(*Identity)(nil),             // 10: pairwell.plugin.v1.Identity
+	(*OpenRequest)(nil),          // 11: pairwell.plugin.v1.OpenRequest
+	(*OpenResponse)(nil),         // 12: pairwell.plugin.v1.OpenResponse
+	(*EvaluateRequest)(nil),      // 13: pairwell.plugin.v1.EvaluateRequest
+	(*PointFailure)(nil),         // 14: pairwell.plugin.v1.PointFailure
+	(*EvaluateResponse)(nil),     // 15: pairwell.plugin.v1.EvaluateResponse
+	(*CloseRequest)(nil),         // 16: pairwell.plugin.v1.CloseRequest
+	(*CloseResponse)(nil),        // 17: pairwell.plugin.v1.CloseResponse
+	(*MatchRequest)(nil),         // 18: pairwell.plugin.v1.MatchRequest
+	(*MatchResponse)(nil),        // 19: pairwell.plugin.v1.MatchResponse
+	(*EvaluateSetsRequest)(nil),  // 20: pairwell.plugin.v1.EvaluateSetsRequest
+	(*SetFailure)(nil),           // 21: pairwell.plugin.v1.SetFailure
+	(*EvaluateSetsResponse)(nil), // 22: pairwell.plugin.v1.EvaluateSetsResponse
 }
 var file_pairwell_proto_depIdxs = []int32{
 	0,  // 0: pairwell.plugin.v1.Param.dimension:type_name -> pairwell.plugin.v1.Dimension
@@ -1484,21 +1722,27 @@ var file_pairwell_proto_depIdxs = []int32{
 	14, // 10: pairwell.plugin.v1.EvaluateResponse.point_failure:type_name -> pairwell.plugin.v1.PointFailure
 	8,  // 11: pairwell.plugin.v1.EvaluateResponse.failure:type_name -> pairwell.plugin.v1.Failure
 	8,  // 12: pairwell.plugin.v1.MatchResponse.failure:type_name -> pairwell.plugin.v1.Failure
-	6,  // 13: pairwell.plugin.v1.Forms.Describe:input_type -> pairwell.plugin.v1.DescribeRequest
-	11, // 14: pairwell.plugin.v1.Forms.Open:input_type -> pairwell.plugin.v1.OpenRequest
-	13, // 15: pairwell.plugin.v1.Forms.Evaluate:input_type -> pairwell.plugin.v1.EvaluateRequest
-	16, // 16: pairwell.plugin.v1.Forms.Close:input_type -> pairwell.plugin.v1.CloseRequest
-	18, // 17: pairwell.plugin.v1.Forms.Match:input_type -> pairwell.plugin.v1.MatchRequest
-	7,  // 18: pairwell.plugin.v1.Forms.Describe:output_type -> pairwell.plugin.v1.DescribeResponse
-	12, // 19: pairwell.plugin.v1.Forms.Open:output_type -> pairwell.plugin.v1.OpenResponse
-	15, // 20: pairwell.plugin.v1.Forms.Evaluate:output_type -> pairwell.plugin.v1.EvaluateResponse
-	17, // 21: pairwell.plugin.v1.Forms.Close:output_type -> pairwell.plugin.v1.CloseResponse
-	19, // 22: pairwell.plugin.v1.Forms.Match:output_type -> pairwell.plugin.v1.MatchResponse
-	18, // [18:23] is the sub-list for method output_type
-	13, // [13:18] is the sub-list for method input_type
-	13, // [13:13] is the sub-list for extension type_name
-	13, // [13:13] is the sub-list for extension extendee
-	0,  // [0:13] is the sub-list for field type_name
+	8,  // 13: pairwell.plugin.v1.SetFailure.failure:type_name -> pairwell.plugin.v1.Failure
+	14, // 14: pairwell.plugin.v1.SetFailure.point_failure:type_name -> pairwell.plugin.v1.PointFailure
+	21, // 15: pairwell.plugin.v1.EvaluateSetsResponse.set_failures:type_name -> pairwell.plugin.v1.SetFailure
+	8,  // 16: pairwell.plugin.v1.EvaluateSetsResponse.failure:type_name -> pairwell.plugin.v1.Failure
+	6,  // 17: pairwell.plugin.v1.Forms.Describe:input_type -> pairwell.plugin.v1.DescribeRequest
+	11, // 18: pairwell.plugin.v1.Forms.Open:input_type -> pairwell.plugin.v1.OpenRequest
+	13, // 19: pairwell.plugin.v1.Forms.Evaluate:input_type -> pairwell.plugin.v1.EvaluateRequest
+	16, // 20: pairwell.plugin.v1.Forms.Close:input_type -> pairwell.plugin.v1.CloseRequest
+	18, // 21: pairwell.plugin.v1.Forms.Match:input_type -> pairwell.plugin.v1.MatchRequest
+	20, // 22: pairwell.plugin.v1.Forms.EvaluateSets:input_type -> pairwell.plugin.v1.EvaluateSetsRequest
+	7,  // 23: pairwell.plugin.v1.Forms.Describe:output_type -> pairwell.plugin.v1.DescribeResponse
+	12, // 24: pairwell.plugin.v1.Forms.Open:output_type -> pairwell.plugin.v1.OpenResponse
+	15, // 25: pairwell.plugin.v1.Forms.Evaluate:output_type -> pairwell.plugin.v1.EvaluateResponse
+	17, // 26: pairwell.plugin.v1.Forms.Close:output_type -> pairwell.plugin.v1.CloseResponse
+	19, // 27: pairwell.plugin.v1.Forms.Match:output_type -> pairwell.plugin.v1.MatchResponse
+	22, // 28: pairwell.plugin.v1.Forms.EvaluateSets:output_type -> pairwell.plugin.v1.EvaluateSetsResponse
+	23, // [23:29] is the sub-list for method output_type
+	17, // [17:23] is the sub-list for method input_type
+	17, // [17:17] is the sub-list for extension type_name
+	17, // [17:17] is the sub-list for extension extendee
+	0,  // [0:17] is the sub-list for field type_name
 }
 
 func init() { file_pairwell_proto_init() }
@@ -1512,7 +1756,7 @@ func file_pairwell_proto_init() {
 			GoPackagePath: reflect.TypeOf(x{}).PkgPath(),
 			RawDescriptor: unsafe.Slice(unsafe.StringData(file_pairwell_proto_rawDesc), len(file_pairwell_proto_rawDesc)),
 			NumEnums:      4,
-			NumMessages:   16,
+			NumMessages:   19,
 			NumExtensions: 0,
 			NumServices:   1,
 		},

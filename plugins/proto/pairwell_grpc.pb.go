@@ -20,7 +20,9 @@
 // parameter value is in the default unit of its dimension (see Dimension).
 //
 // Version 2 (this one) evaluates a potential by its Taylor expansion: one
-// Evaluate returns c_0 … c_n at every separation of the request. Version 1
+// Evaluate returns c_0 … c_n at every separation of the request. Optional
+// calls added later within version 2 (EvaluateSets) are answered
+// UNIMPLEMENTED by plugins built before them, and pairwell falls back. Version 1
 // (derivatives V⁽ⁿ⁾ of one order per call, the barrier and the equilibrium
 // guess beside the domain) is refused by pairwell with a message asking
 // for a rebuild.
@@ -46,11 +48,12 @@ import (
 const _ = grpc.SupportPackageIsVersion9
 
 const (
-	Forms_Describe_FullMethodName = "/pairwell.plugin.v1.Forms/Describe"
-	Forms_Open_FullMethodName     = "/pairwell.plugin.v1.Forms/Open"
-	Forms_Evaluate_FullMethodName = "/pairwell.plugin.v1.Forms/Evaluate"
-	Forms_Close_FullMethodName    = "/pairwell.plugin.v1.Forms/Close"
-	Forms_Match_FullMethodName    = "/pairwell.plugin.v1.Forms/Match"
+	Forms_Describe_FullMethodName     = "/pairwell.plugin.v1.Forms/Describe"
+	Forms_Open_FullMethodName         = "/pairwell.plugin.v1.Forms/Open"
+	Forms_Evaluate_FullMethodName     = "/pairwell.plugin.v1.Forms/Evaluate"
+	Forms_Close_FullMethodName        = "/pairwell.plugin.v1.Forms/Close"
+	Forms_Match_FullMethodName        = "/pairwell.plugin.v1.Forms/Match"
+	Forms_EvaluateSets_FullMethodName = "/pairwell.plugin.v1.Forms/EvaluateSets"
 )
 
 // FormsClient is the client API for Forms service.
@@ -73,6 +76,13 @@ type FormsClient interface {
 	// Match derives a parameter set from a target well, for models whose
 	// ModelInfo.matcher is true.
 	Match(ctx context.Context, in *MatchRequest, opts ...grpc.CallOption) (*MatchResponse, error)
+	// EvaluateSets returns the Taylor coefficients of orders 0 … n of many
+	// parameter sets of one model at the same separations, in one round
+	// trip and without handles: what a fit needs for a trial point and for
+	// the central differences of a Jacobian. Optional: a plugin that does
+	// not implement it answers UNIMPLEMENTED (gRPC's default), and pairwell
+	// then opens and evaluates each set on its own.
+	EvaluateSets(ctx context.Context, in *EvaluateSetsRequest, opts ...grpc.CallOption) (*EvaluateSetsResponse, error)
 }
 
 type formsClient struct {
@@ -133,6 +143,16 @@ func (c *formsClient) Match(ctx context.Context, in *MatchRequest, opts ...grpc.
 	return out, nil
 }
 
+func (c *formsClient) EvaluateSets(ctx context.Context, in *EvaluateSetsRequest, opts ...grpc.CallOption) (*EvaluateSetsResponse, error) {
+	cOpts := append([]grpc.CallOption{grpc.StaticMethod()}, opts...)
+	out := new(EvaluateSetsResponse)
+	err := c.cc.Invoke(ctx, Forms_EvaluateSets_FullMethodName, in, out, cOpts...)
+	if err != nil {
+		return nil, err
+	}
+	return out, nil
+}
+
 // FormsServer is the server API for Forms service.
 // All implementations must embed UnimplementedFormsServer
 // for forward compatibility.
@@ -153,6 +173,13 @@ type FormsServer interface {
 	// Match derives a parameter set from a target well, for models whose
 	// ModelInfo.matcher is true.
 	Match(context.Context, *MatchRequest) (*MatchResponse, error)
+	// EvaluateSets returns the Taylor coefficients of orders 0 … n of many
+	// parameter sets of one model at the same separations, in one round
+	// trip and without handles: what a fit needs for a trial point and for
+	// the central differences of a Jacobian. Optional: a plugin that does
+	// not implement it answers UNIMPLEMENTED (gRPC's default), and pairwell
+	// then opens and evaluates each set on its own.
+	EvaluateSets(context.Context, *EvaluateSetsRequest) (*EvaluateSetsResponse, error)
 	mustEmbedUnimplementedFormsServer()
 }
 
@@ -177,6 +204,9 @@ func (UnimplementedFormsServer) Close(context.Context, *CloseRequest) (*CloseRes
 }
 func (UnimplementedFormsServer) Match(context.Context, *MatchRequest) (*MatchResponse, error) {
 	return nil, status.Error(codes.Unimplemented, "method Match not implemented")
+}
+func (UnimplementedFormsServer) EvaluateSets(context.Context, *EvaluateSetsRequest) (*EvaluateSetsResponse, error) {
+	return nil, status.Error(codes.Unimplemented, "method EvaluateSets not implemented")
 }
 func (UnimplementedFormsServer) mustEmbedUnimplementedFormsServer() {}
 func (UnimplementedFormsServer) testEmbeddedByValue()               {}
@@ -289,6 +319,24 @@ func _Forms_Match_Handler(srv interface{}, ctx context.Context, dec func(interfa
 	return interceptor(ctx, in, info, handler)
 }
 
+func _Forms_EvaluateSets_Handler(srv interface{}, ctx context.Context, dec func(interface{}) error, interceptor grpc.UnaryServerInterceptor) (interface{}, error) {
+	in := new(EvaluateSetsRequest)
+	if err := dec(in); err != nil {
+		return nil, err
+	}
+	if interceptor == nil {
+		return srv.(FormsServer).EvaluateSets(ctx, in)
+	}
+	info := &grpc.UnaryServerInfo{
+		Server:     srv,
+		FullMethod: Forms_EvaluateSets_FullMethodName,
+	}
+	handler := func(ctx context.Context, req interface{}) (interface{}, error) {
+		return srv.(FormsServer).EvaluateSets(ctx, req.(*EvaluateSetsRequest))
+	}
+	return interceptor(ctx, in, info, handler)
+}
+
 // Forms_ServiceDesc is the grpc.ServiceDesc for Forms service.
 // It's only intended for direct use with grpc.RegisterService,
 // and not to be introspected or modified (even as a copy)
@@ -315,6 +363,10 @@ var Forms_ServiceDesc = grpc.ServiceDesc{
 		{
 			MethodName: "Match",
 			Handler:    _Forms_Match_Handler,
+		},
+		{
+			MethodName: "EvaluateSets",
+			Handler:    _Forms_EvaluateSets_Handler,
 		},
 	},
 	Streams:  []grpc.StreamDesc{},

@@ -13,7 +13,7 @@ _sym_db = _symbol_database.Default()
 
 
 
-DESCRIPTOR = _descriptor_pool.Default().AddSerializedFile(b'\n\x0epairwell.proto\x12\x12pairwell.plugin.v1\"\xa4\x01\n\x05Param\x12\x0c\n\x04name\x18\x01 \x01(\t\x12\x30\n\tdimension\x18\x02 \x01(\x0e\x32\x1d.pairwell.plugin.v1.Dimension\x12\x16\n\x0e\x64imension_name\x18\x03 \x01(\t\x12\x32\n\nconstraint\x18\x04 \x01(\x0e\x32\x1e.pairwell.plugin.v1.Constraint\x12\x0f\n\x07meaning\x18\x05 \x01(\t\"\xc9\x01\n\tModelInfo\x12\x0b\n\x03key\x18\x01 \x01(\t\x12\x0f\n\x07\x61liases\x18\x02 \x03(\t\x12\x0c\n\x04name\x18\x03 \x01(\t\x12\x0f\n\x07\x66ormula\x18\x04 \x01(\t\x12)\n\x06params\x18\x05 \x03(\x0b\x32\x19.pairwell.plugin.v1.Param\x12\x0e\n\x06\x64omain\x18\x06 \x01(\t\x12\x11\n\treference\x18\x07 \x01(\t\x12\r\n\x05notes\x18\x08 \x01(\t\x12\x11\n\tmax_order\x18\t \x01(\x05\x12\x0f\n\x07matcher\x18\n \x01(\x08\"\x11\n\x0f\x44\x65scribeRequest\"l\n\x10\x44\x65scribeResponse\x12\x16\n\x0eplugin_version\x18\x01 \x01(\t\x12-\n\x06models\x18\x02 \x03(\x0b\x32\x1d.pairwell.plugin.v1.ModelInfo\x12\x11\n\tfast_path\x18\x03 \x01(\t\"G\n\x07\x46\x61ilure\x12+\n\x04kind\x18\x01 \x01(\x0e\x32\x1d.pairwell.plugin.v1.ErrorKind\x12\x0f\n\x07message\x18\x02 \x01(\t\"u\n\x06\x44omain\x12\x0b\n\x03min\x18\x01 \x01(\x01\x12\x0b\n\x03max\x18\x02 \x01(\x01\x12\x0f\n\x07\x62\x61rrier\x18\x03 \x01(\x08\x12\r\n\x05limit\x18\x04 \x01(\x01\x12\x16\n\x0e\x62\x61rrier_energy\x18\x05 \x01(\x01\x12\x19\n\x11\x65quilibrium_guess\x18\x06 \x01(\x01\"\x81\x01\n\x08Identity\x12\x0c\n\x04name\x18\x01 \x01(\t\x12.\n\x08quantity\x18\x02 \x01(\x0e\x32\x1c.pairwell.plugin.v1.Quantity\x12\r\n\x05order\x18\x03 \x01(\x05\x12\t\n\x01r\x18\x04 \x01(\x01\x12\r\n\x05value\x18\x05 \x01(\x01\x12\x0e\n\x06source\x18\x06 \x01(\t\",\n\x0bOpenRequest\x12\r\n\x05model\x18\x01 \x01(\t\x12\x0e\n\x06params\x18\x02 \x03(\x01\"\xb6\x01\n\x0cOpenResponse\x12,\n\x07\x66\x61ilure\x18\x01 \x01(\x0b\x32\x1b.pairwell.plugin.v1.Failure\x12\x0e\n\x06handle\x18\x02 \x01(\x04\x12*\n\x06\x64omain\x18\x03 \x01(\x0b\x32\x1a.pairwell.plugin.v1.Domain\x12\x30\n\nidentities\x18\x05 \x03(\x0b\x32\x1c.pairwell.plugin.v1.IdentityJ\x04\x08\x04\x10\x05J\x04\x08\x06\x10\x07\"A\n\x0f\x45valuateRequest\x12\x0e\n\x06handle\x18\x01 \x01(\x04\x12\r\n\x05order\x18\x02 \x01(\x05\x12\t\n\x01r\x18\x03 \x03(\x01J\x04\x08\x04\x10\x05\"K\n\x0cPointFailure\x12\r\n\x05index\x18\x01 \x01(\x03\x12,\n\x07\x66\x61ilure\x18\x02 \x01(\x0b\x32\x1b.pairwell.plugin.v1.Failure\"\x89\x01\n\x10\x45valuateResponse\x12\x0e\n\x06values\x18\x01 \x03(\x01\x12\x37\n\rpoint_failure\x18\x02 \x01(\x0b\x32 .pairwell.plugin.v1.PointFailure\x12,\n\x07\x66\x61ilure\x18\x03 \x01(\x0b\x32\x1b.pairwell.plugin.v1.Failure\"\x1e\n\x0c\x43loseRequest\x12\x0e\n\x06handle\x18\x01 \x01(\x04\"\x0f\n\rCloseResponse\"C\n\x0cMatchRequest\x12\r\n\x05model\x18\x01 \x01(\t\x12\n\n\x02re\x18\x02 \x01(\x01\x12\r\n\x05\x64\x65pth\x18\x03 \x01(\x01\x12\t\n\x01k\x18\x04 \x01(\x01\"\\\n\rMatchResponse\x12,\n\x07\x66\x61ilure\x18\x01 \x01(\x0b\x32\x1b.pairwell.plugin.v1.Failure\x12\x0e\n\x06params\x18\x02 \x03(\x01\x12\r\n\x05notes\x18\x03 \x03(\t*\x88\x02\n\tDimension\x12\x19\n\x15\x44IMENSION_UNSPECIFIED\x10\x00\x12\x1b\n\x17\x44IMENSION_DIMENSIONLESS\x10\x01\x12\x14\n\x10\x44IMENSION_ENERGY\x10\x02\x12\x14\n\x10\x44IMENSION_LENGTH\x10\x03\x12\x1c\n\x18\x44IMENSION_INVERSE_LENGTH\x10\x04\x12\x1c\n\x18\x44IMENSION_FORCE_CONSTANT\x10\x05\x12\x18\n\x14\x44IMENSION_DISPERSION\x10\x06\x12\x12\n\x0e\x44IMENSION_MASS\x10\x07\x12\x12\n\x0e\x44IMENSION_TIME\x10\x08\x12\x19\n\x15\x44IMENSION_TEMPERATURE\x10\t*Y\n\nConstraint\x12\x15\n\x11\x43ONSTRAINT_FINITE\x10\x00\x12\x17\n\x13\x43ONSTRAINT_POSITIVE\x10\x01\x12\x1b\n\x17\x43ONSTRAINT_NON_NEGATIVE\x10\x02*\xd1\x01\n\tErrorKind\x12\x14\n\x10\x45RROR_KIND_OTHER\x10\x00\x12\x15\n\x11\x45RROR_KIND_DOMAIN\x10\x01\x12\x14\n\x10\x45RROR_KIND_ORDER\x10\x02\x12\x14\n\x10\x45RROR_KIND_PARAM\x10\x03\x12\x19\n\x15\x45RROR_KIND_NO_MINIMUM\x10\x04\x12\x15\n\x11\x45RROR_KIND_LENGTH\x10\x05\x12\x1d\n\x19\x45RROR_KIND_NO_CONVERGENCE\x10\x06\x12\x1a\n\x16\x45RROR_KIND_UNSUPPORTED\x10\x07*\x98\x01\n\x08Quantity\x12\x18\n\x14QUANTITY_UNSPECIFIED\x10\x00\x12\x1a\n\x16QUANTITY_EQUILIBRIUM_R\x10\x01\x12\x1b\n\x17QUANTITY_MINIMUM_ENERGY\x10\x02\x12\"\n\x1eQUANTITY_DERIVATIVE_AT_MINIMUM\x10\x03\x12\x15\n\x11QUANTITY_VALUE_AT\x10\x04\x32\x9c\x03\n\x05\x46orms\x12U\n\x08\x44\x65scribe\x12#.pairwell.plugin.v1.DescribeRequest\x1a$.pairwell.plugin.v1.DescribeResponse\x12I\n\x04Open\x12\x1f.pairwell.plugin.v1.OpenRequest\x1a .pairwell.plugin.v1.OpenResponse\x12U\n\x08\x45valuate\x12#.pairwell.plugin.v1.EvaluateRequest\x1a$.pairwell.plugin.v1.EvaluateResponse\x12L\n\x05\x43lose\x12 .pairwell.plugin.v1.CloseRequest\x1a!.pairwell.plugin.v1.CloseResponse\x12L\n\x05Match\x12 .pairwell.plugin.v1.MatchRequest\x1a!.pairwell.plugin.v1.MatchResponseB5Z3github.com/pairwell/pairwell/plugins/proto;pluginpbb\x06proto3')
+DESCRIPTOR = _descriptor_pool.Default().AddSerializedFile(b'\n\x0epairwell.proto\x12\x12pairwell.plugin.v1\"\xa4\x01\n\x05Param\x12\x0c\n\x04name\x18\x01 \x01(\t\x12\x30\n\tdimension\x18\x02 \x01(\x0e\x32\x1d.pairwell.plugin.v1.Dimension\x12\x16\n\x0e\x64imension_name\x18\x03 \x01(\t\x12\x32\n\nconstraint\x18\x04 \x01(\x0e\x32\x1e.pairwell.plugin.v1.Constraint\x12\x0f\n\x07meaning\x18\x05 \x01(\t\"\xc9\x01\n\tModelInfo\x12\x0b\n\x03key\x18\x01 \x01(\t\x12\x0f\n\x07\x61liases\x18\x02 \x03(\t\x12\x0c\n\x04name\x18\x03 \x01(\t\x12\x0f\n\x07\x66ormula\x18\x04 \x01(\t\x12)\n\x06params\x18\x05 \x03(\x0b\x32\x19.pairwell.plugin.v1.Param\x12\x0e\n\x06\x64omain\x18\x06 \x01(\t\x12\x11\n\treference\x18\x07 \x01(\t\x12\r\n\x05notes\x18\x08 \x01(\t\x12\x11\n\tmax_order\x18\t \x01(\x05\x12\x0f\n\x07matcher\x18\n \x01(\x08\"\x11\n\x0f\x44\x65scribeRequest\"\x7f\n\x10\x44\x65scribeResponse\x12\x16\n\x0eplugin_version\x18\x01 \x01(\t\x12-\n\x06models\x18\x02 \x03(\x0b\x32\x1d.pairwell.plugin.v1.ModelInfo\x12\x11\n\tfast_path\x18\x03 \x01(\t\x12\x11\n\tfast_sets\x18\x04 \x01(\x08\"G\n\x07\x46\x61ilure\x12+\n\x04kind\x18\x01 \x01(\x0e\x32\x1d.pairwell.plugin.v1.ErrorKind\x12\x0f\n\x07message\x18\x02 \x01(\t\"u\n\x06\x44omain\x12\x0b\n\x03min\x18\x01 \x01(\x01\x12\x0b\n\x03max\x18\x02 \x01(\x01\x12\x0f\n\x07\x62\x61rrier\x18\x03 \x01(\x08\x12\r\n\x05limit\x18\x04 \x01(\x01\x12\x16\n\x0e\x62\x61rrier_energy\x18\x05 \x01(\x01\x12\x19\n\x11\x65quilibrium_guess\x18\x06 \x01(\x01\"\x81\x01\n\x08Identity\x12\x0c\n\x04name\x18\x01 \x01(\t\x12.\n\x08quantity\x18\x02 \x01(\x0e\x32\x1c.pairwell.plugin.v1.Quantity\x12\r\n\x05order\x18\x03 \x01(\x05\x12\t\n\x01r\x18\x04 \x01(\x01\x12\r\n\x05value\x18\x05 \x01(\x01\x12\x0e\n\x06source\x18\x06 \x01(\t\",\n\x0bOpenRequest\x12\r\n\x05model\x18\x01 \x01(\t\x12\x0e\n\x06params\x18\x02 \x03(\x01\"\xb6\x01\n\x0cOpenResponse\x12,\n\x07\x66\x61ilure\x18\x01 \x01(\x0b\x32\x1b.pairwell.plugin.v1.Failure\x12\x0e\n\x06handle\x18\x02 \x01(\x04\x12*\n\x06\x64omain\x18\x03 \x01(\x0b\x32\x1a.pairwell.plugin.v1.Domain\x12\x30\n\nidentities\x18\x05 \x03(\x0b\x32\x1c.pairwell.plugin.v1.IdentityJ\x04\x08\x04\x10\x05J\x04\x08\x06\x10\x07\"A\n\x0f\x45valuateRequest\x12\x0e\n\x06handle\x18\x01 \x01(\x04\x12\r\n\x05order\x18\x02 \x01(\x05\x12\t\n\x01r\x18\x03 \x03(\x01J\x04\x08\x04\x10\x05\"K\n\x0cPointFailure\x12\r\n\x05index\x18\x01 \x01(\x03\x12,\n\x07\x66\x61ilure\x18\x02 \x01(\x0b\x32\x1b.pairwell.plugin.v1.Failure\"\x89\x01\n\x10\x45valuateResponse\x12\x0e\n\x06values\x18\x01 \x03(\x01\x12\x37\n\rpoint_failure\x18\x02 \x01(\x0b\x32 .pairwell.plugin.v1.PointFailure\x12,\n\x07\x66\x61ilure\x18\x03 \x01(\x0b\x32\x1b.pairwell.plugin.v1.Failure\"\x1e\n\x0c\x43loseRequest\x12\x0e\n\x06handle\x18\x01 \x01(\x04\"\x0f\n\rCloseResponse\"C\n\x0cMatchRequest\x12\r\n\x05model\x18\x01 \x01(\t\x12\n\n\x02re\x18\x02 \x01(\x01\x12\r\n\x05\x64\x65pth\x18\x03 \x01(\x01\x12\t\n\x01k\x18\x04 \x01(\x01\"\\\n\rMatchResponse\x12,\n\x07\x66\x61ilure\x18\x01 \x01(\x0b\x32\x1b.pairwell.plugin.v1.Failure\x12\x0e\n\x06params\x18\x02 \x03(\x01\x12\r\n\x05notes\x18\x03 \x03(\t\"\\\n\x13\x45valuateSetsRequest\x12\r\n\x05model\x18\x01 \x01(\t\x12\r\n\x05order\x18\x02 \x01(\x05\x12\x0e\n\x06params\x18\x03 \x03(\x01\x12\x0c\n\x04sets\x18\x04 \x01(\x05\x12\t\n\x01r\x18\x05 \x03(\x01\"\x80\x01\n\nSetFailure\x12\x0b\n\x03set\x18\x01 \x01(\x03\x12,\n\x07\x66\x61ilure\x18\x02 \x01(\x0b\x32\x1b.pairwell.plugin.v1.Failure\x12\x37\n\rpoint_failure\x18\x03 \x01(\x0b\x32 .pairwell.plugin.v1.PointFailure\"\x8a\x01\n\x14\x45valuateSetsResponse\x12\x0e\n\x06values\x18\x01 \x03(\x01\x12\x34\n\x0cset_failures\x18\x02 \x03(\x0b\x32\x1e.pairwell.plugin.v1.SetFailure\x12,\n\x07\x66\x61ilure\x18\x03 \x01(\x0b\x32\x1b.pairwell.plugin.v1.Failure*\x88\x02\n\tDimension\x12\x19\n\x15\x44IMENSION_UNSPECIFIED\x10\x00\x12\x1b\n\x17\x44IMENSION_DIMENSIONLESS\x10\x01\x12\x14\n\x10\x44IMENSION_ENERGY\x10\x02\x12\x14\n\x10\x44IMENSION_LENGTH\x10\x03\x12\x1c\n\x18\x44IMENSION_INVERSE_LENGTH\x10\x04\x12\x1c\n\x18\x44IMENSION_FORCE_CONSTANT\x10\x05\x12\x18\n\x14\x44IMENSION_DISPERSION\x10\x06\x12\x12\n\x0e\x44IMENSION_MASS\x10\x07\x12\x12\n\x0e\x44IMENSION_TIME\x10\x08\x12\x19\n\x15\x44IMENSION_TEMPERATURE\x10\t*Y\n\nConstraint\x12\x15\n\x11\x43ONSTRAINT_FINITE\x10\x00\x12\x17\n\x13\x43ONSTRAINT_POSITIVE\x10\x01\x12\x1b\n\x17\x43ONSTRAINT_NON_NEGATIVE\x10\x02*\xd1\x01\n\tErrorKind\x12\x14\n\x10\x45RROR_KIND_OTHER\x10\x00\x12\x15\n\x11\x45RROR_KIND_DOMAIN\x10\x01\x12\x14\n\x10\x45RROR_KIND_ORDER\x10\x02\x12\x14\n\x10\x45RROR_KIND_PARAM\x10\x03\x12\x19\n\x15\x45RROR_KIND_NO_MINIMUM\x10\x04\x12\x15\n\x11\x45RROR_KIND_LENGTH\x10\x05\x12\x1d\n\x19\x45RROR_KIND_NO_CONVERGENCE\x10\x06\x12\x1a\n\x16\x45RROR_KIND_UNSUPPORTED\x10\x07*\x98\x01\n\x08Quantity\x12\x18\n\x14QUANTITY_UNSPECIFIED\x10\x00\x12\x1a\n\x16QUANTITY_EQUILIBRIUM_R\x10\x01\x12\x1b\n\x17QUANTITY_MINIMUM_ENERGY\x10\x02\x12\"\n\x1eQUANTITY_DERIVATIVE_AT_MINIMUM\x10\x03\x12\x15\n\x11QUANTITY_VALUE_AT\x10\x04\x32\xff\x03\n\x05\x46orms\x12U\n\x08\x44\x65scribe\x12#.pairwell.plugin.v1.DescribeRequest\x1a$.pairwell.plugin.v1.DescribeResponse\x12I\n\x04Open\x12\x1f.pairwell.plugin.v1.OpenRequest\x1a .pairwell.plugin.v1.OpenResponse\x12U\n\x08\x45valuate\x12#.pairwell.plugin.v1.EvaluateRequest\x1a$.pairwell.plugin.v1.EvaluateResponse\x12L\n\x05\x43lose\x12 .pairwell.plugin.v1.CloseRequest\x1a!.pairwell.plugin.v1.CloseResponse\x12L\n\x05Match\x12 .pairwell.plugin.v1.MatchRequest\x1a!.pairwell.plugin.v1.MatchResponse\x12\x61\n\x0c\x45valuateSets\x12\'.pairwell.plugin.v1.EvaluateSetsRequest\x1a(.pairwell.plugin.v1.EvaluateSetsResponseB5Z3github.com/pairwell/pairwell/plugins/proto;pluginpbb\x06proto3')
 
 _builder.BuildMessageAndEnumDescriptors(DESCRIPTOR, globals())
 _builder.BuildTopDescriptorsAndMessages(DESCRIPTOR, 'pairwell_pb2', globals())
@@ -21,14 +21,14 @@ if _descriptor._USE_C_DESCRIPTORS == False:
 
   DESCRIPTOR._options = None
   DESCRIPTOR._serialized_options = b'Z3github.com/pairwell/pairwell/plugins/proto;pluginpb'
-  _DIMENSION._serialized_start=1590
-  _DIMENSION._serialized_end=1854
-  _CONSTRAINT._serialized_start=1856
-  _CONSTRAINT._serialized_end=1945
-  _ERRORKIND._serialized_start=1948
-  _ERRORKIND._serialized_end=2157
-  _QUANTITY._serialized_start=2160
-  _QUANTITY._serialized_end=2312
+  _DIMENSION._serialized_start=1975
+  _DIMENSION._serialized_end=2239
+  _CONSTRAINT._serialized_start=2241
+  _CONSTRAINT._serialized_end=2330
+  _ERRORKIND._serialized_start=2333
+  _ERRORKIND._serialized_end=2542
+  _QUANTITY._serialized_start=2545
+  _QUANTITY._serialized_end=2697
   _PARAM._serialized_start=39
   _PARAM._serialized_end=203
   _MODELINFO._serialized_start=206
@@ -36,31 +36,37 @@ if _descriptor._USE_C_DESCRIPTORS == False:
   _DESCRIBEREQUEST._serialized_start=409
   _DESCRIBEREQUEST._serialized_end=426
   _DESCRIBERESPONSE._serialized_start=428
-  _DESCRIBERESPONSE._serialized_end=536
-  _FAILURE._serialized_start=538
-  _FAILURE._serialized_end=609
-  _DOMAIN._serialized_start=611
-  _DOMAIN._serialized_end=728
-  _IDENTITY._serialized_start=731
-  _IDENTITY._serialized_end=860
-  _OPENREQUEST._serialized_start=862
-  _OPENREQUEST._serialized_end=906
-  _OPENRESPONSE._serialized_start=909
-  _OPENRESPONSE._serialized_end=1091
-  _EVALUATEREQUEST._serialized_start=1093
-  _EVALUATEREQUEST._serialized_end=1158
-  _POINTFAILURE._serialized_start=1160
-  _POINTFAILURE._serialized_end=1235
-  _EVALUATERESPONSE._serialized_start=1238
-  _EVALUATERESPONSE._serialized_end=1375
-  _CLOSEREQUEST._serialized_start=1377
-  _CLOSEREQUEST._serialized_end=1407
-  _CLOSERESPONSE._serialized_start=1409
-  _CLOSERESPONSE._serialized_end=1424
-  _MATCHREQUEST._serialized_start=1426
-  _MATCHREQUEST._serialized_end=1493
-  _MATCHRESPONSE._serialized_start=1495
-  _MATCHRESPONSE._serialized_end=1587
-  _FORMS._serialized_start=2315
-  _FORMS._serialized_end=2727
+  _DESCRIBERESPONSE._serialized_end=555
+  _FAILURE._serialized_start=557
+  _FAILURE._serialized_end=628
+  _DOMAIN._serialized_start=630
+  _DOMAIN._serialized_end=747
+  _IDENTITY._serialized_start=750
+  _IDENTITY._serialized_end=879
+  _OPENREQUEST._serialized_start=881
+  _OPENREQUEST._serialized_end=925
+  _OPENRESPONSE._serialized_start=928
+  _OPENRESPONSE._serialized_end=1110
+  _EVALUATEREQUEST._serialized_start=1112
+  _EVALUATEREQUEST._serialized_end=1177
+  _POINTFAILURE._serialized_start=1179
+  _POINTFAILURE._serialized_end=1254
+  _EVALUATERESPONSE._serialized_start=1257
+  _EVALUATERESPONSE._serialized_end=1394
+  _CLOSEREQUEST._serialized_start=1396
+  _CLOSEREQUEST._serialized_end=1426
+  _CLOSERESPONSE._serialized_start=1428
+  _CLOSERESPONSE._serialized_end=1443
+  _MATCHREQUEST._serialized_start=1445
+  _MATCHREQUEST._serialized_end=1512
+  _MATCHRESPONSE._serialized_start=1514
+  _MATCHRESPONSE._serialized_end=1606
+  _EVALUATESETSREQUEST._serialized_start=1608
+  _EVALUATESETSREQUEST._serialized_end=1700
+  _SETFAILURE._serialized_start=1703
+  _SETFAILURE._serialized_end=1831
+  _EVALUATESETSRESPONSE._serialized_start=1834
+  _EVALUATESETSRESPONSE._serialized_end=1972
+  _FORMS._serialized_start=2700
+  _FORMS._serialized_end=3211
 # @@protoc_insertion_point(module_scope)

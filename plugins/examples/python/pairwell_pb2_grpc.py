@@ -40,6 +40,11 @@ class FormsStub(object):
                 request_serializer=pairwell__pb2.MatchRequest.SerializeToString,
                 response_deserializer=pairwell__pb2.MatchResponse.FromString,
                 )
+        self.EvaluateSets = channel.unary_unary(
+                '/pairwell.plugin.v1.Forms/EvaluateSets',
+                request_serializer=pairwell__pb2.EvaluateSetsRequest.SerializeToString,
+                response_deserializer=pairwell__pb2.EvaluateSetsResponse.FromString,
+                )
 
 
 class FormsServicer(object):
@@ -85,6 +90,18 @@ class FormsServicer(object):
         context.set_details('Method not implemented!')
         raise NotImplementedError('Method not implemented!')
 
+    def EvaluateSets(self, request, context):
+        """EvaluateSets returns the Taylor coefficients of orders 0 … n of many
+        parameter sets of one model at the same separations, in one round
+        trip and without handles: what a fit needs for a trial point and for
+        the central differences of a Jacobian. Optional: a plugin that does
+        not implement it answers UNIMPLEMENTED (gRPC's default), and pairwell
+        then opens and evaluates each set on its own.
+        """
+        context.set_code(grpc.StatusCode.UNIMPLEMENTED)
+        context.set_details('Method not implemented!')
+        raise NotImplementedError('Method not implemented!')
+
 
 def add_FormsServicer_to_server(servicer, server):
     rpc_method_handlers = {
@@ -112,6 +129,11 @@ def add_FormsServicer_to_server(servicer, server):
                     servicer.Match,
                     request_deserializer=pairwell__pb2.MatchRequest.FromString,
                     response_serializer=pairwell__pb2.MatchResponse.SerializeToString,
+            ),
+            'EvaluateSets': grpc.unary_unary_rpc_method_handler(
+                    servicer.EvaluateSets,
+                    request_deserializer=pairwell__pb2.EvaluateSetsRequest.FromString,
+                    response_serializer=pairwell__pb2.EvaluateSetsResponse.SerializeToString,
             ),
     }
     generic_handler = grpc.method_handlers_generic_handler(
@@ -206,5 +228,22 @@ class Forms(object):
         return grpc.experimental.unary_unary(request, target, '/pairwell.plugin.v1.Forms/Match',
             pairwell__pb2.MatchRequest.SerializeToString,
             pairwell__pb2.MatchResponse.FromString,
+            options, channel_credentials,
+            insecure, call_credentials, compression, wait_for_ready, timeout, metadata)
+
+    @staticmethod
+    def EvaluateSets(request,
+            target,
+            options=(),
+            channel_credentials=None,
+            call_credentials=None,
+            insecure=False,
+            compression=None,
+            wait_for_ready=None,
+            timeout=None,
+            metadata=None):
+        return grpc.experimental.unary_unary(request, target, '/pairwell.plugin.v1.Forms/EvaluateSets',
+            pairwell__pb2.EvaluateSetsRequest.SerializeToString,
+            pairwell__pb2.EvaluateSetsResponse.FromString,
             options, channel_credentials,
             insecure, call_credentials, compression, wait_for_ready, timeout, metadata)

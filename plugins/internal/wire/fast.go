@@ -14,6 +14,7 @@ import (
 	"time"
 
 	plugin "github.com/hashicorp/go-plugin"
+	"google.golang.org/protobuf/proto"
 
 	pb "github.com/pairwell/pairwell/plugins/proto"
 )
@@ -37,7 +38,18 @@ import (
 //	u64 n: ok, the number of float64 values that follow;
 //	       point failure, the index of the point; failure, 0
 //	on failure: u32 length and the message in UTF-8
+//
+// EvaluateSets requests (offered when Describe says fast_sets) share the
+// 24-byte request header, with another magic and the length of an
+// EvaluateSetsRequest in protobuf encoding, which follows; the answer is a
+// 16-byte header, status 0, kind 0 and the length of the
+// EvaluateSetsResponse in protobuf encoding, which follows:
+//
+//	u32 magic 0x32535750 ("PWS2")   u32 reserved, 0
+//	u64 length of the request       u64 reserved, 0
 const (
+	fastSetsMagic = 0x32535750
+
 	fastMagic       = 0x32455750
 	fastRequestHdr  = 24
 	fastResponseHdr = 16
@@ -91,16 +103,26 @@ func (s *Server) serveFastConn(c net.Conn) {
 		r    []float64
 		vals []float64
 		out  []byte
+		err  error
 	)
 	for {
 		if _, err := io.ReadFull(br, hdr[:]); err != nil {
 			return
 		}
 		le := binary.LittleEndian
-		if le.Uint32(hdr[0:]) != fastMagic {
+		if le.Uint32(hdr[4:]) != 0 {
 			return
 		}
-		if le.Uint32(hdr[4:]) != 0 {
+		if le.Uint32(hdr[0:]) == fastSetsMagic {
+			if out, err = s.serveFastSets(br, hdr, out[:0]); err != nil {
+				return
+			}
+			if _, err := c.Write(out); err != nil {
+				return
+			}
+			continue
+		}
+		if le.Uint32(hdr[0:]) != fastMagic {
 			return
 		}
 		handle := le.Uint64(hdr[8:])
@@ -110,7 +132,6 @@ func (s *Server) serveFastConn(c net.Conn) {
 			return
 		}
 		r = grow(r, count)
-		var err error
 		if raw, err = readFloats(br, r, raw); err != nil {
 			return
 		}
@@ -123,6 +144,35 @@ func (s *Server) serveFastConn(c net.Conn) {
 			return
 		}
 	}
+}
+
+// serveFastSets answers the EvaluateSets request whose header is hdr,
+// appending the answer to out.
+func (s *Server) serveFastSets(br io.Reader, hdr [fastRequestHdr]byte, out []byte) ([]byte, error) {
+	le := binary.LittleEndian
+	n := le.Uint64(hdr[8:])
+	if n > 8*maxFastValues || le.Uint64(hdr[16:]) != 0 {
+		return out, ErrFastProtocol
+	}
+	msg := make([]byte, n)
+	if _, err := io.ReadFull(br, msg); err != nil {
+		return out, err
+	}
+	req := &pb.EvaluateSetsRequest{}
+	var resp *pb.EvaluateSetsResponse
+	if err := proto.Unmarshal(msg, req); err != nil {
+		resp = &pb.EvaluateSetsResponse{Failure: &pb.Failure{Message: fmt.Sprintf("EvaluateSets on the direct channel: %v", err)}}
+	} else {
+		resp = s.evaluateSets(req)
+	}
+	body, err := proto.Marshal(resp)
+	if err != nil {
+		return out, err
+	}
+	out = le.AppendUint32(out, statusOK)
+	out = le.AppendUint32(out, 0)
+	out = le.AppendUint64(out, uint64(len(body)))
+	return append(out, body...), nil
 }
 
 func appendResponse(b []byte, values []float64, pf *pb.PointFailure, f *pb.Failure) []byte {
@@ -368,6 +418,61 @@ func (c *fastConn) evaluate(timeout time.Duration, handle uint64, order int, r, 
 		return &pb.PointFailure{Index: int64(n), Failure: fail}, nil, nil
 	}
 	return nil, nil, fmt.Errorf("%w: status %d", ErrFastProtocol, status)
+}
+
+// EvaluateSets sends one EvaluateSets request over the channel and
+// decodes the answer; err is a transport error (a deadline:
+// os.ErrDeadlineExceeded) or ErrFastProtocol.
+func (fc *FastClient) EvaluateSets(timeout time.Duration, req *pb.EvaluateSetsRequest) (*pb.EvaluateSetsResponse, error) {
+	c, err := fc.get(timeout)
+	if err != nil {
+		return nil, err
+	}
+	resp, err := c.evaluateSets(timeout, req)
+	if err != nil {
+		fc.discard(c)
+		return nil, err
+	}
+	fc.put(c)
+	return resp, nil
+}
+
+func (c *fastConn) evaluateSets(timeout time.Duration, req *pb.EvaluateSetsRequest) (*pb.EvaluateSetsResponse, error) {
+	if err := c.c.SetDeadline(time.Now().Add(timeout)); err != nil {
+		return nil, err
+	}
+	body, err := proto.Marshal(req)
+	if err != nil {
+		return nil, err
+	}
+	le := binary.LittleEndian
+	b := c.buf[:0]
+	b = le.AppendUint32(b, fastSetsMagic)
+	b = le.AppendUint32(b, 0)
+	b = le.AppendUint64(b, uint64(len(body)))
+	b = le.AppendUint64(b, 0)
+	b = append(b, body...)
+	c.buf = b
+	if _, err := c.c.Write(b); err != nil {
+		return nil, err
+	}
+	var hdr [fastResponseHdr]byte
+	if _, err := io.ReadFull(c.br, hdr[:]); err != nil {
+		return nil, err
+	}
+	n := le.Uint64(hdr[8:])
+	if le.Uint32(hdr[0:]) != statusOK || n > 8*maxFastValues {
+		return nil, fmt.Errorf("%w: EvaluateSets answer with status %d, %d bytes", ErrFastProtocol, le.Uint32(hdr[0:]), n)
+	}
+	c.buf = growBytes(c.buf[:0], int(n))
+	if _, err := io.ReadFull(c.br, c.buf); err != nil {
+		return nil, err
+	}
+	resp := &pb.EvaluateSetsResponse{}
+	if err := proto.Unmarshal(c.buf, resp); err != nil {
+		return nil, fmt.Errorf("%w: %v", ErrFastProtocol, err)
+	}
+	return resp, nil
 }
 
 func (c *fastConn) message() (string, error) {

@@ -35,6 +35,11 @@ type Server struct {
 	// they are sent. It exists to build faulty plugins for tests.
 	Filter func(handle uint64, values []float64) []float64
 
+	// OldProtocol, when set, makes the server answer as a plugin built
+	// before EvaluateSets: UNIMPLEMENTED, and no fast_sets. It exists to
+	// test the host's fallback.
+	OldProtocol bool
+
 	// fastAddr is the address of the direct evaluation channel, "" if
 	// none is served.
 	fastAddr string
@@ -83,7 +88,7 @@ func recovered(call string, p any) *pb.Failure {
 
 // Describe returns the metadata of every model.
 func (s *Server) Describe(context.Context, *pb.DescribeRequest) (*pb.DescribeResponse, error) {
-	return &pb.DescribeResponse{PluginVersion: s.version, Models: s.infos, FastPath: s.fastAddr}, nil
+	return &pb.DescribeResponse{PluginVersion: s.version, Models: s.infos, FastPath: s.fastAddr, FastSets: s.fastAddr != "" && !s.OldProtocol}, nil
 }
 
 func (s *Server) model(key string) (core.Model, *pb.Failure) {
@@ -204,6 +209,50 @@ func nonPointFailure(err error) *pb.Failure {
 		return nil
 	}
 	return FailureFromError(err)
+}
+
+// EvaluateSets evaluates many parameter sets of one model at the same
+// separations (core.EvaluateSets: the model's own SetEvaluator, or New and
+// Taylor for each set).
+func (s *Server) EvaluateSets(ctx context.Context, req *pb.EvaluateSetsRequest) (*pb.EvaluateSetsResponse, error) {
+	if s.OldProtocol {
+		return s.UnimplementedFormsServer.EvaluateSets(ctx, req)
+	}
+	return s.evaluateSets(req), nil
+}
+
+// evaluateSets is EvaluateSets for both transports.
+func (s *Server) evaluateSets(req *pb.EvaluateSetsRequest) (resp *pb.EvaluateSetsResponse) {
+	defer func() {
+		if p := recover(); p != nil {
+			resp = &pb.EvaluateSetsResponse{Failure: recovered("EvaluateSets", p)}
+		}
+	}()
+	m, f := s.model(req.GetModel())
+	if f != nil {
+		return &pb.EvaluateSetsResponse{Failure: f}
+	}
+	n, sets, r := int(req.GetOrder()), int(req.GetSets()), req.GetR()
+	if sets < 1 || sets > maxFastValues || len(r) > maxFastValues || n < 0 || n > maxFastValues {
+		return &pb.EvaluateSetsResponse{Failure: FailureFromError(fmt.Errorf("%w: %d sets, order %d, %d separations", core.ErrLength, sets, n, len(r)))}
+	}
+	if sets*len(r)*(n+1) > maxFastValues {
+		return &pb.EvaluateSetsResponse{Failure: FailureFromError(fmt.Errorf("%w: %d values in one call, the limit is %d", core.ErrLength, sets*len(r)*(n+1), maxFastValues))}
+	}
+	values := make([]float64, sets*len(r)*(n+1))
+	errs := make([]error, sets)
+	if err := core.EvaluateSets(m, n, req.GetParams(), r, values, errs); err != nil {
+		return &pb.EvaluateSetsResponse{Failure: FailureFromError(err)}
+	}
+	resp = &pb.EvaluateSetsResponse{Values: values}
+	block := len(r) * (n + 1)
+	for i, err := range errs {
+		if err != nil {
+			clear(values[i*block : (i+1)*block])
+			resp.SetFailures = append(resp.SetFailures, &pb.SetFailure{Set: int64(i), Failure: nonPointFailure(err), PointFailure: pointFailure(err)})
+		}
+	}
+	return resp
 }
 
 // Close forgets a handle.

@@ -116,6 +116,9 @@ func main() {
 		fmt.Fprintln(os.Stderr, err)
 		os.Exit(1)
 	}
+	// Under a name containing "nosets" it answers as a plugin built before
+	// EvaluateSets (UNIMPLEMENTED), so that the tests cover the fallback.
+	srv.OldProtocol = strings.Contains(filepath.Base(os.Args[0]), "nosets")
 	// badlen-morse: one value too few, on either transport.
 	crashAfter := int64(1000)
 	if n, err := strconv.ParseInt(os.Getenv("PAIRWELL_TEST_CRASH_AFTER"), 10, 64); err == nil {
