@@ -69,9 +69,12 @@
 //   - invalid-order: orders MaxOrder+1 and −1 give core.ErrOrder; a dst
 //     that does not hold (n+1)·len(r) values gives core.ErrLength.
 //   - asymptote: for a finite Domain.Limit, |V(10⁶·re) − Limit| ≤ 1e-6 of
-//     the well depth (10⁶·re, so that tails as slow as 1/r pass; the
-//     message also gives the deviation at 50·re); for Limit = +Inf, V must
-//     grow from 50·re to 10³·re to 10⁶·re.
+//     the well depth (the message also gives the deviation at 50·re); for
+//     Limit = +Inf, V must grow from 50·re to 10³·re to 10⁶·re. A form
+//     whose tail is slower than that allows (a Coulomb-like 1/r tail such
+//     as Kratzer's, |V(10⁶·re)|/De = 2e-6) declares it, Domain.TailPower =
+//     p; then the tail amplitude (V − Limit)·(r/re)^p must agree at 10⁶·re
+//     and 10⁷·re to 1e-6 relative, so a wrong limit or a wrong power fails.
 //
 // # Sampled range
 //

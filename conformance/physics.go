@@ -170,8 +170,8 @@ func derivative(p core.Potential, n int, r float64) (float64, error) {
 
 // checkAsymptote checks the declared dissociation limit: for a finite
 // Domain.Limit, |V(f·re) − Limit| ≤ AsymptoteTolerance·depth at
-// f = AsymptoteFactor (10⁶ by default, so that tails as slow as 1/r
-// pass), where depth = Limit − V(re); the message also gives the
+// f = AsymptoteFactor (10⁶ by default: a 1/r tail of coefficient C passes
+// only if C/(re·depth) ≤ 1e-6, which Kratzer's 2De·re does not), where depth = Limit − V(re); the message also gives the
 // deviation at 50·re. For Limit = +Inf, V must grow along 50·re, 10³·re,
 // f·re. The point is kept inside a finite Domain.Max. Without a minimum,
 // re is the declared equilibrium distance or the top of the sampled range,

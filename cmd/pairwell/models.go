@@ -77,15 +77,16 @@ func newModelsCmd(e *env) *cobra.Command {
 	return &cobra.Command{
 		Use:   "models",
 		Short: "List the functional forms with their formulas and parameters",
-		Long: `models lists every form pairwell knows — the built-in ones, the forms
-library's, those of forms files and those served by plugins — with its formula, parameters (default unit and constraint), domain and
-literature reference. The KEY (or an alias) starts a spec: KEY:NAME=VALUE,...
+		Long: `models lists every form pairwell knows — the built-in ones, the forms library's,
+those of forms files and those served by plugins — with its formula, parameters
+(default unit and constraint), domain and literature reference. The KEY (or an
+alias) starts a spec: KEY:NAME=VALUE,...
 
 Where they come from, in order of precedence: the built-in forms, then your
 forms (--forms, PAIRWELL_FORMS_PATH, [[form]] tables of a model set, plugins),
 then the forms library built into pairwell (published forms typed as formulas).
-A form of yours with the key of a library form replaces it, with a warning;
-any other clash of keys is an error.`,
+A form of yours with the key of a library form replaces it (with a warning when
+its parameters differ); any other clash of keys is an error.`,
 		Example: `  pairwell models
   pairwell models --format json
   pairwell --plugin ./pairwell-plugin-rydberg models     # with a plugin's forms (its rydberg replaces the library's)`,
