@@ -69,7 +69,7 @@ func (m *model) New(params []float64) (core.Potential, error) {
 	if err != nil {
 		return nil, bad("%v", err)
 	}
-	pot := &potential{p: p, key: key, handle: resp.GetHandle(), domain: d, maxOrder: m.info.MaxOrder}
+	pot := &potential{p: p, m: m, params: append([]float64(nil), params...), key: key, handle: resp.GetHandle(), domain: d, maxOrder: m.info.MaxOrder}
 	for _, x := range resp.GetIdentities() {
 		id, err := wire.IdentityFromProto(x)
 		if err != nil {
@@ -135,6 +135,8 @@ func (p *Plugin) release(h uint64) {
 // a conformance.Identifier.
 type potential struct {
 	p        *Plugin
+	m        *model
+	params   []float64 // the parameter set, for ParamGradient
 	key      string
 	handle   uint64
 	domain   core.Domain
@@ -258,7 +260,7 @@ func (m *model) EvaluateSets(n int, params, r, dst []float64, errs []error) erro
 	}
 	for s0 := 0; s0 < len(errs); s0 += step {
 		s1 := min(s0+step, len(errs))
-		done, err := m.evaluateSets(n, params[s0*np:s1*np], r, dst[s0*block:s1*block], errs[s0:s1])
+		done, err := m.evaluateSets(n, false, params[s0*np:s1*np], r, dst[s0*block:s1*block], errs[s0:s1])
 		if err != nil {
 			return err
 		}
@@ -269,12 +271,18 @@ func (m *model) EvaluateSets(n int, params, r, dst []float64, errs []error) erro
 	return nil
 }
 
-// evaluateSets is one EvaluateSets round trip; done is false when the
+// evaluateSets is one EvaluateSets round trip, of the coefficients c₀…c_n
+// or, with grad, of the parameter derivatives; done is false when the
 // plugin does not implement the call.
-func (m *model) evaluateSets(n int, params, r, dst []float64, errs []error) (done bool, err error) {
+func (m *model) evaluateSets(n int, grad bool, params, r, dst []float64, errs []error) (done bool, err error) {
 	p, key := m.p, m.info.Key
 	what := fmt.Sprintf("EvaluateSets %s c₀…c_%d, %d sets at %d points", key, n, len(errs), len(r))
-	req := &pb.EvaluateSetsRequest{Model: key, Order: int32(n), Params: params, Sets: int32(len(errs)), R: r}
+	w := n + 1 // values per point
+	if grad {
+		what = fmt.Sprintf("EvaluateSets %s ∂V/∂p, %d sets at %d points", key, len(errs), len(r))
+		w = len(m.info.Params)
+	}
+	req := &pb.EvaluateSetsRequest{Model: key, Order: int32(n), Params: params, Sets: int32(len(errs)), R: r, ParamGradient: grad}
 	var resp *pb.EvaluateSetsResponse
 	if fc := p.fast; fc != nil && p.fastSets {
 		if err := p.deadErr(); err != nil {
@@ -327,7 +335,7 @@ func (m *model) evaluateSets(n int, params, r, dst []float64, errs []error) (don
 			errs[s] = remote(p, sf.GetFailure())
 		}
 	}
-	w, block := n+1, len(r)*(n+1)
+	block := len(r) * w
 	for s := range errs {
 		if errs[s] != nil {
 			continue
@@ -335,11 +343,45 @@ func (m *model) evaluateSets(n int, params, r, dst []float64, errs []error) (don
 		for j, v := range dst[s*block : (s+1)*block] {
 			if v-v != 0 { // NaN or ±Inf
 				i, k := j/w, j%w
-				errs[s] = &core.PointError{Index: i, R: r[i], Err: fmt.Errorf("plugin %s: %s: %w: c_%d = V⁽%d⁾/%d! of set %d is %g",
-					p.path, what, ErrBadOutput, k, k, k, s, v)}
+				errs[s] = &core.PointError{Index: i, R: r[i], Err: fmt.Errorf("plugin %s: %s: %w: value %d at the point of set %d is %g",
+					p.path, what, ErrBadOutput, k, s, v)}
 				break
 			}
 		}
 	}
 	return true, nil
+}
+
+// ParamGradient stores ∂V(r[i])/∂pⱼ in dst[i·P+j] (core.ParamGradient),
+// evaluated by the plugin in EvaluateSets round trips (at most maxValues
+// numbers each). For a plugin built before that call, and for a potential
+// without analytic parameter derivatives in the plugin, it returns an
+// error wrapping core.ErrUnsupported.
+func (pt *potential) ParamGradient(r, dst []float64) error {
+	np := len(pt.params)
+	if len(dst) != len(r)*np {
+		return fmt.Errorf("%s: %w: %d separations need %d gradient values, dst has %d", pt.key, core.ErrLength, len(r), len(r)*np, len(dst))
+	}
+	if pt.p.noSets.Load() {
+		return fmt.Errorf("%s: parameter derivatives: %w (plugin %s)", pt.key, core.ErrUnsupported, pt.p.path)
+	}
+	step := max(1, maxValues/max(1, np))
+	var errs [1]error
+	for off := 0; off < len(r); off += step {
+		chunk := r[off:min(off+step, len(r))]
+		done, err := pt.m.evaluateSets(0, true, pt.params, chunk, dst[off*np:(off+len(chunk))*np], errs[:])
+		switch {
+		case err != nil:
+			return err
+		case !done:
+			return fmt.Errorf("%s: parameter derivatives: %w (plugin %s)", pt.key, core.ErrUnsupported, pt.p.path)
+		case errs[0] != nil:
+			var pe *core.PointError
+			if errors.As(errs[0], &pe) {
+				pe.Index += off
+			}
+			return errs[0]
+		}
+	}
+	return nil
 }

@@ -8,6 +8,7 @@ import (
 	"github.com/stretchr/testify/require"
 
 	"github.com/pairwell/pairwell/core"
+	"github.com/pairwell/pairwell/models"
 	"github.com/pairwell/pairwell/plugins"
 	"github.com/pairwell/pairwell/plugins/testdata/morse"
 )
@@ -61,6 +62,50 @@ func TestEvaluateSets(t *testing.T) {
 			assert.ErrorIs(t, errs[0], core.ErrDomain)
 
 			assert.ErrorIs(t, core.EvaluateSets(m, 0, params[:3], r, make([]float64, 1), errs), core.ErrLength)
+		})
+	}
+}
+
+// TestPluginParamGradient checks that the host's plugin potential forwards
+// core.ParamGradient: the test plugin's plugin-buckingham (the built-in
+// Buckingham served by the plugin) gives the built-in's analytic
+// derivatives bit for bit on both transports, and its plugin-morse (no
+// analytic derivatives) and a plugin built before EvaluateSets report
+// core.ErrUnsupported.
+func TestPluginParamGradient(t *testing.T) {
+	params := []float64{1000, 0.3, 20}
+	r := []float64{2.2, 2.5, 3, 3.5, 5, 8}
+	want := make([]float64, 3*len(r))
+	bp, err := models.Buckingham{}.New(params)
+	require.NoError(t, err)
+	require.NoError(t, core.ParamDerivatives(bp, r, want))
+	paths := append(transports(), struct{ name, path string }{"nosets", bin.nosets})
+	for _, tr := range paths {
+		t.Run(tr.name, func(t *testing.T) {
+			p, err := plugins.Load(context.Background(), tr.path, plugins.Options{})
+			require.NoError(t, err)
+			defer p.Close()
+			byKey := map[string]core.Model{}
+			for _, m := range p.Models() {
+				byKey[m.Info().Key] = m
+			}
+			pot, err := byKey["plugin-buckingham"].New(params)
+			require.NoError(t, err)
+			got := make([]float64, len(want))
+			err = core.ParamDerivatives(pot, r, got)
+			if tr.name == "nosets" {
+				assert.ErrorIs(t, err, core.ErrUnsupported)
+				return
+			}
+			require.NoError(t, err)
+			assert.Equal(t, want, got)
+			var pe *core.PointError
+			require.ErrorAs(t, core.ParamDerivatives(pot, []float64{3, 0.01}, make([]float64, 6)), &pe)
+			assert.Equal(t, 1, pe.Index)
+			assert.ErrorIs(t, pe, core.ErrDomain)
+			mp, err := byKey["plugin-morse"].New([]float64{4.6, 1.87, 1.27})
+			require.NoError(t, err)
+			assert.ErrorIs(t, core.ParamDerivatives(mp, r, got), core.ErrUnsupported)
 		})
 	}
 }

@@ -270,11 +270,21 @@ func TestFitErrors(t *testing.T) {
 
 // TestFitPluginRecovery fits the test plugin's Morse (an independent
 // implementation, central differences in the parameters) to exact built-in
-// Morse data and recovers the parameters to 1e-8 relative; a plugin form is
-// ranked with the built-in ones.
+// Morse data and recovers the parameters to 1e-8 relative, from the
+// automatic start, also through a plugin without EvaluateSets; a plugin
+// form is ranked with the built-in ones.
 func TestFitPluginRecovery(t *testing.T) {
+	for _, bin := range []string{pluginBin.test, pluginBin.nosets} {
+		fitPluginRecovery(t, bin)
+	}
+}
+
+// fitPluginRecovery is TestFitPluginRecovery with the plugin at bin: the
+// test plugin, and the same answering as a plugin built before
+// EvaluateSets (the host then opens each parameter set).
+func fitPluginRecovery(t *testing.T, bin string) {
 	path := writeMorseScan(t)
-	code, out, errOut := runPlugins(t, "--plugin", pluginBin.test, "fit", path, "--form", "plugin-morse", "--form", "morse", "--offset", "fit", "--format", "json")
+	code, out, errOut := runPlugins(t, "--plugin", bin, "fit", path, "--form", "plugin-morse", "--form", "morse", "--offset", "fit", "--format", "json")
 	require.Equal(t, 0, code, errOut)
 	var rows []map[string]any
 	require.NoError(t, json.Unmarshal([]byte(out), &rows), out)

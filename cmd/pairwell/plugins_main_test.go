@@ -24,6 +24,7 @@ var pluginBin struct {
 	rydberg, mie string
 	test         string // plugin-morse and the faulty models
 	oldproto     string // the test plugin speaking protocol 1, the one before this
+	nosets       string // the test plugin answering as one built before EvaluateSets
 	holdpipes    string // the test plugin with a child holding its pipes
 	setsid       string // the same child in its own session
 	nosdk        string // not built with the SDK: never answers, ignores SIGTERM
@@ -54,10 +55,11 @@ func buildTestBinaries(dir string) error {
 	pluginBin.mie = filepath.Join(dir, "mie")
 	pluginBin.test = filepath.Join(dir, "testplugin")
 	pluginBin.oldproto = filepath.Join(dir, "oldproto")
+	pluginBin.nosets = filepath.Join(dir, "nosets")
 	pluginBin.holdpipes = filepath.Join(dir, "holdpipes")
 	pluginBin.setsid = filepath.Join(dir, "setsid")
 	pluginBin.nosdk = filepath.Join(dir, "nosdk")
-	for _, link := range []string{pluginBin.oldproto, pluginBin.holdpipes, pluginBin.setsid} {
+	for _, link := range []string{pluginBin.oldproto, pluginBin.nosets, pluginBin.holdpipes, pluginBin.setsid} {
 		if err := os.Symlink(pluginBin.test, link); err != nil {
 			return err
 		}

@@ -4,6 +4,7 @@ import (
 	"errors"
 	"fmt"
 	"math"
+	"slices"
 	"sync"
 	"sync/atomic"
 
@@ -43,9 +44,11 @@ type Problem struct {
 	// Batch, when not nil, evaluates the residuals at many points in one
 	// call: those of thetas[i] in dsts[i], and in errs[i] the error
 	// Residuals would return there; the returned error stops the
-	// minimisation. The engine then takes the 2P evaluations of a
-	// central-difference Jacobian in one call (for a potential in another
-	// process, one round trip).
+	// minimisation. The engine then evaluates each trial point together
+	// with the 2P sides of its central differences in one call, so that
+	// the Jacobian of an accepted trial comes with it (for a potential in
+	// another process, one round trip per trial point and none for the
+	// Jacobian).
 	Batch func(thetas, dsts [][]float64, errs []error) error
 }
 
@@ -194,7 +197,57 @@ func Minimize(p Problem, start []float64, s LMSettings) (LMResult, error) {
 		}
 		return finiteResiduals(dst)
 	}
-	if err := eval(res.Theta, r); err != nil {
+	var batch func(thetas, dsts [][]float64, errs []error) error
+	if p.Batch != nil {
+		batch = func(thetas, dsts [][]float64, errs []error) error {
+			evals.Add(int64(len(thetas)))
+			if err := p.Batch(thetas, dsts, errs); err != nil {
+				return err
+			}
+			for i, d := range dsts {
+				if errs[i] == nil {
+					errs[i] = finiteResiduals(d)
+				}
+			}
+			return nil
+		}
+	}
+	// With a batched problem and no analytic Jacobian, each trial point is
+	// evaluated together with the 2P sides of its central differences, in
+	// one call: the Jacobian of an accepted trial is then ready (pending),
+	// and an iteration costs one call instead of two.
+	var pending *mat.Dense
+	var pendingTheta []float64
+	trial := func(theta, dst []float64) error {
+		if batch == nil || p.Jacobian != nil {
+			return eval(theta, dst)
+		}
+		sides, hs := centralSides(theta, s.Step)
+		thetas := append([][]float64{theta}, sides...)
+		dsts := make([][]float64, len(thetas))
+		for i := range dsts {
+			dsts[i] = make([]float64, n)
+		}
+		errs := make([]error, len(thetas))
+		if err := batch(thetas, dsts, errs); err != nil {
+			return err
+		}
+		if errs[0] != nil {
+			return errs[0]
+		}
+		copy(dst, dsts[0])
+		pendingTheta = nil
+		pj := mat.NewDense(n, np, nil)
+		if err := centralCombine(pj, theta, dsts[0], dsts[1:], errs[1:], hs); err != nil {
+			if !errors.Is(err, ErrInfeasible) {
+				return err
+			}
+			return nil // the Jacobian, if asked for, fails the same way
+		}
+		pending, pendingTheta = pj, append([]float64(nil), theta...)
+		return nil
+	}
+	if err := trial(res.Theta, r); err != nil {
 		return LMResult{}, fmt.Errorf("at the start: %w", err)
 	}
 	cost := floats.Dot(r, r)
@@ -212,19 +265,12 @@ func Minimize(p Problem, start []float64, s LMSettings) (LMResult, error) {
 		if p.Jacobian != nil {
 			return p.Jacobian(theta, jac.RawMatrix().Data)
 		}
-		if p.Batch != nil {
-			return centralJacobian(func(thetas, dsts [][]float64, errs []error) error {
-				evals.Add(int64(len(thetas)))
-				if err := p.Batch(thetas, dsts, errs); err != nil {
-					return err
-				}
-				for i, d := range dsts {
-					if errs[i] == nil {
-						errs[i] = finiteResiduals(d)
-					}
-				}
-				return nil
-			}, theta, r, s.Step, jac)
+		if pendingTheta != nil && slices.Equal(pendingTheta, theta) {
+			jac.Copy(pending)
+			return nil
+		}
+		if batch != nil {
+			return centralJacobian(batch, theta, r, s.Step, jac)
 		}
 		return centralJacobian(eachPoint(eval, p.Concurrent), theta, r, s.Step, jac)
 	}
@@ -341,7 +387,7 @@ func Minimize(p Problem, start []float64, s LMSettings) (LMResult, error) {
 				}
 				tt[j] = res.Theta[j] + sum/d[j]
 			}
-			if err := eval(tt, rt); err != nil {
+			if err := trial(tt, rt); err != nil {
 				if errors.Is(err, ErrInfeasible) {
 					return finish(Boundary)
 				}
@@ -388,7 +434,7 @@ func Minimize(p Problem, start []float64, s LMSettings) (LMResult, error) {
 				}
 				return finish(SmallStep)
 			}
-			err := eval(tt, rt)
+			err := trial(tt, rt)
 			if err != nil && !errors.Is(err, ErrInfeasible) {
 				return LMResult{}, err
 			}
@@ -508,11 +554,26 @@ func eachPoint(eval func(theta, dst []float64) error, concurrent bool) func(thet
 // domain) the one-sided difference with r0 = r(θ) is taken instead. The 2P
 // evaluations are one call of batch.
 func centralJacobian(batch func(thetas, dsts [][]float64, errs []error) error, theta, r0 []float64, step float64, jac *mat.Dense) error {
-	n, np := jac.Dims()
+	n, _ := jac.Dims()
+	thetas, hs := centralSides(theta, step)
+	dsts := make([][]float64, len(thetas))
+	for k := range dsts {
+		dsts[k] = make([]float64, n)
+	}
+	errs := make([]error, len(thetas))
+	if err := batch(thetas, dsts, errs); err != nil {
+		return err
+	}
+	return centralCombine(jac, theta, r0, dsts, errs, hs)
+}
+
+// centralSides returns the 2P points θ ± hⱼeⱼ of the central differences
+// at theta (θ + h₀e₀, θ − h₀e₀, θ + h₁e₁, …) and the steps represented,
+// signed.
+func centralSides(theta []float64, step float64) ([][]float64, []float64) {
+	np := len(theta)
 	thetas := make([][]float64, 2*np)
-	dsts := make([][]float64, 2*np)
-	errs := make([]error, 2*np)
-	hs := make([]float64, 2*np) // the steps represented, signed
+	hs := make([]float64, 2*np)
 	for k := range thetas {
 		j, sign := k/2, 1.0
 		if k%2 == 1 {
@@ -524,11 +585,15 @@ func centralJacobian(batch func(thetas, dsts [][]float64, errs []error) error, t
 		}
 		t := append([]float64(nil), theta...)
 		t[j] = theta[j] + sign*h
-		thetas[k], dsts[k], hs[k] = t, make([]float64, n), t[j]-theta[j]
+		thetas[k], hs[k] = t, t[j]-theta[j]
 	}
-	if err := batch(thetas, dsts, errs); err != nil {
-		return err
-	}
+	return thetas, hs
+}
+
+// centralCombine fills jac from the residuals dsts at the sides of
+// centralSides (errs their errors, r0 the residuals at theta).
+func centralCombine(jac *mat.Dense, theta, r0 []float64, dsts [][]float64, errs []error, hs []float64) error {
+	n, np := jac.Dims()
 	for j := 0; j < np; j++ {
 		var ok [2]bool
 		for side := range ok {

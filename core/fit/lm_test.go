@@ -142,6 +142,42 @@ func TestStRD(t *testing.T) {
 	}
 }
 
+// TestStRDBatch runs the NIST StRD problems through Problem.Batch (each
+// trial point evaluated with the sides of its central differences, in one
+// call) and checks that the minimisation is the very one of the
+// central-difference path, bit for bit, with one batch call per trial
+// point and none for the Jacobians, and that it meets the certified
+// values as TestStRD does.
+func TestStRDBatch(t *testing.T) {
+	for _, c := range strdCases {
+		x, y := readXY(t, c.file)
+		for start, b0 := range c.starts {
+			t.Run(c.name+"/"+start, func(t *testing.T) {
+				want, err := Minimize(c.problem(x, y, false), b0, LMSettings{})
+				require.NoError(t, err)
+				p := c.problem(x, y, false)
+				calls := 0
+				p.Batch = func(thetas, dsts [][]float64, errs []error) error {
+					calls++
+					for k := range thetas {
+						errs[k] = p.Residuals(thetas[k], dsts[k])
+					}
+					return nil
+				}
+				got, err := Minimize(p, b0, LMSettings{})
+				require.NoError(t, err)
+				assert.Equal(t, want.Theta, got.Theta)
+				assert.Equal(t, want.RSS, got.RSS)
+				assert.Equal(t, want.Iterations, got.Iterations)
+				assert.Equal(t, want.Reason, got.Reason)
+				assert.Equal(t, want.Jacobian.RawMatrix().Data, got.Jacobian.RawMatrix().Data)
+				assert.InDelta(t, 1, got.RSS/c.rss, 1e-9)
+				assert.LessOrEqual(t, calls, got.Evaluations/(2*len(b0)+1)+1, "one call per trial point (and at most one for a Jacobian not pending)")
+			})
+		}
+	}
+}
+
 // TestLinear checks the engine on a linear problem, the Lennard-Jones
 // coefficients A = 4εσ¹², B = 4εσ⁶ of V = A/r¹² − B/r⁶ (common practice):
 // the result matches the normal-equation solution (XᵀX)⁻¹Xᵀy, solved by

@@ -1336,9 +1336,15 @@ type EvaluateSetsRequest struct {
 	// The S parameter sets, concatenated: set s is
 	// params[s·P … (s+1)·P), P = the number of ModelInfo.params, in their
 	// order and default units.
-	Params        []float64 `protobuf:"fixed64,3,rep,packed,name=params,proto3" json:"params,omitempty"`
-	Sets          int32     `protobuf:"varint,4,opt,name=sets,proto3" json:"sets,omitempty"`   // S ≥ 1
-	R             []float64 `protobuf:"fixed64,5,rep,packed,name=r,proto3" json:"r,omitempty"` // separations, Å
+	Params []float64 `protobuf:"fixed64,3,rep,packed,name=params,proto3" json:"params,omitempty"`
+	Sets   int32     `protobuf:"varint,4,opt,name=sets,proto3" json:"sets,omitempty"`   // S ≥ 1
+	R      []float64 `protobuf:"fixed64,5,rep,packed,name=r,proto3" json:"r,omitempty"` // separations, Å
+	// param_gradient asks, instead of the coefficients, for the derivatives
+	// of V with respect to the parameters, ∂V(r[i])/∂pⱼ of set s at
+	// (s·len(r) + i)·P + j in EvaluateSetsResponse.values (eV per default
+	// unit of pⱼ; order must be 0). A set whose potential has no analytic
+	// parameter derivatives fails with ERROR_KIND_UNSUPPORTED.
+	ParamGradient bool `protobuf:"varint,6,opt,name=param_gradient,json=paramGradient,proto3" json:"param_gradient,omitempty"`
 	unknownFields protoimpl.UnknownFields
 	sizeCache     protoimpl.SizeCache
 }
@@ -1406,6 +1412,13 @@ func (x *EvaluateSetsRequest) GetR() []float64 {
 		return x.R
 	}
 	return nil
+}
+
+func (x *EvaluateSetsRequest) GetParamGradient() bool {
+	if x != nil {
+		return x.ParamGradient
+	}
+	return false
 }
 
 // SetFailure is why one parameter set could not be built or evaluated.
@@ -1614,13 +1627,14 @@ const file_pairwell_proto_rawDesc = "" +
 	"\rMatchResponse\x125\n" +
 	"\afailure\x18\x01 \x01(\v2\x1b.pairwell.plugin.v1.FailureR\afailure\x12\x16\n" +
 	"\x06params\x18\x02 \x03(\x01R\x06params\x12\x14\n" +
-	"\x05notes\x18\x03 \x03(\tR\x05notes\"{\n" +
+	"\x05notes\x18\x03 \x03(\tR\x05notes\"\xa2\x01\n" +
 	"\x13EvaluateSetsRequest\x12\x14\n" +
 	"\x05model\x18\x01 \x01(\tR\x05model\x12\x14\n" +
 	"\x05order\x18\x02 \x01(\x05R\x05order\x12\x16\n" +
 	"\x06params\x18\x03 \x03(\x01R\x06params\x12\x12\n" +
 	"\x04sets\x18\x04 \x01(\x05R\x04sets\x12\f\n" +
-	"\x01r\x18\x05 \x03(\x01R\x01r\"\x9c\x01\n" +
+	"\x01r\x18\x05 \x03(\x01R\x01r\x12%\n" +
+	"\x0eparam_gradient\x18\x06 \x01(\bR\rparamGradient\"\x9c\x01\n" +
 	"\n" +
 	"SetFailure\x12\x10\n" +
 	"\x03set\x18\x01 \x01(\x03R\x03set\x125\n" +

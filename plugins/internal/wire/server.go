@@ -236,16 +236,23 @@ func (s *Server) evaluateSets(req *pb.EvaluateSetsRequest) (resp *pb.EvaluateSet
 	if sets < 1 || sets > maxFastValues || len(r) > maxFastValues || n < 0 || n > maxFastValues {
 		return &pb.EvaluateSetsResponse{Failure: FailureFromError(fmt.Errorf("%w: %d sets, order %d, %d separations", core.ErrLength, sets, n, len(r)))}
 	}
-	if sets*len(r)*(n+1) > maxFastValues {
-		return &pb.EvaluateSetsResponse{Failure: FailureFromError(fmt.Errorf("%w: %d values in one call, the limit is %d", core.ErrLength, sets*len(r)*(n+1), maxFastValues))}
+	block := len(r) * (n + 1)
+	if req.GetParamGradient() {
+		block = len(r) * len(m.Info().Params)
 	}
-	values := make([]float64, sets*len(r)*(n+1))
+	if sets*block > maxFastValues {
+		return &pb.EvaluateSetsResponse{Failure: FailureFromError(fmt.Errorf("%w: %d values in one call, the limit is %d", core.ErrLength, sets*block, maxFastValues))}
+	}
+	values := make([]float64, sets*block)
 	errs := make([]error, sets)
-	if err := core.EvaluateSets(m, n, req.GetParams(), r, values, errs); err != nil {
+	if req.GetParamGradient() {
+		if err := paramGradients(m, n, req.GetParams(), r, values, errs); err != nil {
+			return &pb.EvaluateSetsResponse{Failure: FailureFromError(err)}
+		}
+	} else if err := core.EvaluateSets(m, n, req.GetParams(), r, values, errs); err != nil {
 		return &pb.EvaluateSetsResponse{Failure: FailureFromError(err)}
 	}
 	resp = &pb.EvaluateSetsResponse{Values: values}
-	block := len(r) * (n + 1)
 	for i, err := range errs {
 		if err != nil {
 			clear(values[i*block : (i+1)*block])
@@ -253,6 +260,26 @@ func (s *Server) evaluateSets(req *pb.EvaluateSetsRequest) (resp *pb.EvaluateSet
 		}
 	}
 	return resp
+}
+
+// paramGradients stores ∂V(r[i])/∂pⱼ of each parameter set (New, then
+// core.ParamDerivatives) in dst, set after set, and each set's error in
+// errs; the order n must be 0.
+func paramGradients(m core.Model, n int, params, r, dst []float64, errs []error) error {
+	info := m.Info()
+	np := len(info.Params)
+	if n != 0 || len(params) != len(errs)*np || len(dst) != len(errs)*len(r)*np {
+		return fmt.Errorf("%s: %w: parameter derivatives take order 0, %d sets of %d parameters, %d values", info.Key, core.ErrLength, len(errs), np, len(errs)*len(r)*np)
+	}
+	block := len(r) * np
+	for s := range errs {
+		pot, err := m.New(params[s*np : (s+1)*np])
+		if err == nil {
+			err = core.ParamDerivatives(pot, r, dst[s*block:(s+1)*block])
+		}
+		errs[s] = err
+	}
+	return nil
 }
 
 // Close forgets a handle.
