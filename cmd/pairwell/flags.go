@@ -108,6 +108,12 @@ func parseAccuracy(s string) (float64, error) {
 	return ev / units.WavenumberEV, nil
 }
 
+// defaultJMax is the default of --j-max (levels).
+const defaultJMax = 10
+
+// asPercent writes a fraction as a percentage, e.g. 0.01 as "1 %".
+func asPercent(f float64) string { return strconv.FormatFloat(100*f, 'g', -1, 64) + " %" }
+
 // defaultMethod is the integrator of --method where the flag has a default
 // (motion, plot motion).
 const defaultMethod = motion.DormandPrince

@@ -5,6 +5,7 @@ import (
 	"fmt"
 	"io"
 	"path/filepath"
+	"regexp"
 	"strconv"
 	"strings"
 	"testing"
@@ -127,4 +128,35 @@ func TestDefaultsSaidOnce(t *testing.T) {
 		assert.Contains(t, help, "default "+strconv.Itoa(n)+" steps per harmonic period")
 	}
 	assert.Contains(t, help, fmt.Sprintf("0: heun %d, verlet %d, rk4 %d", motion.DefaultHeunSteps, motion.DefaultVerletSteps, motion.DefaultRK4Steps))
+}
+
+// TestHelpDefaultsMatchFlags: wherever a command's help text says
+// "--flag … default X", X is the flag's default (a percentage read as a
+// fraction; "every" stands for -1, "every bound level").
+func TestHelpDefaultsMatchFlags(t *testing.T) {
+	re := regexp.MustCompile(`--([a-z][a-z-]*)[^.\n]{0,30}?default:? ([0-9][0-9.e+-]*)( ?%)?`)
+	checked := 0
+	var walk func(c *cobra.Command)
+	walk = func(c *cobra.Command) {
+		for _, m := range re.FindAllStringSubmatch(c.Long, -1) {
+			f := c.Flags().Lookup(m[1])
+			if f == nil || f.DefValue == "" {
+				continue // a zero value that means a computed default
+			}
+			text, err := strconv.ParseFloat(strings.TrimRight(m[2], "."), 64)
+			require.NoError(t, err, "%s: %q", c.CommandPath(), m[0])
+			if m[3] != "" {
+				text /= 100
+			}
+			def, err := strconv.ParseFloat(f.DefValue, 64)
+			require.NoError(t, err, "%s --%s", c.CommandPath(), m[1])
+			assert.InEpsilon(t, def, text, 1e-12, "%s: help says %q, the flag's default is %s", c.CommandPath(), m[0], f.DefValue)
+			checked++
+		}
+		for _, s := range c.Commands() {
+			walk(s)
+		}
+	}
+	walk(newRootCmd(newEnv(io.Discard, io.Discard)))
+	assert.GreaterOrEqual(t, checked, 5)
 }

@@ -27,7 +27,7 @@ func newLevelsCmd(e *env) *cobra.Command {
   −ħ²/(2μ) χ″ + [V(r) + ħ²J(J+1)/(2μr²)] χ = E χ,
 
 for the bound levels E(v, J), v = 0…V (--v-max; default every bound level) and
-J = 0…J (--j-max; default 10), each converged to the absolute accuracy E
+J = 0…J (--j-max; default ` + strconv.Itoa(defaultJMax) + `), each converged to the absolute accuracy E
 (--accuracy, default ` + fmt.Sprint(levels.DefaultTolerance) + ` cm⁻¹; a bare number is in cm⁻¹, units such as 1e-9eV
 are accepted; the old name --tolerance still works, with a warning). The method
 is a Colbert–Miller discrete variable representation on a grid chosen from the
@@ -110,7 +110,7 @@ are in cm⁻¹ (eV where the key says so), Å and u.`,
 	e.energyUnitFlag(cmd, tableEnergies)
 	cmd.Flags().StringVar(&setPath, "set", "", "model-set file (TOML) naming the forms, e.g. one written by fit -o")
 	cmd.Flags().IntVar(&vmax, "v-max", -1, "highest vibrational level v (default: every bound level; required for the harmonic form)")
-	cmd.Flags().IntVar(&jmax, "j-max", 10, "highest rotational level J")
+	cmd.Flags().IntVar(&jmax, "j-max", defaultJMax, "highest rotational level J")
 	accuracyVar(cmd.Flags(), &accuracy)
 	return cmd
 }

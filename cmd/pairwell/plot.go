@@ -16,6 +16,7 @@ import (
 	"github.com/pairwell/pairwell/core/motion"
 	"github.com/pairwell/pairwell/core/report"
 	"github.com/pairwell/pairwell/core/units"
+	"github.com/pairwell/pairwell/core/validity"
 )
 
 // plotReport is the output of a plot command with --format json. Keys are
@@ -273,9 +274,9 @@ about the minimum,
 
   V_n(r) = Σ c_k (r − re)ᵏ over k = 0 … n,   c_k = V⁽ᵏ⁾(re)/k!,
 
-for n = 0 … N (--truncation, default 4; orders 0 and 1 are one curve, c₁ = V′(re) = 0).
+for n = 0 … N (--truncation, default ` + strconv.Itoa(figure.DefaultTaylorOrder) + `; orders 0 and 1 are one curve, c₁ = V′(re) = 0).
 A shaded band marks where the harmonic truncation V₂ satisfies the potential
-criterion |V₂ − V| ≤ tol·(V − V(re)) (--tolerance, default 1 %), and dotted
+criterion |V₂ − V| ≤ tol·(V − V(re)) (--tolerance, default ` + asPercent(validity.DefaultTolerance) + `), and dotted
 lines the turning points up to which its period is within tol of the exact one
 (see "pairwell validity"). A hatched region is outside the form's domain (below
 Buckingham's inner barrier V collapses to −∞).
