@@ -18,7 +18,8 @@ import (
 //
 // (E = Depth, or K·re² without a depth; the depth condition only for a
 // form with a dissociation limit and a target depth; the curvature only
-// for a target K) by least squares in the parameters (fit.Minimize;
+// for a target K; with fewer parameters than conditions the curvature,
+// then the depth, is given up and the note says by how much it misses) by least squares in the parameters (fit.Minimize;
 // logarithms for constrained ones), from dimensional starts: a parameter
 // of dimension energyᵉ·lengthˡ starts at Depthᵉ·reˡ (K·re² standing in
 // for an energy without a depth), a dimensionless one at 1, then at the
@@ -48,14 +49,25 @@ func (f *Form) Match(t core.Target) ([]float64, []string, error) {
 	if !(escale > 0) {
 		return nil, nil, fmt.Errorf("%s: %w: matching needs a depth or a force constant besides re", key, core.ErrParam)
 	}
+	np := len(f.info.Params)
+	useK := t.K > 0
+	// With fewer parameters than conditions, k and then the depth are
+	// given up (and noted), as the built-in Lennard-Jones match does.
 	conds := 1
 	if depth {
 		conds++
 	}
-	if t.K > 0 {
+	if useK {
 		conds++
 	}
-	np := len(f.info.Params)
+	droppedK := conds > np && useK
+	if droppedK {
+		useK, conds = false, conds-1
+	}
+	droppedDepth := conds > np && depth
+	if droppedDepth {
+		depth, conds = false, conds-1
+	}
 	nres := max(conds, np) // rows beyond the conditions stay zero
 	logp := make([]bool, np)
 	for j, q := range f.info.Params {
@@ -71,8 +83,6 @@ func (f *Form) Match(t core.Target) ([]float64, []string, error) {
 		}
 		return out
 	}
-	var best []float64
-	bestCost := math.Inf(1)
 	w := f.f.prog.NewWorkspace(jet.Layout{Order: 2, Points: 1})
 	var lastErr error
 	for _, st := range matchStarts {
@@ -108,7 +118,7 @@ func (f *Form) Match(t core.Target) ([]float64, []string, error) {
 				dst[k] = (lim-c[0])/t.Depth - 1
 				k++
 			}
-			if t.K > 0 {
+			if useK {
 				dst[k] = 2*c[2]/t.K - 1
 				k++
 			}
@@ -140,15 +150,20 @@ func (f *Form) Match(t core.Target) ([]float64, []string, error) {
 			lastErr = fmt.Errorf("the solution's minimum is not at re (%v)", err)
 			continue
 		}
-		if worst <= matchTol {
-			return p, notes, nil
+		if worst > matchTol {
+			lastErr = fmt.Errorf("the well conditions are met only to %.2g", worst)
+			continue
 		}
-		if conds > np && worst < bestCost {
-			best, bestCost = p, worst
+		if droppedK || droppedDepth {
+			c, lim, err := f.wellAt(w, p, t.Re, !f.noLimit)
+			if err == nil && droppedDepth && t.Depth > 0 {
+				notes = append(notes, fmt.Sprintf("depth not honoured: with %d parameters the form's depth at this re is %.6g eV (%+.3g%% from the target %g eV)", np, lim-c[0], 100*((lim-c[0])/t.Depth-1), t.Depth))
+			}
+			if err == nil && droppedK {
+				notes = append(notes, fmt.Sprintf("k not honoured: with %d parameters the form's V″(re) is %.6g eV/Å² (%+.3g%% from the target %g eV/Å²)", np, 2*c[2], 100*(2*c[2]/t.K-1), t.K))
+			}
 		}
-	}
-	if best != nil {
-		return best, append(notes, fmt.Sprintf("the form cannot honour re, depth and k at once with %d parameters: the closest set by least squares (largest relative mismatch %.2g)", np, bestCost)), nil
+		return p, notes, nil
 	}
 	return nil, nil, fmt.Errorf("%s: %w: no parameter set found whose well has re = %g Å, depth = %g eV, k = %g eV/Å² (last attempt: %v)", key, core.ErrParam, t.Re, t.Depth, t.K, lastErr)
 }

@@ -52,6 +52,20 @@ func TestMatch(t *testing.T) {
 			assert.InDelta(t, 1, 2*w.Taylor[2]/tg.K, 1e-7, "%s k", f.Info().Key)
 		}
 	}
+	// Kratzer (A. Kratzer, Z. Phys. 3, 289 (1920)), V = De((re/r)² − 2re/r):
+	// two parameters for three conditions, so k is given up: the match is
+	// De = depth, re = re exactly, and the note gives its k = 2De/re².
+	kratzer, err := formula.NewForm(formula.Decl{Key: "kratzer", Formula: "De*((re/r)^2 - 2*re/r)", Limit: "0",
+		Params: []formula.ParamDecl{{Name: "De", Unit: "eV", Constraint: "> 0"}, {Name: "re", Unit: "A", Constraint: "> 0"}}})
+	require.NoError(t, err)
+	p, notes, err := kratzer.Match(core.Target{Re: 1.2, Depth: 4, K: 30})
+	require.NoError(t, err)
+	assert.InDelta(t, 1, p[0]/4, 1e-9)
+	assert.InDelta(t, 1, p[1]/1.2, 1e-9)
+	require.Len(t, notes, 1)
+	assert.Contains(t, notes[0], "k not honoured")
+	assert.Contains(t, notes[0], "5.55556 eV/Å²") // 2·4/1.2²
+
 	_, _, err = morse.Match(core.Target{Depth: 1, K: 1})
 	assert.ErrorIs(t, err, core.ErrParam, "no re")
 	_, _, err = morse.Match(core.Target{Re: math.NaN(), Depth: 1, K: 1})
