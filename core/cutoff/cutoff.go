@@ -265,9 +265,11 @@ type Potential struct {
 	re       float64 // minimum of the bare form, Å; 0 when it has none
 	dom      core.Domain
 	maxOrder int
-	// The switch: S(x) = Σ poly[m] xᵐ in x = (r − r_on)·h, h = 1/(r_c − r_on).
+	// The switch: S(x) = Σ poly[m] xᵐ in x = (r − r_on)·h, h = 1/(r_c − r_on);
+	// mult[j] the constant factor of s_j (see switchJet).
 	poly []float64
 	h    float64
+	mult [maxDegree + 1]float64
 	bufs sync.Pool // *buffers for calls with points beyond r_c
 }
 
@@ -330,7 +332,13 @@ func New(p core.Potential, s Settings) (*Potential, error) {
 		c.poly = quinticSwitch
 	}
 	if c.poly != nil {
-		c.h = 1 / (s.Cutoff - s.SwitchOn)
+		h := 1 / (s.Cutoff - s.SwitchOn)
+		c.h = h
+		if s.Scheme == Switch1 {
+			c.mult = [maxDegree + 1]float64{1, -6 * h, h * h, 2 * h * h * h}
+		} else {
+			c.mult = [maxDegree + 1]float64{1, -30 * h, -30 * h * h, h * h * h, h * h * h * h, -6 * h * h * h * h * h}
+		}
 	}
 	c.dom.Limit = 0
 	if dom.Barrier {
@@ -421,20 +429,14 @@ func (p *Potential) Taylor(n int, r, dst []float64) error {
 	if err := core.CheckTaylor(n, p.maxOrder, len(r), len(dst)); err != nil {
 		return err
 	}
-	rc := p.s.Cutoff
-	all := true
-	for _, x := range r {
-		if !(x < rc) {
-			all = false
-			break
-		}
-	}
-	if all {
-		if err := p.inner.Taylor(n, r, dst); err != nil {
+	// One call of the bare form for every point; the rows at and beyond
+	// r_c are zeroed by apply. A point there that the bare form refuses
+	// (beyond its domain, NaN) makes the call fail: then the points below
+	// r_c are evaluated alone, and the others checked, by gathered.
+	if err := p.inner.Taylor(n, r, dst); err != nil {
+		if err := p.gathered(n, r, dst); err != nil {
 			return err
 		}
-	} else if err := p.gathered(n, r, dst); err != nil {
-		return err
 	}
 	p.apply(n, r, dst)
 	return nil
@@ -480,32 +482,95 @@ func (p *Potential) gathered(n int, r, dst []float64) error {
 	return nil
 }
 
-// apply turns the bare rows of the points below r_c into the cut ones.
+// apply turns the bare rows of the points below r_c into the cut ones and
+// zeroes the others. The loops are written out per scheme: they run over
+// every point of every call.
 func (p *Potential) apply(n int, r, dst []float64) {
 	w := n + 1
-	rc := p.s.Cutoff
+	rc, vc, dvc := p.s.Cutoff, p.vc, p.dvc
 	switch p.s.Scheme {
+	case Truncate:
+		for i, x := range r {
+			if !(x < rc) {
+				clear(dst[i*w : i*w+w])
+			}
+		}
 	case Shift:
 		for i, x := range r {
 			if x < rc {
-				dst[i*w] -= p.vc
+				dst[i*w] -= vc
+			} else {
+				clear(dst[i*w : i*w+w])
 			}
 		}
 	case ForceShift:
 		for i, x := range r {
-			if x < rc {
-				dst[i*w] -= p.vc + (x-rc)*p.dvc
-				if n >= 1 {
-					dst[i*w+1] -= p.dvc
-				}
+			switch {
+			case !(x < rc):
+				clear(dst[i*w : i*w+w])
+			case n == 0:
+				dst[i] -= vc + (x-rc)*dvc
+			default:
+				row := dst[i*w : i*w+2 : i*w+2]
+				row[0] -= vc + (x-rc)*dvc
+				row[1] -= dvc
 			}
 		}
-	case Switch1, Switch2:
-		on := p.s.SwitchOn
-		for i, x := range r {
-			if x > on && x < rc {
-				p.switchRow(n, x, dst[i*w:(i+1)*w])
-			}
+	case Switch1:
+		p.switchAll(n, r, dst, false)
+	case Switch2:
+		p.switchAll(n, r, dst, true)
+	}
+}
+
+// switchAll replaces the row of every point of r in (r_on, r_c) by its
+// product with the jet of the switch, and zeroes those at and beyond r_c: the work of switchJet and
+// switchProduct written out in one loop, with the coefficients in
+// registers (this loop is what a switch costs). The expressions of s_0,
+// s_1, s_2 are those of switchLow3.
+func (p *Potential) switchAll(n int, r, dst []float64, quintic bool) {
+	on, rc, h := p.s.SwitchOn, p.s.Cutoff, p.h
+	m1, m2, m3, m4, m5 := p.mult[1], p.mult[2], p.mult[3], p.mult[4], p.mult[5]
+	w := n + 1
+	for i, x := range r {
+		if !(x > on) {
+			continue
+		}
+		if !(x < rc) {
+			clear(dst[i*w : i*w+w])
+			continue
+		}
+		t := (x - on) * h
+		u := 1 - t
+		t2 := t * t
+		var s0, s1, s2, s3, s4, s5 float64
+		if quintic {
+			s0, s1, s2 = 1-t2*t*((10-15*t)+6*t2), m1*(t2*(u*u)), m2*((t*u)*(1-2*t))
+			s3, s4, s5 = m3*(-10+60*t*(1-t)), m4*(15-30*t), m5
+		} else {
+			s0, s1, s2 = 1-t2*(3-2*t), m1*(t*u), m2*(6*t-3)
+			s3 = m3
+		}
+		v := dst[i*w : i*w+w : i*w+w]
+		for k := n; k >= 5; k-- {
+			q := v[k-5 : k+1 : k+1]
+			v[k] = (s0*q[5] + s1*q[4]) + (s2*q[3] + s3*q[2]) + (s4*q[1] + s5*q[0])
+		}
+		switch min(n, 4) {
+		case 4:
+			v[4] = (s0*v[4] + s1*v[3]) + (s2*v[2] + s3*v[1]) + s4*v[0]
+			fallthrough
+		case 3:
+			v[3] = (s0*v[3] + s1*v[2]) + (s2*v[1] + s3*v[0])
+			fallthrough
+		case 2:
+			v[2] = (s0*v[2] + s1*v[1]) + s2*v[0]
+			fallthrough
+		case 1:
+			v[1] = s0*v[1] + s1*v[0]
+			fallthrough
+		default:
+			v[0] = s0 * v[0]
 		}
 	}
 }
@@ -541,35 +606,74 @@ func (p *Potential) Piece(n int, r float64, dst []float64) error {
 const maxDegree = 5
 
 // switchRow replaces the jet v (c_0…c_n of V at r) by the jet of S·V, the
-// Cauchy product c_k = Σ_{j=0}^{min(k,d)} s_j v_{k−j} (jet.Layout.Mul
-// truncated at the degree d of S, whose higher coefficients vanish). The
-// coefficients of S at r are s_j = hʲ·P_j(x), P_j(x) = Σ_m C(m, j) a_m
-// x^{m−j} the normalized derivatives of the polynomial Σ a_m xᵐ, by
-// repeated Horner division (Taylor shift). The product is formed in place
-// from the top order down: c_k reads v_0…v_k only, which are still bare.
+// Cauchy product c_k = Σ_{j=0}^{min(k,5)} s_j v_{k−j} (jet.Layout.Mul
+// truncated at the degree of S, whose higher coefficients vanish; the
+// cubic has s_4 = s_5 = 0). The coefficients s_j = hʲS⁽ʲ⁾(x)/j! of S at r
+// are written out (see switchJet). The product is formed in place from the
+// top order down: c_k reads v_0…v_k only, which are still bare. Written
+// out term by term: it runs for every point of the switching region.
 func (p *Potential) switchRow(n int, r float64, v []float64) {
-	x := (r - p.s.SwitchOn) * p.h
-	d := len(p.poly) - 1
 	var s [maxDegree + 1]float64
-	copy(s[:], p.poly)
-	for j := 0; j < d; j++ {
-		for m := d - 1; m >= j; m-- {
-			s[m] += x * s[m+1]
-		}
+	p.switchJet(r, &s)
+	switchProduct(n, &s, v)
+}
+
+// switchProduct replaces the jet v of order n by its product with the jet
+// s of a polynomial of degree ≤ 5, in place from the top order down.
+func switchProduct(n int, s *[maxDegree + 1]float64, v []float64) {
+	s0, s1, s2, s3, s4, s5 := s[0], s[1], s[2], s[3], s[4], s[5]
+	v = v[:n+1]
+	for k := n; k >= 5; k-- {
+		w := v[k-5 : k+1 : k+1]
+		v[k] = (s0*w[5] + s1*w[4]) + (s2*w[3] + s3*w[2]) + (s4*w[1] + s5*w[0])
 	}
-	hj := 1.0
-	for j := 1; j <= d; j++ {
-		hj *= p.h
-		s[j] *= hj
+	switch min(n, 4) {
+	case 4:
+		v[4] = (s0*v[4] + s1*v[3]) + (s2*v[2] + s3*v[1]) + s4*v[0]
+		fallthrough
+	case 3:
+		v[3] = (s0*v[3] + s1*v[2]) + (s2*v[1] + s3*v[0])
+		fallthrough
+	case 2:
+		v[2] = (s0*v[2] + s1*v[1]) + s2*v[0]
+		fallthrough
+	case 1:
+		v[1] = s0*v[1] + s1*v[0]
+		fallthrough
+	default:
+		v[0] = s0 * v[0]
 	}
-	for k := n; k >= 0; k-- {
-		top := min(k, d)
-		sum := s[0] * v[k]
-		for j := 1; j <= top; j++ {
-			sum += s[j] * v[k-j]
-		}
-		v[k] = sum
+}
+
+// switchJet stores the Taylor coefficients s_j = hʲS⁽ʲ⁾(x)/j! of the switch
+// at r (x = (r − r_on)h) in s, zero beyond the degree of S. By hand from S = 1 − (3x² − 2x³): s = (S, −6hx(1 − x),
+// h²(6x − 3), 2h³); from S = 1 − (10x³ − 15x⁴ + 6x⁵): s = (S,
+// −30hx²(1 − x)², −30h²x(1 − x)(1 − 2x), h³(−10 + 60x − 60x²),
+// h⁴(15 − 30x), −6h⁵). TestSwitchAgainstJets checks them against jets of
+// the polynomial.
+func (p *Potential) switchJet(r float64, s *[maxDegree + 1]float64) {
+	t := (r - p.s.SwitchOn) * p.h
+	s[0], s[1], s[2] = p.switchLow3(t)
+	m := &p.mult
+	if p.s.Scheme == Switch1 {
+		s[3] = m[3]
+		return
 	}
+	s[3] = m[3] * (-10 + 60*t*(1-t))
+	s[4] = m[4] * (15 - 30*t)
+	s[5] = m[5]
+}
+
+// switchLow3 returns s_0, s_1, s_2 of the switch at x = t (see switchJet),
+// written for short dependency chains, as in switchAll.
+func (p *Potential) switchLow3(t float64) (s0, s1, s2 float64) {
+	u := 1 - t
+	t2 := t * t
+	m := &p.mult
+	if p.s.Scheme == Switch1 {
+		return 1 - t2*(3-2*t), m[1] * (t * u), m[2] * (6*t - 3)
+	}
+	return 1 - t2*t*((10-15*t)+6*t2), m[1] * (t2 * (u * u)), m[2] * ((t * u) * (1 - 2*t))
 }
 
 // ParamGradient stores ∂V_cut(r[i])/∂pⱼ in dst[i·P+j]: the bare gradient g
