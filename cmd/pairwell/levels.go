@@ -1,6 +1,7 @@
 package main
 
 import (
+	"encoding/json"
 	"fmt"
 	"strconv"
 
@@ -140,10 +141,41 @@ func writeLevels(e *env, r report.Levels) error {
 // namedLevels is one form's record when levels solves several: its name
 // and the levels report, or the error that stopped it.
 type namedLevels struct {
-	Name  string `json:"name"`
-	Model string `json:"model"`
+	Name  string
+	Model string
 	*report.Levels
-	Error report.Text `json:"error"`
+	Error report.Text
+}
+
+// MarshalJSON implements json.Marshaler: "name", the keys of the levels
+// object, "error" (null); for a form that failed, name, model and error.
+func (n namedLevels) MarshalJSON() ([]byte, error) {
+	head, err := json.Marshal(struct {
+		Name  string `json:"name"`
+		Model string `json:"model,omitempty"`
+	}{n.Name, n.Model})
+	if err != nil {
+		return nil, err
+	}
+	tail, err := json.Marshal(struct {
+		Error report.Text `json:"error"`
+	}{n.Error})
+	if err != nil {
+		return nil, err
+	}
+	body := []byte{}
+	if n.Levels != nil {
+		head, _ = json.Marshal(struct {
+			Name string `json:"name"`
+		}{n.Name})
+		if body, err = json.Marshal(n.Levels); err != nil {
+			return nil, err
+		}
+		body = append(body[1:len(body)-1], ',')
+	}
+	out := append(head[:len(head)-1], ',')
+	out = append(out, body...)
+	return append(out, tail[1:]...), nil
 }
 
 // levelsAll solves the levels of several forms (model-set entries with

@@ -48,9 +48,9 @@ func checkLevelsJSON(t *testing.T, out string, bounded bool) map[string]any {
 		assert.NotNil(t, obj["bound_levels"])
 		assert.NotNil(t, rows[0].(map[string]any)["binding_energy_per_cm"])
 	} else {
-		assert.Nil(t, obj["bound_levels"])
-		assert.Nil(t, obj["d0_ev"])
-		assert.Nil(t, rows[0].(map[string]any)["binding_energy_per_cm"])
+		assert.Equal(t, "Infinity", obj["bound_levels"], "unbounded: infinitely many levels")
+		assert.Equal(t, "Infinity", obj["d0_ev"])
+		assert.Equal(t, "Infinity", rows[0].(map[string]any)["binding_energy_per_cm"])
 	}
 	return obj
 }
@@ -105,8 +105,8 @@ func TestLevelsTableAndCSV(t *testing.T) {
 	require.Equal(t, 0, code, errOut)
 	lines := strings.Split(strings.TrimSpace(out), "\n")
 	require.Len(t, lines, 1+6)
-	assert.Equal(t, "model,params,pair,reduced_mass_u,v,j,term_value_per_cm,term_value_ev,binding_energy_per_cm,binding_energy_ev,"+
-		"mean_r_angstrom,rms_displacement_angstrom,error_estimate_per_cm,spacing_per_cm,classical_spacing_per_cm", lines[0])
+	assert.Equal(t, "model,params,pair,reduced_mass_u,v,j,term_value_per_cm,term_value_ev,mean_r_angstrom,rms_displacement_angstrom,"+
+		"error_estimate_per_cm,spacing_per_cm,classical_spacing_per_cm,binding_energy_per_cm,binding_energy_ev", lines[0])
 	assert.True(t, strings.HasPrefix(lines[4], "morse,De=4.6 a=1.87 re=1.27,1H-35Cl,0.9795925394006898,0,1,"), lines[4])
 }
 

@@ -1,6 +1,7 @@
 package report
 
 import (
+	"encoding/json"
 	"errors"
 	"fmt"
 	"math"
@@ -23,8 +24,10 @@ const ConstantsTolerance = 0.02
 // reduced mass (package levels) and what it says: term values, binding
 // energies, the zero-point energy, D0, spectroscopic constants three ways
 // and the validity of the harmonic picture. Values are in cm⁻¹ (with eV
-// where the key says so), Å and u; a value that does not exist (a binding
-// energy of an unbounded form, a fundamental with one level) is null.
+// where the key says so), Å and u; a value that does not exist (a
+// fundamental with one level) is null, one that is unbounded (a binding
+// energy, the number of bound levels or D0 of an unbounded form)
+// "Infinity".
 type Levels struct {
 	Model  string  `json:"model"`
 	Params Params  `json:"params"`
@@ -122,11 +125,42 @@ type HarmonicValidity struct {
 	// range where the spacings hold; nil with HighestV.
 	QuantumEnergy *float64 `json:"quantum_energy_per_cm"`
 	// ClassicalEnergy is the period criterion of validity (order 2, same
-	// tolerance) as an energy above V(re); null when never violated.
+	// tolerance) as an energy above V(re); "Infinity" when never violated.
 	ClassicalEnergy Number `json:"classical_energy_per_cm"`
 	// BelowZeroPoint reports that ClassicalEnergy is below the zero-point
 	// energy.
 	BelowZeroPoint bool `json:"classical_range_below_zero_point"`
+}
+
+// orUnbounded is v, or "Infinity" for nil: a quantity that is nil only
+// because the form is unbounded.
+func orUnbounded[T int | float64](v *T) any {
+	if v == nil {
+		return Unbounded
+	}
+	return *v
+}
+
+// MarshalJSON implements json.Marshaler: the binding energies of a level
+// of an unbounded form are "Infinity".
+func (r LevelRow) MarshalJSON() ([]byte, error) {
+	type plain LevelRow
+	return json.Marshal(struct {
+		plain
+		Binding   any `json:"binding_energy_per_cm"`
+		BindingEV any `json:"binding_energy_ev"`
+	}{plain(r), orUnbounded(r.Binding), orUnbounded(r.BindingEV)})
+}
+
+// MarshalJSON implements json.Marshaler: bound_levels and d0_ev of an
+// unbounded form are "Infinity".
+func (r Levels) MarshalJSON() ([]byte, error) {
+	type plain Levels
+	return json.Marshal(struct {
+		plain
+		BoundLevels any `json:"bound_levels"`
+		D0          any `json:"d0_ev"`
+	}{plain(r), orUnbounded(r.BoundLevels), orUnbounded(r.D0)})
 }
 
 // LevelGrid describes the grid of the levels.

@@ -102,8 +102,8 @@ func TestLevelsHarmonic(t *testing.T) {
 	assert.InEpsilon(t, r.Harmonic.OmegaE, *r.Fundamental, 1e-9)
 	b, err := json.Marshal(r)
 	require.NoError(t, err)
-	assert.Contains(t, string(b), `"bound_levels":null`)
-	assert.Contains(t, string(b), `"binding_energy_per_cm":null`)
+	assert.Contains(t, string(b), `"bound_levels":"Infinity"`)
+	assert.Contains(t, string(b), `"binding_energy_per_cm":"Infinity"`)
 }
 
 // TestLevelsBadInput: v beyond the bound levels and no mass are refused.
