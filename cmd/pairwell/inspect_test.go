@@ -130,6 +130,11 @@ func TestModelsListsBuiltins(t *testing.T) {
 	code, out, _ = runCLI(t, "models")
 	require.Equal(t, 0, code)
 	assert.Contains(t, out, "½k(r−r0)²") // the ½ convention is stated
+	// The library's forms with their origin, formula, parameters and
+	// reference (the README table "The forms library").
+	assert.Regexp(t, `kratzer\s+V = De\*\(\(re/r\)\^2 - 2\*re/r\)\s+De \[eV, > 0\]; re \[Å, > 0\]\s+forms library library/forms.toml:\d+`, out)
+	assert.Contains(t, out, "kratzer — Kratzer. A. Kratzer, Z. Phys. 3, 289 (1920)")
+	assert.Contains(t, out, "tang-toennies — Tang-Toennies. K. T. Tang & J. P. Toennies, J. Chem. Phys. 80, 3726 (1984)")
 }
 
 func TestInspectHandbookRoundTrip(t *testing.T) {

@@ -200,41 +200,64 @@ type Check struct {
 // h/2 ± h/(2√3) (the extrema of its derivative, ∝ x(h−x)(h−2x)).
 var checkFractions = [3]float64{0.5 - 0.5/math.Sqrt(3), 0.5, 0.5 + 0.5/math.Sqrt(3)}
 
-// interpolant predicts V and F between the nodes of a table.
-type interpolant interface {
-	energy(r float64) float64
-	force(r float64) float64
+// interpolant is the interpolant of a table, fitted by gonum over the
+// nodes a…b (all of them, or a block): each piece between two nodes depends
+// only on the values there (and, for the spline, on the node slopes from
+// the global solve), so a fit over a block gives the same polynomials on
+// it, and gonum's segment search runs over the block only.
+type interpolant struct {
+	t     *Table
+	how   Interpolation
+	slope []float64 // the spline's node slopes (cubic)
+	c     interp.PiecewiseCubic
+	v, f  interp.PiecewiseLinear
 }
 
-type cubic struct{ s interp.PiecewiseCubic }
-
-func (c *cubic) energy(r float64) float64 { return c.s.Predict(r) }
-func (c *cubic) force(r float64) float64  { return -c.s.PredictDerivative(r) }
-
-type linear struct{ v, f interp.PiecewiseLinear }
-
-func (l *linear) energy(r float64) float64 { return l.v.Predict(r) }
-func (l *linear) force(r float64) float64  { return l.f.Predict(r) }
-
-// newInterpolant builds the interpolant of t.
-func newInterpolant(t *Table, how Interpolation) (interpolant, error) {
-	if how == Linear {
-		l := &linear{}
-		if err := l.v.Fit(t.R, t.V); err != nil {
+// newInterpolant prepares the interpolant of t (for the spline: its node
+// slopes) and fits it over the whole table.
+func newInterpolant(t *Table, how Interpolation) (*interpolant, error) {
+	in := &interpolant{t: t, how: how}
+	if how == Cubic {
+		m, err := splineSlopes(t.R, t.V, -t.F[0], -t.F[len(t.F)-1])
+		if err != nil {
 			return nil, err
 		}
-		if err := l.f.Fit(t.R, t.F); err != nil {
-			return nil, err
-		}
-		return l, nil
+		in.slope = m
 	}
-	m, err := splineSlopes(t.R, t.V, -t.F[0], -t.F[len(t.F)-1])
-	if err != nil {
-		return nil, err
+	return in, in.fit(0, len(t.R)-1)
+}
+
+// fit fits the interpolant over the nodes a…b (b > a).
+func (in *interpolant) fit(a, b int) error {
+	r, v := in.t.R[a:b+1], in.t.V[a:b+1]
+	if in.how == Cubic {
+		in.c.FitWithDerivatives(r, v, in.slope[a:b+1])
+		return nil
 	}
-	c := &cubic{}
-	c.s.FitWithDerivatives(t.R, t.V, m)
-	return c, nil
+	if err := in.v.Fit(r, v); err != nil {
+		return err
+	}
+	return in.f.Fit(r, in.t.F[a:b+1])
+}
+
+// block returns a copy that shares the table and slopes, for fits over
+// blocks on another goroutine.
+func (in *interpolant) block() *interpolant {
+	return &interpolant{t: in.t, how: in.how, slope: in.slope}
+}
+
+func (in *interpolant) energy(r float64) float64 {
+	if in.how == Cubic {
+		return in.c.Predict(r)
+	}
+	return in.v.Predict(r)
+}
+
+func (in *interpolant) force(r float64) float64 {
+	if in.how == Cubic {
+		return -in.c.PredictDerivative(r)
+	}
+	return in.f.Predict(r)
 }
 
 // splineSlopes returns the node slopes m_i of the complete cubic spline
@@ -299,31 +322,48 @@ func Verify(p core.Potential, t *Table, how Interpolation) (Check, error) {
 	if err := p.Taylor(1, xs, c); err != nil {
 		return Check{}, err
 	}
-	// The comparison runs on every core, in blocks (the interpolant is
-	// read-only); the largest errors of the blocks are then merged in
-	// order, so the result does not depend on the number of cores.
-	workers := max(1, min(runtime.GOMAXPROCS(0), len(xs)/4096))
+	// The comparison runs on every core, each on a range of intervals
+	// fitted in blocks of verifyBlock intervals; the largest errors of the
+	// ranges are then merged in order, so the result does not depend on
+	// the number of cores.
+	const verifyBlock = 16
+	k := len(checkFractions)
+	workers := max(1, min(runtime.GOMAXPROCS(0), nint/4096))
 	parts := make([]Check, workers)
+	errs := make([]error, workers)
 	var wg sync.WaitGroup
 	for w := range workers {
-		lo, hi := w*len(xs)/workers, (w+1)*len(xs)/workers
+		lo, hi := w*nint/workers, (w+1)*nint/workers
 		wg.Add(1)
 		go func() {
 			defer wg.Done()
-			ch := Check{EnergyR: xs[lo], ForceR: xs[lo]}
-			for i := lo; i < hi; i++ {
-				x := xs[i]
-				if e := math.Abs(c[2*i] - in.energy(x)); e > ch.Energy {
-					ch.Energy, ch.EnergyR = e, x
+			b := in.block()
+			ch := Check{EnergyR: xs[k*lo], ForceR: xs[k*lo]}
+			for a := lo; a < hi; a += verifyBlock {
+				end := min(a+verifyBlock, hi)
+				if err := b.fit(a, end); err != nil {
+					errs[w] = err
+					return
 				}
-				if e := math.Abs(-c[2*i+1] - in.force(x)); e > ch.Force {
-					ch.Force, ch.ForceR = e, x
+				for i := k * a; i < k*end; i++ {
+					x := xs[i]
+					if e := math.Abs(c[2*i] - b.energy(x)); e > ch.Energy {
+						ch.Energy, ch.EnergyR = e, x
+					}
+					if e := math.Abs(-c[2*i+1] - b.force(x)); e > ch.Force {
+						ch.Force, ch.ForceR = e, x
+					}
 				}
 			}
 			parts[w] = ch
 		}()
 	}
 	wg.Wait()
+	for _, err := range errs {
+		if err != nil {
+			return Check{}, err
+		}
+	}
 	ch := parts[0]
 	for _, p := range parts[1:] {
 		if p.Energy > ch.Energy {

@@ -275,3 +275,34 @@ func FuzzGrid(f *testing.F) {
 		}
 	})
 }
+
+// TestBlocksMatchWhole: Verify fits the interpolant in blocks of intervals;
+// its pieces are the whole table's to the bit, so the errors it measures
+// are those of the interpolant fitted over the whole table (Result.Predict)
+// at the same points (the midpoint and h/2 ± h/(2√3) of every interval).
+func TestBlocksMatchWhole(t *testing.T) {
+	for _, how := range []tabulate.Interpolation{tabulate.Cubic, tabulate.Linear} {
+		res, err := tabulate.Build(lj(t), tabulate.Grid{From: 3, To: 12, Points: 10001}, tabulate.Settings{Interpolation: how})
+		require.NoError(t, err)
+		var xs []float64
+		g := res.Table.Grid
+		for i := 0; i < g.Points-1; i++ {
+			h := res.Table.R[i+1] - res.Table.R[i]
+			for _, f := range []float64{0.5 - 0.5/math.Sqrt(3), 0.5, 0.5 + 0.5/math.Sqrt(3)} {
+				xs = append(xs, res.Table.R[i]+f*h)
+			}
+		}
+		v, f, err := res.Predict(xs)
+		require.NoError(t, err)
+		c := make([]float64, 2*len(xs))
+		require.NoError(t, lj(t).Taylor(1, xs, c))
+		var ev, ef float64
+		for i := range xs {
+			ev = math.Max(ev, math.Abs(c[2*i]-v[i]))
+			ef = math.Max(ef, math.Abs(-c[2*i+1]-f[i]))
+		}
+		assert.Equal(t, ev, res.Check.Energy, how)
+		assert.Equal(t, ef, res.Check.Force, how)
+		assert.Equal(t, len(xs), res.Check.Points)
+	}
+}
