@@ -142,18 +142,23 @@ func RequirePython(tb testing.TB) (launcher, python string) {
 	return PythonLauncher(), py
 }
 
-// ProcsWithArg returns the running processes one of whose arguments
-// (argv[0] included) is arg, such as the script an interpreter runs.
-// Zombies are left out. On systems without /proc it returns nil.
+// ProcsWithArg returns the running descendants of this process one of
+// whose arguments (argv[0] included) is arg, such as the script an
+// interpreter runs. Only descendants count, so that test binaries of other
+// packages running the same plugin at the same time (go test runs packages
+// in parallel) are not mistaken for leftovers of this one; a plugin this
+// process leaked is still its child, or its child's. Zombies are left out.
+// On systems without /proc it returns nil.
 func ProcsWithArg(arg string) []int {
 	entries, err := os.ReadDir("/proc")
 	if err != nil {
 		return nil
 	}
+	self := os.Getpid()
 	var pids []int
 	for _, e := range entries {
 		pid, err := strconv.Atoi(e.Name())
-		if err != nil || pid == os.Getpid() {
+		if err != nil || pid == self {
 			continue
 		}
 		cl, err := os.ReadFile(filepath.Join("/proc", e.Name(), "cmdline"))
@@ -162,7 +167,7 @@ func ProcsWithArg(arg string) []int {
 		}
 		for _, a := range strings.Split(string(cl), "\x00") {
 			if a == arg {
-				if st, err := os.ReadFile(filepath.Join("/proc", e.Name(), "stat")); err != nil || !strings.Contains(string(st), ") Z ") {
+				if state, _ := procStat(pid); state != "Z" && descendsFrom(pid, self) {
 					pids = append(pids, pid)
 				}
 				break
@@ -170,4 +175,36 @@ func ProcsWithArg(arg string) []int {
 		}
 	}
 	return pids
+}
+
+// procStat returns the state letter and the parent of process pid from
+// /proc/PID/stat ("pid (comm) S ppid …"; comm may hold spaces and
+// parentheses, so the fields are read after the last ')').
+func procStat(pid int) (state string, ppid int) {
+	st, err := os.ReadFile(filepath.Join("/proc", strconv.Itoa(pid), "stat"))
+	if err != nil {
+		return "", 0
+	}
+	s := string(st)
+	i := strings.LastIndexByte(s, ')')
+	if i < 0 {
+		return "", 0
+	}
+	f := strings.Fields(s[i+1:])
+	if len(f) < 2 {
+		return "", 0
+	}
+	ppid, _ = strconv.Atoi(f[1])
+	return f[0], ppid
+}
+
+// descendsFrom reports whether ancestor is pid's parent, grandparent, ….
+func descendsFrom(pid, ancestor int) bool {
+	for i := 0; i < 64 && pid > 1; i++ {
+		_, pid = procStat(pid)
+		if pid == ancestor {
+			return true
+		}
+	}
+	return false
 }
