@@ -388,6 +388,10 @@ type Result struct {
 
 // Build tabulates p on g and measures the error of its interpolant.
 func Build(p core.Potential, g Grid, s Settings) (*Result, error) {
+	s, err := s.withDefaults()
+	if err != nil {
+		return nil, err
+	}
 	t, err := Tabulate(p, g, s.SecondDerivative)
 	if err != nil {
 		return nil, err

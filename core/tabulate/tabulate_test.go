@@ -240,6 +240,8 @@ func TestOutOfReach(t *testing.T) {
 	}
 	_, err = tabulate.PlanFor(morse(t), 0.9, 6, tabulate.Tolerance{Energy: 1, Force: 1}, tabulate.Settings{Safety: 0.5})
 	assert.ErrorIs(t, err, core.ErrParam)
+	_, err = tabulate.Build(morse(t), tabulate.Grid{From: 1, To: 2, Points: 5}, tabulate.Settings{Interpolation: 7})
+	assert.ErrorIs(t, err, core.ErrParam)
 }
 
 // TestBatched: a plan makes a handful of Taylor calls, none per point (a
