@@ -8,12 +8,16 @@ import (
 	"path/filepath"
 	"regexp"
 	"sort"
+	"strconv"
 	"strings"
 	"testing"
 
 	"github.com/spf13/cobra"
 	"github.com/stretchr/testify/assert"
 	"github.com/stretchr/testify/require"
+
+	"github.com/pairwell/pairwell/core/report"
+	"github.com/pairwell/pairwell/models"
 )
 
 // contractCase is how the output-contract test runs one command: its
@@ -306,5 +310,59 @@ func TestOutputContractCases(t *testing.T) {
 	}
 	for n := range contractCases {
 		assert.True(t, have[n], "contractCases has %q, which is not a command with --format", n)
+	}
+}
+
+// TestInspectCSVRowIsFlatJSON: inspect's CSV rows, written directly for
+// speed, are the cells of its JSON records flattened as every other CSV
+// is, for a bounded form with a mass, an unbounded one, one with a barrier
+// and one that failed.
+func TestInspectCSVRowIsFlatJSON(t *testing.T) {
+	m := report.Mass{Pair: "H-Cl", Mu: 0.98}
+	for _, tt := range []struct {
+		spec string
+		mass report.Mass
+	}{{contractMorse, m}, {contractHarm, report.Mass{}}, {contractBuck, m}, {"nope:x=1", m}} {
+		var rec inspectRecord
+		inst, err := models.NewRegistry().Build(tt.spec)
+		if err == nil {
+			r, rErr := report.NewInspect(tt.spec, inst, 6, tt.mass)
+			require.NoError(t, rErr)
+			rec = newInspectRecord(tt.spec, r.Model, &r, nil)
+		} else {
+			rec = newInspectRecord(tt.spec, "nope", nil, err)
+		}
+		doc, err := orderedJSON(rec)
+		require.NoError(t, err)
+		flat := csvRecordsOf(doc, "")
+		require.Len(t, flat, 1)
+		row := inspectCSVRow(rec)
+		for i, k := range inspectCSVKeys {
+			want := flat[0].cells[k]
+			if got, err := strconv.ParseFloat(row[i], 64); err == nil && want != "" {
+				w, err := strconv.ParseFloat(want, 64)
+				require.NoError(t, err, "%s: %s", tt.spec, k)
+				assert.Equal(t, w, got, "%s: %s", tt.spec, k) // the same number, perhaps another spelling (1e-06, 0.000001)
+				continue
+			}
+			if k == "taylor_coefficients" { // space-separated numbers
+				w, g := strings.Fields(want), strings.Fields(row[i])
+				require.Len(t, g, len(w), "%s: %s", tt.spec, k)
+				for j := range w {
+					a, errA := strconv.ParseFloat(w[j], 64)
+					b, errB := strconv.ParseFloat(g[j], 64)
+					require.NoError(t, errA)
+					require.NoError(t, errB)
+					assert.Equal(t, a, b, "%s: %s[%d]", tt.spec, k, j)
+				}
+				continue
+			}
+			assert.Equal(t, want, row[i], "%s: %s", tt.spec, k)
+		}
+		for _, k := range flat[0].keys {
+			if k != "barrier" {
+				assert.Contains(t, inspectCSVKeys, k, "%s: key %s has a column", tt.spec, k)
+			}
+		}
 	}
 }

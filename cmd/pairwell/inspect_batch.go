@@ -5,6 +5,9 @@ import (
 	"encoding/json"
 	"fmt"
 	"io"
+	"math"
+	"strconv"
+	"strings"
 
 	"github.com/pairwell/pairwell/core/report"
 )
@@ -20,6 +23,59 @@ var inspectCSVKeys = []string{
 	"barrier.r_angstrom", "barrier.energy_ev",
 	"pair", "reduced_mass_u", "harmonic_wavenumber_per_cm", "harmonic_frequency_thz",
 	"harmonic_period_fs", "harmonic_angular_frequency_rad_per_fs", "error",
+}
+
+// csvNum formats a number as the CSV derived from the JSON has it: full
+// precision, Infinity for an unbounded value, an empty cell for one that
+// does not apply (NaN).
+func csvNum(v float64) string {
+	switch {
+	case math.IsNaN(v):
+		return ""
+	case math.IsInf(v, 1):
+		return report.Unbounded
+	case math.IsInf(v, -1):
+		return "-" + report.Unbounded
+	}
+	return strconv.FormatFloat(v, 'g', -1, 64)
+}
+
+func csvPtr(v *float64) string {
+	if v == nil {
+		return ""
+	}
+	return csvNum(*v)
+}
+
+// inspectCSVRow is one record of inspect's CSV, the cells of
+// inspectCSVKeys. It is written directly rather than flattened from the
+// JSON (writeCSVRecords) because batches of 10 000 forms are its use;
+// TestInspectCSVRowIsFlatJSON checks that both agree.
+func inspectCSVRow(rec inspectRecord) []string {
+	row := make([]string, len(inspectCSVKeys))
+	row[0], row[1] = rec.Name, rec.Model
+	if r := rec.Inspect; r != nil {
+		var params, taylor []string
+		for i, n := range r.Params.Names {
+			params = append(params, n+"="+csvNum(r.Params.Values[i]))
+		}
+		for _, c := range r.Taylor {
+			taylor = append(taylor, csvNum(c))
+		}
+		copy(row[2:], []string{
+			r.Origin, strings.Join(params, " "),
+			csvNum(r.Re), csvNum(r.Energy), csvNum(float64(r.Depth)), csvNum(r.K), strings.Join(taylor, " "),
+			csvNum(float64(r.Inflection)), csvNum(float64(r.MaxForce)),
+		})
+		if r.Barrier != nil {
+			row[11], row[12] = csvNum(r.Barrier.R), csvNum(r.Barrier.Energy)
+		}
+		row[13] = string(r.Pair)
+		row[14], row[15], row[16] = csvPtr(r.Mu), csvPtr(r.Wavenumber), csvPtr(r.FrequencyTHz)
+		row[17], row[18] = csvPtr(r.HarmonicPeriodFs), csvPtr(r.AngularFrequency)
+	}
+	row[19] = string(rec.Error)
+	return row
 }
 
 // inspectRecord is one element of inspect's JSON array: the inspect object
@@ -92,16 +148,7 @@ func newCSVRecords(w io.Writer) (*csvRecords, error) {
 }
 
 func (c *csvRecords) write(name, model string, r *report.Inspect, err error) error {
-	doc, jErr := orderedJSON(newInspectRecord(name, model, r, err))
-	if jErr != nil {
-		return jErr
-	}
-	recs := csvRecordsOf(doc, "")
-	row := make([]string, len(inspectCSVKeys))
-	for i, k := range inspectCSVKeys {
-		row[i] = recs[0].cells[k]
-	}
-	return c.cw.Write(row)
+	return c.cw.Write(inspectCSVRow(newInspectRecord(name, model, r, err)))
 }
 
 func (c *csvRecords) close() error {
