@@ -535,12 +535,13 @@ func (p *Potential) switchAll(n int, r, dst []float64, quintic bool) {
 	on, rc, h := p.s.SwitchOn, p.s.Cutoff, p.h
 	m1, m2, m3, m4, m5 := p.mult[1], p.mult[2], p.mult[3], p.mult[4], p.mult[5]
 	w := n + 1
+	beyond := false
 	for i, x := range r {
 		if !(x > on) {
 			continue
 		}
 		if !(x < rc) {
-			clear(dst[i*w : i*w+w])
+			beyond = true
 			continue
 		}
 		t := (x - on) * h
@@ -549,7 +550,7 @@ func (p *Potential) switchAll(n int, r, dst []float64, quintic bool) {
 		var s0, s1, s2, s3, s4, s5 float64
 		if quintic {
 			s0, s1, s2 = 1-t2*t*((10-15*t)+6*t2), m1*(t2*(u*u)), m2*((t*u)*(1-2*t))
-			s3, s4, s5 = m3*(-10+60*t*(1-t)), m4*(15-30*t), m5
+			s3, s4, s5 = m3*(-10+60*(t*u)), m4*(15-30*t), m5
 		} else {
 			s0, s1, s2 = 1-t2*(3-2*t), m1*(t*u), m2*(6*t-3)
 			s3 = m3
@@ -582,6 +583,13 @@ func (p *Potential) switchAll(n int, r, dst []float64, quintic bool) {
 			fallthrough
 		default:
 			v[0] = s0 * v[0]
+		}
+	}
+	if beyond {
+		for i, x := range r {
+			if !(x < rc) {
+				clear(dst[i*w : i*w+w])
+			}
 		}
 	}
 }
