@@ -1,10 +1,12 @@
 package main
 
 import (
+	"os"
 	"path/filepath"
 	"testing"
 
 	"github.com/stretchr/testify/assert"
+	"github.com/stretchr/testify/require"
 )
 
 // TestCutSpecEverywhere: a cut form is a form for every command.
@@ -26,7 +28,13 @@ func TestCutSpecEverywhere(t *testing.T) {
 		code, _, errOut := runCLI(t, args...)
 		assert.Equal(t, 0, code, "%v: %s", args, errOut)
 	}
-	code, _, errOut := runCLI(t, "inspect", "lj:epsilon=120K,sigma=3.4@cut=switch-c2,on=9,rc=8")
+	// A model-set entry with a cut form.
+	set := filepath.Join(dir, "set.toml")
+	require.NoError(t, os.WriteFile(set, []byte("[[entry]]\nname = \"cut\"\nspec = \""+lj+"\"\npair = \"Ar-Ar\"\n"), 0o644))
+	code, out, errOut := runCLI(t, "compare", "--set", set, "--format", "json")
+	assert.Equal(t, 0, code, errOut)
+	assert.Contains(t, out, `"model": "lennard-jones@cut=switch-c2,on=8,rc=9"`)
+	code, _, errOut = runCLI(t, "inspect", "lj:epsilon=120K,sigma=3.4@cut=switch-c2,on=9,rc=8")
 	assert.Equal(t, 2, code)
 	assert.Contains(t, errOut, "r_on = 9 Å ≥ r_c = 8 Å")
 }

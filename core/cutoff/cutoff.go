@@ -247,8 +247,9 @@ func (m *Model) Example() []float64 {
 }
 
 // Potential is a cut potential. It is immutable and safe for concurrent
-// use. Beyond r_c its coefficients are zero; at points below r_c it makes
-// one Taylor call of the bare potential per call.
+// use. Beyond r_c its coefficients are zero; each Taylor call makes one
+// Taylor call of the bare potential (two when the bare form refuses a point
+// beyond r_c).
 //
 // Capabilities: Taylor, Domain (Limit 0, the barrier energy of the cut
 // form, its minimum as guess, Kinks at r_on and r_c) and MaxOrder are
@@ -422,8 +423,10 @@ type buffers struct {
 }
 
 // Taylor stores the coefficients of the cut form (see the package
-// documentation). Points r ≥ r_c get zero rows without a call of the bare
-// form; NaN, ±Inf and points beyond the domain are errors (*core.PointError
+// documentation): one Taylor call of the bare form for all points, whose
+// rows at and beyond r_c are then zeroed; if the bare form refuses a point
+// there, the points below r_c are evaluated by a second call of their own.
+// NaN, ±Inf and points outside the domain are errors (*core.PointError
 // wrapping core.ErrDomain).
 func (p *Potential) Taylor(n int, r, dst []float64) error {
 	if err := core.CheckTaylor(n, p.maxOrder, len(r), len(dst)); err != nil {
@@ -532,12 +535,13 @@ func (p *Potential) switchAll(n int, r, dst []float64, quintic bool) {
 	on, rc, h := p.s.SwitchOn, p.s.Cutoff, p.h
 	m1, m2, m3, m4, m5 := p.mult[1], p.mult[2], p.mult[3], p.mult[4], p.mult[5]
 	w := n + 1
+	beyond := false
 	for i, x := range r {
 		if !(x > on) {
 			continue
 		}
 		if !(x < rc) {
-			clear(dst[i*w : i*w+w])
+			beyond = true
 			continue
 		}
 		t := (x - on) * h
@@ -546,7 +550,7 @@ func (p *Potential) switchAll(n int, r, dst []float64, quintic bool) {
 		var s0, s1, s2, s3, s4, s5 float64
 		if quintic {
 			s0, s1, s2 = 1-t2*t*((10-15*t)+6*t2), m1*(t2*(u*u)), m2*((t*u)*(1-2*t))
-			s3, s4, s5 = m3*(-10+60*t*(1-t)), m4*(15-30*t), m5
+			s3, s4, s5 = m3*(-10+60*(t*u)), m4*(15-30*t), m5
 		} else {
 			s0, s1, s2 = 1-t2*(3-2*t), m1*(t*u), m2*(6*t-3)
 			s3 = m3
@@ -556,10 +560,18 @@ func (p *Potential) switchAll(n int, r, dst []float64, quintic bool) {
 			q := v[k-5 : k+1 : k+1]
 			v[k] = (s0*q[5] + s1*q[4]) + (s2*q[3] + s3*q[2]) + (s4*q[1] + s5*q[0])
 		}
-		switch min(n, 4) {
-		case 4:
-			v[4] = (s0*v[4] + s1*v[3]) + (s2*v[2] + s3*v[1]) + s4*v[0]
-			fallthrough
+		// The low orders from registers: the loop above left them bare.
+		if n >= 4 {
+			a := v[:5:5]
+			a0, a1, a2, a3, a4 := a[0], a[1], a[2], a[3], a[4]
+			a[4] = (s0*a4 + s1*a3) + (s2*a2 + s3*a1) + s4*a0
+			a[3] = (s0*a3 + s1*a2) + (s2*a1 + s3*a0)
+			a[2] = (s0*a2 + s1*a1) + s2*a0
+			a[1] = s0*a1 + s1*a0
+			a[0] = s0 * a0
+			continue
+		}
+		switch n {
 		case 3:
 			v[3] = (s0*v[3] + s1*v[2]) + (s2*v[1] + s3*v[0])
 			fallthrough
@@ -571,6 +583,13 @@ func (p *Potential) switchAll(n int, r, dst []float64, quintic bool) {
 			fallthrough
 		default:
 			v[0] = s0 * v[0]
+		}
+	}
+	if beyond {
+		for i, x := range r {
+			if !(x < rc) {
+				clear(dst[i*w : i*w+w])
+			}
 		}
 	}
 }

@@ -9,6 +9,7 @@ import (
 
 	"github.com/pairwell/pairwell/core"
 	"github.com/pairwell/pairwell/core/coretest"
+	"github.com/pairwell/pairwell/core/cutoff"
 	"github.com/pairwell/pairwell/core/units"
 	"github.com/pairwell/pairwell/models"
 	"gonum.org/v1/gonum/integrate/quad"
@@ -440,4 +441,47 @@ func TestEstimateNeverUndercuts(t *testing.T) {
 		worst = math.Max(worst, e/scale)
 	}
 	t.Logf("worst relative error %.2e", worst)
+}
+
+// TestCutForm: a cut form declares its kinks (core.Domain.Kinks) and the
+// panels end there. B₂ = −2πN_A ∫ (e^{−βV} − 1) r² dr, so B₂ of
+// Lennard-Jones truncated at r_c exceeds the uncut B₂ by 2πN_A ∫_{r_c}^∞
+// (e^{−βV} − 1) r² dr, computed here independently with gonum's 64-point
+// Gauss–Legendre rule in u = r_c/r. (mpmath at 30 digits, the same
+// integrals over [0, σ/2, σ, r_c, ∞): truncated B₂ = −235.346383902400781,
+// −10.4223391252467974, 22.5116900644236022 cm³/mol at 80, 300, 1000 K,
+// which the truncated form also meets.) The switched form converges too
+// (its kinks at r_on and r_c).
+func TestCutForm(t *testing.T) {
+	eps, sigma, rc := 120*units.BoltzmannEV, 3.4, 8.5 // argon-like, illustrative
+	bare, err := models.NewLennardJones(eps, sigma)
+	require.NoError(t, err)
+	for _, T := range []float64{80, 300, 1000} {
+		beta := 1 / (units.BoltzmannEV * T)
+		full, err := New(bare, Settings{})
+		require.NoError(t, err)
+		pf, err := full.Points([]float64{T}, 0)
+		require.NoError(t, err)
+		tr, err := cutoff.New(bare, cutoff.Settings{Scheme: cutoff.Truncate, Cutoff: rc})
+		require.NoError(t, err)
+		cut, err := New(tr, Settings{})
+		require.NoError(t, err)
+		pc, err := cut.Points([]float64{T}, 0)
+		require.NoError(t, err)
+		tail := quad.Fixed(func(u float64) float64 {
+			r := rc / u
+			s6 := math.Pow(sigma/r, 6)
+			v := 4 * eps * (s6*s6 - s6)
+			return math.Expm1(-beta*v) * r * r * rc / (u * u)
+		}, 0, 1, 64, quad.Legendre{}, 0)
+		want := pf[0].Classical + 2*math.Pi*cm3PerMolPerA3*tail
+		assert.InDelta(t, want, pc[0].Classical, 1e-9*math.Abs(pf[0].Classical)+pc[0].ErrorEstimate+pf[0].ErrorEstimate, "T = %g K", T)
+		assert.InEpsilon(t, map[float64]float64{80: -235.346383902400781, 300: -10.4223391252467974, 1000: 22.5116900644236022}[T], pc[0].Classical, 1e-9, "mpmath, T = %g K", T)
+		sw, err := cutoff.New(bare, cutoff.Settings{Scheme: cutoff.Switch2, Cutoff: rc, SwitchOn: 7})
+		require.NoError(t, err)
+		cs, err := New(sw, Settings{})
+		require.NoError(t, err)
+		_, err = cs.Points([]float64{T}, 0)
+		require.NoError(t, err, "switched form at %g K", T)
+	}
 }
