@@ -6,6 +6,7 @@ import (
 	"fmt"
 	"strings"
 	"testing"
+	"unicode/utf8"
 
 	"github.com/stretchr/testify/assert"
 	"github.com/stretchr/testify/require"
@@ -135,6 +136,19 @@ func TestModelsListsBuiltins(t *testing.T) {
 	assert.Regexp(t, `kratzer\s+V = De\*\(\(re/r\)\^2 - 2\*re/r\)\s+De \[eV, > 0\]; re \[Å, > 0\]\s+forms library library/forms.toml:\d+`, out)
 	assert.Contains(t, out, "kratzer — Kratzer. A. Kratzer, Z. Phys. 3, 289 (1920)")
 	assert.Contains(t, out, "tang-toennies — Tang-Toennies. K. T. Tang & J. P. Toennies, J. Chem. Phys. 80, 3726 (1984)")
+	// A long formula (Tang–Toennies, 400+ characters) is cut in the
+	// table's column, so it does not widen every row, and printed whole
+	// in its note.
+	var tt string
+	for _, m := range list {
+		if m["key"] == "tang-toennies" {
+			tt = m["formula"].(string)
+		}
+	}
+	require.Greater(t, utf8.RuneCountInString(tt), formulaWidth)
+	header, _, _ := strings.Cut(out, "\n")
+	assert.Less(t, utf8.RuneCountInString(header), formulaWidth+140, "the formula column is at most formulaWidth wide")
+	assert.Contains(t, out, "Formula: "+tt+".")
 }
 
 func TestInspectHandbookRoundTrip(t *testing.T) {

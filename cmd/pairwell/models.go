@@ -117,7 +117,7 @@ its parameters differ); any other clash of keys is an error.`,
 						origin += " (version " + info.Version + ")"
 					}
 				}
-				t.add(key, info.Formula, strings.Join(ps, "; "), origin)
+				t.add(key, shortFormula(info.Formula), strings.Join(ps, "; "), origin)
 			}
 			if e.format == "table" {
 				if err := writeTable(e.stdout, t); err != nil {
@@ -127,6 +127,9 @@ its parameters differ); any other clash of keys is an error.`,
 				for _, m := range e.registry.Models() {
 					info := m.Info()
 					fmt.Fprintf(e.stdout, "%s — %s. %s", info.Key, info.Name, info.Reference)
+					if shortFormula(info.Formula) != info.Formula {
+						fmt.Fprintf(e.stdout, " Formula: %s.", info.Formula)
+					}
 					if info.Notes != "" {
 						fmt.Fprintf(e.stdout, " Note: %s", info.Notes)
 					}
@@ -137,4 +140,18 @@ its parameters differ); any other clash of keys is an error.`,
 			return e.emit(entries, t)
 		},
 	}
+}
+
+// formulaWidth is the widest formula the models table shows in its
+// column; a longer one is cut there with "…" and printed whole in the notes
+// below the table (JSON and CSV always carry it whole).
+const formulaWidth = 72
+
+// shortFormula returns f, or its first formulaWidth−1 runes and "…".
+func shortFormula(f string) string {
+	r := []rune(f)
+	if len(r) <= formulaWidth {
+		return f
+	}
+	return string(r[:formulaWidth-1]) + "…"
 }
