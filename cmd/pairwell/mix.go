@@ -25,7 +25,7 @@ func newMixCmd(e *env) *cobra.Command {
 		Use:   "mix SPEC_A SPEC_B (--rule RULE | --all-rules) [--pair A-B | --mu M]",
 		Short: "Cross-pair parameters from two like pairs by a combining rule",
 		Long: `mix derives the cross pair 1–2 from the like pairs 1–1 (SPEC_A) and 2–2 (SPEC_B),
-both of the same built-in form, by a combining rule, and prints the cross-pair spec,
+both of the same form, by a combining rule, and prints the cross-pair spec,
 ready for the other commands. --all-rules compares every rule of the form: the
 cross pair's equilibrium distance, well depth, force constant and, with --pair or
 --mu (the reduced mass of the 1–2 pair), harmonic wavenumber.
@@ -47,11 +47,17 @@ Rules (RULE, form):
   exp-harmonic       buckingham     A, C geometric, 1/rho arithmetic (common practice)
   morse-mean         morse          De geometric, a and re arithmetic (common practice)
 
-Two like pairs of different forms, or a rule of another form, are an error
-(exit 2). A combining rule is an empirical estimate, not a validated cross
+The mean rules (all but waldman-hagler and kong) also apply, by common practice,
+to any form (library, formula, plugin) whose parameters include the rule's by name
+and dimension — (epsilon, sigma), (A, rho, C) or (De, a, re); every other parameter
+(Mie's n and m, say) must be the same in both like pairs.
+
+Two like pairs of different forms, a rule that does not apply, or unequal other
+parameters are an error (exit 2). A combining rule is an empirical estimate, not a validated cross
 interaction.`,
 		Example: `  pairwell mix lj:epsilon=119.8K,sigma=3.405 lj:epsilon=164K,sigma=3.636 --rule lorentz-berthelot
   pairwell mix lj:epsilon=119.8K,sigma=3.405 lj:epsilon=164K,sigma=3.636 --all-rules --pair Ar-Kr
+  pairwell mix mie:epsilon=0.0103,sigma=3.40,n=14,m=6 mie:epsilon=0.0140,sigma=3.60,n=14,m=6 --rule lorentz-berthelot
   pairwell inspect "$(pairwell mix morse:De=4.4,a=1.9,re=1.27 morse:De=4.6,a=1.8,re=1.41 --rule morse-mean)"`,
 		Args: exactArgs(2, "SPEC_A SPEC_B"),
 		RunE: func(cmd *cobra.Command, args []string) error {

@@ -1,6 +1,7 @@
 package main
 
 import (
+	"encoding/json"
 	"math"
 	"sort"
 	"strconv"
@@ -102,4 +103,47 @@ func TestMixErrors(t *testing.T) {
 		assert.Equal(t, 2, code, "%v", args)
 		assert.Equal(t, 1, strings.Count(strings.TrimSpace(errOut), "\n")+1, "one-line error: %q", errOut)
 	}
+}
+
+// TestMixOtherForms: the rules that mix each parameter on its own work on a
+// library form (Mie n–m, a formula form) and on a plugin form (the rydberg
+// example, parameters De, a, re) by parameter names; a rule of the 12-6
+// form and unequal exponents are errors. Check values: the rules' formulas
+// (Lorentz 1881, Berthelot 1898; morse-mean common practice).
+func TestMixOtherForms(t *testing.T) {
+	cross := func(t *testing.T, out string) (string, map[string]float64) {
+		t.Helper()
+		var got struct {
+			Rules []struct {
+				Spec   string             `json:"spec"`
+				Params map[string]float64 `json:"params"`
+			} `json:"rules"`
+		}
+		require.NoError(t, json.Unmarshal([]byte(out), &got), out)
+		require.Len(t, got.Rules, 1)
+		return got.Rules[0].Spec, got.Rules[0].Params
+	}
+	mieA, mieB := "mie:epsilon=0.0103,sigma=3.40,n=14,m=6", "mie:epsilon=0.0140,sigma=3.60,n=14,m=6"
+	code, out, errOut := runCLI(t, "mix", mieA, mieB, "--rule", "lorentz-berthelot", "--format", "json")
+	require.Equal(t, 0, code, errOut)
+	spec, p := cross(t, out)
+	assert.InDelta(t, math.Sqrt(0.0103*0.0140), p["epsilon"], 1e-17)
+	assert.InDelta(t, 3.5, p["sigma"], 1e-15)
+	assert.Equal(t, 14.0, p["n"])
+	assert.Equal(t, 6.0, p["m"])
+	code, _, errOut = runCLI(t, "inspect", spec)
+	assert.Equal(t, 0, code, "the cross-pair spec is a form: %s", errOut)
+
+	code, _, errOut = runCLI(t, "mix", mieA, strings.Replace(mieB, "n=14", "n=12", 1), "--rule", "lorentz-berthelot")
+	assert.Equal(t, 2, code)
+	assert.Contains(t, errOut, "n = 14 and 12 differ")
+	code, _, errOut = runCLI(t, "mix", mieA, mieB, "--rule", "kong")
+	assert.Equal(t, 2, code, errOut)
+
+	code, out, errOut = runPlugins(t, "--plugin", pluginBin.rydberg, "mix", "rydberg:De=4.4,a=2.4,re=1.27", "rydberg:De=4.6,a=2.6,re=1.41", "--rule", "morse-mean", "--format", "json")
+	require.Equal(t, 0, code, errOut)
+	_, p = cross(t, out)
+	assert.InDelta(t, math.Sqrt(4.4*4.6), p["De"], 1e-15)
+	assert.InDelta(t, 2.5, p["a"], 1e-15)
+	assert.InDelta(t, 1.34, p["re"], 1e-15)
 }

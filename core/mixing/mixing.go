@@ -1,12 +1,21 @@
 // Package mixing derives the parameters of a cross pair 1–2 from those of
 // the like pairs 1–1 and 2–2 by a combining rule.
 //
-// A rule applies to one built-in form, named by its key, and works on the
+// A rule belongs to one built-in form, named by its key, and works on the
 // parameters in that form's order and default units (eV, Å):
 //
 //	lennard-jones  (epsilon, sigma)
 //	buckingham     (A, rho, C)
 //	morse          (De, a, re)
+//
+// A rule that treats each parameter on its own (a mean of the two values:
+// Lorentz–Berthelot, geometric, Fender–Halsey and the Buckingham and Morse
+// rules) also applies, by common practice, to any other form — a formula
+// form, a plugin, a form of the library such as Mie n–m — whose parameters
+// include the rule's by name and dimension (ForModel): those are mixed, and
+// every other parameter (Mie's exponents, say) must be the same in both
+// like pairs (MixModel). Waldman–Hagler and Kong rest on the r⁻⁶ and r⁻¹²
+// terms of the 12-6 form and apply to Lennard-Jones only.
 //
 // Every rule gives back the like pair when both inputs are equal (to
 // rounding). Combining rules are empirical: the cross pair they produce is
@@ -20,6 +29,7 @@ import (
 	"strings"
 
 	"github.com/pairwell/pairwell/core"
+	"github.com/pairwell/pairwell/core/units"
 )
 
 // ErrRule means a combining rule is unknown or does not apply to a form.
@@ -39,7 +49,11 @@ type Rule struct {
 	Title     string // usual name
 	Formula   string // the rule as text
 	Reference string // literature source, or "common practice"
-	mix       func(a, b []float64) []float64
+	// ByName says that the rule mixes each parameter on its own, so that
+	// it applies to any form with parameters of the same names and
+	// dimensions (see the package documentation).
+	ByName bool
+	mix    func(a, b []float64) []float64
 }
 
 // Mix returns the cross-pair parameters for like-pair parameters a and b,
@@ -72,9 +86,11 @@ func (r Rule) Mix(a, b []float64) ([]float64, error) {
 // its order: those of the built-in models' Info (TestParamsOfTheModels
 // keeps them equal).
 var params = map[string][]core.Param{
-	LennardJones: {{Name: "epsilon", Constraint: core.Positive}, {Name: "sigma", Constraint: core.Positive}},
-	Buckingham:   {{Name: "A", Constraint: core.Positive}, {Name: "rho", Constraint: core.Positive}, {Name: "C", Constraint: core.NonNegative}},
-	Morse:        {{Name: "De", Constraint: core.Positive}, {Name: "a", Constraint: core.Positive}, {Name: "re", Constraint: core.Positive}},
+	LennardJones: {{Name: "epsilon", Dimension: units.Energy, Constraint: core.Positive}, {Name: "sigma", Dimension: units.Length, Constraint: core.Positive}},
+	Buckingham: {{Name: "A", Dimension: units.Energy, Constraint: core.Positive}, {Name: "rho", Dimension: units.Length, Constraint: core.Positive},
+		{Name: "C", Dimension: units.Dispersion, Constraint: core.NonNegative}},
+	Morse: {{Name: "De", Dimension: units.Energy, Constraint: core.Positive}, {Name: "a", Dimension: units.InverseLength, Constraint: core.Positive},
+		{Name: "re", Dimension: units.Length, Constraint: core.Positive}},
 }
 
 // arith is (x+y)/2, halved first only when the sum overflows.
@@ -107,10 +123,10 @@ const (
 )
 
 var rules = []Rule{
-	{Name: "lorentz-berthelot", Form: LennardJones, Title: "Lorentz–Berthelot",
+	{Name: "lorentz-berthelot", ByName: true, Form: LennardJones, Title: "Lorentz–Berthelot",
 		Formula:   "sigma12 = (sigma1+sigma2)/2, epsilon12 = sqrt(epsilon1 epsilon2)",
 		Reference: lorentz + "; " + berthelot, mix: lorentzBerthelot},
-	{Name: "geometric", Form: LennardJones, Title: "geometric mean",
+	{Name: "geometric", ByName: true, Form: LennardJones, Title: "geometric mean",
 		Formula:   "sigma12 = sqrt(sigma1 sigma2), epsilon12 = sqrt(epsilon1 epsilon2)",
 		Reference: practice, mix: geometricLJ},
 	{Name: "waldman-hagler", Form: LennardJones, Title: "Waldman–Hagler",
@@ -119,16 +135,16 @@ var rules = []Rule{
 	{Name: "kong", Form: LennardJones, Title: "Kong",
 		Formula:   "epsilon12 sigma12^12 = (epsilon1 sigma1^12/2^13)[1 + (epsilon2 sigma2^12/(epsilon1 sigma1^12))^(1/13)]^13, epsilon12 sigma12^6 = sqrt(epsilon1 sigma1^6 epsilon2 sigma2^6) (from memory)",
 		Reference: kong, mix: kongLJ},
-	{Name: "fender-halsey", Form: LennardJones, Title: "Fender–Halsey",
+	{Name: "fender-halsey", ByName: true, Form: LennardJones, Title: "Fender–Halsey",
 		Formula:   "sigma12 = (sigma1+sigma2)/2, epsilon12 = 2 epsilon1 epsilon2/(epsilon1+epsilon2)",
 		Reference: fender, mix: fenderHalsey},
-	{Name: "exp-arithmetic", Form: Buckingham, Title: "geometric A and C, arithmetic rho",
+	{Name: "exp-arithmetic", ByName: true, Form: Buckingham, Title: "geometric A and C, arithmetic rho",
 		Formula:   "A12 = sqrt(A1 A2), rho12 = (rho1+rho2)/2, C12 = sqrt(C1 C2)",
 		Reference: practice, mix: expArithmetic},
-	{Name: "exp-harmonic", Form: Buckingham, Title: "geometric A and C, harmonic rho",
+	{Name: "exp-harmonic", ByName: true, Form: Buckingham, Title: "geometric A and C, harmonic rho",
 		Formula:   "A12 = sqrt(A1 A2), 1/rho12 = (1/rho1+1/rho2)/2, C12 = sqrt(C1 C2)",
 		Reference: hhPractice, mix: expHarmonic},
-	{Name: "morse-mean", Form: Morse, Title: "geometric De, arithmetic a and re",
+	{Name: "morse-mean", ByName: true, Form: Morse, Title: "geometric De, arithmetic a and re",
 		Formula:   "De12 = sqrt(De1 De2), a12 = (a1+a2)/2, re12 = (re1+re2)/2",
 		Reference: "common practice, by analogy with Lorentz–Berthelot (no single source)", mix: morseMean},
 }
@@ -136,39 +152,124 @@ var rules = []Rule{
 // Rules returns every rule, Lennard-Jones first, in a fixed order.
 func Rules() []Rule { return append([]Rule(nil), rules...) }
 
-// ForForm returns the rules that apply to the form key, in the order of
+// ForForm returns the rules of the built-in form key, in the order of
 // Rules; none for a form without rules.
-func ForForm(form string) []Rule {
+func ForForm(form string) []Rule { return ForModel(form, nil) }
+
+// ForModel returns the rules that apply to the form key with parameters
+// ps (its Info().Params): the rules of the built-in form key, and the ByName
+// rules whose parameters ps includes by name and dimension. The order is
+// that of Rules.
+func ForModel(key string, ps []core.Param) []Rule {
 	var out []Rule
 	for _, r := range rules {
-		if r.Form == form {
+		if _, ok := r.indices(key, ps); ok {
 			out = append(out, r)
 		}
 	}
 	return out
 }
 
-// Lookup returns the rule called name for form. An unknown name, or a rule
-// of another form, gives an error wrapping ErrRule that lists the rules
-// of form.
-func Lookup(name, form string) (Rule, error) {
+// indices returns where each parameter of r lies in ps, and whether r
+// applies to the form key with parameters ps.
+func (r Rule) indices(key string, ps []core.Param) ([]int, bool) {
+	own := params[r.Form]
+	idx := make([]int, len(own))
+	if key == r.Form {
+		for i := range idx {
+			idx[i] = i
+		}
+		return idx, true
+	}
+	if !r.ByName {
+		return nil, false
+	}
+	for i, q := range own {
+		idx[i] = -1
+		for j, p := range ps {
+			if p.Name == q.Name && p.Dimension == q.Dimension {
+				idx[i] = j
+				break
+			}
+		}
+		if idx[i] < 0 {
+			return nil, false
+		}
+	}
+	return idx, true
+}
+
+// MixModel mixes the like-pair parameters a and b of the form key with
+// parameters ps (both full parameter sets, in the form's order and default
+// units): the rule's parameters are mixed by Mix and every other parameter
+// must be equal in a and b (to 1e-12 relative), else the error wraps
+// ErrRule, naming it. A rule that does not apply to the form is an error
+// wrapping ErrRule.
+func (r Rule) MixModel(key string, ps []core.Param, a, b []float64) ([]float64, error) {
+	idx, ok := r.indices(key, ps)
+	if !ok {
+		return nil, fmt.Errorf("%w: rule %s does not apply to %s", ErrRule, r.Name, key)
+	}
+	if key == r.Form {
+		return r.Mix(a, b)
+	}
+	if len(a) != len(ps) || len(b) != len(ps) {
+		return nil, fmt.Errorf("%s: %w: %s takes %d parameters, got %d and %d", r.Name, core.ErrParam, key, len(ps), len(a), len(b))
+	}
+	mixed := make(map[int]bool, len(idx))
+	sa, sb := make([]float64, len(idx)), make([]float64, len(idx))
+	for i, j := range idx {
+		mixed[j] = true
+		sa[i], sb[i] = a[j], b[j]
+	}
+	for j, p := range ps {
+		if !mixed[j] && math.Abs(a[j]-b[j]) > 1e-12*math.Max(math.Abs(a[j]), math.Abs(b[j])) {
+			var names []string
+			for _, q := range params[r.Form] {
+				names = append(names, q.Name)
+			}
+			return nil, fmt.Errorf("%w: %s = %g and %g differ; rule %s mixes %s only, so the other parameters of %s must be the same in both like pairs",
+				ErrRule, p.Name, a[j], b[j], r.Name, strings.Join(names, ", "), key)
+		}
+	}
+	m, err := r.Mix(sa, sb)
+	if err != nil {
+		return nil, err
+	}
+	out := append([]float64(nil), a...)
+	for i, j := range idx {
+		out[j] = m[i]
+	}
+	return out, nil
+}
+
+// Lookup returns the rule called name for the built-in form. An unknown
+// name, or a rule of another form, gives an error wrapping ErrRule that
+// lists the rules of form.
+func Lookup(name, form string) (Rule, error) { return LookupFor(name, form, nil) }
+
+// LookupFor returns the rule called name if it applies to the form key
+// with parameters ps (see ForModel). An unknown name, or a rule that does
+// not apply, gives an error wrapping ErrRule that lists the rules that do.
+func LookupFor(name, key string, ps []core.Param) (Rule, error) {
 	var names []string
-	for _, r := range ForForm(form) {
+	for _, r := range ForModel(key, ps) {
 		if r.Name == name {
 			return r, nil
 		}
 		names = append(names, r.Name)
 	}
-	allowed := "none: combining rules exist for " + strings.Join([]string{LennardJones, Buckingham, Morse}, ", ")
+	allowed := "none: combining rules exist for " + strings.Join([]string{LennardJones, Buckingham, Morse}, ", ") +
+		" and, by parameter names, for forms with (epsilon, sigma), (A, rho, C) or (De, a, re)"
 	if len(names) > 0 {
 		allowed = strings.Join(names, ", ")
 	}
 	for _, r := range rules {
 		if r.Name == name {
-			return Rule{}, fmt.Errorf("%w: rule %s is for %s, not %s; rules for %s: %s", ErrRule, name, r.Form, form, form, allowed)
+			return Rule{}, fmt.Errorf("%w: rule %s is for %s, not %s; rules for %s: %s", ErrRule, name, r.Form, key, key, allowed)
 		}
 	}
-	return Rule{}, fmt.Errorf("%w: unknown rule %q; rules for %s: %s", ErrRule, name, form, allowed)
+	return Rule{}, fmt.Errorf("%w: unknown rule %q; rules for %s: %s", ErrRule, name, key, allowed)
 }
 
 // lorentzBerthelot: σ₁₂ = (σ₁+σ₂)/2 (Lorentz 1881), ε₁₂ = √(ε₁ε₂)

@@ -9,6 +9,7 @@ import (
 	"github.com/stretchr/testify/require"
 
 	"github.com/pairwell/pairwell/core"
+	"github.com/pairwell/pairwell/core/units"
 	"github.com/pairwell/pairwell/models"
 )
 
@@ -159,6 +160,7 @@ func TestParamsOfTheModels(t *testing.T) {
 		for i, p := range info.Params {
 			assert.Equal(t, p.Name, ps[i].Name, form)
 			assert.Equal(t, p.Constraint, ps[i].Constraint, "%s %s", form, p.Name)
+			assert.Equal(t, p.Dimension, ps[i].Dimension, "%s %s", form, p.Name)
 		}
 	}
 	// Buckingham's C may be 0 (no dispersion), not negative; the error
@@ -169,4 +171,49 @@ func TestParamsOfTheModels(t *testing.T) {
 	_, err = r.Mix([]float64{1500, 0.3, -1}, []float64{1500, 0.3, 25})
 	assert.ErrorIs(t, err, core.ErrParam)
 	assert.ErrorContains(t, err, "C = -1")
+}
+
+// TestByParameterNames: a rule that mixes each parameter on its own applies
+// to any form with its parameters by name and dimension (here those of the
+// Mie n–m form of the library and of a plugin Morse), the others must agree;
+// the check values are the rules' own formulas (Lorentz 1881, Berthelot
+// 1898: σ₁₂ = (σ₁+σ₂)/2, ε₁₂ = √(ε₁ε₂)).
+func TestByParameterNames(t *testing.T) {
+	mie := []core.Param{
+		{Name: "epsilon", Dimension: units.Energy}, {Name: "sigma", Dimension: units.Length},
+		{Name: "n", Dimension: units.Dimensionless}, {Name: "m", Dimension: units.Dimensionless},
+	}
+	var names []string
+	for _, r := range ForModel("mie", mie) {
+		names = append(names, r.Name)
+	}
+	assert.Equal(t, []string{"lorentz-berthelot", "geometric", "fender-halsey"}, names,
+		"Waldman–Hagler and Kong rest on the 12-6 form")
+	r, err := LookupFor("lorentz-berthelot", "mie", mie)
+	require.NoError(t, err)
+	got, err := r.MixModel("mie", mie, []float64{0.0103, 3.40, 14, 6}, []float64{0.0140, 3.60, 14, 6})
+	require.NoError(t, err)
+	assert.InDeltaSlice(t, []float64{math.Sqrt(0.0103 * 0.0140), 3.5, 14, 6}, got, 1e-15)
+
+	_, err = r.MixModel("mie", mie, []float64{0.0103, 3.40, 14, 6}, []float64{0.0140, 3.60, 12, 6})
+	assert.ErrorIs(t, err, ErrRule)
+	assert.ErrorContains(t, err, "n = 14 and 12 differ")
+
+	_, err = LookupFor("kong", "mie", mie)
+	assert.ErrorIs(t, err, ErrRule)
+
+	// Same names, other dimensions: not the rule's parameters.
+	odd := []core.Param{{Name: "epsilon", Dimension: units.Energy}, {Name: "sigma", Dimension: units.InverseLength}}
+	assert.Empty(t, ForModel("odd", odd))
+
+	morse := []core.Param{
+		{Name: "De", Dimension: units.Energy}, {Name: "a", Dimension: units.InverseLength}, {Name: "re", Dimension: units.Length},
+	}
+	r, err = LookupFor("morse-mean", "plugin-morse", morse)
+	require.NoError(t, err)
+	got, err = r.MixModel("plugin-morse", morse, []float64{4.4, 1.9, 1.27}, []float64{4.6, 1.8, 1.41})
+	require.NoError(t, err)
+	want, err := rule(t, "morse-mean", Morse).Mix([]float64{4.4, 1.9, 1.27}, []float64{4.6, 1.8, 1.41})
+	require.NoError(t, err)
+	assert.Equal(t, want, got, "the same rule as for the built-in Morse")
 }

@@ -53,15 +53,16 @@ func NewMix(specA, specB string, a, b core.Instance, rule string, m Mass) (Mix, 
 	if ka != kb {
 		return Mix{}, fmt.Errorf("%w: %s and %s; both like pairs must be of the same form", ErrMixForms, ka, kb)
 	}
-	rules := mixing.ForForm(ka)
+	ps := a.Model.Info().Params
+	rules := mixing.ForModel(ka, ps)
 	if rule != "" {
-		r, err := mixing.Lookup(rule, ka)
+		r, err := mixing.LookupFor(rule, ka, ps)
 		if err != nil {
 			return Mix{}, err
 		}
 		rules = []mixing.Rule{r}
 	} else if len(rules) == 0 {
-		return Mix{}, fmt.Errorf("%w: no combining rules for %s; rules exist for %s, %s and %s", mixing.ErrRule, ka, mixing.LennardJones, mixing.Buckingham, mixing.Morse)
+		return Mix{}, fmt.Errorf("%w: no combining rules for %s; rules exist for %s, %s and %s, and by parameter names for forms with (epsilon, sigma), (A, rho, C) or (De, a, re)", mixing.ErrRule, ka, mixing.LennardJones, mixing.Buckingham, mixing.Morse)
 	}
 	out := Mix{Model: ka, SpecA: specA, SpecB: specB, ParamsA: NewParams(a), ParamsB: NewParams(b), Pair: Text(m.Pair), Caution: MixCaution}
 	for _, r := range rules {
@@ -75,7 +76,7 @@ func NewMix(specA, specB string, a, b core.Instance, rule string, m Mass) (Mix, 
 }
 
 func mixRow(r mixing.Rule, a, b core.Instance, m Mass) (MixRule, error) {
-	vals, err := r.Mix(a.Params, b.Params)
+	vals, err := r.MixModel(a.Model.Info().Key, a.Model.Info().Params, a.Params, b.Params)
 	if err != nil {
 		return MixRule{}, err
 	}
