@@ -616,13 +616,14 @@ func factor(u string, d Dimension) (float64, error) {
 	case d == Energy && v == (dims{baseLength: -1}):
 		f *= hcEVAngstrom // E = h·c·ν̃
 	default:
-		hint := ""
-		if w := leadingWord(u, 0); w == u {
+		if _, name := atoms[u]; !name && leadingWord(u, 0) == u {
 			// One word read as a product of names ("Angstroms" as
-			// Angstrom·s): most likely a misspelt name.
-			hint = suggest.Hint(u, suggestNames)
+			// Angstrom·s): most likely a misspelt name, so the near
+			// miss comes first and the product reading is said as such.
+			return 0, fmt.Errorf("%w: unit %q%s is not a %s: as one word it reads only as a product of unit names, of dimension %s; %s",
+				ErrWrongDimension, u, suggest.Hint(u, suggestNames), d, v.describe(), allowed(d))
 		}
-		return 0, fmt.Errorf("%w: unit %q%s has dimension %s, want %s; %s", ErrWrongDimension, u, hint, v.describe(), d, allowed(d))
+		return 0, fmt.Errorf("%w: unit %q has dimension %s, want %s; %s", ErrWrongDimension, u, v.describe(), d, allowed(d))
 	}
 	if err := m.check(u); err != nil {
 		return 0, fmt.Errorf("%w %q: %v", ErrUnknownUnit, u, err)

@@ -344,7 +344,10 @@ func TestParseErrors(t *testing.T) {
 		{"3 furlong", Length, ErrUnknownUnit, []string{"length units: Å, A"}},
 		{"3 MEV", Energy, ErrUnknownUnit, []string{"ambiguous ignoring case: MeV or meV"}},
 		{"3 mEv", Energy, ErrUnknownUnit, []string{"ambiguous"}},
-		{"3.4Angstroms", Length, ErrWrongDimension, []string{"did you mean angstrom?"}},
+		// A one-word product is said to be one, after the near miss
+		// (it used to read as if Angstroms were a length·time unit).
+		{"3.4Angstroms", Length, ErrWrongDimension, []string{`unit "Angstroms" (did you mean angstrom?) is not a length: as one word it reads only as a product of unit names`}},
+		{"3 eV", Length, ErrWrongDimension, []string{`unit "eV" has dimension energy, want length`}},
 		{"3.4 angstrms", Length, ErrUnknownUnit, []string{"did you mean angstrom?"}},
 		{"1 kcall/mol", Energy, ErrUnknownUnit, []string{"did you mean kcal?"}},
 		{"1eVv", Energy, ErrUnknownUnit, []string{`no unit named "eVv" (did you mean eV?)`}},
