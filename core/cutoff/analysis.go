@@ -273,8 +273,10 @@ func (m maximum) at() *float64 {
 	return &r
 }
 
-// errorsAt stores |V_cut − V| and |F_cut − F| at rs in e[0] and e[1], from
-// one Taylor call of order 1 of each form (bare given in b when non-nil).
+// errorsAt stores |V_cut − V| and |F_cut − F| at rs (all below r_c) in
+// e[0] and e[1], from one Taylor call of order 1 of the bare form (given in
+// b when non-nil): the cut rows are the bare ones turned by apply, as
+// Potential.Taylor does, so the bare form is not evaluated a second time.
 func errorsAt(c *Potential, rs, b []float64, e *[2][]float64) error {
 	if b == nil {
 		b = make([]float64, 2*len(rs))
@@ -282,10 +284,8 @@ func errorsAt(c *Potential, rs, b []float64, e *[2][]float64) error {
 			return err
 		}
 	}
-	cc := make([]float64, 2*len(rs))
-	if err := c.Taylor(1, rs, cc); err != nil {
-		return err
-	}
+	cc := append([]float64(nil), b...)
+	c.apply(1, rs, cc)
 	for q := range e {
 		e[q] = e[q][:0]
 	}
