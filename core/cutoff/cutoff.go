@@ -266,19 +266,12 @@ type Potential struct {
 	re       float64 // minimum of the bare form, Å; 0 when it has none
 	dom      core.Domain
 	maxOrder int
-	// The switch: S(x) = Σ poly[m] xᵐ in x = (r − r_on)·h, h = 1/(r_c − r_on);
-	// mult[j] the constant factor of s_j (see switchJet).
-	poly []float64
+	// The switch, in x = (r − r_on)·h, h = 1/(r_c − r_on); mult[j] the
+	// constant factor of s_j (see switchJet).
 	h    float64
 	mult [maxDegree + 1]float64
 	bufs sync.Pool // *buffers for calls with points beyond r_c
 }
-
-// Switch polynomials S(x) = 1 − smoothstep(x), coefficients of x⁰, x¹, ….
-var (
-	cubicSwitch   = []float64{1, 0, -3, 2}
-	quinticSwitch = []float64{1, 0, 0, -10, 15, -6}
-)
 
 // New cuts p by s. Errors wrap core.ErrParam and ErrSettings: r_c ≤ 0,
 // r_on ≥ r_c, r_c (or r_on) outside the domain of p, r_c at or before the
@@ -326,13 +319,7 @@ func New(p core.Potential, s Settings) (*Potential, error) {
 		return bad("force-shift needs V′, the form has no derivatives (MaxOrder 0)")
 	}
 	c.vc, c.dvc = at[0], at[1]
-	switch s.Scheme {
-	case Switch1:
-		c.poly = cubicSwitch
-	case Switch2:
-		c.poly = quinticSwitch
-	}
-	if c.poly != nil {
+	if s.Scheme.Switching() {
 		h := 1 / (s.Cutoff - s.SwitchOn)
 		c.h = h
 		if s.Scheme == Switch1 {
@@ -400,20 +387,17 @@ func (p *Potential) inside(r, v float64) float64 {
 	case ForceShift:
 		return v - (p.vc + (r-p.s.Cutoff)*p.dvc)
 	}
-	if p.poly != nil && r > p.s.SwitchOn {
+	if p.s.Scheme.Switching() && r > p.s.SwitchOn {
 		return v * p.switchValue(r)
 	}
 	return v
 }
 
-// switchValue returns S(r) for r_on < r < r_c.
+// switchValue returns S(r) for r_on < r < r_c: s_0 of switchLow3, the
+// same S that Taylor multiplies by.
 func (p *Potential) switchValue(r float64) float64 {
-	x := (r - p.s.SwitchOn) * p.h
-	s := 0.0
-	for m := len(p.poly) - 1; m >= 0; m-- {
-		s = s*x + p.poly[m]
-	}
-	return s
+	s0, _, _ := p.switchLow3((r - p.s.SwitchOn) * p.h)
+	return s0
 }
 
 // buffers is the scratch of a call with points beyond r_c.
@@ -737,7 +721,7 @@ func (p *Potential) ParamGradient(r, dst []float64) error {
 			for j := range out {
 				out[j] = row[j] - gc[j]
 			}
-		case p.poly != nil && x > p.s.SwitchOn:
+		case p.s.Scheme.Switching() && x > p.s.SwitchOn:
 			sv := p.switchValue(x)
 			for j := range out {
 				out[j] = sv * row[j]
