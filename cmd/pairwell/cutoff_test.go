@@ -203,6 +203,11 @@ func TestCutoffBadInput(t *testing.T) {
 		assert.Contains(t, errOut, tt.mention, "%v", tt.args)
 		assert.Equal(t, 1, strings.Count(errOut, "\n"), "one line: %q", errOut)
 	}
+	// The table's "--cutoff" alone would match the usage text too: the
+	// message names the flag and the dimension it wants.
+	_, _, errOut := runCLI(t, "cutoff", cutLJ, "--cutoff", "8eV")
+	assert.Contains(t, errOut, "--cutoff: ")
+	assert.Contains(t, errOut, "want length")
 }
 
 // BenchmarkCutoffCommand is pairwell cutoff with every scheme, a mass and

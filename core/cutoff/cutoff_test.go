@@ -16,7 +16,8 @@ import (
 )
 
 // Invented, realistic parameter sets: an argon-like Lennard-Jones pair
-// (ε = 120 K·k_B, σ = 3.4 Å) and an HCl-like Morse bond.
+// (ε = 120 K·k_B, σ = 3.4 Å; k_B = 8.617333262e-5 eV/K, CODATA 2018) and an
+// HCl-like Morse bond.
 var (
 	ljParams    = []float64{120 * 8.617333262e-5, 3.4}
 	morseParams = []float64{4.6, 1.87, 1.27}
@@ -219,9 +220,10 @@ func TestSettingsErrors(t *testing.T) {
 	}
 }
 
-// TestBeyondCutoff: points beyond r_c are zero without a bare call, mixed
-// calls give the same bits as separate ones, and a bad point among them is
-// reported at its own index.
+// TestBeyondCutoff: points at and beyond r_c are zero, mixed calls give
+// the same bits as separate ones, and a bad point among them is reported
+// at its own index. (The bare form is still called for them: Taylor makes
+// one bare call for all points and zeroes those rows.)
 func TestBeyondCutoff(t *testing.T) {
 	for _, s := range allSchemes(8.5, 7) {
 		c := cut(t, ljBare(t), s)

@@ -73,6 +73,11 @@ func TestSpecErrors(t *testing.T) {
 		assert.Contains(t, err.Error(), tt.mention, tt.spec)
 		assert.NotContains(t, err.Error(), "\n", tt.spec)
 	}
+	// A length of the wrong dimension names the option and the dimension
+	// (the table's "rc" alone would also match other messages).
+	_, err := reg.Build(lj + "@cut=shift,rc=8eV")
+	assert.ErrorContains(t, err, "cutoff option rc")
+	assert.ErrorContains(t, err, "want length")
 	// Without a CutoffFunc the registry refuses a cutoff.
 	bare, err := core.NewRegistry(models.Builtin()...)
 	require.NoError(t, err)
