@@ -37,7 +37,6 @@
 package tabulate
 
 import (
-	"errors"
 	"fmt"
 	"math"
 	"runtime"
@@ -53,9 +52,10 @@ import (
 const MaxPoints = 1_000_000
 
 // ErrTooFine means that a requested accuracy cannot be reached within
-// MaxPoints points or within the rounding error of float64 (bad input: the
-// message says what limits it).
-var ErrTooFine = errors.New("accuracy out of reach")
+// MaxPoints points or within the rounding error of float64. It is bad
+// input, so it wraps core.ErrParam (errors.Is matches both); the message
+// says what limits it.
+var ErrTooFine = fmt.Errorf("%w: accuracy out of reach", core.ErrParam)
 
 // Interpolation is the interpolant a table is meant for.
 type Interpolation int
