@@ -190,9 +190,7 @@ func tolerance(accuracy, forceAccuracy string) (tabulate.Tolerance, error) {
 			return tabulate.Tolerance{}, usageErr(fmt.Errorf("table: --force-accuracy: %w", err))
 		}
 	}
-	if !(e > 0) || !(f > 0) {
-		return tabulate.Tolerance{}, usageErr(fmt.Errorf("table: --accuracy %s, force %g eV/Å: both must be positive", accuracy, f))
-	}
+	// Positivity is checked by tabulate.PlanFor (core.ErrParam, exit 2).
 	return tabulate.Tolerance{Energy: e, Force: f}, nil
 }
 
