@@ -190,7 +190,9 @@ func tolerance(accuracy, forceAccuracy string) (tabulate.Tolerance, error) {
 			return tabulate.Tolerance{}, usageErr(fmt.Errorf("table: --force-accuracy: %w", err))
 		}
 	}
-	// Positivity is checked by tabulate.PlanFor (core.ErrParam, exit 2).
+	if !(e > 0) || !(f > 0) {
+		return tabulate.Tolerance{}, usageErr(fmt.Errorf("table: --accuracy %s, force %g eV/Å: both must be positive", accuracy, f))
+	}
 	return tabulate.Tolerance{Energy: e, Force: f}, nil
 }
 
