@@ -297,8 +297,8 @@ func newFormProblem(m core.Model, d Data, w []float64, s Settings) (*formProblem
 		return nil, fmt.Errorf("%w: unknown offset mode %d", core.ErrParam, s.Offset.Mode)
 	}
 	p.dataDepth = p.zero - emin
-	pot, err := probe(m)
-	p.noMatch = errors.Is(err, core.ErrUnsupported)
+	pot, err := probe(m, s.Start)
+	p.noMatch = s.Start == nil && errors.Is(err, core.ErrUnsupported)
 	p.unbounded = err == nil && !pot.Domain().Bounded()
 	if p.unbounded && !p.fitZero {
 		p.fitZero = true
@@ -341,11 +341,15 @@ func newFormProblem(m core.Model, d Data, w []float64, s Settings) (*formProblem
 	return p, nil
 }
 
-// probe builds the model at a start it can make, to learn its domain. The
-// error wraps core.ErrUnsupported when m has no Match (a wrapper of a
+// probe builds the model at the given start, or without one at a start
+// its Match can make, to learn its domain. The error wraps
+// core.ErrUnsupported when it needs Match and m has none (a wrapper of a
 // model always has Match and reports it so when the inner model has
 // none: core.Match).
-func probe(m core.Model) (core.Potential, error) {
+func probe(m core.Model, start []float64) (core.Potential, error) {
+	if start != nil {
+		return m.New(start)
+	}
 	params, _, err := core.Match(m, core.Target{Re: 1, Depth: 1, K: 10})
 	if err != nil {
 		return nil, err

@@ -237,3 +237,27 @@ func TestStartMatches(t *testing.T) {
 	assert.InDeltaSlice(t, params, res.Instance.Params, 1e-8, "exact data of the form itself")
 	assert.Equal(t, 2, calls, "the probe and the main start")
 }
+
+// noMatchHarmonic is the harmonic form without a Match.
+type noMatchHarmonic struct{ m models.Harmonic }
+
+func (n noMatchHarmonic) Info() core.ModelInfo { return n.m.Info() }
+func (n noMatchHarmonic) New(params []float64) (core.Potential, error) {
+	return n.m.New(params)
+}
+
+// TestGivenStartLearnsTheDomain: a form without a dissociation limit gets
+// its energy zero fitted from the potential at the given start even when it
+// has no Match (the harmonic form, V = ½k(r−r0)², at an invented
+// k = 31.3 eV/Å², r0 = 1.27 Å on an absolute scale of −50 eV); with the
+// zero taken from the largest r instead the fit could not reproduce the
+// data.
+func TestGivenStartLearnsTheDomain(t *testing.T) {
+	params := []float64{31.3, 1.27}
+	d := scan(t, models.Harmonic{}, params, 1.1, 1.5, 30, -50)
+	res, err := fit.FitForm(noMatchHarmonic{}, d, fit.Settings{Start: []float64{25, 1.25}})
+	require.NoError(t, err)
+	assert.True(t, res.ZeroFitted, "%v", res.Notes)
+	assert.InDeltaSlice(t, params, res.Instance.Params, 1e-8, "exact data of the form itself")
+	assert.InDelta(t, -50, res.Zero, 1e-8)
+}
