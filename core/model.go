@@ -63,13 +63,19 @@ type Param struct {
 	Meaning string
 }
 
+// SpecUnit returns the unit of a bare number in a spec: Unit, or the
+// dimension's default unit when Unit is empty.
+func (p Param) SpecUnit() string {
+	if p.Unit != "" {
+		return p.Unit
+	}
+	return p.Dimension.DefaultUnit()
+}
+
 // String describes p as NAME [UNIT, CONSTRAINT], e.g. "De [eV, > 0]" or
 // "n [dimensionless, > 0]".
 func (p Param) String() string {
-	u := p.Dimension.DefaultUnit()
-	if p.Unit != "" {
-		u = p.Unit
-	}
+	u := p.SpecUnit()
 	if u == "" || u == "1" {
 		u = "dimensionless"
 	}

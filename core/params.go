@@ -103,3 +103,13 @@ func CheckSets(info ModelInfo, n int, params, r, dst []float64, errs []error) er
 	}
 	return nil
 }
+
+// CheckParamGradient checks the lengths of a ParamGradient call of the form
+// key with np parameters: dst must hold len(r)·np values, else the error
+// wraps ErrLength.
+func CheckParamGradient(key string, np int, r, dst []float64) error {
+	if len(dst) != len(r)*np {
+		return fmt.Errorf("%s: %w: %d separations need %d gradient values, dst has %d", key, ErrLength, len(r), len(r)*np, len(dst))
+	}
+	return nil
+}

@@ -9,6 +9,7 @@ import (
 	"github.com/stretchr/testify/require"
 
 	"github.com/pairwell/pairwell/core"
+	"github.com/pairwell/pairwell/core/units"
 	"github.com/pairwell/pairwell/models"
 )
 
@@ -95,4 +96,19 @@ func FuzzParseSpec(f *testing.F) {
 			}
 		}
 	})
+}
+
+// TestParamSpecUnit: a bare number is read in Unit, or in the dimension's
+// default unit when Unit is empty (the eV of core/units for an energy).
+func TestParamSpecUnit(t *testing.T) {
+	for _, tt := range []struct {
+		p    core.Param
+		want string
+	}{
+		{core.Param{Name: "De", Dimension: units.Energy}, "eV"},
+		{core.Param{Name: "eps", Dimension: units.Energy, Unit: "kcal/mol"}, "kcal/mol"},
+		{core.Param{Name: "re", Dimension: units.Length}, "Å"},
+	} {
+		assert.Equal(t, tt.want, tt.p.SpecUnit(), tt.p.Name)
+	}
 }

@@ -1,7 +1,6 @@
 package models
 
 import (
-	"fmt"
 	"math"
 
 	"github.com/pairwell/pairwell/core"
@@ -15,8 +14,8 @@ import (
 
 // gradCheck checks the lengths and the domain of every r (r > min).
 func gradCheck(key string, r, dst []float64, np int, min float64, domain func(float64) error) error {
-	if len(dst) != len(r)*np {
-		return fmt.Errorf("%s: %w: %d separations need %d gradient values, dst has %d", key, core.ErrLength, len(r), len(r)*np, len(dst))
+	if err := core.CheckParamGradient(key, np, r, dst); err != nil {
+		return err
 	}
 	for i, x := range r {
 		if !(x > min && x <= math.MaxFloat64) {

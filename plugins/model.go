@@ -359,8 +359,8 @@ func (m *model) evaluateSets(n int, grad bool, params, r, dst []float64, errs []
 // error wrapping core.ErrUnsupported.
 func (pt *potential) ParamGradient(r, dst []float64) error {
 	np := len(pt.params)
-	if len(dst) != len(r)*np {
-		return fmt.Errorf("%s: %w: %d separations need %d gradient values, dst has %d", pt.key, core.ErrLength, len(r), len(r)*np, len(dst))
+	if err := core.CheckParamGradient(pt.key, np, r, dst); err != nil {
+		return err
 	}
 	if pt.p.noSets.Load() {
 		return fmt.Errorf("%s: parameter derivatives: %w (plugin %s)", pt.key, core.ErrUnsupported, pt.p.path)

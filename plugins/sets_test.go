@@ -99,6 +99,7 @@ func TestPluginParamGradient(t *testing.T) {
 			}
 			require.NoError(t, err)
 			assert.Equal(t, want, got)
+			assert.ErrorIs(t, core.ParamDerivatives(pot, r, got[:1]), core.ErrLength)
 			var pe *core.PointError
 			require.ErrorAs(t, core.ParamDerivatives(pot, []float64{3, 0.01}, make([]float64, 6)), &pe)
 			assert.Equal(t, 1, pe.Index)

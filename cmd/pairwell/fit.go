@@ -187,7 +187,13 @@ func (o *fitFlags) run(e *env, path string) (*fitRun, error) {
 	}
 	for _, m := range ms {
 		key := m.Info().Key
-		if _, ok := m.(core.Matcher); !ok && starts[key] == nil {
+		// A wrapper (a plugin's model) always has Match and reports
+		// core.ErrUnsupported when the form has none (core.Match); an
+		// empty target is refused without matching anything.
+		if starts[key] != nil {
+			continue
+		}
+		if _, _, err := core.Match(m, core.Target{}); errors.Is(err, core.ErrUnsupported) {
 			form, cut, _ := strings.Cut(key, "@")
 			if cut != "" {
 				cut = "@" + cut

@@ -268,6 +268,17 @@ func TestFitErrors(t *testing.T) {
 	assert.Contains(t, errOut, "-o")
 }
 
+// TestFitPluginNeedsStart: a plugin form without a match to a well (the
+// test plugin's crashlater-morse) needs a start, and the one-line usage
+// error (exit 2) says how to give one.
+func TestFitPluginNeedsStart(t *testing.T) {
+	path := writeMorseScan(t)
+	code, _, errOut := runPlugins(t, "--plugin", pluginBin.test, "fit", path, "--form", "crashlater-morse")
+	assert.Equal(t, 2, code, errOut)
+	assert.Contains(t, errOut, "--form crashlater-morse: the form has no match to a well, so it needs a start: --start crashlater-morse:NAME=VALUE")
+	assert.Equal(t, 1, strings.Count(strings.TrimSpace(errOut), "\n")+1, "one line: %q", errOut)
+}
+
 // TestFitPluginRecovery fits the test plugin's Morse (an independent
 // implementation, central differences in the parameters) to exact built-in
 // Morse data and recovers the parameters to 1e-8 relative, from the

@@ -136,14 +136,8 @@ func sameParams(a, b []core.Param) bool {
 	if len(a) != len(b) {
 		return false
 	}
-	unit := func(p core.Param) string {
-		if p.Unit == "" {
-			return p.Dimension.DefaultUnit()
-		}
-		return p.Unit
-	}
 	for i := range a {
-		if a[i].Name != b[i].Name || a[i].Dimension != b[i].Dimension || unit(a[i]) != unit(b[i]) {
+		if a[i].Name != b[i].Name || a[i].Dimension != b[i].Dimension || a[i].SpecUnit() != b[i].SpecUnit() {
 			return false
 		}
 	}

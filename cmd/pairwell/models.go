@@ -61,12 +61,8 @@ func newModelEntry(m core.Model) modelEntry {
 		Notes: report.Text(info.Notes), MaxOrder: info.MaxOrder, Origin: info.Origin, Kind: modelKind(m), Version: report.Text(info.Version),
 	}
 	for _, p := range info.Params {
-		unit := p.Unit
-		if unit == "" {
-			unit = p.Dimension.DefaultUnit()
-		}
 		e.Params = append(e.Params, modelParam{
-			Name: p.Name, Dimension: p.Dimension.String(), Unit: unit,
+			Name: p.Name, Dimension: p.Dimension.String(), Unit: p.SpecUnit(),
 			Constraint: p.Constraint.String(), Meaning: p.Meaning,
 		})
 	}

@@ -105,9 +105,6 @@ README) and the summary to standard output.`,
 					return err
 				}
 				res, err = tabulate.PlanFor(inst.Potential, r1, r2, tol, s)
-				if errors.Is(err, tabulate.ErrTooFine) {
-					return usageErr(fmt.Errorf("table: %w", err))
-				}
 				if err != nil {
 					return computeErr(fmt.Errorf("table: %w", err))
 				}

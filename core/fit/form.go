@@ -258,6 +258,7 @@ type formProblem struct {
 	unbounded bool    // the form has no dissociation limit
 	central   bool    // Settings.Central
 	sets      bool    // the model is a core.SetEvaluator
+	noMatch   bool    // the model has no Match (probe)
 
 	lastMu     sync.Mutex // guards the potential the last residuals built
 	lastParams []float64
@@ -296,7 +297,8 @@ func newFormProblem(m core.Model, d Data, w []float64, s Settings) (*formProblem
 		return nil, fmt.Errorf("%w: unknown offset mode %d", core.ErrParam, s.Offset.Mode)
 	}
 	p.dataDepth = p.zero - emin
-	pot, err := probe(m)
+	pot, err := probe(m, s.Start)
+	p.noMatch = s.Start == nil && errors.Is(err, core.ErrUnsupported)
 	p.unbounded = err == nil && !pot.Domain().Bounded()
 	if p.unbounded && !p.fitZero {
 		p.fitZero = true
@@ -339,12 +341,20 @@ func newFormProblem(m core.Model, d Data, w []float64, s Settings) (*formProblem
 	return p, nil
 }
 
-// probe builds the model at a start it can make, to learn its domain.
-func probe(m core.Model) (core.Potential, error) {
-	if params, _, err := core.Match(m, core.Target{Re: 1, Depth: 1, K: 10}); err == nil {
-		return m.New(params)
+// probe builds the model at the given start, or without one at a start
+// its Match can make, to learn its domain. The error wraps
+// core.ErrUnsupported when it needs Match and m has none (a wrapper of a
+// model always has Match and reports it so when the inner model has
+// none: core.Match).
+func probe(m core.Model, start []float64) (core.Potential, error) {
+	if start != nil {
+		return m.New(start)
 	}
-	return nil, errors.New("no probe")
+	params, _, err := core.Match(m, core.Target{Re: 1, Depth: 1, K: 10})
+	if err != nil {
+		return nil, err
+	}
+	return m.New(params)
 }
 
 func (p *formProblem) nres() int {
@@ -587,9 +597,7 @@ func (p *formProblem) starts(s Settings) ([]start, error) {
 		}
 		return []start{{params: append([]float64(nil), s.Start...), what: "given start"}}, nil
 	}
-	// A wrapper of a model always has Match and reports
-	// core.ErrUnsupported when the inner model has none (core.Match).
-	if _, _, err := core.Match(p.m, core.Target{}); errors.Is(err, core.ErrUnsupported) {
+	if p.noMatch {
 		return nil, fmt.Errorf("%w: %s cannot be started automatically: it has no Match (give a start)", core.ErrParam, p.info.Key)
 	}
 	zero := p.zero

@@ -197,3 +197,67 @@ func TestEstimateWell(t *testing.T) {
 	_, err = fit.EstimateWell(three, math.Inf(1))
 	require.NoError(t, err)
 }
+
+// noMatch is Morse without a Match (a form that must be given a start).
+type noMatch struct{ m models.Morse }
+
+func (n noMatch) Info() core.ModelInfo                         { return n.m.Info() }
+func (n noMatch) New(params []float64) (core.Potential, error) { return n.m.New(params) }
+
+// countMatch is Morse counting its Match calls (for a plugin each is a
+// round trip).
+type countMatch struct {
+	models.Morse
+	calls *int
+}
+
+func (c countMatch) Match(t core.Target) ([]float64, []string, error) {
+	*c.calls++
+	return c.Morse.Match(t)
+}
+
+// TestStartMatches: a form without Match needs a start (core.ErrParam,
+// saying so) and fits from one; a form with Match is asked once for the
+// probe of its domain and once for each start reached (here the main one
+// only: Restarts < 0), not once more to learn that it has one.
+func TestStartMatches(t *testing.T) {
+	params := []float64{4.6, 1.87, 1.27} // invented Morse set
+	d := scan(t, models.Morse{}, params, 0.95, 4, 30, 0)
+	zero := fit.Offset{Mode: fit.OffsetValue} // the zero of the data: 0 eV
+	_, err := fit.FitForm(noMatch{}, d, fit.Settings{})
+	require.ErrorIs(t, err, core.ErrParam)
+	assert.ErrorContains(t, err, "has no Match (give a start)")
+	res, err := fit.FitForm(noMatch{}, d, fit.Settings{Start: []float64{4, 2, 1.3}, Offset: zero})
+	require.NoError(t, err)
+	assert.InDeltaSlice(t, params, res.Instance.Params, 1e-8, "exact data of the form itself")
+
+	calls := 0
+	res, err = fit.FitForm(countMatch{calls: &calls}, d, fit.Settings{Restarts: -1, Offset: zero})
+	require.NoError(t, err)
+	assert.InDeltaSlice(t, params, res.Instance.Params, 1e-8, "exact data of the form itself")
+	assert.Equal(t, 2, calls, "the probe and the main start")
+}
+
+// noMatchHarmonic is the harmonic form without a Match.
+type noMatchHarmonic struct{ m models.Harmonic }
+
+func (n noMatchHarmonic) Info() core.ModelInfo { return n.m.Info() }
+func (n noMatchHarmonic) New(params []float64) (core.Potential, error) {
+	return n.m.New(params)
+}
+
+// TestGivenStartLearnsTheDomain: a form without a dissociation limit gets
+// its energy zero fitted from the potential at the given start even when it
+// has no Match (the harmonic form, V = ½k(r−r0)², at an invented
+// k = 31.3 eV/Å², r0 = 1.27 Å on an absolute scale of −50 eV); with the
+// zero taken from the largest r instead the fit could not reproduce the
+// data.
+func TestGivenStartLearnsTheDomain(t *testing.T) {
+	params := []float64{31.3, 1.27}
+	d := scan(t, models.Harmonic{}, params, 1.1, 1.5, 30, -50)
+	res, err := fit.FitForm(noMatchHarmonic{}, d, fit.Settings{Start: []float64{25, 1.25}})
+	require.NoError(t, err)
+	assert.True(t, res.ZeroFitted, "%v", res.Notes)
+	assert.InDeltaSlice(t, params, res.Instance.Params, 1e-8, "exact data of the form itself")
+	assert.InDelta(t, -50, res.Zero, 1e-8)
+}

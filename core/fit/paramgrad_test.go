@@ -58,6 +58,7 @@ func TestParamGradient(t *testing.T) {
 				}
 			}
 			assert.Error(t, g.ParamGradient(c.r, dst[:1]), "length mismatch")
+			assert.ErrorIs(t, g.ParamGradient(c.r, dst[:1]), core.ErrLength, "length mismatch")
 			assert.ErrorIs(t, g.ParamGradient([]float64{-1}, make([]float64, np)), core.ErrDomain)
 		})
 	}

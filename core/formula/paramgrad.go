@@ -56,8 +56,8 @@ func (f *Form) grad() *gradient {
 func (p *potential) ParamGradient(r, dst []float64) error {
 	f := p.form
 	np := len(f.info.Params)
-	if len(dst) != len(r)*np {
-		return fmt.Errorf("%s: %w: %d separations need %d gradient values, dst has %d", f.info.Key, core.ErrLength, len(r), len(r)*np, len(dst))
+	if err := core.CheckParamGradient(f.info.Key, np, r, dst); err != nil {
+		return err
 	}
 	g := f.grad()
 	if g == nil {

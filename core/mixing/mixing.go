@@ -26,6 +26,7 @@ import (
 	"errors"
 	"fmt"
 	"math"
+	"slices"
 	"strings"
 
 	"github.com/pairwell/pairwell/core"
@@ -248,6 +249,28 @@ func (r Rule) MixModel(key string, ps []core.Param, a, b []float64) ([]float64, 
 // lists the rules of form.
 func Lookup(name, form string) (Rule, error) { return LookupFor(name, form, nil) }
 
+// Exist says, for a message, for which forms combining rules exist: the
+// forms of the rules and, by parameter names, the parameters of the
+// ByName rules' forms ("combining rules exist for lennard-jones, … and, by
+// parameter names, for forms with (epsilon, sigma), …").
+func Exist() string {
+	var forms, tuples []string
+	for _, r := range rules {
+		if !slices.Contains(forms, r.Form) {
+			forms = append(forms, r.Form)
+		}
+		var names []string
+		for _, p := range params[r.Form] {
+			names = append(names, p.Name)
+		}
+		if t := "(" + strings.Join(names, ", ") + ")"; r.ByName && !slices.Contains(tuples, t) {
+			tuples = append(tuples, t)
+		}
+	}
+	return "combining rules exist for " + strings.Join(forms, ", ") +
+		" and, by parameter names, for forms with " + strings.Join(tuples, ", ")
+}
+
 // LookupFor returns the rule called name if it applies to the form key
 // with parameters ps (see ForModel). An unknown name, or a rule that does
 // not apply, gives an error wrapping ErrRule that lists the rules that do.
@@ -259,8 +282,7 @@ func LookupFor(name, key string, ps []core.Param) (Rule, error) {
 		}
 		names = append(names, r.Name)
 	}
-	allowed := "none: combining rules exist for " + strings.Join([]string{LennardJones, Buckingham, Morse}, ", ") +
-		" and, by parameter names, for forms with (epsilon, sigma), (A, rho, C) or (De, a, re)"
+	allowed := "none: " + Exist()
 	if len(names) > 0 {
 		allowed = strings.Join(names, ", ")
 	}

@@ -217,3 +217,15 @@ func TestByParameterNames(t *testing.T) {
 	require.NoError(t, err)
 	assert.Equal(t, want, got, "the same rule as for the built-in Morse")
 }
+
+// TestExist: the message of a form without rules names the three forms of
+// the rules and the parameters by which the mean rules apply to others
+// (the package documentation's list), and LookupFor says it.
+func TestExist(t *testing.T) {
+	const want = "combining rules exist for lennard-jones, buckingham, morse and, by parameter names, " +
+		"for forms with (epsilon, sigma), (A, rho, C), (De, a, re)"
+	assert.Equal(t, want, Exist())
+	_, err := LookupFor("lorentz-berthelot", "harmonic", []core.Param{{Name: "k", Dimension: units.ForceConstant}, {Name: "r0", Dimension: units.Length}})
+	assert.ErrorIs(t, err, ErrRule)
+	assert.ErrorContains(t, err, "none: "+want)
+}

@@ -62,7 +62,7 @@ func NewMix(specA, specB string, a, b core.Instance, rule string, m Mass) (Mix, 
 		}
 		rules = []mixing.Rule{r}
 	} else if len(rules) == 0 {
-		return Mix{}, fmt.Errorf("%w: no combining rules for %s; rules exist for %s, %s and %s, and by parameter names for forms with (epsilon, sigma), (A, rho, C) or (De, a, re)", mixing.ErrRule, ka, mixing.LennardJones, mixing.Buckingham, mixing.Morse)
+		return Mix{}, fmt.Errorf("%w: no combining rules for %s; %s", mixing.ErrRule, ka, mixing.Exist())
 	}
 	out := Mix{Model: ka, SpecA: specA, SpecB: specB, ParamsA: NewParams(a), ParamsB: NewParams(b), Pair: Text(m.Pair), Caution: MixCaution}
 	for _, r := range rules {

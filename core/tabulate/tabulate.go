@@ -37,7 +37,6 @@
 package tabulate
 
 import (
-	"errors"
 	"fmt"
 	"math"
 	"runtime"
@@ -53,9 +52,10 @@ import (
 const MaxPoints = 1_000_000
 
 // ErrTooFine means that a requested accuracy cannot be reached within
-// MaxPoints points or within the rounding error of float64 (bad input: the
-// message says what limits it).
-var ErrTooFine = errors.New("accuracy out of reach")
+// MaxPoints points or within the rounding error of float64. It is bad
+// input, so it wraps core.ErrParam (errors.Is matches both); the message
+// says what limits it.
+var ErrTooFine = fmt.Errorf("%w: accuracy out of reach", core.ErrParam)
 
 // Interpolation is the interpolant a table is meant for.
 type Interpolation int
@@ -214,7 +214,8 @@ type interpolant struct {
 }
 
 // newInterpolant prepares the interpolant of t (for the spline: its node
-// slopes) and fits it over the whole table.
+// slopes, from the global solve); fit then fits it over the nodes asked
+// for (Verify: block by block; Predict: the whole table).
 func newInterpolant(t *Table, how Interpolation) (*interpolant, error) {
 	in := &interpolant{t: t, how: how}
 	if how == Cubic {
@@ -224,7 +225,7 @@ func newInterpolant(t *Table, how Interpolation) (*interpolant, error) {
 		}
 		in.slope = m
 	}
-	return in, in.fit(0, len(t.R)-1)
+	return in, nil
 }
 
 // fit fits the interpolant over the nodes a…b (b > a).
@@ -408,6 +409,9 @@ func Build(p core.Potential, g Grid, s Settings) (*Result, error) {
 func (r *Result) Predict(rs []float64) (v, f []float64, err error) {
 	in, err := newInterpolant(r.Table, r.Interpolation)
 	if err != nil {
+		return nil, nil, err
+	}
+	if err := in.fit(0, len(r.Table.R)-1); err != nil {
 		return nil, nil, err
 	}
 	v, f = make([]float64, len(rs)), make([]float64, len(rs))

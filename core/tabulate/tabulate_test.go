@@ -231,6 +231,7 @@ func TestOutOfReach(t *testing.T) {
 	require.ErrorIs(t, err, tabulate.ErrTooFine)
 	assert.Contains(t, err.Error(), "start the table further out")
 	assert.Contains(t, err.Error(), "r = 1 Å")
+	assert.ErrorIs(t, err, core.ErrParam, "out of reach is bad input, classified as such by callers")
 	_, err = tabulate.PlanFor(morse(t), 0.9, 6, tabulate.Tolerance{Energy: 1e-17, Force: 1}, tabulate.Settings{})
 	require.ErrorIs(t, err, tabulate.ErrTooFine)
 	assert.Contains(t, err.Error(), "rounding")
