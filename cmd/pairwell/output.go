@@ -469,11 +469,7 @@ func flattenInto(r *flatRecord, key string, v any) {
 	switch x := v.(type) {
 	case jsonObject:
 		if paramKeys[lastKey(key)] {
-			parts := make([]string, len(x))
-			for i, f := range x {
-				parts[i] = f.key + "=" + scalarCell(f.val)
-			}
-			r.set(key, strings.Join(parts, " "))
+			r.set(key, paramsCell(x))
 			return
 		}
 		for _, f := range x {
@@ -529,17 +525,20 @@ func arrayCell(x []any) string {
 		case string:
 			parts[i], sep = y, "; "
 		case jsonObject:
-			var b strings.Builder
-			for j, f := range y {
-				if j > 0 {
-					b.WriteByte(' ')
-				}
-				b.WriteString(f.key + "=" + scalarCell(f.val))
-			}
-			parts[i], sep = b.String(), "; "
+			parts[i], sep = paramsCell(y), "; "
 		default:
 			parts[i] = scalarCell(el)
 		}
 	}
 	return strings.Join(parts, sep)
+}
+
+// paramsCell is the CSV cell of an object of scalars: "NAME=VALUE
+// NAME=VALUE" in the object's order.
+func paramsCell(x jsonObject) string {
+	parts := make([]string, len(x))
+	for i, f := range x {
+		parts[i] = f.key + "=" + scalarCell(f.val)
+	}
+	return strings.Join(parts, " ")
 }

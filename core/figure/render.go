@@ -189,7 +189,7 @@ func (f *Figure) draw(dc draw.Canvas) error {
 		return err
 	}
 	has := fontGlyphs(font.From(sans, 12))
-	title := drawable(f.Title, has)
+	title := p.Title.Text // drawable(f.Title), set by plot
 	gap := vg.Points(14)
 	// Notes go under the plot, across the whole width, so that a form
 	// left out or a limit off the axes is said on the picture itself.

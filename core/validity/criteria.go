@@ -131,13 +131,9 @@ func (c *potCrit) eval(x, v float64) (diff, e, noise float64) {
 	return diff, e, noise
 }
 
-// evalWith is eval, also reporting whether the series was used.
-func (c *potCrit) evalWith(x, v float64) (diff, e, noise float64, series bool) {
-	return c.evalIn(c.ex, x, v)
-}
-
-// evalIn is evalWith with the series ex: c.ex, or c.ex trimmed for the
-// displacements at hand (the scan).
+// evalIn is eval with the series ex (c.ex, or c.ex trimmed for the
+// displacements at hand, the scan), also reporting whether the series was
+// used.
 func (c *potCrit) evalIn(ex core.Expansion, x, v float64) (diff, e, noise float64, series bool) {
 	direct := ex.DirectBound(v) * (1 + c.tol)
 	rs, rb, es, eb := ex.Sums(x, c.n+1)
@@ -156,7 +152,7 @@ func (c *potCrit) g(sgn, x, v float64) (g, noise float64) {
 // slope returns dg/dx at x from V′ there (dv), or from the series where
 // eval uses it: the difference V_n′ − V′ cancels as V_n − V does.
 func (c *potCrit) slope(sgn, x, v, dv float64) float64 {
-	if _, _, _, series := c.evalWith(x, v); series {
+	if _, _, _, series := c.evalIn(c.ex, x, v); series {
 		return sgn*-c.ex.Slope(x, c.n+1) - c.tol*c.ex.Slope(x, 2)
 	}
 	return sgn*(c.tr.eval(1, x)-dv) - c.tol*dv
