@@ -161,7 +161,7 @@ func BuildSpec(m Model, s Spec) (Instance, error) {
 			for i, p := range info.Params {
 				names[i] = p.Name
 			}
-			return Instance{}, fmt.Errorf("%w: %s has no parameter %q%s; parameters: %s", ErrSpec, info.Key, a.Name, suggest.Hint(a.Name, names), paramList(info))
+			return Instance{}, fmt.Errorf("%w: %s has no parameter %q%s; parameters: %s", ErrSpec, info.Key, a.Name, suggest.Hint(a.Name, names), ParamList(info.Params))
 		}
 		p := info.Params[i]
 		if set[i] {
@@ -183,7 +183,7 @@ func BuildSpec(m Model, s Spec) (Instance, error) {
 		}
 	}
 	if len(missing) > 0 {
-		return Instance{}, fmt.Errorf("%w: %s: missing %s; parameters: %s", ErrSpec, info.Key, strings.Join(missing, ", "), paramList(info))
+		return Instance{}, fmt.Errorf("%w: %s: missing %s; parameters: %s", ErrSpec, info.Key, strings.Join(missing, ", "), ParamList(info.Params))
 	}
 	pot, err := m.New(values)
 	if err != nil {
@@ -210,9 +210,11 @@ func paramIndex(info ModelInfo, name string) int {
 	return found
 }
 
-func paramList(info ModelInfo) string {
-	parts := make([]string, len(info.Params))
-	for i, p := range info.Params {
+// ParamList describes parameters for messages: "NAME [UNIT, CONSTRAINT],
+// ..." (Param.String of each, in order).
+func ParamList(ps []Param) string {
+	parts := make([]string, len(ps))
+	for i, p := range ps {
 		parts[i] = p.String()
 	}
 	return strings.Join(parts, ", ")

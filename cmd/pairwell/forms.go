@@ -125,7 +125,7 @@ func (e *env) addModel(m core.Model, where string) error {
 			continue
 		}
 		fmt.Fprintf(e.stderr, "pairwell: warning: %s: form %q replaces the library form %q (%s), whose parameters differ: %s\n",
-			where, m.Info().Key, old.Info().Key, old.Info().Origin, paramList(old.Info().Params))
+			where, m.Info().Key, old.Info().Key, old.Info().Origin, core.ParamList(old.Info().Params))
 	}
 	return nil
 }
@@ -142,15 +142,6 @@ func sameParams(a, b []core.Param) bool {
 		}
 	}
 	return true
-}
-
-// paramList is "NAME [UNIT], ..." of a form's parameters.
-func paramList(ps []core.Param) string {
-	s := make([]string, len(ps))
-	for i, p := range ps {
-		s[i] = p.String()
-	}
-	return strings.Join(s, ", ")
 }
 
 // caretOf returns the picture of the place a formula error points at, or ""
