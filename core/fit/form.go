@@ -625,6 +625,7 @@ func (p *formProblem) starts(s Settings) ([]start, error) {
 
 // run minimises from one start.
 func (p *formProblem) run(params []float64, ls LMSettings) (Result, error) {
+	p.analytic = false // per start: the gradient may exist at one start and fail at another
 	theta, err := p.theta(params, p.zeroStart())
 	if err != nil {
 		return Result{}, fmt.Errorf("%w: %w", ErrInfeasible, err)
