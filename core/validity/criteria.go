@@ -499,7 +499,10 @@ func crossings(p core.Potential, c *potCrit, sides []potentialSide) {
 // Small energies. Where the bound of the amplitude series of the period
 // (period.AmplitudeSeries, T/T₀ as a power series in E from the Taylor
 // coefficients at re) is at most a tenth of the quadrature's tolerance,
-// the periods come from it instead, without quadrature or potential calls;
+// the periods come from it instead, without quadrature or potential calls
+// (in practice for the harmonic truncation, n = 2: a V_n of order n > 2 is
+// built from c₀…c₄ only, too few terms for the series to have a bound, so
+// its periods come from the quadrature);
 // energies are then judged one at a time, and the scan stops at the first
 // failure. The limits agree with those of the quadrature alone to 1e-9
 // relative (TestPeriodSeriesAgrees; 4e-11 at worst on the built-ins); the
@@ -627,7 +630,8 @@ type sample struct {
 
 // evaluate computes the criterion at the energies, which increase: from
 // the amplitude series (period.AmplitudeSeries) of V and V_n as long as
-// their bounds are at most serTol (a hundred times cheaper than a
+// their bounds are at most serTol (for n > 2 the bound of V_n's series is
+// infinite and every period comes from the sweep) (a hundred times cheaper than a
 // quadrature, and no potential call), then, for the energies left, by one
 // period.Sweep per potential. A failure found by the series ends the
 // samples returned there: the callers stop at the first failure.
